@@ -1,0 +1,1 @@
+//! Boat and engine profiles: TOML schema, validation, the profile store and the demo fleet.

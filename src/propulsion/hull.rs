@@ -1,0 +1,56 @@
+//! Hull particulars, derived coefficients, resistance methods and hull–propeller interaction.
+
+pub mod friction;
+pub mod holtrop;
+pub mod interaction;
+pub mod particulars;
+pub mod resistance;
+
+pub use interaction::{Interaction, InteractionMethod};
+pub use particulars::{HullForm, HullInput};
+pub use resistance::{
+    AirDrag, Margins, ResistanceComponents, ResistanceMethod, ResistanceModel, ResistanceTable,
+};
+
+use thiserror::Error;
+
+/// Why a hull or its resistance could not be evaluated.
+#[derive(Debug, Clone, PartialEq, Error)]
+pub enum HullError {
+    /// A particular that must be positive and finite was not.
+    #[error("{field} must be a positive finite number, got {value}")]
+    NotPositive {
+        /// The field's name, e.g. "waterline length".
+        field: &'static str,
+        /// The value given, SI.
+        value: f64,
+    },
+    /// A coefficient lies outside the range where it has a meaning.
+    #[error("{field} = {value} is outside the physically possible range {min}–{max}")]
+    OutOfRange {
+        /// The field's name.
+        field: &'static str,
+        /// The value given.
+        value: f64,
+        /// The smallest value accepted.
+        min: f64,
+        /// The largest value accepted.
+        max: f64,
+    },
+    /// The speed is negative or not finite.
+    #[error("speed {0} m/s is not a valid boat speed")]
+    InvalidSpeed(f64),
+    /// A resistance table has fewer than two rows or is not sorted by speed.
+    #[error("resistance table: {0}")]
+    BadTable(String),
+    /// The speed lies outside the user resistance table.
+    #[error("speed {speed:.3} m/s is outside the resistance table ({min:.3}–{max:.3} m/s)")]
+    OutsideTable {
+        /// The speed asked for, m/s.
+        speed: f64,
+        /// The table's lowest speed, m/s.
+        min: f64,
+        /// The table's highest speed, m/s.
+        max: f64,
+    },
+}

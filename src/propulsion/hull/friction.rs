@@ -1,0 +1,1 @@
+//! ITTC-1957 model–ship correlation line and Reynolds number.

@@ -1,0 +1,1 @@
+//! Cavitation and blade loading checks: Keller, Burrill, blade loading and tip speed.

@@ -1,0 +1,1 @@
+//! Reports of solved boats: text, CSV, JSON, Markdown and SVG charts.

@@ -1,0 +1,1 @@
+//! The dockside terminal UI.

@@ -1,0 +1,13 @@
+//! Integration tests, one binary with a module per area so they link once.
+//! Every reference check names its published source in a comment beside it.
+
+#[macro_use]
+mod support;
+
+mod cli;
+mod hull;
+mod profiles;
+mod screw;
+mod solver;
+mod units;
+mod water;
