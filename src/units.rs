@@ -9,6 +9,12 @@ use thiserror::Error;
 pub enum Kind {
     /// Length, SI metre.
     Length,
+    /// A screw or shaft dimension (diameter, pitch): parsed like a length, shown in mm or in.
+    ScrewLength,
+    /// A distance run (range), SI metre; shown in nautical miles in both systems.
+    Distance,
+    /// Fuel volume per distance run, SI m³/m; shown in L/nm or US gal/nm.
+    FuelPerDistance,
     /// Mass, SI kilogram.
     Mass,
     /// Power, SI watt.
