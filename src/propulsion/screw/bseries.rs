@@ -355,7 +355,7 @@ mod tests {
         let s = screw(4, 0.55, 0.9);
         let g = s.geometry;
         let (pd, z) = (g.pitch_ratio(), f64::from(g.blades));
-        for j in [0.0, 0.3, 0.62, 0.9] {
+        for j in [0.0_f64, 0.3, 0.62, 0.9] {
             let (mut kt, mut kq) = (0.0, 0.0);
             for t in coefficient_table().unwrap() {
                 let value = t.coefficient
