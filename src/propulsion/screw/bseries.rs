@@ -64,7 +64,10 @@ fn parse_coefficients(text: &str) -> Result<Vec<Term>, String> {
         }
         if !header_seen {
             if line.replace(' ', "") != "series,C,p,s,t,u,v" {
-                return Err(format!("line {}: expected header series,C,p,s,t,u,v", index + 1));
+                return Err(format!(
+                    "line {}: expected header series,C,p,s,t,u,v",
+                    index + 1
+                ));
             }
             header_seen = true;
             continue;
@@ -96,22 +99,23 @@ fn parse_term(line: &str) -> Result<Term, String> {
         "dKQ" => Series::TorqueCorrection,
         other => return Err(format!("unknown series {other:?} (KT, KQ, dKT or dKQ)")),
     };
-    let coefficient: f64 =
-        coefficient.parse().map_err(|_| format!("coefficient {coefficient:?} is not a number"))?;
+    let coefficient: f64 = coefficient
+        .parse()
+        .map_err(|_| format!("coefficient {coefficient:?} is not a number"))?;
     if !coefficient.is_finite() {
         return Err(format!("coefficient {coefficient} is not finite"));
     }
     let power = |name: &str, text: &str, limit: u32| -> Result<u32, String> {
-        let value: u32 =
-            text.parse().map_err(|_| format!("exponent {name} = {text:?} is not a whole number"))?;
+        let value: u32 = text
+            .parse()
+            .map_err(|_| format!("exponent {name} = {text:?} is not a whole number"))?;
         if value > limit {
             return Err(format!("exponent {name} = {value} is above {limit}"));
         }
         Ok(value)
     };
     let reynolds_power = power("p", p, X_TERMS as u32 - 1)? as usize;
-    let is_correction =
-        matches!(series, Series::ThrustCorrection | Series::TorqueCorrection);
+    let is_correction = matches!(series, Series::ThrustCorrection | Series::TorqueCorrection);
     if !is_correction && reynolds_power != 0 {
         return Err("a KT or KQ term with p ≠ 0".to_string());
     }
@@ -138,6 +142,13 @@ fn cubic_at(cubic: &Cubic, j: f64) -> f64 {
 #[derive(Debug, Clone, PartialEq)]
 pub struct BSeriesScrew {
     geometry: ScrewGeometry,
+    /// Boxed so that `ScrewModel` stays small; filled once in `new`, only read afterwards.
+    cubics: Box<Cubics>,
+}
+
+/// The collapsed polynomials of one screw.
+#[derive(Debug, Clone, PartialEq)]
+struct Cubics {
     /// KT(J) at the nominal Reynolds number.
     thrust: Cubic,
     /// KQ(J) at the nominal Reynolds number.
@@ -165,10 +176,12 @@ impl BSeriesScrew {
         }
         let pitch_ratio = geometry.pitch_ratio();
         if !(pitch_ratio.is_finite() && pitch_ratio > 0.0) {
-            return Err(ScrewError::NotPositive { field: "pitch ratio", value: pitch_ratio });
+            return Err(ScrewError::NotPositive {
+                field: "pitch ratio",
+                value: pitch_ratio,
+            });
         }
-        let mut screw = Self {
-            geometry,
+        let mut cubics = Cubics {
             thrust: [0.0; J_TERMS],
             torque: [0.0; J_TERMS],
             thrust_correction: [[0.0; J_TERMS]; X_TERMS],
@@ -182,13 +195,20 @@ impl BSeriesScrew {
                 * blades.powi(term.blade_power);
             let s = term.advance_power;
             match term.series {
-                Series::Thrust => screw.thrust[s] += weight,
-                Series::Torque => screw.torque[s] += weight,
-                Series::ThrustCorrection => screw.thrust_correction[term.reynolds_power][s] += weight,
-                Series::TorqueCorrection => screw.torque_correction[term.reynolds_power][s] += weight,
+                Series::Thrust => cubics.thrust[s] += weight,
+                Series::Torque => cubics.torque[s] += weight,
+                Series::ThrustCorrection => {
+                    cubics.thrust_correction[term.reynolds_power][s] += weight
+                }
+                Series::TorqueCorrection => {
+                    cubics.torque_correction[term.reynolds_power][s] += weight
+                }
             }
         }
-        Ok(screw)
+        Ok(Self {
+            geometry,
+            cubics: Box::new(cubics),
+        })
     }
 
     /// The geometry.
@@ -204,8 +224,8 @@ impl BSeriesScrew {
         };
         OpenWaterPoint {
             advance_ratio: j,
-            thrust_coefficient: cubic_at(&self.thrust, j) + thrust_change,
-            torque_coefficient: cubic_at(&self.torque, j) + torque_change,
+            thrust_coefficient: cubic_at(&self.cubics.thrust, j) + thrust_change,
+            torque_coefficient: cubic_at(&self.cubics.torque, j) + torque_change,
         }
     }
 
@@ -217,9 +237,15 @@ impl BSeriesScrew {
         }
         let x = reynolds.log10() - 0.301;
         let sum = |cubics: &[Cubic; X_TERMS]| {
-            cubics.iter().rev().fold(0.0, |acc, cubic| acc * x + cubic_at(cubic, j))
+            cubics
+                .iter()
+                .rev()
+                .fold(0.0, |acc, cubic| acc * x + cubic_at(cubic, j))
         };
-        (sum(&self.thrust_correction), sum(&self.torque_correction))
+        (
+            sum(&self.cubics.thrust_correction),
+            sum(&self.cubics.torque_correction),
+        )
     }
 
     /// The J where KT = 0.
@@ -324,7 +350,11 @@ pub fn open_water_rows(screw: &ScrewModel, js: &[f64], reynolds: Option<f64>) ->
                 advance_ratio: j,
                 thrust_coefficient: point.thrust_coefficient,
                 torque_coefficient: point.torque_coefficient,
-                efficiency: if past_zero_thrust { None } else { point.efficiency() },
+                efficiency: if past_zero_thrust {
+                    None
+                } else {
+                    point.efficiency()
+                },
                 past_zero_thrust,
             }
         })
@@ -336,8 +366,13 @@ mod tests {
     use super::*;
 
     fn screw(blades: u32, area_ratio: f64, pitch_ratio: f64) -> BSeriesScrew {
-        BSeriesScrew::new(ScrewGeometry { blades, diameter: 1.0, pitch: pitch_ratio, area_ratio })
-            .expect("valid geometry")
+        BSeriesScrew::new(ScrewGeometry {
+            blades,
+            diameter: 1.0,
+            pitch: pitch_ratio,
+            area_ratio,
+        })
+        .expect("valid geometry")
     }
 
     #[test]

@@ -38,7 +38,9 @@ pub enum CavitationError {
         expected: &'static str,
     },
     /// The static pressure at the shaft does not exceed the vapour pressure: the water boils.
-    #[error("static pressure at the shaft ({static_pressure} Pa) does not exceed the vapour pressure ({vapour_pressure} Pa)")]
+    #[error(
+        "static pressure at the shaft ({static_pressure} Pa) does not exceed the vapour pressure ({vapour_pressure} Pa)"
+    )]
     NoPressureMargin {
         /// p0 = patm + ρ·g·h, Pa.
         static_pressure: f64,
@@ -48,7 +50,11 @@ pub enum CavitationError {
 }
 
 /// Static pressure at the shaft centreline p0 = patm + ρ·g·h, Pa.
-pub fn static_pressure_at_shaft(atmospheric_pressure: f64, water_density: f64, immersion: f64) -> f64 {
+pub fn static_pressure_at_shaft(
+    atmospheric_pressure: f64,
+    water_density: f64,
+    immersion: f64,
+) -> f64 {
     atmospheric_pressure + water_density * STANDARD_GRAVITY * immersion
 }
 
@@ -73,7 +79,11 @@ pub fn relative_speed_at_07r(advance_speed: f64, shaft_speed_rps: f64, diameter:
 }
 
 /// Burrill's cavitation number at 0.7R, σ0.7R = (p0 − pv) / (½·ρ·V²0.7R) (dimensionless).
-pub fn cavitation_number_at_07r(pressure_margin: f64, water_density: f64, relative_speed: f64) -> f64 {
+pub fn cavitation_number_at_07r(
+    pressure_margin: f64,
+    water_density: f64,
+    relative_speed: f64,
+) -> f64 {
     pressure_margin / (0.5 * water_density * relative_speed * relative_speed)
 }
 
@@ -99,7 +109,11 @@ pub fn thrust_loading_coefficient(
 /// Fitted form τc = 0.28·(σ0.7R − 0.03)^0.57 (from memory of the standard design texts; it
 /// follows the published line over σ0.7R ≈ 0.1–2). Zero at or below σ0.7R = 0.03.
 pub fn burrill_five_percent_thrust_loading(sigma: f64) -> f64 {
-    if sigma > 0.03 { 0.28 * (sigma - 0.03).powf(0.57) } else { 0.0 }
+    if sigma > 0.03 {
+        0.28 * (sigma - 0.03).powf(0.57)
+    } else {
+        0.0
+    }
 }
 
 /// Mean blade loading T/Ap, Pa (thrust over projected blade area).
@@ -153,11 +167,19 @@ pub struct LimitCheck {
 impl LimitCheck {
     /// A check that passes when `value` ≥ `limit`.
     fn at_least(value: f64, limit: f64) -> Self {
-        Self { value, limit, passed: value >= limit }
+        Self {
+            value,
+            limit,
+            passed: value >= limit,
+        }
     }
     /// A check that passes when `value` ≤ `limit`.
     fn at_most(value: f64, limit: f64) -> Self {
-        Self { value, limit, passed: value <= limit }
+        Self {
+            value,
+            limit,
+            passed: value <= limit,
+        }
     }
 }
 
@@ -209,8 +231,21 @@ fn require(
     strict: bool,
     expected: &'static str,
 ) -> Result<(), CavitationError> {
-    let ok = value.is_finite() && if strict { value > minimum } else { value >= minimum };
-    if ok { Ok(()) } else { Err(CavitationError::BadInput { field, value, expected }) }
+    let ok = value.is_finite()
+        && if strict {
+            value > minimum
+        } else {
+            value >= minimum
+        };
+    if ok {
+        Ok(())
+    } else {
+        Err(CavitationError::BadInput {
+            field,
+            value,
+            expected,
+        })
+    }
 }
 
 /// Runs every check for one operating point.
@@ -227,16 +262,70 @@ pub fn check_cavitation(input: &CavitationInput) -> Result<CavitationReport, Cav
         });
     }
     require("thrust", input.thrust, 0.0, false, "a finite number ≥ 0 N")?;
-    require("advance speed", input.advance_speed, 0.0, false, "a finite number ≥ 0 m/s")?;
-    require("shaft speed", input.shaft_speed_rps, 0.0, true, "a finite number > 0 rev/s")?;
-    require("shaft immersion", input.shaft_immersion, 0.0, false, "a finite number ≥ 0 m")?;
-    require("water density", input.water_density, 0.0, true, "a finite number > 0 kg/m³")?;
-    require("vapour pressure", input.vapour_pressure, 0.0, false, "a finite number ≥ 0 Pa")?;
-    require("atmospheric pressure", input.atmospheric_pressure, 0.0, false, "a finite number ≥ 0 Pa")?;
-    require("Keller constant", input.keller_constant, 0.0, false, "a finite number ≥ 0 (0 to 0.2)")?;
-    require("blade loading limit", input.blade_loading_limit, 0.0, true, "a finite number > 0 Pa")?;
+    require(
+        "advance speed",
+        input.advance_speed,
+        0.0,
+        false,
+        "a finite number ≥ 0 m/s",
+    )?;
+    require(
+        "shaft speed",
+        input.shaft_speed_rps,
+        0.0,
+        true,
+        "a finite number > 0 rev/s",
+    )?;
+    require(
+        "shaft immersion",
+        input.shaft_immersion,
+        0.0,
+        false,
+        "a finite number ≥ 0 m",
+    )?;
+    require(
+        "water density",
+        input.water_density,
+        0.0,
+        true,
+        "a finite number > 0 kg/m³",
+    )?;
+    require(
+        "vapour pressure",
+        input.vapour_pressure,
+        0.0,
+        false,
+        "a finite number ≥ 0 Pa",
+    )?;
+    require(
+        "atmospheric pressure",
+        input.atmospheric_pressure,
+        0.0,
+        false,
+        "a finite number ≥ 0 Pa",
+    )?;
+    require(
+        "Keller constant",
+        input.keller_constant,
+        0.0,
+        false,
+        "a finite number ≥ 0 (0 to 0.2)",
+    )?;
+    require(
+        "blade loading limit",
+        input.blade_loading_limit,
+        0.0,
+        true,
+        "a finite number > 0 Pa",
+    )?;
     if let Some(limit) = input.tip_speed_limit {
-        require("tip speed limit", limit, 0.0, true, "a finite number > 0 m/s")?;
+        require(
+            "tip speed limit",
+            limit,
+            0.0,
+            true,
+            "a finite number > 0 m/s",
+        )?;
     }
 
     let static_pressure = static_pressure_at_shaft(
@@ -289,7 +378,9 @@ pub fn check_cavitation(input: &CavitationInput) -> Result<CavitationReport, Cav
         input.blade_loading_limit,
     );
     let tip_speed = tip_speed(input.shaft_speed_rps, g.diameter);
-    let tip_speed_check = input.tip_speed_limit.map(|limit| LimitCheck::at_most(tip_speed, limit));
+    let tip_speed_check = input
+        .tip_speed_limit
+        .map(|limit| LimitCheck::at_most(tip_speed, limit));
 
     let mut warnings = Vec::new();
     if !keller_area_ratio.passed {
@@ -334,7 +425,10 @@ pub fn check_cavitation(input: &CavitationInput) -> Result<CavitationReport, Cav
     if let Some(check) = tip_speed_check.filter(|c| !c.passed) {
         warnings.push(Warning::new(
             SOURCE,
-            format!("tip speed {:.1} m/s is above the limit of {:.1} m/s", check.value, check.limit),
+            format!(
+                "tip speed {:.1} m/s is above the limit of {:.1} m/s",
+                check.value, check.limit
+            ),
         ));
     }
 
@@ -360,7 +454,12 @@ mod tests {
 
     fn input() -> CavitationInput {
         CavitationInput {
-            geometry: ScrewGeometry { blades: 3, diameter: 0.6, pitch: 0.5, area_ratio: 0.5 },
+            geometry: ScrewGeometry {
+                blades: 3,
+                diameter: 0.6,
+                pitch: 0.5,
+                area_ratio: 0.5,
+            },
             thrust: 5_000.0,
             advance_speed: 3.5,
             shaft_speed_rps: 20.0,
@@ -393,7 +492,11 @@ mod tests {
     fn more_thrust_fails_more_checks() {
         let light = check_cavitation(&input()).unwrap();
         assert!(light.all_passed(), "{:?}", light.warnings);
-        let heavy = check_cavitation(&CavitationInput { thrust: 50_000.0, ..input() }).unwrap();
+        let heavy = check_cavitation(&CavitationInput {
+            thrust: 50_000.0,
+            ..input()
+        })
+        .unwrap();
         assert!(!heavy.keller_area_ratio.passed && !heavy.thrust_loading.passed);
         assert!(!heavy.blade_loading.passed && !heavy.all_passed());
         assert!(heavy.warnings.iter().any(|w| w.message.contains("psi")));
@@ -401,11 +504,32 @@ mod tests {
 
     #[test]
     fn bad_inputs_name_the_field() {
-        let err = check_cavitation(&CavitationInput { shaft_immersion: -1.0, ..input() });
-        assert!(matches!(err, Err(CavitationError::BadInput { field: "shaft immersion", .. })));
-        let err = check_cavitation(&CavitationInput { thrust: f64::NAN, ..input() });
-        assert!(matches!(err, Err(CavitationError::BadInput { field: "thrust", .. })));
-        let err = check_cavitation(&CavitationInput { vapour_pressure: 2.0e5, ..input() });
+        let err = check_cavitation(&CavitationInput {
+            shaft_immersion: -1.0,
+            ..input()
+        });
+        assert!(matches!(
+            err,
+            Err(CavitationError::BadInput {
+                field: "shaft immersion",
+                ..
+            })
+        ));
+        let err = check_cavitation(&CavitationInput {
+            thrust: f64::NAN,
+            ..input()
+        });
+        assert!(matches!(
+            err,
+            Err(CavitationError::BadInput {
+                field: "thrust",
+                ..
+            })
+        ));
+        let err = check_cavitation(&CavitationInput {
+            vapour_pressure: 2.0e5,
+            ..input()
+        });
         assert!(matches!(err, Err(CavitationError::NoPressureMargin { .. })));
     }
 }
