@@ -283,15 +283,15 @@ fn join(number: &str, unit: &DisplayUnit) -> String {
     }
 }
 
-/// Decimals to show `shown`: the unit's usual number, more so that at least two significant
-/// digits of a small value remain visible (at most six).
+/// Decimals to show `shown`: the unit's usual number, and for units that normally show
+/// decimals up to two more, so that a small value keeps two significant digits ("0.050 m").
 fn decimals_for(shown: f64, usual: usize) -> usize {
-    if shown == 0.0 {
+    if shown == 0.0 || usual == 0 {
         return usual;
     }
     let leading = shown.abs().log10().floor();
     let needed = (1.0 - leading).clamp(0.0, 6.0) as usize;
-    usual.max(needed)
+    needed.clamp(usual, usual + 2)
 }
 
 /// Returns `value` if finite, else the out-of-range error for `text`.
@@ -512,5 +512,157 @@ fn unknown_inches(text: &str, start: usize, end: usize) -> UnitError {
         position: char_position(text, start),
         kind_name: "inches after feet",
         examples: "in, \" (as in 36 ft 9 in)",
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    const ALL_KINDS: [Kind; 20] = [
+        Kind::Length,
+        Kind::ScrewLength,
+        Kind::Distance,
+        Kind::FuelPerDistance,
+        Kind::Mass,
+        Kind::Power,
+        Kind::Speed,
+        Kind::Volume,
+        Kind::Area,
+        Kind::Fraction,
+        Kind::FuelRate,
+        Kind::SpecificFuel,
+        Kind::Rotation,
+        Kind::Temperature,
+        Kind::Density,
+        Kind::Force,
+        Kind::Angle,
+        Kind::Torque,
+        Kind::Pressure,
+        Kind::Time,
+    ];
+
+    #[test]
+    fn every_listed_spelling_parses_to_its_unit() {
+        for kind in ALL_KINDS {
+            for unit in info(kind).units {
+                for alias in unit.aliases {
+                    let got = parse(&format!("2 {alias}"), kind);
+                    let want = (2.0 - unit.zero) * unit.scale;
+                    assert_eq!(got, Ok(want), "{kind:?} {alias:?}");
+                }
+            }
+        }
+    }
+
+    #[test]
+    fn every_unit_named_in_the_error_hint_is_accepted() {
+        for kind in ALL_KINDS {
+            let listed = accepted_units(kind);
+            let units_only = listed.split(" (or").next().unwrap_or(listed);
+            for entry in units_only.split(", ") {
+                let name = entry.split(" (").next().unwrap_or(entry);
+                if name.starts_with("or a plain") {
+                    continue;
+                }
+                assert!(
+                    parse(&format!("2 {name}"), kind).is_ok(),
+                    "{kind:?} lists {name:?}"
+                );
+            }
+        }
+    }
+
+    #[test]
+    fn display_labels_parse_back_to_the_display_scale() {
+        for kind in ALL_KINDS {
+            for system in [UnitSystem::Metric, UnitSystem::Imperial] {
+                let unit = info(kind).display(system);
+                let got = parse(&format!("2 {}", unit.label), kind);
+                assert_eq!(
+                    got,
+                    Ok((2.0 - unit.zero) * unit.scale),
+                    "{kind:?} {}",
+                    unit.label
+                );
+            }
+        }
+    }
+
+    #[test]
+    fn spellings_are_unambiguous_within_a_kind() {
+        for kind in ALL_KINDS {
+            let units = info(kind).units;
+            for (index, unit) in units.iter().enumerate() {
+                for alias in unit.aliases {
+                    let lower = alias.to_lowercase();
+                    for other in &units[index + 1..] {
+                        assert!(!other.aliases.contains(alias), "{kind:?} {alias}");
+                        let clash = unit.fold
+                            && other.fold
+                            && other.aliases.iter().any(|a| a.to_lowercase() == lower);
+                        assert!(!clash, "{kind:?}: {alias} folds onto another unit");
+                    }
+                }
+            }
+        }
+    }
+
+    #[test]
+    fn unit_span_stops_before_a_number() {
+        let text = "36 ft 9 in";
+        assert_eq!(&text[3..scan_unit(text, 3)], "ft");
+        let text = "2 lb/(hp · h) x";
+        assert_eq!(&text[2..scan_unit(text, 2)], "lb/(hp · h) x");
+        let text = "3 m3/s";
+        assert_eq!(&text[2..scan_unit(text, 2)], "m3/s");
+        let text = "3ft2in";
+        assert_eq!(&text[1..scan_unit(text, 1)], "ft");
+    }
+
+    #[test]
+    fn file_format_is_short_when_it_can_be() {
+        assert_eq!(
+            format_for_file(0.15, Kind::Fraction, UnitSystem::Metric),
+            "15 %"
+        );
+        assert_eq!(
+            format_for_file(11.2, Kind::Length, UnitSystem::Metric),
+            "11.2 m"
+        );
+        assert_eq!(
+            format_for_file(24.0 * INCH_M, Kind::ScrewLength, UnitSystem::Imperial),
+            "24 in"
+        );
+        assert_eq!(
+            format_for_file(15.0, Kind::Temperature, UnitSystem::Imperial),
+            "59 °F"
+        );
+        assert_eq!(
+            format_for_file(2e-9, Kind::Length, UnitSystem::Metric),
+            "2e-9 m"
+        );
+    }
+
+    #[test]
+    fn positions_count_characters_not_bytes() {
+        let error = parse("15 °X", Kind::Temperature).unwrap_err();
+        assert!(
+            matches!(error, UnitError::UnknownUnit { position: 3, .. }),
+            "{error:?}"
+        );
+        let error = parse("12 kn ñ", Kind::Speed).unwrap_err();
+        assert!(
+            matches!(error, UnitError::UnknownUnit { position: 3, .. }),
+            "{error:?}"
+        );
+        let error = parse("°5", Kind::Angle).unwrap_err();
+        assert_eq!(
+            error,
+            UnitError::NoNumber {
+                text: "°5".into(),
+                position: 0
+            }
+        );
     }
 }
