@@ -510,8 +510,8 @@ fn unknown_inches(text: &str, start: usize, end: usize) -> UnitError {
         text: text.to_owned(),
         unit: text[start..end].trim_end().to_owned(),
         position: char_position(text, start),
-        kind_name: "inches after feet",
-        examples: "in, \" (as in 36 ft 9 in)",
+        kind_name: "the inches after the feet",
+        examples: "in or \", as in 36 ft 9 in",
     }
 }
 
