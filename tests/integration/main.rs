@@ -7,6 +7,7 @@ mod support;
 mod cli;
 mod hull;
 mod profiles;
+mod robustness;
 mod screw;
 mod solver;
 mod units;
