@@ -16,7 +16,11 @@ pub fn reynolds_number(speed: f64, length: f64, kinematic_viscosity: f64) -> f64
 ///
 /// Rn below [`MIN_REYNOLDS_NUMBER`] (including 0 and NaN) is raised to that floor.
 pub fn ittc1957_friction_coefficient(reynolds: f64) -> f64 {
-    let rn = if reynolds > MIN_REYNOLDS_NUMBER { reynolds } else { MIN_REYNOLDS_NUMBER };
+    let rn = if reynolds > MIN_REYNOLDS_NUMBER {
+        reynolds
+    } else {
+        MIN_REYNOLDS_NUMBER
+    };
     let x = rn.log10() - 2.0;
     0.075 / (x * x)
 }

@@ -13,8 +13,8 @@
 //! The correlation allowance RA is applied to S + SAPP, which reproduces both papers' printed
 //! totals (see `docs/method.md`).
 
-use super::friction::{ittc1957_friction_coefficient, reynolds_number};
 use super::HullForm;
+use super::friction::{ittc1957_friction_coefficient, reynolds_number};
 use crate::propulsion::water::WaterProperties;
 use crate::propulsion::{STANDARD_GRAVITY, Warning};
 
@@ -122,7 +122,11 @@ impl HoltropCoefficients {
     /// The coefficients of `edition` for `hull`.
     pub fn new(hull: &HullForm, edition: Edition) -> Self {
         let input = &hull.input;
-        let (l, b, t) = (input.length_waterline, input.beam_waterline, hull.draft_mean);
+        let (l, b, t) = (
+            input.length_waterline,
+            input.beam_waterline,
+            hull.draft_mean,
+        );
         let tf = input.draft_forward;
         let volume = input.displacement_volume;
         let cp = hull.prismatic_coefficient;
@@ -174,7 +178,8 @@ impl HoltropCoefficients {
         } else {
             0.5 - 0.0625 * l / b
         };
-        let c1 = 2_223_105.0 * c7.powf(3.78613) * (t / b).powf(1.07961) * (90.0 - ie).powf(-1.37565);
+        let c1 =
+            2_223_105.0 * c7.powf(3.78613) * (t / b).powf(1.07961) * (90.0 - ie).powf(-1.37565);
         let c3 = if abt > 0.0 {
             0.56 * abt.powf(1.5) / (b * t * (0.31 * abt.sqrt() + tf - hb))
         } else {
@@ -197,10 +202,16 @@ impl HoltropCoefficients {
         };
         let m1 = 0.0140407 * l / t - 1.75254 * volume.cbrt() / l - 4.79323 * b_l - c16;
         // L/B below 2 has no meaning in c17; such a hull gets a warning and no high-speed term.
-        let c17 = 6919.3 * cm.powf(-1.3346) * (volume / l.powi(3)).powf(2.00977)
+        let c17 = 6919.3
+            * cm.powf(-1.3346)
+            * (volume / l.powi(3)).powf(2.00977)
             * (l / b - 2.0).max(0.0).powf(1.40692);
         let m3 = -7.2035 * b_l.powf(0.326869) * (t / b).powf(0.605375);
-        let lambda = if l / b < 12.0 { 1.446 * cp - 0.03 * l / b } else { 1.446 * cp - 0.36 };
+        let lambda = if l / b < 12.0 {
+            1.446 * cp - 0.03 * l / b
+        } else {
+            1.446 * cp - 0.36
+        };
         let c4 = (tf / l).min(0.04);
         let correlation_allowance = 0.006 * (l + 100.0).powf(-0.16) - 0.00205
             + 0.003 * (l / 7.5).sqrt() * cb.powi(4) * c2 * (0.04 - c4);
@@ -259,7 +270,8 @@ impl HoltropCoefficients {
             Edition::Original1982 => self.m2(fn_l),
             Edition::Revised1984 => self.m4(fn_l),
         };
-        let exponent = self.m1 * fn_l.powf(-0.9) + oscillating * (self.lambda / (fn_l * fn_l)).cos();
+        let exponent =
+            self.m1 * fn_l.powf(-0.9) + oscillating * (self.lambda / (fn_l * fn_l)).cos();
         self.c1 * self.c2 * self.c5 * self.weight(density) * exponent.exp()
     }
 
@@ -296,7 +308,10 @@ impl HoltropCoefficients {
     /// Every component of the method at `speed` m/s in `water`; all zero at zero speed.
     pub fn at_speed(&self, speed: f64, water: &WaterProperties) -> HoltropResistance {
         if speed <= 0.0 || !speed.is_finite() {
-            return HoltropResistance { form_factor: self.form_factor, ..Default::default() };
+            return HoltropResistance {
+                form_factor: self.form_factor,
+                ..Default::default()
+            };
         }
         let rho = water.density;
         let g = STANDARD_GRAVITY;
@@ -310,8 +325,9 @@ impl HoltropCoefficients {
         let wave = self.wave_resistance(fn_l, rho);
         let bulb = self.bulb_resistance(speed, rho);
         let transom = self.transom_resistance(speed, dynamic_pressure);
-        let correlation =
-            dynamic_pressure * (self.wetted_surface + self.appendage_area) * self.correlation_allowance;
+        let correlation = dynamic_pressure
+            * (self.wetted_surface + self.appendage_area)
+            * self.correlation_allowance;
         let total = friction * self.form_factor + appendages + wave + bulb + transom + correlation;
         HoltropResistance {
             froude_number: fn_l,
@@ -357,7 +373,11 @@ impl HoltropCoefficients {
         }
         let fn_t =
             speed / (2.0 * STANDARD_GRAVITY * at / (self.beam * (1.0 + self.waterplane))).sqrt();
-        let c6 = if fn_t < 5.0 { 0.2 * (1.0 - 0.2 * fn_t) } else { 0.0 };
+        let c6 = if fn_t < 5.0 {
+            0.2 * (1.0 - 0.2 * fn_t)
+        } else {
+            0.0
+        };
         dynamic_pressure * at * c6
     }
 }
@@ -470,7 +490,10 @@ mod tests {
         for limit in [LOW_SPEED_LIMIT_FN, HIGH_SPEED_LIMIT_FN] {
             let below = c.wave_resistance(limit - 1e-9, 1025.0);
             let above = c.wave_resistance(limit + 1e-9, 1025.0);
-            assert!((below - above).abs() / below < 1e-6, "jump at Fn {limit}: {below} vs {above}");
+            assert!(
+                (below - above).abs() / below < 1e-6,
+                "jump at Fn {limit}: {below} vs {above}"
+            );
         }
     }
 
@@ -489,6 +512,9 @@ mod tests {
     fn small_boat_is_flagged_outside_the_data() {
         let hull = small_boat();
         let warnings = validity_warnings(&hull, Edition::Revised1984);
-        assert!(warnings.iter().any(|w| w.message.contains("L/B")), "{warnings:?}");
+        assert!(
+            warnings.iter().any(|w| w.message.contains("L/B")),
+            "{warnings:?}"
+        );
     }
 }

@@ -1,8 +1,8 @@
 //! Hull–propeller interaction: wake fraction, thrust deduction, relative rotative efficiency.
 
+use super::HullForm;
 use super::friction::{ittc1957_friction_coefficient, reynolds_number};
 use super::holtrop::{Edition, HoltropCoefficients};
-use super::HullForm;
 use crate::propulsion::water::WaterProperties;
 
 /// Interaction coefficients at one speed (all dimensionless).
@@ -61,9 +61,10 @@ impl Interaction {
         Self {
             wake_fraction: self.wake_fraction.clamp(0.0, MAX_WAKE_FRACTION),
             thrust_deduction: self.thrust_deduction.clamp(0.0, MAX_THRUST_DEDUCTION),
-            relative_rotative_efficiency: self
-                .relative_rotative_efficiency
-                .clamp(MIN_RELATIVE_ROTATIVE_EFFICIENCY, MAX_RELATIVE_ROTATIVE_EFFICIENCY),
+            relative_rotative_efficiency: self.relative_rotative_efficiency.clamp(
+                MIN_RELATIVE_ROTATIVE_EFFICIENCY,
+                MAX_RELATIVE_ROTATIVE_EFFICIENCY,
+            ),
         }
     }
 }
@@ -80,7 +81,9 @@ impl InteractionMethod {
         speed: f64,
     ) -> Interaction {
         let raw = match self {
-            InteractionMethod::Holtrop1984SingleScrew => holtrop_single_screw(hull, water, screw, speed),
+            InteractionMethod::Holtrop1984SingleScrew => {
+                holtrop_single_screw(hull, water, screw, speed)
+            }
             InteractionMethod::Taylor => {
                 let wake = 0.5 * hull.block_coefficient - 0.05;
                 Interaction {
@@ -135,9 +138,17 @@ pub fn holtrop_single_screw(
     } else {
         s * (7.0 * b / ta - 25.0) / (l * d * (b / ta - 3.0))
     };
-    let c9 = if c8 < 28.0 { c8 } else { 32.0 - 16.0 / (c8 - 24.0) };
+    let c9 = if c8 < 28.0 {
+        c8
+    } else {
+        32.0 - 16.0 / (c8 - 24.0)
+    };
     let ta_d = ta / d;
-    let c11 = if ta_d < 2.0 { ta_d } else { 0.0833333 * ta_d.powi(3) + 1.33333 };
+    let c11 = if ta_d < 2.0 {
+        ta_d
+    } else {
+        0.0833333 * ta_d.powi(3) + 1.33333
+    };
     let c19 = if cp < 0.7 {
         0.12997 / (0.95 - cb) - 0.11056 / (0.95 - cp)
     } else {
@@ -150,10 +161,42 @@ pub fn holtrop_single_screw(
     let wake_fraction = c9 * c20 * cv * (l / ta) * (0.050776 + 0.93405 * c11 * cv / one_minus_cp1)
         + 0.27915 * c20 * (b / (l * one_minus_cp1)).sqrt()
         + c19 * c20;
-    let thrust_deduction = 0.25014 * (b / l).powf(0.28956) * ((b * hull.draft_mean).sqrt() / d).powf(0.2624)
-        / (1.0 - cp + 0.0225 * lcb).max(0.01).powf(0.01762)
-        + 0.0015 * cstern;
+    let thrust_deduction =
+        0.25014 * (b / l).powf(0.28956) * ((b * hull.draft_mean).sqrt() / d).powf(0.2624)
+            / (1.0 - cp + 0.0225 * lcb).max(0.01).powf(0.01762)
+            + 0.0015 * cstern;
     let relative_rotative_efficiency =
         0.9922 - 0.05908 * screw.area_ratio + 0.07424 * (cp - 0.0225 * lcb);
-    Interaction { wake_fraction, thrust_deduction, relative_rotative_efficiency }
+    Interaction {
+        wake_fraction,
+        thrust_deduction,
+        relative_rotative_efficiency,
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn clamping_keeps_values_physical_and_leaves_normal_ones_alone() {
+        let normal = Interaction {
+            wake_fraction: 0.25,
+            thrust_deduction: 0.18,
+            relative_rotative_efficiency: 1.01,
+        };
+        assert_eq!(normal.clamped(), normal);
+        let wild = Interaction {
+            wake_fraction: -0.2,
+            thrust_deduction: 0.7,
+            relative_rotative_efficiency: 0.5,
+        };
+        let held = wild.clamped();
+        assert_eq!(held.wake_fraction, 0.0);
+        assert_eq!(held.thrust_deduction, MAX_THRUST_DEDUCTION);
+        assert_eq!(
+            held.relative_rotative_efficiency,
+            MIN_RELATIVE_ROTATIVE_EFFICIENCY
+        );
+    }
 }

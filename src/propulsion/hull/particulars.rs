@@ -102,7 +102,12 @@ fn within(field: &'static str, value: f64, min: f64, max: f64) -> Result<f64, Hu
     if value.is_finite() && (min..=max).contains(&value) {
         Ok(value)
     } else {
-        Err(HullError::OutOfRange { field, value, min, max })
+        Err(HullError::OutOfRange {
+            field,
+            value,
+            min,
+            max,
+        })
     }
 }
 
@@ -122,14 +127,29 @@ impl HullInput {
         if bulb_area > 0.0 {
             within("bulb centre height", bulb_height, 0.0, draft_forward)?;
         }
-        within("stern shape coefficient", self.stern_coefficient, -25.0, 10.0)?;
+        within(
+            "stern shape coefficient",
+            self.stern_coefficient,
+            -25.0,
+            10.0,
+        )?;
         let appendage_area = non_negative("appendage wetted area", self.appendage_area)?;
         if appendage_area > 0.0 {
-            within("appendage form factor 1+k2", self.appendage_form_factor, 1.0, 5.0)?;
+            within(
+                "appendage form factor 1+k2",
+                self.appendage_form_factor,
+                1.0,
+                5.0,
+            )?;
         }
 
         let draft_mean = 0.5 * (draft_aft + draft_forward);
-        let block = within("block coefficient ∇/(L·B·T)", volume / (length * beam * draft_mean), 0.1, 1.0)?;
+        let block = within(
+            "block coefficient ∇/(L·B·T)",
+            volume / (length * beam * draft_mean),
+            0.1,
+            1.0,
+        )?;
 
         let midship = match self.midship_coefficient {
             Some(cm) => Resolved::given(within("midship coefficient", cm, block.max(0.3), 1.0)?),
@@ -210,7 +230,11 @@ impl HullForm {
     /// S = L(2T + B)√Cm (0.453 + 0.4425 Cb − 0.2862 Cm − 0.003467 B/T + 0.3696 Cwp)
     ///     + 2.38 ABT/Cb.
     pub fn holtrop_wetted_surface(&self) -> f64 {
-        let (l, b, t) = (self.input.length_waterline, self.input.beam_waterline, self.draft_mean);
+        let (l, b, t) = (
+            self.input.length_waterline,
+            self.input.beam_waterline,
+            self.draft_mean,
+        );
         let (cb, cm, cwp) = (
             self.block_coefficient,
             self.midship_coefficient.value,
@@ -231,8 +255,12 @@ impl HullForm {
         let volume = self.input.displacement_volume;
         let cp = self.prismatic_coefficient;
         let exponent = (l / b).powf(0.80856)
-            * (1.0 - self.waterplane_coefficient.value).max(0.0).powf(0.30484)
-            * (1.0 - cp - 0.0225 * self.lcb_percent()).max(0.0).powf(0.6367)
+            * (1.0 - self.waterplane_coefficient.value)
+                .max(0.0)
+                .powf(0.30484)
+            * (1.0 - cp - 0.0225 * self.lcb_percent())
+                .max(0.0)
+                .powf(0.6367)
             * (self.length_of_run() / b).powf(0.34574)
             * (100.0 * volume / l.powi(3)).powf(0.16302);
         // A full waterplane (Cwp → 1) sends iE to 90°, where Holtrop's c1 is singular.
@@ -250,11 +278,16 @@ impl HullForm {
             ));
         }
         if !(2.0..=12.0).contains(&(l / b)) {
-            warn(format!("L/B = {:.2} is unusual (2–12); check length and beam", l / b));
+            warn(format!(
+                "L/B = {:.2} is unusual (2–12); check length and beam",
+                l / b
+            ));
         }
         let bt = b / self.draft_mean;
         if !(1.2..=6.0).contains(&bt) {
-            warn(format!("B/T = {bt:.2} is unusual (1.2–6); check beam and draft"));
+            warn(format!(
+                "B/T = {bt:.2} is unusual (1.2–6); check beam and draft"
+            ));
         }
         let trim = (self.input.draft_aft - self.input.draft_forward).abs() / self.draft_mean;
         if trim > 0.5 {
@@ -288,3 +321,81 @@ impl HullForm {
 }
 
 const LENGTH_OF_RUN_FLOOR: f64 = 0.05;
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn boat() -> HullInput {
+        HullInput {
+            length_waterline: 10.0,
+            beam_waterline: 3.4,
+            draft_aft: 0.9,
+            draft_forward: 0.9,
+            displacement_volume: 11.0,
+            midship_coefficient: None,
+            waterplane_coefficient: None,
+            lcb_fraction: None,
+            wetted_surface: None,
+            half_entrance_angle_deg: None,
+            transom_area: None,
+            bulb_area: 0.0,
+            bulb_centre_height: 0.0,
+            stern_coefficient: 0.0,
+            appendage_area: 0.0,
+            appendage_form_factor: 0.0,
+        }
+    }
+
+    #[test]
+    fn missing_values_are_estimated_and_flagged() {
+        let hull = boat().resolve().unwrap();
+        let cb = 11.0 / (10.0 * 3.4 * 0.9);
+        assert!((hull.block_coefficient - cb).abs() < 1e-12);
+        // HSVA Cm estimate, by hand.
+        let cm = 1.0 / (1.0 + (1.0f64 - cb).powf(3.5));
+        assert!((hull.midship_coefficient.value - cm).abs() < 1e-12);
+        assert_eq!(
+            hull.midship_coefficient.estimated_by,
+            Some(MIDSHIP_ESTIMATE)
+        );
+        assert_eq!(
+            hull.transom_area,
+            Resolved::estimated(0.0, TRANSOM_ASSUMPTION)
+        );
+        assert!(hull.lcb_fraction.is_estimated());
+        assert!(
+            hull.warnings
+                .iter()
+                .any(|w| w.message.contains("LCB not given"))
+        );
+        let ie = hull.half_entrance_angle_deg.value;
+        assert!(ie > 5.0 && ie < 60.0, "iE {ie}");
+    }
+
+    #[test]
+    fn impossible_particulars_are_refused_with_the_field_named() {
+        let mut input = boat();
+        input.displacement_volume = 40.0; // more than L·B·T
+        let err = input.resolve().unwrap_err();
+        assert!(err.to_string().contains("block coefficient"), "{err}");
+        let mut input = boat();
+        input.appendage_area = -1.0;
+        assert_eq!(
+            input.resolve().unwrap_err(),
+            HullError::Negative {
+                field: "appendage wetted area",
+                value: -1.0
+            }
+        );
+        let mut input = boat();
+        input.draft_forward = f64::NAN;
+        assert!(matches!(
+            input.resolve(),
+            Err(HullError::NotPositive {
+                field: "draft forward",
+                ..
+            })
+        ));
+    }
+}

@@ -73,7 +73,11 @@ pub struct Margins {
 
 impl Default for Margins {
     fn default() -> Self {
-        Self { service: 0.0, fouling: 0.0, resistance_factor: 1.0 }
+        Self {
+            service: 0.0,
+            fouling: 0.0,
+            resistance_factor: 1.0,
+        }
     }
 }
 
@@ -130,7 +134,11 @@ impl ResistanceTable {
             return Err(HullError::OutsideTable { speed, min, max });
         }
         // Rows are few (a tank test has 5–20), so a linear scan beats a binary search's setup.
-        let upper = self.rows.iter().position(|&(v, _)| v >= speed).unwrap_or(self.rows.len() - 1);
+        let upper = self
+            .rows
+            .iter()
+            .position(|&(v, _)| v >= speed)
+            .unwrap_or(self.rows.len() - 1);
         if upper == 0 {
             return Ok(self.rows[0].1);
         }
@@ -146,7 +154,11 @@ impl AirDrag {
     /// The signed square lets a following wind stronger than the boat push it along.
     pub fn force(&self, speed: f64) -> f64 {
         let relative = speed + self.headwind;
-        0.5 * self.air_density * self.drag_coefficient * self.frontal_area * relative * relative.abs()
+        0.5 * self.air_density
+            * self.drag_coefficient
+            * self.frontal_area
+            * relative
+            * relative.abs()
     }
 }
 
@@ -183,11 +195,15 @@ impl ResistanceModel {
                 }
                 ResistanceMethod::Table(_) => 1.0,
             };
-            return Ok(ResistanceComponents { form_factor, ..Default::default() });
+            return Ok(ResistanceComponents {
+                form_factor,
+                ..Default::default()
+            });
         }
         let mut parts = match &self.method {
             ResistanceMethod::HoltropMennen => {
-                let r = HoltropCoefficients::new(&self.hull, HOLTROP_EDITION).at_speed(speed, &self.water);
+                let r = HoltropCoefficients::new(&self.hull, HOLTROP_EDITION)
+                    .at_speed(speed, &self.water);
                 ResistanceComponents {
                     friction: r.friction,
                     form_factor: r.form_factor,
@@ -308,9 +324,49 @@ impl ResistanceModel {
 
     /// ITTC-1957 frictional resistance of the resolved bare hull at `speed` m/s, N.
     fn ittc_friction(&self, speed: f64) -> f64 {
-        let rn = reynolds_number(speed, self.hull.input.length_waterline, self.water.kinematic_viscosity);
-        0.5 * self.water.density * speed * speed * self.hull.wetted_surface.value * ittc1957_friction_coefficient(rn)
+        let rn = reynolds_number(
+            speed,
+            self.hull.input.length_waterline,
+            self.water.kinematic_viscosity,
+        );
+        0.5 * self.water.density
+            * speed
+            * speed
+            * self.hull.wetted_surface.value
+            * ittc1957_friction_coefficient(rn)
     }
 }
 
 const SOURCE: &str = "resistance";
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn table_interpolates_between_rows() {
+        let table = ResistanceTable {
+            rows: vec![(0.0, 0.0), (2.0, 1000.0), (4.0, 5000.0)],
+        };
+        assert_eq!(table.interpolate(3.0).unwrap(), 3000.0);
+        assert_eq!(table.interpolate(0.0).unwrap(), 0.0);
+        assert!(table.interpolate(4.1).is_err());
+        let bad = ResistanceTable {
+            rows: vec![(0.0, 0.0), (2.0, f64::NAN)],
+        };
+        assert!(matches!(bad.validate(), Err(HullError::BadTable(_))));
+    }
+
+    #[test]
+    fn tailwind_faster_than_the_boat_pushes() {
+        let air = AirDrag {
+            air_density: 1.2,
+            drag_coefficient: 1.0,
+            frontal_area: 2.0,
+            headwind: -3.0,
+        };
+        assert!(air.force(1.0) < 0.0);
+        assert_eq!(air.force(3.0), 0.0);
+        assert!((air.force(5.0) - 0.5 * 1.2 * 2.0 * 4.0).abs() < 1e-12);
+    }
+}
