@@ -342,10 +342,16 @@ pub struct OpenWaterRow {
 /// Points past zero thrust are flagged and carry no efficiency rather than a negative one.
 /// The caller validates `js` (non-empty, finite, J ≥ 0).
 pub fn open_water_rows(screw: &ScrewModel, js: &[f64], reynolds: Option<f64>) -> Vec<OpenWaterRow> {
+    // The polynomials are cubics in J that turn positive again far past zero thrust, so the
+    // sign of KT alone would show a recovered KT and a made-up efficiency there.
+    let zero_thrust = match screw {
+        ScrewModel::BSeries(b_series) => b_series.zero_thrust_advance_ratio(reynolds),
+        ScrewModel::Table(_) => f64::INFINITY,
+    };
     js.iter()
         .map(|&j| {
             let point = screw.coefficients(j, reynolds);
-            let past_zero_thrust = point.thrust_coefficient <= 0.0;
+            let past_zero_thrust = point.thrust_coefficient <= 0.0 || j > zero_thrust;
             OpenWaterRow {
                 advance_ratio: j,
                 thrust_coefficient: point.thrust_coefficient,

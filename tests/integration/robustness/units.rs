@@ -31,18 +31,54 @@ const ALL_KINDS: [Kind; 20] = [
 /// Pieces that look like the start, middle or end of a real quantity, so that random joins
 /// reach deep into the parser (compound lengths, exponents, unit spellings, stray symbols).
 const PIECES: [&str; 40] = [
-    "0", "1", "36", "9.5", ".5", "1e308", "1e309", "-", "+", "−", "e", "E+", "ft", "in", "'",
-    "\"", "m", "mm", "kn", "kW", "hp", "%", "L", "gal", "US gal", "g/kWh", "lb/(hp·h)", "°C",
-    "°F", "t", "lb", "rpm", "m/s", "m²", "ft3", " ", "  ", "·", "/", "é",
+    "0",
+    "1",
+    "36",
+    "9.5",
+    ".5",
+    "1e308",
+    "1e309",
+    "-",
+    "+",
+    "−",
+    "e",
+    "E+",
+    "ft",
+    "in",
+    "'",
+    "\"",
+    "m",
+    "mm",
+    "kn",
+    "kW",
+    "hp",
+    "%",
+    "L",
+    "gal",
+    "US gal",
+    "g/kWh",
+    "lb/(hp·h)",
+    "°C",
+    "°F",
+    "t",
+    "lb",
+    "rpm",
+    "m/s",
+    "m²",
+    "ft3",
+    " ",
+    "  ",
+    "·",
+    "/",
+    "é",
 ];
 
 /// Checks the contract of one parse: a finite value, or an error whose position (where it has
 /// one) lies inside the text and points at what it names, and whose message quotes the text.
 fn check(text: &str, kind: Kind) -> Result<(), TestCaseError> {
     let chars: Vec<char> = text.chars().collect();
-    let at = |position: usize, len: usize| -> String {
-        chars.iter().skip(position).take(len).collect()
-    };
+    let at =
+        |position: usize, len: usize| -> String { chars.iter().skip(position).take(len).collect() };
     match parse(text, kind) {
         Ok(value) => prop_assert!(value.is_finite(), "{text:?} as {kind:?} gave {value}"),
         Err(error) => {
@@ -51,13 +87,19 @@ fn check(text: &str, kind: Kind) -> Result<(), TestCaseError> {
             match &error {
                 UnitError::NoNumber { position, .. } => {
                     prop_assert!(*position <= chars.len(), "{message}");
-                    prop_assert!(message.contains(&format!("character {position}")), "{message}");
+                    prop_assert!(
+                        message.contains(&format!("character {position}")),
+                        "{message}"
+                    );
                 }
                 UnitError::UnknownUnit { unit, position, .. } => {
                     prop_assert!(*position < chars.len(), "{message}");
                     let unit_len = unit.chars().count();
                     prop_assert_eq!(&at(*position, unit_len), unit, "{}", message);
-                    prop_assert!(message.contains(&format!("character {position}")), "{message}");
+                    prop_assert!(
+                        message.contains(&format!("character {position}")),
+                        "{message}"
+                    );
                 }
                 UnitError::Trailing { rest, position, .. } => {
                     prop_assert!(*position < chars.len(), "{message}");
@@ -126,7 +168,14 @@ proptest! {
 #[test]
 fn huge_and_odd_numbers_are_errors_not_infinities() {
     for kind in ALL_KINDS {
-        for text in ["1e309 m", "1e309", "-1e400 kn", "1e308 ft 1e308 in", "NaN m", "inf kW"] {
+        for text in [
+            "1e309 m",
+            "1e309",
+            "-1e400 kn",
+            "1e308 ft 1e308 in",
+            "NaN m",
+            "inf kW",
+        ] {
             check(text, kind).unwrap();
             if let Ok(value) = parse(text, kind) {
                 assert!(value.is_finite(), "{text:?} as {kind:?} gave {value}");
@@ -134,7 +183,10 @@ fn huge_and_odd_numbers_are_errors_not_infinities() {
         }
         // Non-numbers are never accepted, whatever the kind.
         for text in ["NaN m", "inf kW", "", " ", "m", "."] {
-            assert!(parse(text, kind).is_err(), "{text:?} as {kind:?} was accepted");
+            assert!(
+                parse(text, kind).is_err(),
+                "{text:?} as {kind:?} was accepted"
+            );
         }
     }
 }
