@@ -3,13 +3,17 @@
 use super::engine::{EngineDoc, UNIT_SYSTEMS};
 use super::error::{Issue, ProfileError};
 use super::quantity::{Quantity, Reader, guess_system, out, out_num, out_text};
-use crate::propulsion::hull::{
-    AirDrag, HullError, HullInput, Interaction, InteractionMethod, Margins, ResistanceMethod, ResistanceModel,
-    ResistanceTable,
-};
 use crate::propulsion::hull::interaction::ScrewAtStern;
-use crate::propulsion::screw::{BSeriesScrew, OpenWaterPoint, OpenWaterTable, ScrewGeometry, ScrewModel};
-use crate::propulsion::solver::{Installation, MatchCriteria, RunDirection, TrialRun, Trip, Variant, Vessel};
+use crate::propulsion::hull::{
+    AirDrag, HullError, HullInput, Interaction, InteractionMethod, Margins, ResistanceMethod,
+    ResistanceModel, ResistanceTable,
+};
+use crate::propulsion::screw::{
+    BSeriesScrew, OpenWaterPoint, OpenWaterTable, ScrewGeometry, ScrewModel,
+};
+use crate::propulsion::solver::{
+    Installation, MatchCriteria, RunDirection, TrialRun, Trip, Variant, Vessel,
+};
 use crate::propulsion::water::{self, WaterKind};
 use crate::units::{Kind, UnitSystem};
 use serde::{Deserialize, Serialize};
@@ -29,7 +33,11 @@ pub enum LoadCondition {
 
 impl LoadCondition {
     /// Every condition, lightest first.
-    pub const ALL: [LoadCondition; 3] = [LoadCondition::Light, LoadCondition::Half, LoadCondition::Full];
+    pub const ALL: [LoadCondition; 3] = [
+        LoadCondition::Light,
+        LoadCondition::Half,
+        LoadCondition::Full,
+    ];
 
     /// The name used in files and on screen: "light", "half" or "full".
     pub fn name(self) -> &'static str {
@@ -320,6 +328,7 @@ pub struct BoatDoc {
 // ---------------------------------------------------------------------------------------------
 // Raw file form: every value keeps its span for error messages.
 
+type RawOpenWaterRow = (Spanned<f64>, Spanned<f64>, Spanned<f64>);
 type RawPairs = Vec<(Spanned<String>, Spanned<String>)>;
 
 #[derive(Debug, Deserialize, Serialize)]
@@ -485,7 +494,7 @@ struct RawVariant {
     #[serde(default, skip_serializing_if = "Option::is_none")]
     rotation: Option<Spanned<String>>,
     #[serde(default, skip_serializing_if = "Option::is_none")]
-    open_water: Option<Vec<(Spanned<f64>, Spanned<f64>, Spanned<f64>)>>,
+    open_water: Option<Vec<RawOpenWaterRow>>,
 }
 
 #[derive(Debug, Deserialize, Serialize)]
@@ -538,20 +547,27 @@ struct RawCalibration {
     note: Option<String>,
 }
 
-const CONDITIONS: [(&str, LoadCondition); 3] =
-    [("light", LoadCondition::Light), ("half", LoadCondition::Half), ("full", LoadCondition::Full)];
+const CONDITIONS: [(&str, LoadCondition); 3] = [
+    ("light", LoadCondition::Light),
+    ("half", LoadCondition::Half),
+    ("full", LoadCondition::Full),
+];
 const WATERS: [(&str, WaterKind); 2] = [("sea", WaterKind::Sea), ("fresh", WaterKind::Fresh)];
 const METHODS: [(&str, bool); 2] = [("holtrop-mennen", false), ("table", true)];
 const INTERACTIONS: [(&str, u8); 3] = [("holtrop-1984", 0), ("taylor", 1), ("user", 2)];
 const ROTATIONS: [(&str, Rotation); 2] = [("right", Rotation::Right), ("left", Rotation::Left)];
-const DIRECTIONS: [(&str, RunDirection); 2] = [("out", RunDirection::Out), ("back", RunDirection::Back)];
+const DIRECTIONS: [(&str, RunDirection); 2] =
+    [("out", RunDirection::Out), ("back", RunDirection::Back)];
 
 /// Appendage form factor 1+k2 used when the file gives none: Holtrop & Mennen (1982) table,
 /// rudder behind skeg 1.5–2.0 (lower end taken).
 const DEFAULT_APPENDAGE_FORM_FACTOR: f64 = 1.5;
 
 fn name_of<T: PartialEq + Copy>(choices: &[(&'static str, T)], value: T) -> &'static str {
-    choices.iter().find(|(_, v)| *v == value).map_or(choices[0].0, |(n, _)| n)
+    choices
+        .iter()
+        .find(|(_, v)| *v == value)
+        .map_or(choices[0].0, |(n, _)| n)
 }
 
 /// Refuses a file whose `schema` is not the one this build reads.
@@ -562,35 +578,51 @@ pub(crate) fn check_schema(r: &Reader<'_>, schema: &Spanned<i64>) -> Result<(), 
     Err(r.error(
         "schema",
         schema.span(),
-        Issue::new("schema", schema.get_ref().to_string(), format!("expected schema = {}", super::SCHEMA_VERSION)),
+        Issue::new(
+            "schema",
+            schema.get_ref().to_string(),
+            format!("expected schema = {}", super::SCHEMA_VERSION),
+        ),
     ))
 }
 
 impl BoatDoc {
     /// Reads a boat from TOML `source`; `file` names it in error messages.
     pub fn from_toml(source: &str, file: &str) -> Result<Self, ProfileError> {
-        let raw: RawBoat = toml::from_str(source).map_err(|e| ProfileError::from_toml(file, source, &e))?;
+        let raw: RawBoat =
+            toml::from_str(source).map_err(|e| ProfileError::from_toml(file, source, &e))?;
         let mut r = Reader::new(file, source);
         check_schema(&r, &raw.schema)?;
         let units = match &raw.units {
             Some(u) => r.choice("units", u, &UNIT_SYSTEMS)?,
             None => guess_system(
-                [&raw.hull.length_waterline, &raw.hull.beam_waterline, &raw.trip.tank]
-                    .into_iter()
-                    .chain(raw.variant.iter().map(|v| &v.diameter))
-                    .map(|s| s.get_ref().as_str()),
+                [
+                    &raw.hull.length_waterline,
+                    &raw.hull.beam_waterline,
+                    &raw.trip.tank,
+                ]
+                .into_iter()
+                .chain(raw.variant.iter().map(|v| &v.diameter))
+                .map(|s| s.get_ref().as_str()),
             ),
         };
         let hull = read_hull(&mut r, &raw.hull)?;
         let load = read_load(&mut r, &raw.load)?;
         let resistance = match &raw.resistance {
-            None => ResistanceDoc { method: ResistanceMethodDoc::HoltropMennen, service_margin: 0.0, fouling: 0.0 },
+            None => ResistanceDoc {
+                method: ResistanceMethodDoc::HoltropMennen,
+                service_margin: 0.0,
+                fouling: 0.0,
+            },
             Some(res) => {
                 let is_table = r.choice("resistance.method", &res.method, &METHODS)?;
                 let method = match (is_table, &res.table) {
                     (false, _) => ResistanceMethodDoc::HoltropMennen,
                     (true, Some(rows)) => {
-                        r.spans.insert("resistance.table".into(), rows.first().map_or(res.method.span(), |(s, _)| s.span()));
+                        r.spans.insert(
+                            "resistance.table".into(),
+                            rows.first().map_or(res.method.span(), |(s, _)| s.span()),
+                        );
                         let mut table = Vec::with_capacity(rows.len());
                         for (i, (speed, force)) in rows.iter().enumerate() {
                             let key = format!("resistance.table[{}]", i + 1);
@@ -611,7 +643,9 @@ impl BoatDoc {
                 };
                 ResistanceDoc {
                     method,
-                    service_margin: r.opt_num("resistance.service_margin", &res.service_margin).unwrap_or(0.0),
+                    service_margin: r
+                        .opt_num("resistance.service_margin", &res.service_margin)
+                        .unwrap_or(0.0),
                     fouling: r.opt_num("resistance.fouling", &res.fouling).unwrap_or(0.0),
                 }
             }
@@ -627,7 +661,11 @@ impl BoatDoc {
         };
         let water = WaterDoc {
             kind: r.choice("water.kind", &raw.water.kind, &WATERS)?,
-            temperature: r.qty("water.temperature", &raw.water.temperature, Kind::Temperature)?,
+            temperature: r.qty(
+                "water.temperature",
+                &raw.water.temperature,
+                Kind::Temperature,
+            )?,
         };
         let interaction = match &raw.interaction {
             None => InteractionDoc::Holtrop1984,
@@ -642,14 +680,21 @@ impl BoatDoc {
                             None => Err(r.error(
                                 &full,
                                 i.method.span(),
-                                Issue::new(full.clone(), "", format!("missing; expected `{key}` for method = \"user\"")),
+                                Issue::new(
+                                    full.clone(),
+                                    "",
+                                    format!("missing; expected `{key}` for method = \"user\""),
+                                ),
                             )),
                         }
                     };
                     InteractionDoc::User {
                         wake_fraction: need("wake_fraction", &i.wake_fraction)?,
                         thrust_deduction: need("thrust_deduction", &i.thrust_deduction)?,
-                        relative_rotative_efficiency: need("relative_rotative_efficiency", &i.relative_rotative_efficiency)?,
+                        relative_rotative_efficiency: need(
+                            "relative_rotative_efficiency",
+                            &i.relative_rotative_efficiency,
+                        )?,
                     }
                 }
             },
@@ -659,11 +704,30 @@ impl BoatDoc {
             gear_ratio: r.num("installation.gear_ratio", &inst.gear_ratio),
             shaft_efficiency: r.num("installation.shaft_efficiency", &inst.shaft_efficiency),
             gear_efficiency: r.num("installation.gear_efficiency", &inst.gear_efficiency),
-            shaft_immersion: r.opt_qty("installation.shaft_immersion", &inst.shaft_immersion, Kind::Length)?,
-            shaft_diameter: r.opt_qty("installation.shaft_diameter", &inst.shaft_diameter, Kind::ScrewLength)?,
-            shaft_material: inst.shaft_material.as_ref().map(|m| r.text("installation.shaft_material", m)),
-            max_screw_diameter: r.opt_qty("installation.max_screw_diameter", &inst.max_screw_diameter, Kind::ScrewLength)?,
-            tip_clearance: r.opt_qty("installation.tip_clearance", &inst.tip_clearance, Kind::ScrewLength)?,
+            shaft_immersion: r.opt_qty(
+                "installation.shaft_immersion",
+                &inst.shaft_immersion,
+                Kind::Length,
+            )?,
+            shaft_diameter: r.opt_qty(
+                "installation.shaft_diameter",
+                &inst.shaft_diameter,
+                Kind::ScrewLength,
+            )?,
+            shaft_material: inst
+                .shaft_material
+                .as_ref()
+                .map(|m| r.text("installation.shaft_material", m)),
+            max_screw_diameter: r.opt_qty(
+                "installation.max_screw_diameter",
+                &inst.max_screw_diameter,
+                Kind::ScrewLength,
+            )?,
+            tip_clearance: r.opt_qty(
+                "installation.tip_clearance",
+                &inst.tip_clearance,
+                Kind::ScrewLength,
+            )?,
         };
         let mut variants = Vec::with_capacity(raw.variant.len());
         for (i, v) in raw.variant.iter().enumerate() {
@@ -673,18 +737,29 @@ impl BoatDoc {
             None => 0,
             Some(label) => {
                 r.spans.insert("active_variant".into(), label.span());
-                variants.iter().position(|v| &v.label == label.get_ref()).ok_or_else(|| {
-                    let labels: Vec<String> = variants.iter().map(|v| format!("{:?}", v.label)).collect();
-                    r.error(
-                        "active_variant",
-                        label.span(),
-                        Issue::new(
+                variants
+                    .iter()
+                    .position(|v| &v.label == label.get_ref())
+                    .ok_or_else(|| {
+                        let labels: Vec<String> =
+                            variants.iter().map(|v| format!("{:?}", v.label)).collect();
+                        r.error(
                             "active_variant",
-                            format!("{:?}", label.get_ref()),
-                            format!("expected the label of a [[variant]]: {}", if labels.is_empty() { "none given".to_owned() } else { labels.join(", ") }),
-                        ),
-                    )
-                })?
+                            label.span(),
+                            Issue::new(
+                                "active_variant",
+                                format!("{:?}", label.get_ref()),
+                                format!(
+                                    "expected the label of a [[variant]]: {}",
+                                    if labels.is_empty() {
+                                        "none given".to_owned()
+                                    } else {
+                                        labels.join(", ")
+                                    }
+                                ),
+                            ),
+                        )
+                    })?
             }
         };
         let t = &raw.trip;
@@ -707,11 +782,23 @@ impl BoatDoc {
                     runs.push(TrialRunDoc {
                         rpm: r.qty(&format!("{key}.rpm"), &run.rpm, Kind::Rotation)?,
                         speed: r.qty(&format!("{key}.speed"), &run.speed, Kind::Speed)?,
-                        direction: run.direction.as_ref().map(|d| r.choice(&format!("{key}.direction"), d, &DIRECTIONS)).transpose()?,
-                        fuel_rate: r.opt_qty(&format!("{key}.fuel_rate"), &run.fuel_rate, Kind::FuelRate)?,
+                        direction: run
+                            .direction
+                            .as_ref()
+                            .map(|d| r.choice(&format!("{key}.direction"), d, &DIRECTIONS))
+                            .transpose()?,
+                        fuel_rate: r.opt_qty(
+                            &format!("{key}.fuel_rate"),
+                            &run.fuel_rate,
+                            Kind::FuelRate,
+                        )?,
                     });
                 }
-                Some(TrialDoc { date: tr.date.clone(), note: tr.note.clone(), runs })
+                Some(TrialDoc {
+                    date: tr.date.clone(),
+                    note: tr.note.clone(),
+                    runs,
+                })
             }
         };
         let calibration = raw.calibration.as_ref().map(|c| CalibrationDoc {
@@ -763,7 +850,11 @@ impl BoatDoc {
             ResistanceMethodDoc::HoltropMennen => ("holtrop-mennen", None),
             ResistanceMethodDoc::Table(rows) => (
                 "table",
-                Some(rows.iter().map(|(v, f)| (out(v, Kind::Speed, s), out(f, Kind::Force, s))).collect()),
+                Some(
+                    rows.iter()
+                        .map(|(v, f)| (out(v, Kind::Speed, s), out(f, Kind::Force, s)))
+                        .collect(),
+                ),
             ),
         };
         let interaction = match self.interaction {
@@ -779,7 +870,11 @@ impl BoatDoc {
                 thrust_deduction: None,
                 relative_rotative_efficiency: None,
             },
-            InteractionDoc::User { wake_fraction, thrust_deduction, relative_rotative_efficiency } => RawInteraction {
+            InteractionDoc::User {
+                wake_fraction,
+                thrust_deduction,
+                relative_rotative_efficiency,
+            } => RawInteraction {
                 method: out_text("user"),
                 wake_fraction: Some(out_num(wake_fraction)),
                 thrust_deduction: Some(out_num(thrust_deduction)),
@@ -792,7 +887,10 @@ impl BoatDoc {
             name: out_text(&self.name),
             units: Some(out_text(name_of(&UNIT_SYSTEMS, s))),
             engine: out_text(&self.engine),
-            active_variant: self.variants.get(self.active_variant).map(|v| out_text(&v.label)),
+            active_variant: self
+                .variants
+                .get(self.active_variant)
+                .map(|v| out_text(&v.label)),
             reynolds_correction: (!self.reynolds_correction).then_some(false),
             hull: RawHull {
                 length_waterline: out(&h.length_waterline, Kind::Length, s),
@@ -851,9 +949,10 @@ impl BoatDoc {
                 usable_fraction: out_num(self.trip.usable_fraction),
                 reserve: out_num(self.trip.reserve),
             },
-            match_criteria: self
-                .match_criteria
-                .map(|m| RawMatch { over_above: out_num(m.over_above), under_below: out_num(m.under_below) }),
+            match_criteria: self.match_criteria.map(|m| RawMatch {
+                over_above: out_num(m.over_above),
+                under_below: out_num(m.under_below),
+            }),
             variant: self
                 .variants
                 .iter()
@@ -865,10 +964,11 @@ impl BoatDoc {
                     area_ratio: out_num(v.area_ratio),
                     thickness_ratio: on(v.thickness_ratio),
                     rotation: v.rotation.map(|h| out_text(name_of(&ROTATIONS, h))),
-                    open_water: v
-                        .open_water
-                        .as_ref()
-                        .map(|rows| rows.iter().map(|&(j, kt, kq)| (out_num(j), out_num(kt), out_num(kq))).collect()),
+                    open_water: v.open_water.as_ref().map(|rows| {
+                        rows.iter()
+                            .map(|&(j, kt, kq)| (out_num(j), out_num(kt), out_num(kq)))
+                            .collect()
+                    }),
                 })
                 .collect(),
             trial: self.trial.as_ref().map(|t| RawTrial {
@@ -906,70 +1006,155 @@ impl BoatDoc {
         if self.name.trim().is_empty() {
             v.push("name", "\"\"", "expected the boat's name");
         }
-        if let Err(e) = super::store::check_name(&self.engine) {
-            v.push("engine", format!("{:?}", self.engine), format!("expected an engine sheet name: {e}"));
+        if let Err(ProfileError::UnsafeName { reason, .. }) = super::store::check_name(&self.engine)
+        {
+            v.push(
+                "engine",
+                format!("{:?}", self.engine),
+                format!("expected a safe profile name (letters, digits, '-', '_', '.'): {reason}"),
+            );
         }
         let h = &self.hull;
         v.positive("hull.length_waterline", &h.length_waterline, "length");
         v.positive("hull.beam_waterline", &h.beam_waterline, "beam");
         if h.beam_waterline.value >= h.length_waterline.value && h.length_waterline.value > 0.0 {
-            v.push("hull.beam_waterline", h.beam_waterline.shown(), "expected a beam smaller than the waterline length");
+            v.push(
+                "hull.beam_waterline",
+                h.beam_waterline.shown(),
+                "expected a beam smaller than the waterline length",
+            );
         }
         v.positive("hull.draft_aft", &h.draft_aft, "draft");
         v.positive("hull.draft_forward", &h.draft_forward, "draft");
-        v.range("hull.midship_coefficient", h.midship_coefficient, 0.3, 1.0, "a midship coefficient from 0.3 to 1");
-        v.range("hull.waterplane_coefficient", h.waterplane_coefficient, 0.3, 1.0, "a waterplane coefficient from 0.3 to 1");
-        v.range("hull.lcb_fraction", h.lcb_fraction, -0.2, 0.2, "an LCB from -0.2 to 0.2 of the length (forward of midships positive)");
+        v.range(
+            "hull.midship_coefficient",
+            h.midship_coefficient,
+            0.3,
+            1.0,
+            "a midship coefficient from 0.3 to 1",
+        );
+        v.range(
+            "hull.waterplane_coefficient",
+            h.waterplane_coefficient,
+            0.3,
+            1.0,
+            "a waterplane coefficient from 0.3 to 1",
+        );
+        v.range(
+            "hull.lcb_fraction",
+            h.lcb_fraction,
+            -0.2,
+            0.2,
+            "an LCB from -0.2 to 0.2 of the length (forward of midships positive)",
+        );
         v.opt_positive("hull.wetted_surface", &h.wetted_surface, "area");
         if let Some(a) = &h.half_entrance_angle
             && !(a.value > 0.0 && a.value < 90.0)
         {
-            v.push("hull.half_entrance_angle", a.shown(), "expected an angle between 0 and 90 degrees");
+            v.push(
+                "hull.half_entrance_angle",
+                a.shown(),
+                "expected an angle between 0 and 90 degrees",
+            );
         }
         v.opt_not_negative("hull.transom_area", &h.transom_area, "area");
         v.opt_not_negative("hull.bulb_area", &h.bulb_area, "area");
         v.opt_not_negative("hull.bulb_centre_height", &h.bulb_centre_height, "height");
-        v.range("hull.stern_coefficient", h.stern_coefficient, -25.0, 10.0, "a stern coefficient from -25 (pram) to 10 (U-shaped)");
+        v.range(
+            "hull.stern_coefficient",
+            h.stern_coefficient,
+            -25.0,
+            10.0,
+            "a stern coefficient from -25 (pram) to 10 (U-shaped)",
+        );
         v.opt_not_negative("hull.appendage_area", &h.appendage_area, "area");
-        v.range("hull.appendage_form_factor", h.appendage_form_factor, 1.0, 5.0, "a form factor 1+k2 from 1 to 5");
+        v.range(
+            "hull.appendage_form_factor",
+            h.appendage_form_factor,
+            1.0,
+            5.0,
+            "a form factor 1+k2 from 1 to 5",
+        );
         for condition in LoadCondition::ALL {
             if let Some(case) = self.load.case(condition) {
                 let key = format!("load.{condition}");
                 v.positive(&format!("{key}.displacement"), &case.displacement, "mass");
                 v.opt_positive(&format!("{key}.draft_aft"), &case.draft_aft, "draft");
-                v.opt_positive(&format!("{key}.draft_forward"), &case.draft_forward, "draft");
+                v.opt_positive(
+                    &format!("{key}.draft_forward"),
+                    &case.draft_forward,
+                    "draft",
+                );
             }
         }
         if self.load.case(self.load.default).is_none() {
             v.push(
                 format!("load.{}", self.load.default),
                 "",
-                format!("missing; expected [load.{}] with a displacement, since load.default = {:?}", self.load.default, self.load.default.name()),
+                format!(
+                    "missing; expected [load.{}] with a displacement, since load.default = {:?}",
+                    self.load.default,
+                    self.load.default.name()
+                ),
             );
         }
         if let ResistanceMethodDoc::Table(rows) = &self.resistance.method {
             if rows.len() < 2 {
-                v.push("resistance.table", format!("{} row(s)", rows.len()), "expected at least two [speed, resistance] rows");
+                v.push(
+                    "resistance.table",
+                    format!("{} row(s)", rows.len()),
+                    "expected at least two [speed, resistance] rows",
+                );
             }
             for (i, pair) in rows.windows(2).enumerate() {
                 if pair[1].0.value <= pair[0].0.value {
-                    v.push(format!("resistance.table[{}].speed", i + 2), pair[1].0.shown(), "expected rows sorted by increasing speed");
+                    v.push(
+                        format!("resistance.table[{}].speed", i + 2),
+                        pair[1].0.shown(),
+                        "expected rows sorted by increasing speed",
+                    );
                 }
             }
             for (i, (speed, force)) in rows.iter().enumerate() {
                 if speed.value < 0.0 {
-                    v.push(format!("resistance.table[{}].speed", i + 1), speed.shown(), "expected a speed of zero or more");
+                    v.push(
+                        format!("resistance.table[{}].speed", i + 1),
+                        speed.shown(),
+                        "expected a speed of zero or more",
+                    );
                 }
                 if force.value < 0.0 {
-                    v.push(format!("resistance.table[{}].resistance", i + 1), force.shown(), "expected a resistance of zero or more");
+                    v.push(
+                        format!("resistance.table[{}].resistance", i + 1),
+                        force.shown(),
+                        "expected a resistance of zero or more",
+                    );
                 }
             }
         }
-        v.range("resistance.service_margin", Some(self.resistance.service_margin), 0.0, 1.0, "a margin from 0 to 1 (0.15 = +15 %)");
-        v.range("resistance.fouling", Some(self.resistance.fouling), 0.0, 3.0, "added friction from 0 to 3 (0.2 = +20 %)");
+        v.range(
+            "resistance.service_margin",
+            Some(self.resistance.service_margin),
+            0.0,
+            1.0,
+            "a margin from 0 to 1 (0.15 = +15 %)",
+        );
+        v.range(
+            "resistance.fouling",
+            Some(self.resistance.fouling),
+            0.0,
+            3.0,
+            "added friction from 0 to 3 (0.2 = +20 %)",
+        );
         if let Some(w) = &self.windage {
             v.positive("windage.frontal_area", &w.frontal_area, "area");
-            v.range("windage.drag_coefficient", Some(w.drag_coefficient), 0.05, 3.0, "a drag coefficient from 0.05 to 3");
+            v.range(
+                "windage.drag_coefficient",
+                Some(w.drag_coefficient),
+                0.05,
+                3.0,
+                "a drag coefficient from 0.05 to 3",
+            );
             if let Some(h) = &w.headwind
                 && !h.value.is_finite()
             {
@@ -978,77 +1163,191 @@ impl BoatDoc {
             v.opt_positive("windage.air_density", &w.air_density, "density");
         }
         if !(0.0..=40.0).contains(&self.water.temperature.value) {
-            v.push("water.temperature", self.water.temperature.shown(), "expected 0 to 40 °C (the range of ITTC 7.5-02-01-03)");
+            v.push(
+                "water.temperature",
+                self.water.temperature.shown(),
+                "expected 0 to 40 °C (the range of ITTC 7.5-02-01-03)",
+            );
         }
-        if let InteractionDoc::User { wake_fraction, thrust_deduction, relative_rotative_efficiency } = self.interaction {
-            v.range_open("interaction.wake_fraction", wake_fraction, 0.0, 1.0, "a wake fraction from 0 up to (not including) 1");
-            v.range_open("interaction.thrust_deduction", thrust_deduction, 0.0, 1.0, "a thrust deduction from 0 up to (not including) 1");
-            v.range("interaction.relative_rotative_efficiency", Some(relative_rotative_efficiency), 0.5, 1.5, "a relative rotative efficiency from 0.5 to 1.5");
+        if let InteractionDoc::User {
+            wake_fraction,
+            thrust_deduction,
+            relative_rotative_efficiency,
+        } = self.interaction
+        {
+            v.range_open(
+                "interaction.wake_fraction",
+                wake_fraction,
+                0.0,
+                1.0,
+                "a wake fraction from 0 up to (not including) 1",
+            );
+            v.range_open(
+                "interaction.thrust_deduction",
+                thrust_deduction,
+                0.0,
+                1.0,
+                "a thrust deduction from 0 up to (not including) 1",
+            );
+            v.range(
+                "interaction.relative_rotative_efficiency",
+                Some(relative_rotative_efficiency),
+                0.5,
+                1.5,
+                "a relative rotative efficiency from 0.5 to 1.5",
+            );
         }
         let inst = &self.installation;
         if !(inst.gear_ratio > 0.0 && inst.gear_ratio <= 20.0) {
-            v.push("installation.gear_ratio", inst.gear_ratio.to_string(), "expected a reduction ratio above 0 and at most 20 (2.5 for 2.5:1)");
+            v.push(
+                "installation.gear_ratio",
+                inst.gear_ratio.to_string(),
+                "expected a reduction ratio above 0 and at most 20 (2.5 for 2.5:1)",
+            );
         }
         v.efficiency("installation.shaft_efficiency", inst.shaft_efficiency);
         v.efficiency("installation.gear_efficiency", inst.gear_efficiency);
-        v.opt_positive("installation.shaft_immersion", &inst.shaft_immersion, "depth");
-        v.opt_positive("installation.shaft_diameter", &inst.shaft_diameter, "diameter");
-        v.opt_positive("installation.max_screw_diameter", &inst.max_screw_diameter, "diameter");
-        v.opt_not_negative("installation.tip_clearance", &inst.tip_clearance, "clearance");
+        v.opt_positive(
+            "installation.shaft_immersion",
+            &inst.shaft_immersion,
+            "depth",
+        );
+        v.opt_positive(
+            "installation.shaft_diameter",
+            &inst.shaft_diameter,
+            "diameter",
+        );
+        v.opt_positive(
+            "installation.max_screw_diameter",
+            &inst.max_screw_diameter,
+            "diameter",
+        );
+        v.opt_not_negative(
+            "installation.tip_clearance",
+            &inst.tip_clearance,
+            "clearance",
+        );
         if let Some(m) = &inst.shaft_material
             && m.trim().is_empty()
         {
-            v.push("installation.shaft_material", "\"\"", "expected a material name such as \"stainless-316\" or \"bronze\"");
+            v.push(
+                "installation.shaft_material",
+                "\"\"",
+                "expected a material name such as \"stainless-316\" or \"bronze\"",
+            );
         }
         if self.variants.is_empty() {
-            v.push("variant", "", "missing; expected at least one screw variant ([[variant]] table)");
+            v.push(
+                "variant",
+                "",
+                "missing; expected at least one screw variant ([[variant]] table)",
+            );
         }
         for (i, variant) in self.variants.iter().enumerate() {
             let key = format!("variant[{}]", i + 1);
             if variant.label.trim().is_empty() {
-                v.push(format!("{key}.label"), "\"\"", "expected a label for the variant");
+                v.push(
+                    format!("{key}.label"),
+                    "\"\"",
+                    "expected a label for the variant",
+                );
             } else if self.variants[..i].iter().any(|o| o.label == variant.label) {
-                v.push(format!("{key}.label"), format!("{:?}", variant.label), "expected a label not used by another variant");
+                v.push(
+                    format!("{key}.label"),
+                    format!("{:?}", variant.label),
+                    "expected a label not used by another variant",
+                );
             }
             if !(2..=9).contains(&variant.blades) {
-                v.push(format!("{key}.blades"), variant.blades.to_string(), "expected 2 to 9 blades");
+                v.push(
+                    format!("{key}.blades"),
+                    variant.blades.to_string(),
+                    "expected 2 to 9 blades",
+                );
             }
             v.positive(&format!("{key}.diameter"), &variant.diameter, "diameter");
             v.positive(&format!("{key}.pitch"), &variant.pitch, "pitch");
             if !(variant.area_ratio > 0.0 && variant.area_ratio <= 1.5) {
-                v.push(format!("{key}.area_ratio"), variant.area_ratio.to_string(), "expected an expanded area ratio AE/A0 above 0 and at most 1.5");
+                v.push(
+                    format!("{key}.area_ratio"),
+                    variant.area_ratio.to_string(),
+                    "expected an expanded area ratio AE/A0 above 0 and at most 1.5",
+                );
             }
-            v.range_open(&format!("{key}.thickness_ratio"), variant.thickness_ratio.unwrap_or(0.05), 0.0, 0.2, "a blade thickness ratio above 0 and below 0.2");
+            v.range_open(
+                &format!("{key}.thickness_ratio"),
+                variant.thickness_ratio.unwrap_or(0.05),
+                0.0,
+                0.2,
+                "a blade thickness ratio above 0 and below 0.2",
+            );
             if variant.thickness_ratio == Some(0.0) {
-                v.push(format!("{key}.thickness_ratio"), "0", "expected a blade thickness ratio above 0 and below 0.2");
+                v.push(
+                    format!("{key}.thickness_ratio"),
+                    "0",
+                    "expected a blade thickness ratio above 0 and below 0.2",
+                );
             }
             if let Some(rows) = &variant.open_water {
                 if rows.len() < 2 {
-                    v.push(format!("{key}.open_water"), format!("{} row(s)", rows.len()), "expected at least two [J, KT, KQ] rows");
+                    v.push(
+                        format!("{key}.open_water"),
+                        format!("{} row(s)", rows.len()),
+                        "expected at least two [J, KT, KQ] rows",
+                    );
                 }
                 for (k, pair) in rows.windows(2).enumerate() {
                     if pair[1].0 <= pair[0].0 {
-                        v.push(format!("{key}.open_water[{}]", k + 2), pair[1].0.to_string(), "expected rows sorted by increasing J");
+                        v.push(
+                            format!("{key}.open_water[{}]", k + 2),
+                            pair[1].0.to_string(),
+                            "expected rows sorted by increasing J",
+                        );
                     }
                 }
-                if rows.iter().any(|r| r.0 < 0.0 || !(r.0.is_finite() && r.1.is_finite() && r.2.is_finite())) {
-                    v.push(format!("{key}.open_water"), "", "expected finite values with J of zero or more");
+                if rows
+                    .iter()
+                    .any(|r| r.0 < 0.0 || !(r.0.is_finite() && r.1.is_finite() && r.2.is_finite()))
+                {
+                    v.push(
+                        format!("{key}.open_water"),
+                        "",
+                        "expected finite values with J of zero or more",
+                    );
                 }
             }
         }
         if !self.variants.is_empty() && self.active_variant >= self.variants.len() {
-            v.push("active_variant", (self.active_variant + 1).to_string(), "expected the label of a [[variant]]");
+            v.push(
+                "active_variant",
+                (self.active_variant + 1).to_string(),
+                "expected the label of a [[variant]]",
+            );
         }
         v.positive("trip.target_speed", &self.trip.target_speed, "speed");
         v.positive("trip.tank", &self.trip.tank, "volume");
         if !(self.trip.usable_fraction > 0.0 && self.trip.usable_fraction <= 1.0) {
-            v.push("trip.usable_fraction", self.trip.usable_fraction.to_string(), "expected a fraction above 0 and at most 1");
+            v.push(
+                "trip.usable_fraction",
+                self.trip.usable_fraction.to_string(),
+                "expected a fraction above 0 and at most 1",
+            );
         }
-        v.range_open("trip.reserve", self.trip.reserve, 0.0, 1.0, "a reserve fraction from 0 up to (not including) 1");
+        v.range_open(
+            "trip.reserve",
+            self.trip.reserve,
+            0.0,
+            1.0,
+            "a reserve fraction from 0 up to (not including) 1",
+        );
         if let Some(m) = self.match_criteria
             && !(m.under_below > 0.0 && m.under_below < m.over_above && m.over_above <= 2.0)
         {
-            v.push("match.under_below", m.under_below.to_string(), "expected 0 < under_below < over_above ≤ 2");
+            v.push(
+                "match.under_below",
+                m.under_below.to_string(),
+                "expected 0 < under_below < over_above ≤ 2",
+            );
         }
         if let Some(trial) = &self.trial {
             for (i, run) in trial.runs.iter().enumerate() {
@@ -1059,9 +1358,21 @@ impl BoatDoc {
             }
         }
         if let Some(c) = &self.calibration {
-            v.range("calibration.resistance_factor", Some(c.resistance_factor), 0.5, 2.0, "a resistance factor from 0.5 to 2");
+            v.range(
+                "calibration.resistance_factor",
+                Some(c.resistance_factor),
+                0.5,
+                2.0,
+                "a resistance factor from 0.5 to 2",
+            );
             if let Some(w) = c.wake_fraction {
-                v.range_open("calibration.wake_fraction", w, 0.0, 1.0, "a wake fraction from 0 up to (not including) 1");
+                v.range_open(
+                    "calibration.wake_fraction",
+                    w,
+                    0.0,
+                    1.0,
+                    "a wake fraction from 0 up to (not including) 1",
+                );
             }
         }
         v.issues
@@ -1070,13 +1381,21 @@ impl BoatDoc {
     /// The problems as one error (the first), or `Ok` when valid; for documents edited in memory.
     pub fn check(&self) -> Result<(), ProfileError> {
         match self.validate().into_iter().next() {
-            Some(issue) => Err(ProfileError::Invalid { file: self.name.clone(), location: None, issue }),
+            Some(issue) => Err(ProfileError::Invalid {
+                file: self.name.clone(),
+                location: None,
+                issue,
+            }),
             None => Ok(()),
         }
     }
 
     /// Builds the core's `Vessel` for `condition` with `engine`, every value in SI.
-    pub fn to_vessel(&self, engine: &EngineDoc, condition: LoadCondition) -> Result<Vessel, ProfileError> {
+    pub fn to_vessel(
+        &self,
+        engine: &EngineDoc,
+        condition: LoadCondition,
+    ) -> Result<Vessel, ProfileError> {
         self.check()?;
         let invalid = |key: &str, found: String, problem: String| ProfileError::Invalid {
             file: self.name.clone(),
@@ -1092,13 +1411,23 @@ impl BoatDoc {
             )
         })?;
         let water = water::water_properties(self.water.kind, self.water.temperature.value)
-            .map_err(|e| invalid("water.temperature", self.water.temperature.shown(), e.to_string()))?;
+            .map_err(|e| {
+                invalid(
+                    "water.temperature",
+                    self.water.temperature.shown(),
+                    e.to_string(),
+                )
+            })?;
         let h = &self.hull;
         let hull_input = HullInput {
             length_waterline: h.length_waterline.value,
             beam_waterline: h.beam_waterline.value,
             draft_aft: case.draft_aft.as_ref().unwrap_or(&h.draft_aft).value,
-            draft_forward: case.draft_forward.as_ref().unwrap_or(&h.draft_forward).value,
+            draft_forward: case
+                .draft_forward
+                .as_ref()
+                .unwrap_or(&h.draft_forward)
+                .value,
             displacement_volume: case.displacement.value / water.density,
             midship_coefficient: h.midship_coefficient,
             waterplane_coefficient: h.waterplane_coefficient,
@@ -1110,9 +1439,13 @@ impl BoatDoc {
             bulb_centre_height: h.bulb_centre_height.as_ref().map_or(0.0, |q| q.value),
             stern_coefficient: h.stern_coefficient.unwrap_or(0.0),
             appendage_area: h.appendage_area.as_ref().map_or(0.0, |q| q.value),
-            appendage_form_factor: h.appendage_form_factor.unwrap_or(DEFAULT_APPENDAGE_FORM_FACTOR),
+            appendage_form_factor: h
+                .appendage_form_factor
+                .unwrap_or(DEFAULT_APPENDAGE_FORM_FACTOR),
         };
-        let hull = hull_input.resolve().map_err(|e| invalid(hull_error_key(&e, condition), String::new(), e.to_string()))?;
+        let hull = hull_input
+            .resolve()
+            .map_err(|e| invalid(hull_error_key(&e, condition), String::new(), e.to_string()))?;
         let method = match &self.resistance.method {
             ResistanceMethodDoc::HoltropMennen => ResistanceMethod::HoltropMennen,
             ResistanceMethodDoc::Table(rows) => ResistanceMethod::Table(ResistanceTable {
@@ -1144,9 +1477,15 @@ impl BoatDoc {
         let mut interaction = match self.interaction {
             InteractionDoc::Holtrop1984 => InteractionMethod::Holtrop1984SingleScrew,
             InteractionDoc::Taylor => InteractionMethod::Taylor,
-            InteractionDoc::User { wake_fraction, thrust_deduction, relative_rotative_efficiency } => {
-                InteractionMethod::User(Interaction { wake_fraction, thrust_deduction, relative_rotative_efficiency })
-            }
+            InteractionDoc::User {
+                wake_fraction,
+                thrust_deduction,
+                relative_rotative_efficiency,
+            } => InteractionMethod::User(Interaction {
+                wake_fraction,
+                thrust_deduction,
+                relative_rotative_efficiency,
+            }),
         };
         let mut variants = Vec::with_capacity(self.variants.len());
         for (i, v) in self.variants.iter().enumerate() {
@@ -1162,22 +1501,32 @@ impl BoatDoc {
                 Some(rows) => OpenWaterTable::new(
                     geometry,
                     rows.iter()
-                        .map(|&(advance_ratio, thrust_coefficient, torque_coefficient)| OpenWaterPoint {
-                            advance_ratio,
-                            thrust_coefficient,
-                            torque_coefficient,
+                        .map(|&(advance_ratio, thrust_coefficient, torque_coefficient)| {
+                            OpenWaterPoint {
+                                advance_ratio,
+                                thrust_coefficient,
+                                torque_coefficient,
+                            }
                         })
                         .collect(),
                 )
                 .map(ScrewModel::Table),
             }
             .map_err(|e| invalid(&key, format!("{:?}", v.label), e.to_string()))?;
-            variants.push(Variant { label: v.label.clone(), screw });
+            variants.push(Variant {
+                label: v.label.clone(),
+                screw,
+            });
         }
         if let Some(wake_fraction) = calibration.and_then(|c| c.wake_fraction) {
             // A fitted wake replaces the estimate; t and ηR are frozen at the trial's mean speed
             // (the target speed without a log), as the calibration fit does.
-            let speeds: Vec<f64> = self.trial.iter().flat_map(|t| &t.runs).map(|r| r.speed.value).collect();
+            let speeds: Vec<f64> = self
+                .trial
+                .iter()
+                .flat_map(|t| &t.runs)
+                .map(|r| r.speed.value)
+                .collect();
             let at_speed = if speeds.is_empty() {
                 self.trip.target_speed.value
             } else {
@@ -1185,9 +1534,18 @@ impl BoatDoc {
             };
             let active = &variants[self.active_variant];
             let g = active.screw.geometry();
-            let screw = ScrewAtStern { diameter: g.diameter, pitch_ratio: g.pitch_ratio(), area_ratio: g.area_ratio, blades: g.blades };
-            let frozen = interaction.at_speed(&resistance.hull, &resistance.water, &screw, at_speed);
-            interaction = InteractionMethod::User(Interaction { wake_fraction, ..frozen });
+            let screw = ScrewAtStern {
+                diameter: g.diameter,
+                pitch_ratio: g.pitch_ratio(),
+                area_ratio: g.area_ratio,
+                blades: g.blades,
+            };
+            let frozen =
+                interaction.at_speed(&resistance.hull, &resistance.water, &screw, at_speed);
+            interaction = InteractionMethod::User(Interaction {
+                wake_fraction,
+                ..frozen
+            });
         }
         let trip = Trip {
             target_speed: self.trip.target_speed.value,
@@ -1260,24 +1618,40 @@ fn read_hull(r: &mut Reader<'_>, h: &RawHull) -> Result<HullDoc, ProfileError> {
     let (draft_aft, draft_forward) = match (&h.draft, &h.draft_aft, &h.draft_forward) {
         (Some(d), None, None) => {
             let q = r.qty("hull.draft", d, length)?;
-            r.spans.insert("hull.draft_aft".into(), d.span());
-            r.spans.insert("hull.draft_forward".into(), d.span());
+            r.aliases
+                .insert("hull.draft_aft".into(), "hull.draft".into());
+            r.aliases
+                .insert("hull.draft_forward".into(), "hull.draft".into());
             (q.clone(), q)
         }
-        (None, Some(a), Some(f)) => (r.qty("hull.draft_aft", a, length)?, r.qty("hull.draft_forward", f, length)?),
+        (None, Some(a), Some(f)) => (
+            r.qty("hull.draft_aft", a, length)?,
+            r.qty("hull.draft_forward", f, length)?,
+        ),
         (Some(d), _, _) => {
             return Err(r.error(
                 "hull.draft",
                 d.span(),
-                Issue::new("hull.draft", format!("{:?}", d.get_ref()), "expected either `draft` or both `draft_aft` and `draft_forward`, not both"),
+                Issue::new(
+                    "hull.draft",
+                    format!("{:?}", d.get_ref()),
+                    "expected either `draft` or both `draft_aft` and `draft_forward`, not both",
+                ),
             ));
         }
         (None, a, f) => {
-            let span = a.as_ref().or(f.as_ref()).map_or(r.spans.get("hull").cloned().unwrap_or(0..0), |s| s.span());
+            let span = a
+                .as_ref()
+                .or(f.as_ref())
+                .map_or(r.spans.get("hull").cloned().unwrap_or(0..0), |s| s.span());
             return Err(r.error(
                 "hull.draft",
                 span,
-                Issue::new("hull.draft", "", "missing; expected `draft` (even keel) or both `draft_aft` and `draft_forward`"),
+                Issue::new(
+                    "hull.draft",
+                    "",
+                    "missing; expected `draft` (even keel) or both `draft_aft` and `draft_forward`",
+                ),
             ));
         }
     };
@@ -1290,7 +1664,11 @@ fn read_hull(r: &mut Reader<'_>, h: &RawHull) -> Result<HullDoc, ProfileError> {
         waterplane_coefficient: r.opt_num("hull.waterplane_coefficient", &h.waterplane_coefficient),
         lcb_fraction: r.opt_num("hull.lcb_fraction", &h.lcb_fraction),
         wetted_surface: r.opt_qty("hull.wetted_surface", &h.wetted_surface, Kind::Area)?,
-        half_entrance_angle: r.opt_qty("hull.half_entrance_angle", &h.half_entrance_angle, Kind::Angle)?,
+        half_entrance_angle: r.opt_qty(
+            "hull.half_entrance_angle",
+            &h.half_entrance_angle,
+            Kind::Angle,
+        )?,
         transom_area: r.opt_qty("hull.transom_area", &h.transom_area, Kind::Area)?,
         bulb_area: r.opt_qty("hull.bulb_area", &h.bulb_area, Kind::Area)?,
         bulb_centre_height: r.opt_qty("hull.bulb_centre_height", &h.bulb_centre_height, length)?,
@@ -1310,10 +1688,19 @@ fn read_load(r: &mut Reader<'_>, l: &RawLoad) -> Result<LoadDoc, ProfileError> {
         Ok(Some(LoadCase {
             displacement: r.qty(&format!("{key}.displacement"), &c.displacement, Kind::Mass)?,
             draft_aft: r.opt_qty(&format!("{key}.draft_aft"), &c.draft_aft, Kind::Length)?,
-            draft_forward: r.opt_qty(&format!("{key}.draft_forward"), &c.draft_forward, Kind::Length)?,
+            draft_forward: r.opt_qty(
+                &format!("{key}.draft_forward"),
+                &c.draft_forward,
+                Kind::Length,
+            )?,
         }))
     };
-    Ok(LoadDoc { default, light: case("light", &l.light)?, half: case("half", &l.half)?, full: case("full", &l.full)? })
+    Ok(LoadDoc {
+        default,
+        light: case("light", &l.light)?,
+        half: case("half", &l.half)?,
+        full: case("full", &l.full)?,
+    })
 }
 
 fn read_variant(r: &mut Reader<'_>, key: &str, v: &RawVariant) -> Result<VariantDoc, ProfileError> {
@@ -1321,7 +1708,15 @@ fn read_variant(r: &mut Reader<'_>, key: &str, v: &RawVariant) -> Result<Variant
     let blades_key = format!("{key}.blades");
     r.spans.insert(blades_key.clone(), v.blades.span());
     let blades = u32::try_from(*v.blades.get_ref()).map_err(|_| {
-        r.error(&blades_key, v.blades.span(), Issue::new(blades_key.clone(), v.blades.get_ref().to_string(), "expected 2 to 9 blades"))
+        r.error(
+            &blades_key,
+            v.blades.span(),
+            Issue::new(
+                blades_key.clone(),
+                v.blades.get_ref().to_string(),
+                "expected 2 to 9 blades",
+            ),
+        )
     })?;
     let open_water = v.open_water.as_ref().map(|rows| {
         if let Some(first) = rows.first() {
@@ -1330,7 +1725,8 @@ fn read_variant(r: &mut Reader<'_>, key: &str, v: &RawVariant) -> Result<Variant
         rows.iter()
             .enumerate()
             .map(|(i, (j, kt, kq))| {
-                r.spans.insert(format!("{key}.open_water[{}]", i + 1), j.span());
+                r.spans
+                    .insert(format!("{key}.open_water[{}]", i + 1), j.span());
                 (*j.get_ref(), *kt.get_ref(), *kq.get_ref())
             })
             .collect()
@@ -1342,7 +1738,11 @@ fn read_variant(r: &mut Reader<'_>, key: &str, v: &RawVariant) -> Result<Variant
         pitch: r.qty(&format!("{key}.pitch"), &v.pitch, Kind::ScrewLength)?,
         area_ratio: r.num(&format!("{key}.area_ratio"), &v.area_ratio),
         thickness_ratio: r.opt_num(&format!("{key}.thickness_ratio"), &v.thickness_ratio),
-        rotation: v.rotation.as_ref().map(|h| r.choice(&format!("{key}.rotation"), h, &ROTATIONS)).transpose()?,
+        rotation: v
+            .rotation
+            .as_ref()
+            .map(|h| r.choice(&format!("{key}.rotation"), h, &ROTATIONS))
+            .transpose()?,
         open_water,
     })
 }
@@ -1353,7 +1753,12 @@ struct Validator {
 }
 
 impl Validator {
-    fn push(&mut self, key: impl Into<String>, found: impl Into<String>, problem: impl Into<String>) {
+    fn push(
+        &mut self,
+        key: impl Into<String>,
+        found: impl Into<String>,
+        problem: impl Into<String>,
+    ) {
         self.issues.push(Issue::new(key, found, problem));
     }
     fn positive(&mut self, key: &str, q: &Quantity, what: &str) {
@@ -1370,7 +1775,11 @@ impl Validator {
         if let Some(q) = q
             && !(q.value >= 0.0 && q.value.is_finite())
         {
-            self.push(key, q.shown(), format!("expected an {what} of zero or more"));
+            self.push(
+                key,
+                q.shown(),
+                format!("expected an {what} of zero or more"),
+            );
         }
     }
     fn range(&mut self, key: &str, value: Option<f64>, min: f64, max: f64, expected: &str) {
@@ -1387,7 +1796,11 @@ impl Validator {
     }
     fn efficiency(&mut self, key: &str, value: f64) {
         if !(value > 0.5 && value <= 1.0) {
-            self.push(key, value.to_string(), "expected an efficiency above 0.5 and at most 1 (0.97 = 97 %)");
+            self.push(
+                key,
+                value.to_string(),
+                "expected an efficiency above 0.5 and at most 1 (0.97 = 97 %)",
+            );
         }
     }
 }

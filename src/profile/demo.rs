@@ -10,9 +10,18 @@ pub const BOATS: &[(&str, &str)] = &[
 
 /// Demo engine sheets: (profile name, file text).
 pub const ENGINES: &[(&str, &str)] = &[
-    ("brindmoor-3b40", include_str!("../../profiles/engines/brindmoor-3b40.toml")),
-    ("brindmoor-4b62", include_str!("../../profiles/engines/brindmoor-4b62.toml")),
-    ("quellan-qd90", include_str!("../../profiles/engines/quellan-qd90.toml")),
+    (
+        "brindmoor-3b40",
+        include_str!("../../profiles/engines/brindmoor-3b40.toml"),
+    ),
+    (
+        "brindmoor-4b62",
+        include_str!("../../profiles/engines/brindmoor-4b62.toml"),
+    ),
+    (
+        "quellan-qd90",
+        include_str!("../../profiles/engines/quellan-qd90.toml"),
+    ),
 ];
 
 /// The text of demo boat `name`.
@@ -50,7 +59,10 @@ mod tests {
                 .map(|p| p.file_stem().unwrap().to_string_lossy().into_owned())
                 .collect();
             on_disk.sort();
-            assert_eq!(on_disk, names, "profiles/{sub} and the embedded list differ");
+            assert_eq!(
+                on_disk, names,
+                "profiles/{sub} and the embedded list differ"
+            );
         }
     }
 }

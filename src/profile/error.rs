@@ -48,8 +48,16 @@ pub struct Issue {
 
 impl Issue {
     /// An issue at `key` with the value `found` and the explanation `problem`.
-    pub fn new(key: impl Into<String>, found: impl Into<String>, problem: impl Into<String>) -> Self {
-        Self { key: key.into(), found: found.into(), problem: problem.into() }
+    pub fn new(
+        key: impl Into<String>,
+        found: impl Into<String>,
+        problem: impl Into<String>,
+    ) -> Self {
+        Self {
+            key: key.into(),
+            found: found.into(),
+            problem: problem.into(),
+        }
     }
 }
 
@@ -112,7 +120,9 @@ pub enum ProfileError {
         place: String,
     },
     /// A profile name that could escape the store or is unsafe as a file name.
-    #[error("profile name {name:?} is not allowed: {reason}; expected letters, digits, '-', '_' or '.' (not first)")]
+    #[error(
+        "profile name {name:?} is not allowed: {reason}; expected letters, digits, '-', '_' or '.' (not first)"
+    )]
     UnsafeName {
         /// The name given.
         name: String,
@@ -126,7 +136,9 @@ pub enum ProfileError {
         path: PathBuf,
     },
     /// The profile store has no place: no home directory and no `--profiles` or `TIDEWRIGHT_PROFILES`.
-    #[error("no profile directory: no home directory found; give one with --profiles DIR or TIDEWRIGHT_PROFILES")]
+    #[error(
+        "no profile directory: no home directory found; give one with --profiles DIR or TIDEWRIGHT_PROFILES"
+    )]
     NoStoreDirectory,
     /// The store is the read-only demo fleet and cannot be written.
     #[error("the demo fleet is read-only; run `tidewright init` or give --profiles DIR to save")]
@@ -154,18 +166,30 @@ fn key_prefix(key: &Option<String>) -> String {
 }
 
 fn location_prefix(location: &Option<Location>) -> String {
-    location.map(|l| format!("{l}: ")).unwrap_or_else(|| " ".to_owned())
+    location
+        .map(|l| format!("{l}: "))
+        .unwrap_or_else(|| " ".to_owned())
 }
 
 fn searched_list(searched: &[String]) -> String {
-    if searched.is_empty() { "no place (no store)".to_owned() } else { searched.join(", then ") }
+    if searched.is_empty() {
+        "no place (no store)".to_owned()
+    } else {
+        searched.join(", then ")
+    }
 }
 
 impl ProfileError {
     /// A schema error from the `toml` crate, located in `source` and named by its key.
     pub(crate) fn from_toml(file: &str, source: &str, error: &toml::de::Error) -> Self {
         let span = error.span().unwrap_or(0..0);
-        let message = error.message().trim().replace('\n', " ");
+        // Serde names Rust types; say what a user writes instead.
+        let message = error
+            .message()
+            .trim()
+            .replace('\n', " ")
+            .replace("expected i64", "expected a whole number")
+            .replace("expected f64", "expected a plain number");
         Self::Syntax {
             file: file.to_owned(),
             location: Location::of_offset(source, span.start),
@@ -175,7 +199,12 @@ impl ProfileError {
     }
 
     /// An invalid value at byte `span` of `source` (no location when `span` is `None`).
-    pub(crate) fn invalid(file: &str, source: &str, span: Option<Range<usize>>, issue: Issue) -> Self {
+    pub(crate) fn invalid(
+        file: &str,
+        source: &str,
+        span: Option<Range<usize>>,
+        issue: Issue,
+    ) -> Self {
         Self::Invalid {
             file: file.to_owned(),
             location: span.map(|s| Location::of_offset(source, s.start)),
@@ -248,16 +277,26 @@ mod tests {
     #[test]
     fn offsets_become_lines_and_columns() {
         let text = "a = 1\nbé = \"x\"\n";
-        assert_eq!(Location::of_offset(text, 0), Location { line: 1, column: 1 });
-        assert_eq!(Location::of_offset(text, 6), Location { line: 2, column: 1 });
+        assert_eq!(
+            Location::of_offset(text, 0),
+            Location { line: 1, column: 1 }
+        );
+        assert_eq!(
+            Location::of_offset(text, 6),
+            Location { line: 2, column: 1 }
+        );
         // "bé = " is 5 characters but 6 bytes.
-        assert_eq!(Location::of_offset(text, 12), Location { line: 2, column: 6 });
+        assert_eq!(
+            Location::of_offset(text, 12),
+            Location { line: 2, column: 6 }
+        );
         assert_eq!(Location::of_offset(text, 999).line, 3);
     }
 
     #[test]
     fn keys_are_named_with_their_table() {
-        let text = "name = \"x\"\n[hull]\nlength = \"3 q\"\n[[variant]]\na = 1\n[[variant]]\npitch = 2\n";
+        let text =
+            "name = \"x\"\n[hull]\nlength = \"3 q\"\n[[variant]]\na = 1\n[[variant]]\npitch = 2\n";
         let at = |needle: &str| {
             let i = text.find(needle).unwrap();
             key_at(text, &(i..i + 1))
@@ -272,8 +311,15 @@ mod tests {
     fn display_names_file_line_key_and_expectation() {
         let err = ProfileError::Invalid {
             file: "boats/kestrel.toml".into(),
-            location: Some(Location { line: 12, column: 9 }),
-            issue: Issue::new("hull.length", "\"11.2 q\"", "unknown unit \"q\"; expected a length in m, ft"),
+            location: Some(Location {
+                line: 12,
+                column: 9,
+            }),
+            issue: Issue::new(
+                "hull.length",
+                "\"11.2 q\"",
+                "unknown unit \"q\"; expected a length in m, ft",
+            ),
         };
         assert_eq!(
             err.to_string(),

@@ -20,12 +20,18 @@ pub struct Quantity {
 impl Quantity {
     /// A quantity with `value` in its kind's internal unit (e.g. set by an editor).
     pub fn new(value: f64) -> Self {
-        Self { value, written: None }
+        Self {
+            value,
+            written: None,
+        }
     }
 
     /// A quantity parsed from `text`, which gave `value`.
     pub(crate) fn parsed(value: f64, text: &str) -> Self {
-        Self { value, written: Some((value, text.to_owned())) }
+        Self {
+            value,
+            written: Some((value, text.to_owned())),
+        }
     }
 
     /// The text to write to a file: the original text if unchanged, else formatted in `system`.
@@ -66,21 +72,37 @@ pub(crate) struct Reader<'a> {
     pub source: &'a str,
     /// Byte span of the value of each dotted key read so far.
     pub spans: HashMap<String, Range<usize>>,
+    /// Keys of the document written under another key in the file (e.g. `hull.draft`).
+    pub aliases: HashMap<String, String>,
 }
 
 impl<'a> Reader<'a> {
     /// A reader for `source`, shown in messages as `file`.
     pub fn new(file: &'a str, source: &'a str) -> Self {
-        Self { file, source, spans: HashMap::new() }
+        Self {
+            file,
+            source,
+            spans: HashMap::new(),
+            aliases: HashMap::new(),
+        }
     }
 
     /// Parses a quantity string of `kind` at `key`.
-    pub fn qty(&mut self, key: &str, raw: &Spanned<String>, kind: Kind) -> Result<Quantity, ProfileError> {
+    pub fn qty(
+        &mut self,
+        key: &str,
+        raw: &Spanned<String>,
+        kind: Kind,
+    ) -> Result<Quantity, ProfileError> {
         self.spans.insert(key.to_owned(), raw.span());
         let text = raw.get_ref();
         match units::parse(text, kind) {
             Ok(value) if value.is_finite() => Ok(Quantity::parsed(value, text)),
-            Ok(_) => Err(self.error(key, raw.span(), Issue::new(key, format!("{text:?}"), "expected a finite number"))),
+            Ok(_) => Err(self.error(
+                key,
+                raw.span(),
+                Issue::new(key, format!("{text:?}"), "expected a finite number"),
+            )),
             Err(e) => {
                 let (offset, problem) = describe_unit_error(&e);
                 // Point at the offending character inside the quoted string (+1 for the quote).
@@ -118,13 +140,30 @@ impl<'a> Reader<'a> {
     }
 
     /// Reads one of the `choices` (file spelling → value) at `key`.
-    pub fn choice<T: Copy>(&mut self, key: &str, raw: &Spanned<String>, choices: &[(&str, T)]) -> Result<T, ProfileError> {
+    pub fn choice<T: Copy>(
+        &mut self,
+        key: &str,
+        raw: &Spanned<String>,
+        choices: &[(&str, T)],
+    ) -> Result<T, ProfileError> {
         self.spans.insert(key.to_owned(), raw.span());
         let text = raw.get_ref();
-        choices.iter().find(|(name, _)| name == text).map(|(_, v)| *v).ok_or_else(|| {
-            let names: Vec<String> = choices.iter().map(|(n, _)| format!("{n:?}")).collect();
-            self.error(key, raw.span(), Issue::new(key, format!("{text:?}"), format!("expected one of {}", names.join(", "))))
-        })
+        choices
+            .iter()
+            .find(|(name, _)| name == text)
+            .map(|(_, v)| *v)
+            .ok_or_else(|| {
+                let names: Vec<String> = choices.iter().map(|(n, _)| format!("{n:?}")).collect();
+                self.error(
+                    key,
+                    raw.span(),
+                    Issue::new(
+                        key,
+                        format!("{text:?}"),
+                        format!("expected one of {}", names.join(", ")),
+                    ),
+                )
+            })
     }
 
     /// An invalid-value error at `span`.
@@ -133,7 +172,10 @@ impl<'a> Reader<'a> {
     }
 
     /// Turns a document issue into an error located at its key (or the nearest enclosing key).
-    pub fn locate(&self, issue: Issue) -> ProfileError {
+    pub fn locate(&self, mut issue: Issue) -> ProfileError {
+        if let Some(alias) = self.aliases.get(&issue.key) {
+            issue.key = alias.clone();
+        }
         let mut key = issue.key.as_str();
         let span = loop {
             if let Some(span) = self.spans.get(key) {
@@ -141,7 +183,8 @@ impl<'a> Reader<'a> {
             }
             match key.rfind(['.', '[']) {
                 Some(i) => key = &key[..i],
-                None => break None,
+                // Nothing to point at (a missing table): point at the end, where it would go.
+                None => break Some(self.source.len()..self.source.len()),
             }
         };
         ProfileError::invalid(self.file, self.source, span, issue)
@@ -152,22 +195,37 @@ impl<'a> Reader<'a> {
 fn describe_unit_error(error: &UnitError) -> (usize, String) {
     match error {
         UnitError::NoNumber { position, .. } => (*position, "expected a number first".to_owned()),
-        UnitError::MissingUnit { kind_name, examples, .. } => {
-            (0, format!("no unit; expected {kind_name} with a unit such as {examples}"))
-        }
-        UnitError::UnknownUnit { unit, position, kind_name, examples, .. } => {
-            (*position, format!("unknown unit {unit:?}; expected {kind_name} in {examples}"))
-        }
-        UnitError::Trailing { rest, position, .. } => {
-            (*position, format!("unexpected {rest:?} after the quantity; expected one value with its unit"))
-        }
+        UnitError::MissingUnit {
+            kind_name,
+            examples,
+            ..
+        } => (
+            0,
+            format!("no unit; expected {kind_name} with a unit such as {examples}"),
+        ),
+        UnitError::UnknownUnit {
+            unit,
+            position,
+            kind_name,
+            examples,
+            ..
+        } => (
+            *position,
+            format!("unknown unit {unit:?}; expected {kind_name} in {examples}"),
+        ),
+        UnitError::Trailing { rest, position, .. } => (
+            *position,
+            format!("unexpected {rest:?} after the quantity; expected one value with its unit"),
+        ),
         #[allow(unreachable_patterns)]
         other => (0, other.to_string()),
     }
 }
 
 fn char_offset_to_byte(text: &str, chars: usize) -> usize {
-    text.char_indices().nth(chars).map_or(text.len(), |(i, _)| i)
+    text.char_indices()
+        .nth(chars)
+        .map_or(text.len(), |(i, _)| i)
 }
 
 /// Writes a quantity as a spanned string for serialisation.
@@ -192,14 +250,21 @@ pub(crate) fn guess_system<'t>(texts: impl Iterator<Item = &'t str>) -> UnitSyst
     const NEUTRAL: &[&str] = &["kn", "kt", "rpm", "h", "min", "s", "nm", "deg", "C"];
     let (mut imperial, mut metric) = (0, 0);
     for text in texts {
-        let words: Vec<&str> = text.split(|c: char| !c.is_alphabetic()).filter(|w| !w.is_empty()).collect();
+        let words: Vec<&str> = text
+            .split(|c: char| !c.is_alphabetic())
+            .filter(|w| !w.is_empty())
+            .collect();
         if text.contains(['\'', '"']) || words.iter().any(|w| IMPERIAL.contains(w)) {
             imperial += 1;
         } else if words.iter().any(|w| !NEUTRAL.contains(w)) {
             metric += 1;
         }
     }
-    if imperial > metric { UnitSystem::Imperial } else { UnitSystem::Metric }
+    if imperial > metric {
+        UnitSystem::Imperial
+    } else {
+        UnitSystem::Metric
+    }
 }
 
 #[cfg(test)]

@@ -39,7 +39,11 @@ impl FileStamp {
     pub fn of(bytes: &[u8], modified: Option<SystemTime>) -> Self {
         let mut hasher = std::collections::hash_map::DefaultHasher::new();
         bytes.hash(&mut hasher);
-        Self { modified, len: bytes.len() as u64, hash: hasher.finish() }
+        Self {
+            modified,
+            len: bytes.len() as u64,
+            hash: hasher.finish(),
+        }
     }
 
     /// Whether `bytes` is the same content this stamp was taken of.
@@ -115,7 +119,12 @@ pub struct Store {
 
 /// Refuses names that could leave the store or misbehave as file names.
 pub fn check_name(name: &str) -> Result<(), ProfileError> {
-    let refuse = |reason| Err(ProfileError::UnsafeName { name: name.to_owned(), reason });
+    let refuse = |reason| {
+        Err(ProfileError::UnsafeName {
+            name: name.to_owned(),
+            reason,
+        })
+    };
     if name.is_empty() {
         return refuse("it is empty");
     }
@@ -134,7 +143,10 @@ pub fn check_name(name: &str) -> Result<(), ProfileError> {
     if name.chars().any(char::is_control) {
         return refuse("it contains a control character");
     }
-    if !name.chars().all(|c| c.is_ascii_alphanumeric() || matches!(c, '-' | '_' | '.')) {
+    if !name
+        .chars()
+        .all(|c| c.is_ascii_alphanumeric() || matches!(c, '-' | '_' | '.'))
+    {
         return refuse("it contains a character other than letters, digits, '-', '_' and '.'");
     }
     let stem = name.split('.').next().unwrap_or(name).to_ascii_lowercase();
@@ -149,12 +161,18 @@ pub fn check_name(name: &str) -> Result<(), ProfileError> {
 }
 
 fn read_file(path: &Path) -> Result<(String, FileStamp), ProfileError> {
-    let read_error = |source| ProfileError::Read { path: path.to_owned(), source };
+    let read_error = |source| ProfileError::Read {
+        path: path.to_owned(),
+        source,
+    };
     let bytes = std::fs::read(path).map_err(read_error)?;
     let modified = std::fs::metadata(path).and_then(|m| m.modified()).ok();
     let stamp = FileStamp::of(&bytes, modified);
     let text = String::from_utf8(bytes).map_err(|e| {
-        read_error(std::io::Error::new(std::io::ErrorKind::InvalidData, format!("not UTF-8 text: {e}")))
+        read_error(std::io::Error::new(
+            std::io::ErrorKind::InvalidData,
+            format!("not UTF-8 text: {e}"),
+        ))
     })?;
     Ok((text, stamp))
 }
@@ -163,18 +181,34 @@ fn read_file(path: &Path) -> Result<(String, FileStamp), ProfileError> {
 pub fn load_boat_file(path: &Path) -> Result<Loaded<BoatDoc>, ProfileError> {
     let (text, stamp) = read_file(path)?;
     let doc = BoatDoc::from_toml(&text, &path.display().to_string())?;
-    Ok(Loaded { name: stem(path), doc, origin: Origin::File { path: path.to_owned(), stamp } })
+    Ok(Loaded {
+        name: stem(path),
+        doc,
+        origin: Origin::File {
+            path: path.to_owned(),
+            stamp,
+        },
+    })
 }
 
 /// Loads an engine sheet from `path` (not through a store).
 pub fn load_engine_file(path: &Path) -> Result<Loaded<EngineDoc>, ProfileError> {
     let (text, stamp) = read_file(path)?;
     let doc = EngineDoc::from_toml(&text, &path.display().to_string())?;
-    Ok(Loaded { name: stem(path), doc, origin: Origin::File { path: path.to_owned(), stamp } })
+    Ok(Loaded {
+        name: stem(path),
+        doc,
+        origin: Origin::File {
+            path: path.to_owned(),
+            stamp,
+        },
+    })
 }
 
 fn stem(path: &Path) -> String {
-    path.file_stem().map(|s| s.to_string_lossy().into_owned()).unwrap_or_default()
+    path.file_stem()
+        .map(|s| s.to_string_lossy().into_owned())
+        .unwrap_or_default()
 }
 
 /// Whether a BOAT argument is a path to a file rather than a name in the store.
@@ -185,22 +219,25 @@ pub fn is_path_argument(arg: &str) -> bool {
 impl Store {
     /// The store at `root` (it need not exist yet).
     pub fn at(root: impl Into<PathBuf>) -> Self {
-        Self { root: Some(root.into()) }
+        Self {
+            root: Some(root.into()),
+        }
     }
 
     /// The store chosen by the `--profiles` flag, else `TIDEWRIGHT_PROFILES`, else the
     /// platform's data directory for "tidewright" (e.g. `~/.local/share/tidewright` on Linux).
     pub fn locate(flag: Option<&Path>) -> Self {
-        let env = std::env::var_os(ENV_VAR).filter(|v| !v.is_empty()).map(PathBuf::from);
+        let env = std::env::var_os(ENV_VAR)
+            .filter(|v| !v.is_empty())
+            .map(PathBuf::from);
         Self::choose(flag, env)
     }
 
     /// The store from an explicit flag and environment value (for testing `locate`'s order).
     pub fn choose(flag: Option<&Path>, env: Option<PathBuf>) -> Self {
-        let root = flag
-            .map(Path::to_owned)
-            .or(env)
-            .or_else(|| directories::ProjectDirs::from("", "", "tidewright").map(|d| d.data_dir().to_owned()));
+        let root = flag.map(Path::to_owned).or(env).or_else(|| {
+            directories::ProjectDirs::from("", "", "tidewright").map(|d| d.data_dir().to_owned())
+        });
         Self { root }
     }
 
@@ -221,13 +258,17 @@ impl Store {
     /// The file a boat of this name lives in (whether or not it exists).
     pub fn boat_path(&self, name: &str) -> Result<PathBuf, ProfileError> {
         check_name(name)?;
-        self.folder(BOATS_DIR).map(|d| d.join(format!("{name}.{EXTENSION}"))).ok_or(ProfileError::NoStoreDirectory)
+        self.folder(BOATS_DIR)
+            .map(|d| d.join(format!("{name}.{EXTENSION}")))
+            .ok_or(ProfileError::NoStoreDirectory)
     }
 
     /// The file an engine sheet of this name lives in (whether or not it exists).
     pub fn engine_path(&self, name: &str) -> Result<PathBuf, ProfileError> {
         check_name(name)?;
-        self.folder(ENGINES_DIR).map(|d| d.join(format!("{name}.{EXTENSION}"))).ok_or(ProfileError::NoStoreDirectory)
+        self.folder(ENGINES_DIR)
+            .map(|d| d.join(format!("{name}.{EXTENSION}")))
+            .ok_or(ProfileError::NoStoreDirectory)
     }
 
     fn place(&self) -> String {
@@ -241,11 +282,16 @@ impl Store {
         if self.uses_demo() {
             return Ok(demo_names.into_iter().map(str::to_owned).collect());
         }
-        let Some(dir) = self.folder(sub) else { return Ok(Vec::new()) };
+        let Some(dir) = self.folder(sub) else {
+            return Ok(Vec::new());
+        };
         if !dir.is_dir() {
             return Ok(Vec::new());
         }
-        let entries = std::fs::read_dir(&dir).map_err(|source| ProfileError::Read { path: dir.clone(), source })?;
+        let entries = std::fs::read_dir(&dir).map_err(|source| ProfileError::Read {
+            path: dir.clone(),
+            source,
+        })?;
         let mut names: Vec<String> = entries
             .filter_map(Result::ok)
             .map(|e| e.path())
@@ -273,7 +319,13 @@ impl Store {
         if self.uses_demo() {
             let text = demo::boat(name).ok_or_else(|| self.not_found("boat", name))?;
             let doc = BoatDoc::from_toml(text, &format!("demo:{BOATS_DIR}/{name}.{EXTENSION}"))?;
-            return Ok(Loaded { name: name.to_owned(), doc, origin: Origin::Demo { name: name.to_owned() } });
+            return Ok(Loaded {
+                name: name.to_owned(),
+                doc,
+                origin: Origin::Demo {
+                    name: name.to_owned(),
+                },
+            });
         }
         let path = self.boat_path(name)?;
         if !path.is_file() {
@@ -287,8 +339,15 @@ impl Store {
         check_name(name)?;
         if self.uses_demo() {
             let text = demo::engine(name).ok_or_else(|| self.not_found("engine sheet", name))?;
-            let doc = EngineDoc::from_toml(text, &format!("demo:{ENGINES_DIR}/{name}.{EXTENSION}"))?;
-            return Ok(Loaded { name: name.to_owned(), doc, origin: Origin::Demo { name: name.to_owned() } });
+            let doc =
+                EngineDoc::from_toml(text, &format!("demo:{ENGINES_DIR}/{name}.{EXTENSION}"))?;
+            return Ok(Loaded {
+                name: name.to_owned(),
+                doc,
+                origin: Origin::Demo {
+                    name: name.to_owned(),
+                },
+            });
         }
         let path = self.engine_path(name)?;
         if !path.is_file() {
@@ -298,12 +357,23 @@ impl Store {
     }
 
     fn not_found(&self, kind: &'static str, name: &str) -> ProfileError {
-        ProfileError::NotFound { kind, name: name.to_owned(), place: self.place() }
+        ProfileError::NotFound {
+            kind,
+            name: name.to_owned(),
+            place: self.place(),
+        }
     }
 
     /// Resolves a BOAT argument (a name in the store or a path to a boat file) with its engine.
-    pub fn resolve_boat(&self, arg: &str) -> Result<(Loaded<BoatDoc>, Loaded<EngineDoc>), ProfileError> {
-        let boat = if is_path_argument(arg) { load_boat_file(Path::new(arg))? } else { self.load_boat(arg)? };
+    pub fn resolve_boat(
+        &self,
+        arg: &str,
+    ) -> Result<(Loaded<BoatDoc>, Loaded<EngineDoc>), ProfileError> {
+        let boat = if is_path_argument(arg) {
+            load_boat_file(Path::new(arg))?
+        } else {
+            self.load_boat(arg)?
+        };
         let engine = self.engine_for(&boat)?;
         Ok((boat, engine))
     }
@@ -316,7 +386,11 @@ impl Store {
         let mut searched = Vec::new();
         let file = match &boat.origin {
             Origin::File { path, .. } => {
-                let beside = path.parent().and_then(Path::parent).unwrap_or(Path::new(".")).join(ENGINES_DIR);
+                let beside = path
+                    .parent()
+                    .and_then(Path::parent)
+                    .unwrap_or(Path::new("."))
+                    .join(ENGINES_DIR);
                 let candidate = beside.join(format!("{name}.{EXTENSION}"));
                 if candidate.is_file() {
                     return load_engine_file(&candidate);
@@ -329,7 +403,11 @@ impl Store {
         match self.load_engine(name) {
             Err(ProfileError::NotFound { place, .. }) => {
                 searched.push(place);
-                Err(ProfileError::EngineMissing { file, engine: name.clone(), searched })
+                Err(ProfileError::EngineMissing {
+                    file,
+                    engine: name.clone(),
+                    searched,
+                })
             }
             other => other,
         }
@@ -357,32 +435,73 @@ impl Store {
     /// Saves `doc` as boat `name`; `loaded` is the stamp from when it was loaded (`None` for a
     /// new boat or one from the demo). Refuses an invalid document or a file changed on disk
     /// since (unless `force`).
-    pub fn save_boat(&self, name: &str, doc: &BoatDoc, loaded: Option<&FileStamp>, force: bool) -> Result<Saved, ProfileError> {
+    pub fn save_boat(
+        &self,
+        name: &str,
+        doc: &BoatDoc,
+        loaded: Option<&FileStamp>,
+        force: bool,
+    ) -> Result<Saved, ProfileError> {
         self.prepare_boat(name, doc, loaded, force)?.commit()
     }
 
     /// Saves `doc` as engine sheet `name`, as [`Store::save_boat`] does.
-    pub fn save_engine(&self, name: &str, doc: &EngineDoc, loaded: Option<&FileStamp>, force: bool) -> Result<Saved, ProfileError> {
+    pub fn save_engine(
+        &self,
+        name: &str,
+        doc: &EngineDoc,
+        loaded: Option<&FileStamp>,
+        force: bool,
+    ) -> Result<Saved, ProfileError> {
         if let Some(issue) = doc.validate().into_iter().next() {
-            return Err(ProfileError::Invalid { file: format!("{ENGINES_DIR}/{name}.{EXTENSION}"), location: None, issue });
+            return Err(ProfileError::Invalid {
+                file: format!("{ENGINES_DIR}/{name}.{EXTENSION}"),
+                location: None,
+                issue,
+            });
         }
-        PendingSave::prepare(&self.engine_path(name)?, doc.to_toml().as_bytes(), loaded, force)?.commit()
+        PendingSave::prepare(
+            &self.engine_path(name)?,
+            doc.to_toml().as_bytes(),
+            loaded,
+            force,
+        )?
+        .commit()
     }
 
     /// Validates and writes the boat's temporary file, ready to [`PendingSave::commit`].
-    pub fn prepare_boat(&self, name: &str, doc: &BoatDoc, loaded: Option<&FileStamp>, force: bool) -> Result<PendingSave, ProfileError> {
+    pub fn prepare_boat(
+        &self,
+        name: &str,
+        doc: &BoatDoc,
+        loaded: Option<&FileStamp>,
+        force: bool,
+    ) -> Result<PendingSave, ProfileError> {
         let path = self.boat_path(name)?;
         if let Some(issue) = doc.validate().into_iter().next() {
-            return Err(ProfileError::Invalid { file: path.display().to_string(), location: None, issue });
+            return Err(ProfileError::Invalid {
+                file: path.display().to_string(),
+                location: None,
+                issue,
+            });
         }
         PendingSave::prepare(&path, doc.to_toml().as_bytes(), loaded, force)
     }
 }
 
 /// Saves a boat to an explicit file (a boat opened by path), as [`Store::save_boat`] does.
-pub fn save_boat_file(path: &Path, doc: &BoatDoc, loaded: Option<&FileStamp>, force: bool) -> Result<Saved, ProfileError> {
+pub fn save_boat_file(
+    path: &Path,
+    doc: &BoatDoc,
+    loaded: Option<&FileStamp>,
+    force: bool,
+) -> Result<Saved, ProfileError> {
     if let Some(issue) = doc.validate().into_iter().next() {
-        return Err(ProfileError::Invalid { file: path.display().to_string(), location: None, issue });
+        return Err(ProfileError::Invalid {
+            file: path.display().to_string(),
+            location: None,
+            issue,
+        });
     }
     PendingSave::prepare(path, doc.to_toml().as_bytes(), loaded, force)?.commit()
 }
@@ -398,13 +517,29 @@ pub struct PendingSave {
 
 impl PendingSave {
     /// Checks for changes on disk and writes `contents` to a synced temporary file.
-    pub fn prepare(path: &Path, contents: &[u8], loaded: Option<&FileStamp>, force: bool) -> Result<Self, ProfileError> {
-        let write_error = |source| ProfileError::Write { path: path.to_owned(), source };
-        let dir = path.parent().filter(|p| !p.as_os_str().is_empty()).unwrap_or(Path::new("."));
+    pub fn prepare(
+        path: &Path,
+        contents: &[u8],
+        loaded: Option<&FileStamp>,
+        force: bool,
+    ) -> Result<Self, ProfileError> {
+        let write_error = |source| ProfileError::Write {
+            path: path.to_owned(),
+            source,
+        };
+        let dir = path
+            .parent()
+            .filter(|p| !p.as_os_str().is_empty())
+            .unwrap_or(Path::new("."));
         let previous = match std::fs::read(path) {
             Ok(bytes) => Some(bytes),
             Err(e) if e.kind() == std::io::ErrorKind::NotFound => None,
-            Err(source) => return Err(ProfileError::Read { path: path.to_owned(), source }),
+            Err(source) => {
+                return Err(ProfileError::Read {
+                    path: path.to_owned(),
+                    source,
+                });
+            }
         };
         let changed = match (loaded, &previous) {
             (Some(stamp), Some(now)) => !stamp.same_content(now),
@@ -413,20 +548,38 @@ impl PendingSave {
             (None, None) => false,
         };
         if changed && !force {
-            return Err(ProfileError::ChangedOnDisk { path: path.to_owned() });
+            return Err(ProfileError::ChangedOnDisk {
+                path: path.to_owned(),
+            });
         }
         std::fs::create_dir_all(dir).map_err(write_error)?;
-        let mut temp = tempfile::Builder::new().prefix(".tidewright-").suffix(".tmp").tempfile_in(dir).map_err(write_error)?;
+        let mut temp = tempfile::Builder::new()
+            .prefix(".tidewright-")
+            .suffix(".tmp")
+            .tempfile_in(dir)
+            .map_err(write_error)?;
         temp.write_all(contents).map_err(write_error)?;
         temp.as_file().sync_all().map_err(write_error)?;
-        Ok(Self { path: path.to_owned(), temp, previous })
+        Ok(Self {
+            path: path.to_owned(),
+            temp,
+            previous,
+        })
     }
 
     /// Keeps the previous version as `NAME.toml.bak`, renames the new file into place and
     /// syncs the directory.
     pub fn commit(self) -> Result<Saved, ProfileError> {
-        let write_error = |path: &Path, source| ProfileError::Write { path: path.to_owned(), source };
-        let dir = self.path.parent().filter(|p| !p.as_os_str().is_empty()).unwrap_or(Path::new(".")).to_owned();
+        let write_error = |path: &Path, source| ProfileError::Write {
+            path: path.to_owned(),
+            source,
+        };
+        let dir = self
+            .path
+            .parent()
+            .filter(|p| !p.as_os_str().is_empty())
+            .unwrap_or(Path::new("."))
+            .to_owned();
         let backup = match &self.previous {
             Some(bytes) => {
                 let mut name = self.path.file_name().unwrap_or_default().to_owned();
@@ -438,20 +591,30 @@ impl PendingSave {
                     .tempfile_in(&dir)
                     .map_err(|e| write_error(&backup, e))?;
                 temp.write_all(bytes).map_err(|e| write_error(&backup, e))?;
-                temp.as_file().sync_all().map_err(|e| write_error(&backup, e))?;
-                temp.persist(&backup).map_err(|e| write_error(&backup, e.error))?;
+                temp.as_file()
+                    .sync_all()
+                    .map_err(|e| write_error(&backup, e))?;
+                temp.persist(&backup)
+                    .map_err(|e| write_error(&backup, e.error))?;
                 Some(backup)
             }
             None => None,
         };
-        let file = self.temp.persist(&self.path).map_err(|e| write_error(&self.path, e.error))?;
+        let file = self
+            .temp
+            .persist(&self.path)
+            .map_err(|e| write_error(&self.path, e.error))?;
         drop(file);
         // Make the rename itself durable; not every platform can open a directory.
         if let Ok(d) = std::fs::File::open(&dir) {
             let _ = d.sync_all();
         }
         let (_, stamp) = read_file(&self.path)?;
-        Ok(Saved { path: self.path, backup, stamp })
+        Ok(Saved {
+            path: self.path,
+            backup,
+            stamp,
+        })
     }
 }
 
