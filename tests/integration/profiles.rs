@@ -496,3 +496,34 @@ fn demo_boats_build_vessels_in_every_condition_they_give() {
             > light.resistance.hull.input.displacement_volume
     );
 }
+
+/// The demo fleet's screw variants come out as their labels intend (invented scenario: the
+/// intended verdicts are the scenario's design, not reference values).
+#[test]
+fn demo_screw_variants_get_their_intended_verdicts() {
+    use tidewright::propulsion::solver::Verdict;
+    use tidewright::propulsion::solver::matching::match_engine;
+    let intended: &[(&str, &str, Verdict)] = &[
+        ("marram", "old 26x21", Verdict::Over),
+        ("marram", "re-pitched 26x18", Verdict::Matched),
+        ("marram", "flat 26x15", Verdict::Under),
+        ("pintle", "current 450x310", Verdict::Matched),
+        ("sorrel", "current 19x15", Verdict::Matched),
+    ];
+    let demo = Store::at("/nonexistent");
+    for (boat, label, verdict) in intended {
+        let (b, e) = demo.resolve_boat(boat).unwrap();
+        let vessel = b.doc.to_default_vessel(&e.doc).unwrap();
+        let index = vessel
+            .variants
+            .iter()
+            .position(|v| v.label == *label)
+            .unwrap();
+        let result = match_engine(&vessel.system(index), &vessel.match_criteria).unwrap();
+        assert_eq!(
+            result.verdict, *verdict,
+            "{boat} {label}: absorbed {:.3}",
+            result.absorbed_fraction_at_rated
+        );
+    }
+}
