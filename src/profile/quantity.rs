@@ -26,6 +26,12 @@ impl Quantity {
         }
     }
 
+    /// A quantity typed by the user as `text` (e.g. "19 in"); it is saved as typed.
+    pub fn from_text(text: &str, kind: Kind) -> Result<Self, UnitError> {
+        let value = units::parse(text, kind)?;
+        Ok(Self::parsed(value, text.trim()))
+    }
+
     /// A quantity parsed from `text`, which gave `value`.
     pub(crate) fn parsed(value: f64, text: &str) -> Self {
         Self {
@@ -275,6 +281,14 @@ mod tests {
     fn equality_ignores_how_the_value_was_written() {
         assert_eq!(Quantity::parsed(0.3048, "1 ft"), Quantity::new(0.3048));
         assert_ne!(Quantity::parsed(0.3048, "1 ft"), Quantity::new(0.3));
+    }
+
+    #[test]
+    fn typed_values_are_saved_as_typed() {
+        let q = Quantity::from_text(" 19 in ", Kind::ScrewLength).unwrap();
+        assert!((q.value - 19.0 * 0.0254).abs() < 1e-12);
+        assert_eq!(q.file_text(Kind::ScrewLength, UnitSystem::Metric), "19 in");
+        assert!(Quantity::from_text("19 kg", Kind::ScrewLength).is_err());
     }
 
     #[test]
