@@ -3,5 +3,17 @@
 //!
 //! Each proptest runs a bounded number of cases so that the whole module stays fast in debug.
 
+use proptest::test_runner::Config;
+
 mod screw;
 mod units;
+
+/// The proptest configuration of this module: `cases` cases, and no regression files written
+/// into the source tree (a failure found here becomes a named test instead).
+fn cases(cases: u32) -> Config {
+    Config {
+        cases,
+        failure_persistence: None,
+        ..Config::default()
+    }
+}

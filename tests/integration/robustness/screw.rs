@@ -39,7 +39,7 @@ fn reynolds() -> impl Strategy<Value = Option<f64>> {
 }
 
 proptest! {
-    #![proptest_config(ProptestConfig::with_cases(256))]
+    #![proptest_config(super::cases(256))]
 
     #[test]
     fn in_range_screws_are_finite_and_kt_falls_with_j(

@@ -119,7 +119,7 @@ fn check(text: &str, kind: Kind) -> Result<(), TestCaseError> {
 }
 
 proptest! {
-    #![proptest_config(ProptestConfig::with_cases(256))]
+    #![proptest_config(super::cases(256))]
 
     // Any printable text, every kind.
     #[test]
