@@ -6,6 +6,7 @@
 use proptest::test_runner::Config;
 
 mod screw;
+mod store;
 mod units;
 
 /// The proptest configuration of this module: `cases` cases, and no regression files written
