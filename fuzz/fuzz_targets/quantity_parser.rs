@@ -44,7 +44,10 @@ fuzz_target!(|data: &[u8]| {
                 UnitError::NoNumber { position, .. }
                 | UnitError::UnknownUnit { position, .. }
                 | UnitError::Trailing { position, .. },
-            ) => assert!(position <= length, "{text:?}: position {position} past the end"),
+            ) => assert!(
+                position <= length,
+                "{text:?}: position {position} past the end"
+            ),
             Err(UnitError::MissingUnit { .. } | UnitError::NotFinite { .. }) => {}
         }
     }

@@ -5,6 +5,7 @@
 
 use proptest::test_runner::Config;
 
+mod loader;
 mod screw;
 mod store;
 mod units;
