@@ -7,6 +7,7 @@ use proptest::test_runner::Config;
 
 mod loader;
 mod screw;
+mod solver;
 mod store;
 mod units;
 
