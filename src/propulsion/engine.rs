@@ -154,7 +154,8 @@ impl RpmCurve {
 /// fraction along it, clamped to [0, 1] at the grid's ends.
 fn segment(len: usize, abscissa: impl Fn(usize) -> f64, x: f64) -> (usize, f64) {
     debug_assert!(len >= 2);
-    if !(x > abscissa(0)) {
+    // A NaN lands here too, on the first point.
+    if x.is_nan() || x <= abscissa(0) {
         return (0, 0.0);
     }
     if x >= abscissa(len - 1) {
