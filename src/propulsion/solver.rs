@@ -244,15 +244,9 @@ mod tests {
 
     #[test]
     fn brent_reports_the_iteration_cap() {
-        let f = |x: f64| Ok::<_, Infallible>(x - 0.123456789);
-        let outcome = brent(
-            f,
-            (0.0, -0.123456789),
-            (1.0, 0.876543211),
-            |_, _| false,
-            0.0,
-            3,
-        );
+        let g = |x: f64| (x - 0.3f64).powi(9) + 1e-3 * (x - 0.3);
+        let f = |x: f64| Ok::<_, Infallible>(g(x));
+        let outcome = brent(f, (0.0, g(0.0)), (4.0, g(4.0)), |_, _| false, 0.0, 3);
         assert_eq!(
             outcome.unwrap(),
             RootOutcome::IterationCap { iterations: 3 }
