@@ -106,6 +106,9 @@ pub enum PointFailure {
         /// The value it came out as.
         value: f64,
     },
+    /// The engine sheet is unusable.
+    #[error("engine sheet: {0}")]
+    Engine(#[from] crate::propulsion::engine::EngineError),
     /// No boat speed up to the largest considered turns the engine at the requested rpm.
     #[error(
         "the engine does not reach {engine_rpm:.0} rpm at any speed up to {max_speed:.2} m/s \
