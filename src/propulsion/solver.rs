@@ -14,7 +14,7 @@ pub use curve::PropellerCurve;
 pub use matching::{MatchCriteria, MatchResult, Verdict};
 pub use point::{Drive, OperatingPoint, PointFailure};
 pub use trial::{RunDirection, TrialRun};
-pub use vessel::{Variant, Vessel};
+pub use vessel::{OperatingRow, Variant, Vessel};
 
 use crate::propulsion::engine::EngineSheet;
 use crate::propulsion::hull::interaction::ScrewAtStern;

@@ -68,7 +68,7 @@ impl CruisePoint {
     pub fn from_point(trip: &Trip, point: OperatingPoint) -> Result<Self, PointFailure> {
         trip.check()?;
         let flow = point.fuel_volume_flow;
-        if !(point.speed > 0.0) {
+        if !(point.speed.is_finite() && point.speed > 0.0) {
             return Err(PointFailure::InvalidSpeed(point.speed));
         }
         if !(flow.is_finite() && flow > 0.0) {

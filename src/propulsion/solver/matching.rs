@@ -135,7 +135,7 @@ pub fn point_at_engine_rpm(
         return solve_point(system, 0.0);
     }
     let ceiling = max_speed(system);
-    if !(ceiling > 0.0) {
+    if !(ceiling.is_finite() && ceiling > 0.0) {
         return Err(PointFailure::BadInput {
             field: "waterline length",
             value: system.resistance.hull.input.length_waterline,

@@ -162,15 +162,17 @@ pub enum AdvanceRatioFailure {
     },
 }
 
-/// The root of the thrust identity KT(J) = loading·J² on (0, `zero_thrust_j`], where
-/// loading = T/(ρ·Va²·D²) is the required thrust loading KT/J² and `thrust_coefficient` gives
-/// KT(J). Returns J. Brent's method on the bracket [0, J at KT = 0]: at J = 0 the difference
-/// KT − loading·J² is KT(0) > 0 and at zero thrust it is −loading·J0² < 0. No allocation.
+/// The root of the thrust identity KT(J) = loading·J² on (0, `upper_j`], where
+/// loading = T/(ρ·Va²·D²) is the required thrust loading KT/J², `thrust_coefficient` gives
+/// KT(J), and `upper_j` is the J at KT = 0 or any J between the root and it. Returns J.
+/// Brent's method on the bracket [0, `upper_j`]: at J = 0 the difference KT − loading·J² is
+/// KT(0) > 0 and at zero thrust it is −loading·J0² < 0. No allocation.
 pub fn advance_ratio_for_loading(
     loading: f64,
-    zero_thrust_j: f64,
+    upper_j: f64,
     thrust_coefficient: impl Fn(f64) -> f64,
 ) -> Result<f64, AdvanceRatioFailure> {
+    let zero_thrust_j = upper_j;
     if !(loading.is_finite() && loading > 0.0 && zero_thrust_j.is_finite() && zero_thrust_j > 0.0) {
         return Err(AdvanceRatioFailure::NoRoot);
     }
@@ -271,10 +273,10 @@ pub fn solve_with_resistance(
     let mut reynolds: Option<f64> = None;
     let mut pass = 1;
     let (advance_ratio, coefficients) = loop {
-        let zero_thrust_j = drive.screw.zero_thrust_advance_ratio(reynolds);
         let kt = |j: f64| drive.screw.coefficients(j, reynolds).thrust_coefficient;
+        let upper_j = upper_bracket(drive.screw, reynolds, loading, kt(0.0));
         let advance_ratio =
-            advance_ratio_for_loading(loading, zero_thrust_j, kt).map_err(|f| match f {
+            advance_ratio_for_loading(loading, upper_j, kt).map_err(|f| match f {
                 AdvanceRatioFailure::NoRoot => PointFailure::NoRoot { speed, thrust },
                 AdvanceRatioFailure::NotConverged { iterations } => {
                     PointFailure::NotConverged { speed, iterations }
@@ -341,6 +343,23 @@ pub fn solve_with_resistance(
         fuel_volume_flow: drive.engine.fuel_volume_flow(engine_rpm, brake_power),
     };
     point.check_finite()
+}
+
+/// An upper end for the advance-ratio bracket without searching for zero thrust when it can
+/// be avoided: with KT falling in J, KT(J) ≤ KT(0) = loading·J² at J = √(KT(0)/loading), so
+/// that J is past the root. It is used when it lies below 0.9·P/D, where a fixed-pitch
+/// screw still gives thrust (zero thrust lies near or beyond the face pitch), so KT is still
+/// falling there; otherwise the screw's zero-thrust J.
+fn upper_bracket(screw: &ScrewModel, reynolds: Option<f64>, loading: f64, bollard_kt: f64) -> f64 {
+    let by_loading = (bollard_kt / loading).sqrt();
+    if by_loading.is_finite()
+        && by_loading > 0.0
+        && by_loading <= 0.9 * screw.geometry().pitch_ratio()
+    {
+        by_loading
+    } else {
+        screw.zero_thrust_advance_ratio(reynolds)
+    }
 }
 
 /// Interaction coefficients must be finite with w < 1, t < 1 and ηR > 0.
