@@ -132,7 +132,7 @@ pub const THRUST_IDENTITY_TOLERANCE: f64 = 1e-10;
 pub const MAX_REYNOLDS_PASSES: u32 = 5;
 
 /// The Reynolds iteration stops when Rn changes by less than this fraction between passes.
-pub const REYNOLDS_TOLERANCE: f64 = 1e-4;
+pub const REYNOLDS_TOLERANCE: f64 = 1e-3;
 
 /// The part of a system from the screw to the engine, in its water: what turns a required
 /// thrust at a speed of advance into screw rpm, power and fuel.
@@ -172,12 +172,23 @@ pub fn advance_ratio_for_loading(
     upper_j: f64,
     thrust_coefficient: impl Fn(f64) -> f64,
 ) -> Result<f64, AdvanceRatioFailure> {
-    let zero_thrust_j = upper_j;
-    if !(loading.is_finite() && loading > 0.0 && zero_thrust_j.is_finite() && zero_thrust_j > 0.0) {
+    advance_ratio_between(loading, 0.0, upper_j, thrust_coefficient)
+}
+
+/// As [`advance_ratio_for_loading`] on the bracket [`low_j`, `high_j`], which must hold the
+/// root: KT − loading·J² > 0 at `low_j` and ≤ 0 at `high_j`.
+fn advance_ratio_between(
+    loading: f64,
+    low_j: f64,
+    high_j: f64,
+    thrust_coefficient: impl Fn(f64) -> f64,
+) -> Result<f64, AdvanceRatioFailure> {
+    let bracket_ok = low_j.is_finite() && low_j >= 0.0 && high_j.is_finite() && high_j > low_j;
+    if !(loading.is_finite() && loading > 0.0 && bracket_ok) {
         return Err(AdvanceRatioFailure::NoRoot);
     }
     let excess = |j: f64| thrust_coefficient(j) - loading * j * j;
-    let (low, high) = (excess(0.0), excess(zero_thrust_j));
+    let (low, high) = (excess(low_j), excess(high_j));
     if !(low > 0.0 && high <= 0.0) {
         return Err(AdvanceRatioFailure::NoRoot);
     }
@@ -185,10 +196,10 @@ pub fn advance_ratio_for_loading(
         |j: f64, fj: f64| j > 0.0 && fj.abs() <= THRUST_IDENTITY_TOLERANCE * loading * j * j;
     let outcome = brent(
         |j| Ok::<_, Infallible>(excess(j)),
-        (0.0, low),
-        (zero_thrust_j, high),
+        (low_j, low),
+        (high_j, high),
         accept,
-        1e-15 * zero_thrust_j,
+        1e-15 * high_j,
         MAX_ADVANCE_RATIO_ITERATIONS,
     );
     match outcome {
@@ -271,12 +282,31 @@ pub fn solve_with_resistance(
         None
     };
     let mut reynolds: Option<f64> = None;
+    let mut previous_j: Option<f64> = None;
     let mut pass = 1;
     let (advance_ratio, coefficients) = loop {
         let kt = |j: f64| drive.screw.coefficients(j, reynolds).thrust_coefficient;
-        let upper_j = upper_bracket(drive.screw, reynolds, loading, kt(0.0));
+        let (low_j, high_j) = match previous_j {
+            // A later pass of the Reynolds iteration moves J very little: a tight bracket
+            // around the last root, widened to the full one where it does not hold.
+            Some(j) => {
+                let excess = |j: f64| kt(j) - loading * j * j;
+                let low = if excess(0.97 * j) > 0.0 {
+                    0.97 * j
+                } else {
+                    0.0
+                };
+                let high = if excess(1.03 * j) <= 0.0 {
+                    1.03 * j
+                } else {
+                    upper_bracket(drive.screw, reynolds, loading, kt)
+                };
+                (low, high)
+            }
+            None => (0.0, upper_bracket(drive.screw, reynolds, loading, kt)),
+        };
         let advance_ratio =
-            advance_ratio_for_loading(loading, upper_j, kt).map_err(|f| match f {
+            advance_ratio_between(loading, low_j, high_j, kt).map_err(|f| match f {
                 AdvanceRatioFailure::NoRoot => PointFailure::NoRoot { speed, thrust },
                 AdvanceRatioFailure::NotConverged { iterations } => {
                     PointFailure::NotConverged { speed, iterations }
@@ -293,6 +323,7 @@ pub fn solve_with_resistance(
             break (advance_ratio, coefficients);
         }
         reynolds = Some(updated);
+        previous_j = Some(advance_ratio);
         pass += 1;
     };
 
@@ -345,18 +376,24 @@ pub fn solve_with_resistance(
     point.check_finite()
 }
 
-/// An upper end for the advance-ratio bracket without searching for zero thrust when it can
-/// be avoided: with KT falling in J, KT(J) ≤ KT(0) = loading·J² at J = √(KT(0)/loading), so
-/// that J is past the root. It is used when it lies below 0.9·P/D, where a fixed-pitch
-/// screw still gives thrust (zero thrust lies near or beyond the face pitch), so KT is still
-/// falling there; otherwise the screw's zero-thrust J.
-fn upper_bracket(screw: &ScrewModel, reynolds: Option<f64>, loading: f64, bollard_kt: f64) -> f64 {
-    let by_loading = (bollard_kt / loading).sqrt();
-    if by_loading.is_finite()
-        && by_loading > 0.0
-        && by_loading <= 0.9 * screw.geometry().pitch_ratio()
-    {
+/// An upper end for the advance-ratio bracket, searching for zero thrust only when it cannot
+/// be avoided. With KT falling in J, KT(J) ≤ KT(0) = loading·J² at J = √(KT(0)/loading), so
+/// that J is past the root; it is used when it lies below 0.9·P/D, where a fixed-pitch screw
+/// still gives thrust (zero thrust lies near or beyond the face pitch) and KT still falls.
+/// Otherwise 0.9·P/D itself when the root lies below it, else the screw's zero-thrust J
+/// (only for a lightly loaded screw, slipping less than about 10 %).
+fn upper_bracket(
+    screw: &ScrewModel,
+    reynolds: Option<f64>,
+    loading: f64,
+    thrust_coefficient: impl Fn(f64) -> f64,
+) -> f64 {
+    let safe = 0.9 * screw.geometry().pitch_ratio();
+    let by_loading = (thrust_coefficient(0.0) / loading).sqrt();
+    if by_loading.is_finite() && by_loading > 0.0 && by_loading <= safe {
         by_loading
+    } else if safe > 0.0 && thrust_coefficient(safe) - loading * safe * safe <= 0.0 {
+        safe
     } else {
         screw.zero_thrust_advance_ratio(reynolds)
     }
