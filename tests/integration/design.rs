@@ -337,7 +337,8 @@ fn bad_inputs_are_errors_naming_the_field() {
 #[test]
 fn gear_sweep_matches_every_candidate_and_ranks_by_fuel() {
     let boat = vessel();
-    let ratios = vec![2.0, 2.5, 3.0];
+    // With this 0.60 m screw a 2:1 gear turns it too fast for any pitch in the B-series range.
+    let ratios = vec![2.0, 2.5, 3.0, 3.5];
     let result = sweep(
         &boat,
         0,
@@ -349,8 +350,16 @@ fn gear_sweep_matches_every_candidate_and_ranks_by_fuel() {
         result.criterion,
         RankCriterion::LeastFuelPerDistance.describe()
     );
-    assert_eq!(result.candidates.len(), 3);
-    for c in &result.candidates {
+    assert_eq!(result.candidates.len(), 4);
+    let (solved, unsolved) = result.candidates.split_at(3);
+    assert_eq!(
+        unsolved[0].gear_ratio, 2.0,
+        "the unsolved candidate ranks last"
+    );
+    assert!(
+        matches!(unsolved[0].stop, SearchStop::BracketLost(_)) && unsolved[0].problem.is_some()
+    );
+    for c in solved {
         assert!(c.stop.is_converged(), "{c:?}");
         // Each matched pitch absorbs rated power at rated rpm with its own gear.
         let mut v = boat.clone();
@@ -384,7 +393,7 @@ fn gear_sweep_matches_every_candidate_and_ranks_by_fuel() {
             .pitch
             .unwrap()
     };
-    assert!(pitch_of(3.0) > pitch_of(2.0));
+    assert!(pitch_of(3.5) > pitch_of(2.5));
 }
 
 #[test]
@@ -646,10 +655,18 @@ fn wake_fit_does_not_lose_to_the_factor_alone() {
         ..Default::default()
     };
     let both = calibrate(&boat.system(0), &runs, &options).unwrap();
-    let w = both.wake_fraction.unwrap();
-    assert!((0.0..=0.5).contains(&w));
+    if let Some(w) = both.wake_fraction {
+        assert!((0.0..=0.5).contains(&w));
+    } else {
+        assert!(
+            both.warnings
+                .iter()
+                .any(|w| w.message.contains("wake is left as estimated"))
+        );
+    }
+    // The wake fit is kept only when it beats the factor alone.
     assert!(
-        both.rms_after <= factor_only.rms_after * 1.05,
+        both.rms_after <= factor_only.rms_after * (1.0 + 1e-9),
         "{} vs {}",
         both.rms_after,
         factor_only.rms_after

@@ -371,36 +371,39 @@ pub fn calibrate(
         TrialError::NothingPredicted(reason)
     })?;
 
+    let (f0, f1) = options.factor_range;
+    let (w0, w1) = options.wake_range;
     let with_factor = |factor: f64| {
         let mut model: ResistanceModel = system.resistance.clone();
         model.margins.resistance_factor = factor;
         model
     };
-    let (f0, f1) = options.factor_range;
-    let factor = golden_section_minimum(
-        |k| {
-            let model = with_factor(k);
-            squared_error(
-                &System {
+    let fit_factor = |interaction: InteractionMethod| {
+        golden_section_minimum(
+            |k| {
+                let model = with_factor(k);
+                let trial = System {
                     resistance: &model,
+                    interaction,
                     ..system.clone()
-                },
-                &groups,
-            )
-        },
-        f0,
-        f1,
-        options.tolerance,
-    );
-    let calibrated = with_factor(factor);
+                };
+                squared_error(&trial, &groups)
+            },
+            f0,
+            f1,
+            options.tolerance,
+        )
+    };
+    let mut factor = fit_factor(system.interaction);
+    let mut calibrated = with_factor(factor);
     let mut interaction = system.interaction;
     let mut wake_fraction = None;
     if options.fit == CalibrationFit::ResistanceFactorAndWake {
-        // Freeze t and ηR at the trial's mean speed; only the wake is fitted.
+        // Freeze t and ηR at the trial's mean speed; the wake and the factor are then fitted in
+        // turn (two rounds of coordinate descent).
         let mean_speed = mean(groups.iter().map(|g| g.speed)).unwrap_or(0.0);
-        let hull = &calibrated.hull;
         let frozen = system.interaction.at_speed(
-            hull,
+            &calibrated.hull,
             &calibrated.water,
             &system.screw_at_stern(),
             mean_speed,
@@ -411,28 +414,51 @@ pub fn calibrate(
                 ..frozen
             })
         };
-        let (w0, w1) = options.wake_range;
-        let w = golden_section_minimum(
-            |w| {
-                squared_error(
-                    &System {
-                        resistance: &calibrated,
+        let (mut k, mut w) = (factor, frozen.wake_fraction.clamp(w0, w1));
+        for _ in 0..2 {
+            let model = with_factor(k);
+            w = golden_section_minimum(
+                |w| {
+                    let trial = System {
+                        resistance: &model,
                         interaction: with_wake(w),
                         ..system.clone()
-                    },
-                    &groups,
-                )
-            },
-            w0,
-            w1,
-            options.tolerance,
-        );
-        interaction = with_wake(w);
-        wake_fraction = Some(w);
-        if (w - w0).abs() < 1e-3 || (w1 - w).abs() < 1e-3 {
+                    };
+                    squared_error(&trial, &groups)
+                },
+                w0,
+                w1,
+                options.tolerance,
+            );
+            k = fit_factor(with_wake(w));
+        }
+        let model = with_factor(k);
+        let both = System {
+            resistance: &model,
+            interaction: with_wake(w),
+            ..system.clone()
+        };
+        let alone = System {
+            resistance: &calibrated,
+            ..system.clone()
+        };
+        if squared_error(&both, &groups) < squared_error(&alone, &groups) {
+            factor = k;
+            calibrated = model;
+            interaction = with_wake(w);
+            wake_fraction = Some(w);
+            if (w - w0).abs() < 1e-3 || (w1 - w).abs() < 1e-3 {
+                warnings.push(Warning::new(
+                    "sea trial",
+                    format!(
+                        "the fitted wake fraction {w:.3} is at the end of its search range {w0:.2}–{w1:.2}"
+                    ),
+                ));
+            }
+        } else {
             warnings.push(Warning::new(
                 "sea trial",
-                format!("the fitted wake fraction {w:.3} is at the end of its search range {w0:.2}–{w1:.2}"),
+                "fitting the wake did not improve on the resistance factor alone: the wake is left as estimated",
             ));
         }
     }
