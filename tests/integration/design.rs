@@ -373,15 +373,14 @@ fn gear_sweep_matches_every_candidate_and_ranks_by_fuel() {
         let eta = c.open_water_efficiency_at_target.unwrap();
         assert!(eta > 0.0 && eta < 1.0);
     }
-    let fuel: Vec<f64> = result
-        .candidates
+    let fuel: Vec<f64> = solved
         .iter()
         .map(|c| c.fuel_per_distance_at_target.unwrap())
         .collect();
     assert!(fuel.windows(2).all(|w| w[0] <= w[1] * 1.001), "{fuel:?}");
     assert_eq!(
         result.candidates.iter().map(|c| c.rank).collect::<Vec<_>>(),
-        vec![1, 2, 3]
+        vec![1, 2, 3, 4]
     );
     // A slower screw (bigger gear) needs more pitch for the same diameter.
     let pitch_of = |g: f64| {
