@@ -105,7 +105,7 @@ pub struct CalibrationOptions {
     pub factor_range: (f64, f64),
     /// Search interval of the wake fraction.
     pub wake_range: (f64, f64),
-    /// Interval width at which the golden-section search stops.
+    /// Width within which the minimiser locates the best value.
     pub tolerance: f64,
 }
 
@@ -116,7 +116,7 @@ impl Default for CalibrationOptions {
             rpm_group_tolerance: 5.0,
             factor_range: (0.5, 2.0),
             wake_range: (0.0, 0.5),
-            tolerance: 1e-6,
+            tolerance: 1e-5,
         }
     }
 }
@@ -253,44 +253,86 @@ fn rms(groups: &[Group], predicted: &[Option<(f64, f64)>]) -> Option<f64> {
     .map(f64::sqrt)
 }
 
-/// Golden-section search for the minimum of `f` on `[low, high]` until the interval is below
-/// `tolerance` (Kiefer 1953); returns the abscissa.
-pub(crate) fn golden_section_minimum(
+/// Brent's (1973, ch. 5) minimiser of `f` on `[low, high]`: golden-section steps where
+/// parabolic interpolation is not trusted; stops when the minimum is located within
+/// `tolerance`. The two ends are compared too, so a minimum at a bound is found. Returns the
+/// abscissa.
+pub(crate) fn minimum_on_interval(
     mut f: impl FnMut(f64) -> f64,
     low: f64,
     high: f64,
     tolerance: f64,
 ) -> f64 {
-    let ratio = (5f64.sqrt() - 1.0) / 2.0;
+    const GOLDEN: f64 = 0.381_966_011_250_105_1; // (3 − √5)/2
     let (mut a, mut b) = (low, high);
-    let mut c = b - ratio * (b - a);
-    let mut d = a + ratio * (b - a);
-    let (mut fc, mut fd) = (f(c), f(d));
+    let mut x = a + GOLDEN * (b - a);
+    let (mut w, mut v) = (x, x);
+    let mut fx = f(x);
+    let (mut fw, mut fv) = (fx, fx);
+    let (mut d, mut e) = (0.0_f64, 0.0_f64);
     for _ in 0..200 {
-        if (b - a).abs() <= tolerance {
+        let middle = 0.5 * (a + b);
+        let tol1 = 1e-10 * x.abs() + tolerance / 3.0;
+        let tol2 = 2.0 * tol1;
+        if (x - middle).abs() <= tol2 - 0.5 * (b - a) {
             break;
         }
-        if fc < fd {
-            b = d;
-            d = c;
-            fd = fc;
-            c = b - ratio * (b - a);
-            fc = f(c);
+        let mut golden = true;
+        if e.abs() > tol1 {
+            let r = (x - w) * (fx - fv);
+            let mut q = (x - v) * (fx - fw);
+            let mut p = (x - v) * q - (x - w) * r;
+            q = 2.0 * (q - r);
+            if q > 0.0 {
+                p = -p;
+            }
+            q = q.abs();
+            let previous = e;
+            if p.abs() < (0.5 * q * previous).abs() && p > q * (a - x) && p < q * (b - x) {
+                e = d;
+                d = p / q;
+                let u = x + d;
+                if u - a < tol2 || b - u < tol2 {
+                    d = tol1.copysign(middle - x);
+                }
+                golden = false;
+            }
+        }
+        if golden {
+            e = if x >= middle { a - x } else { b - x };
+            d = GOLDEN * e;
+        }
+        let u = if d.abs() >= tol1 {
+            x + d
         } else {
-            a = c;
-            c = d;
-            fc = fd;
-            d = a + ratio * (b - a);
-            fd = f(d);
+            x + tol1.copysign(d)
+        };
+        let fu = f(u);
+        if fu <= fx {
+            if u >= x {
+                a = x;
+            } else {
+                b = x;
+            }
+            (v, fv, w, fw, x, fx) = (w, fw, x, fx, u, fu);
+        } else {
+            if u < x {
+                a = u;
+            } else {
+                b = u;
+            }
+            if fu <= fw || w == x {
+                (v, fv, w, fw) = (w, fw, u, fu);
+            } else if fu <= fv || v == x || v == w {
+                (v, fv) = (u, fu);
+            }
         }
     }
-    // The ends can beat the interior on a monotone objective: keep the best of all.
-    let mid = 0.5 * (a + b);
-    [(mid, f(mid)), (low, f(low)), (high, f(high))]
+    [(x, fx), (low, f(low)), (high, f(high))]
         .into_iter()
-        .min_by(|x, y| x.1.total_cmp(&y.1))
+        .min_by(|p, q| p.1.total_cmp(&q.1))
         .map(|(x, _)| x)
-        .unwrap_or(mid)
+        .unwrap_or(x)
 }
 
 fn validate(runs: &[TrialRun], options: &CalibrationOptions) -> Result<(), TrialError> {
@@ -379,7 +421,7 @@ pub fn calibrate(
         model
     };
     let fit_factor = |interaction: InteractionMethod| {
-        golden_section_minimum(
+        minimum_on_interval(
             |k| {
                 let model = with_factor(k);
                 let trial = System {
@@ -417,7 +459,7 @@ pub fn calibrate(
         let (mut k, mut w) = (factor, frozen.wake_fraction.clamp(w0, w1));
         for _ in 0..2 {
             let model = with_factor(k);
-            w = golden_section_minimum(
+            w = minimum_on_interval(
                 |w| {
                     let trial = System {
                         resistance: &model,
@@ -569,9 +611,24 @@ mod tests {
     }
 
     #[test]
-    fn golden_section_finds_a_parabola_minimum() {
-        let x = golden_section_minimum(|x| (x - 1.234).powi(2), 0.5, 2.0, 1e-9);
+    fn minimiser_finds_a_parabola_minimum_and_a_bound_minimum() {
+        let x = minimum_on_interval(|x| (x - 1.234).powi(2), 0.5, 2.0, 1e-9);
         assert!((x - 1.234).abs() < 1e-6);
+        let mut calls = 0;
+        let y = minimum_on_interval(
+            |x| {
+                calls += 1;
+                (x - 0.7).powi(2) + 0.1 * x.powi(4)
+            },
+            0.0,
+            2.0,
+            1e-6,
+        );
+        // d/dx: 2(x − 0.7) + 0.4x³ = 0 → x ≈ 0.64607 (Newton's method by hand)
+        assert!((y - 0.646_07).abs() < 1e-4, "{y}");
+        assert!(calls < 40, "{calls} evaluations");
+        let edge = minimum_on_interval(|x| x, 0.5, 2.0, 1e-6);
+        assert_eq!(edge, 0.5);
     }
 
     #[test]
