@@ -124,7 +124,7 @@ proptest! {
         check(EngineDoc::from_toml(&text, FILE), &text)?;
     }
 
-    // A random value in place of one quantity of a demo boat.
+    // A random value in place of one quantity of a demo boat: an error is on that line.
     #[test]
     fn a_random_value_for_a_quantity_loads_or_fails_at_that_line(
         which in 0usize..3,
@@ -136,7 +136,14 @@ proptest! {
         let quantity_lines: Vec<usize> = source
             .lines()
             .enumerate()
-            .filter(|(_, line)| line.contains(" = \"") && !line.trim_start().starts_with('#'))
+            .filter(|(_, line)| {
+                // A quantity: a string value that starts with its number, e.g. "38 ft".
+                line.split_once(" = \"")
+                    .is_some_and(|(key, value)| {
+                        !key.trim_start().starts_with('#')
+                            && value.starts_with(|c: char| c.is_ascii_digit() || c == '-' || c == '.')
+                    })
+            })
             .map(|(i, _)| i)
             .collect();
         let target = quantity_lines[line_pick.index(quantity_lines.len())];

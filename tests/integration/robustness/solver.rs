@@ -69,15 +69,22 @@ struct Proportions {
 }
 
 fn in_range_proportions() -> impl Strategy<Value = Proportions> {
-    (6.0f64..30.0, 3.9f64..6.0, 2.1f64..4.0, 0.52f64..0.70, -0.05f64..0.1).prop_map(
-        |(length, length_beam, beam_draft, block, trim)| Proportions {
-            length,
-            length_beam,
-            beam_draft,
-            block,
-            trim,
-        },
+    (
+        6.0f64..30.0,
+        3.9f64..6.0,
+        2.1f64..4.0,
+        0.52f64..0.70,
+        -0.05f64..0.1,
     )
+        .prop_map(
+            |(length, length_beam, beam_draft, block, trim)| Proportions {
+                length,
+                length_beam,
+                beam_draft,
+                block,
+                trim,
+            },
+        )
 }
 
 /// Proportions with at least one ratio outside the published ranges (beamy, deep or full).
@@ -167,20 +174,28 @@ fn boat(
     blades: impl Strategy<Value = u32>,
 ) -> impl Strategy<Value = Boat> {
     let water = (any::<bool>(), 0.0f64..30.0).prop_map(|(sea, temperature)| {
-        let kind = if sea { WaterKind::Sea } else { WaterKind::Fresh };
+        let kind = if sea {
+            WaterKind::Sea
+        } else {
+            WaterKind::Fresh
+        };
         water_properties(kind, temperature).expect("0–30 °C is inside the ITTC table")
     });
-    let margins = (0.0f64..0.3, 0.0f64..0.3, 0.8f64..1.25).prop_map(|(service, fouling, factor)| {
-        Margins {
+    let margins =
+        (0.0f64..0.3, 0.0f64..0.3, 0.8f64..1.25).prop_map(|(service, fouling, factor)| Margins {
             service,
             fouling,
             resistance_factor: factor,
-        }
-    });
+        });
     let air = proptest::option::of((0.5f64..1.2, 0.05f64..0.3, 0.0f64..10.0));
     let screw = (blades, pitch_ratio, area_ratio, 0.5f64..0.9);
     let gear = (1.0f64..4.0, 0.95f64..=1.0, 0.95f64..=1.0);
-    let machinery = (0.5f64..3.0, 1800.0f64..4000.0, 200.0f64..260.0, 0.05f64..0.2);
+    let machinery = (
+        0.5f64..3.0,
+        1800.0f64..4000.0,
+        200.0f64..260.0,
+        0.05f64..0.2,
+    );
     let trip = (0.15f64..0.40, 0.05f64..5.0, 0.8f64..=1.0, 0.0f64..0.3);
     (
         (proportions, water, margins, air),
@@ -247,7 +262,12 @@ fn boat(
 }
 
 fn in_range_boat() -> impl Strategy<Value = Boat> {
-    boat(in_range_proportions(), 0.5f64..=1.4, 0.30f64..=1.05, 2u32..=7)
+    boat(
+        in_range_proportions(),
+        0.5f64..=1.4,
+        0.30f64..=1.05,
+        2u32..=7,
+    )
 }
 
 /// Every numeric field of a point.
@@ -288,10 +308,25 @@ fn check_identities(boat: &Boat, p: &OperatingPoint) -> Result<(), TestCaseError
     // Thrust identity: KT/J² = T/(ρ·Va²·D²).
     let left = p.thrust_coefficient / p.advance_ratio.powi(2);
     let right = p.thrust / (density * p.advance_speed.powi(2) * diameter.powi(2));
-    prop_assert!(close(left, right, IDENTITY_TOLERANCE), "KT/J² {left} vs T/(ρVa²D²) {right}");
-    prop_assert!(close(p.thrust, p.resistance / (1.0 - p.thrust_deduction), 1e-12));
-    prop_assert!(close(p.advance_speed, p.speed * (1.0 - p.wake_fraction), 1e-12));
-    prop_assert!(close(p.advance_ratio, p.advance_speed / (p.screw_rps * diameter), 1e-12));
+    prop_assert!(
+        close(left, right, IDENTITY_TOLERANCE),
+        "KT/J² {left} vs T/(ρVa²D²) {right}"
+    );
+    prop_assert!(close(
+        p.thrust,
+        p.resistance / (1.0 - p.thrust_deduction),
+        1e-12
+    ));
+    prop_assert!(close(
+        p.advance_speed,
+        p.speed * (1.0 - p.wake_fraction),
+        1e-12
+    ));
+    prop_assert!(close(
+        p.advance_ratio,
+        p.advance_speed / (p.screw_rps * diameter),
+        1e-12
+    ));
     prop_assert!(close(
         p.torque,
         p.torque_coefficient * density * p.screw_rps.powi(2) * diameter.powi(5),
@@ -299,14 +334,22 @@ fn check_identities(boat: &Boat, p: &OperatingPoint) -> Result<(), TestCaseError
     ));
     // PD = 2π·n·Q/ηR; PB = PD/(ηshaft·ηgear); engine rpm = 60·n·gear ratio.
     let pd = 2.0 * PI * p.screw_rps * p.torque / p.relative_rotative_efficiency;
-    prop_assert!(close(p.delivered_power, pd, 1e-12), "PD {} vs {pd}", p.delivered_power);
+    prop_assert!(
+        close(p.delivered_power, pd, 1e-12),
+        "PD {} vs {pd}",
+        p.delivered_power
+    );
     let gear = boat.installation;
     prop_assert!(close(
         p.brake_power,
         p.delivered_power / (gear.shaft_efficiency * gear.gear_efficiency),
         1e-12
     ));
-    prop_assert!(close(p.engine_rpm, 60.0 * p.screw_rps * gear.gear_ratio, 1e-12));
+    prop_assert!(close(
+        p.engine_rpm,
+        60.0 * p.screw_rps * gear.gear_ratio,
+        1e-12
+    ));
     // Inside (0, J at zero thrust), with positive thrust, torque and power.
     let reynolds = (p.reynolds > 0.0).then_some(p.reynolds);
     let zero_thrust = boat.screw.zero_thrust_advance_ratio(reynolds);
@@ -318,7 +361,7 @@ fn check_identities(boat: &Boat, p: &OperatingPoint) -> Result<(), TestCaseError
 }
 
 proptest! {
-    #![proptest_config(super::cases(64))]
+    #![proptest_config(super::cases(128))]
 
     #[test]
     fn in_range_boats_solve_everywhere_with_every_identity(boat in in_range_boat()) {

@@ -423,7 +423,7 @@ fn two_store_instances_saving_at_once_never_leave_a_broken_file() {
             reads
         })
     };
-    const SAVES_PER_WRITER: u32 = 8;
+    const SAVES_PER_WRITER: u32 = 6;
     let writers: Vec<_> = (0..2u32)
         .map(|writer| {
             let root = root.clone();
