@@ -1,0 +1,122 @@
+//! Solver benchmarks on the demo fleet: one propeller curve, its growth with points and
+//! variants, a pitch recommendation and a 20-candidate sweep. Budgets in docs/performance.md.
+
+use criterion::{BenchmarkId, Criterion, Throughput, criterion_group, criterion_main};
+use std::hint::black_box;
+use std::time::Duration;
+use tidewright::profile::Store;
+use tidewright::propulsion::solver::design::{
+    PitchOptions, SweepOptions, SweepParameter, recommend_pitch, sweep,
+};
+use tidewright::propulsion::solver::point::solve_point;
+use tidewright::propulsion::solver::{PropellerCurve, Variant, Vessel};
+
+/// Standard gravity, m/s² (NIST SP 811).
+const GRAVITY: f64 = 9.80665;
+
+/// A demo boat from the embedded fleet, in its default load condition.
+fn demo_vessel(name: &str) -> Vessel {
+    let demo = Store::at("/nonexistent/tidewright-bench-demo");
+    let (boat, engine) = demo.resolve_boat(name).expect("demo boat loads");
+    boat.doc
+        .to_default_vessel(&engine.doc)
+        .expect("demo boat builds a vessel")
+}
+
+/// The speed range a curve is drawn over: rest to Froude number 0.45, m/s.
+fn top_speed(vessel: &Vessel) -> f64 {
+    0.45 * (GRAVITY * vessel.resistance.hull.input.length_waterline).sqrt()
+}
+
+/// `vessel` with its variants repeated until it has `count` of them.
+fn with_variants(vessel: &Vessel, count: usize) -> Vessel {
+    let mut grown = vessel.clone();
+    grown.variants = (0..count)
+        .map(|i| {
+            let original = &vessel.variants[i % vessel.variants.len()];
+            Variant {
+                label: format!("{} #{i}", original.label),
+                screw: original.screw.clone(),
+            }
+        })
+        .collect();
+    grown
+}
+
+fn curve(c: &mut Criterion) {
+    let vessel = demo_vessel("marram");
+    let system = vessel.active_system();
+    let top = top_speed(&vessel);
+    let mut group = c.benchmark_group("curve");
+    group.bench_function("solve_point", |b| {
+        b.iter(|| solve_point(black_box(&system), black_box(0.6 * top)))
+    });
+    group.bench_function("marram_101_points", |b| {
+        b.iter(|| PropellerCurve::over_speeds(black_box(&system), 0.0, top, 101))
+    });
+    // The TUI keeps its curves and re-solves into them: no allocation after the first.
+    let mut reused = PropellerCurve::over_speeds(&system, 0.0, top, 101);
+    group.bench_function("marram_101_points_reused", |b| {
+        b.iter(|| reused.resolve(black_box(&system), 0.0, top, 101))
+    });
+    group.finish();
+
+    let mut group = c.benchmark_group("curve_points");
+    for points in [25usize, 50, 100, 200, 400] {
+        group.throughput(Throughput::Elements(points as u64));
+        group.bench_with_input(BenchmarkId::from_parameter(points), &points, |b, &n| {
+            b.iter(|| PropellerCurve::over_speeds(black_box(&system), 0.0, top, n))
+        });
+    }
+    group.finish();
+
+    let mut group = c.benchmark_group("curve_variants");
+    for variants in [1usize, 2, 4, 8] {
+        let grown = with_variants(&vessel, variants);
+        group.throughput(Throughput::Elements(variants as u64));
+        group.bench_with_input(BenchmarkId::from_parameter(variants), &grown, |b, v| {
+            b.iter(|| {
+                (0..v.variants.len())
+                    .map(|i| PropellerCurve::over_speeds(&v.system(i), 0.0, top, 101))
+                    .collect::<Vec<_>>()
+            })
+        });
+    }
+    group.finish();
+}
+
+fn design(c: &mut Criterion) {
+    let vessel = demo_vessel("marram");
+    let index = vessel.active_variant;
+    let mut group = c.benchmark_group("design");
+    group.bench_function("recommend_pitch_marram", |b| {
+        b.iter(|| recommend_pitch(black_box(&vessel), index, &PitchOptions::default()))
+    });
+    let area_ratios: Vec<f64> = (0..20).map(|i| 0.40 + 0.03 * f64::from(i)).collect();
+    let parameter = SweepParameter::AreaRatio(area_ratios);
+    group.bench_function("sweep_20_area_ratios_marram", |b| {
+        b.iter(|| {
+            sweep(
+                black_box(&vessel),
+                index,
+                &parameter,
+                &SweepOptions::default(),
+            )
+        })
+    });
+    group.finish();
+}
+
+fn config() -> Criterion {
+    Criterion::default()
+        .sample_size(30)
+        .warm_up_time(Duration::from_millis(500))
+        .measurement_time(Duration::from_secs(2))
+}
+
+criterion_group! {
+    name = benches;
+    config = config();
+    targets = curve, design
+}
+criterion_main!(benches);
