@@ -51,6 +51,34 @@ fn curve(c: &mut Criterion) {
     group.bench_function("solve_point", |b| {
         b.iter(|| solve_point(black_box(&system), black_box(0.6 * top)))
     });
+    // Where one point's time goes: resistance, interaction, the screw's polynomials.
+    let model = &vessel.resistance;
+    let speed = 0.6 * top;
+    group.bench_function("part_resistance", |b| {
+        b.iter(|| model.resistance(black_box(speed)))
+    });
+    let stern = system.screw_at_stern();
+    group.bench_function("part_interaction", |b| {
+        b.iter(|| {
+            system
+                .interaction
+                .at_speed(&model.hull, &model.water, &stern, black_box(speed))
+        })
+    });
+    group.bench_function("part_open_water_kt_kq", |b| {
+        b.iter(|| {
+            system
+                .screw
+                .coefficients(black_box(0.55), Some(black_box(8.0e6)))
+        })
+    });
+    group.bench_function("part_zero_thrust_j", |b| {
+        b.iter(|| {
+            system
+                .screw
+                .zero_thrust_advance_ratio(Some(black_box(8.0e6)))
+        })
+    });
     group.bench_function("marram_101_points", |b| {
         b.iter(|| PropellerCurve::over_speeds(black_box(&system), 0.0, top, 101))
     });
