@@ -5,6 +5,8 @@ use criterion::{BenchmarkId, Criterion, Throughput, criterion_group, criterion_m
 use std::hint::black_box;
 use std::time::Duration;
 use tidewright::profile::Store;
+use tidewright::propulsion::hull::holtrop::HoltropCoefficients;
+use tidewright::propulsion::hull::resistance::HOLTROP_EDITION;
 use tidewright::propulsion::solver::design::{
     PitchOptions, SweepOptions, SweepParameter, recommend_pitch, sweep,
 };
@@ -56,6 +58,9 @@ fn curve(c: &mut Criterion) {
     let speed = 0.6 * top;
     group.bench_function("part_resistance", |b| {
         b.iter(|| model.resistance(black_box(speed)))
+    });
+    group.bench_function("part_holtrop_coefficients", |b| {
+        b.iter(|| HoltropCoefficients::new(black_box(&model.hull), HOLTROP_EDITION))
     });
     let stern = system.screw_at_stern();
     group.bench_function("part_interaction", |b| {
