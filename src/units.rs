@@ -82,7 +82,9 @@ pub enum UnitError {
         examples: &'static str,
     },
     /// A unit that is not known for this kind.
-    #[error("unknown unit {unit:?} at character {position} of {text:?}; expected {kind_name} in {examples}")]
+    #[error(
+        "unknown unit {unit:?} at character {position} of {text:?}; expected {kind_name} in {examples}"
+    )]
     UnknownUnit {
         /// The text given.
         text: String,

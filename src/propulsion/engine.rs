@@ -108,7 +108,11 @@ impl EngineSheet {
     /// Full-load torque at `rpm`, N·m.
     pub fn full_load_torque_at(&self, rpm: f64) -> f64 {
         let omega = rpm * std::f64::consts::TAU / 60.0;
-        if omega > 0.0 { self.full_load_power_at(rpm) / omega } else { 0.0 }
+        if omega > 0.0 {
+            self.full_load_power_at(rpm) / omega
+        } else {
+            0.0
+        }
     }
     /// Fuel mass flow at `rpm` and brake power `power` (W), kg/s.
     pub fn fuel_mass_flow(&self, rpm: f64, power: f64) -> f64 {

@@ -71,7 +71,11 @@ pub struct Margins {
 
 impl Default for Margins {
     fn default() -> Self {
-        Self { service: 0.0, fouling: 0.0, resistance_factor: 1.0 }
+        Self {
+            service: 0.0,
+            fouling: 0.0,
+            resistance_factor: 1.0,
+        }
     }
 }
 

@@ -1,7 +1,7 @@
 //! Cruise queries: rpm for a speed, speed for an rpm, with fuel per hour, per mile and range.
 
-use super::point::{OperatingPoint, PointFailure};
 use super::System;
+use super::point::{OperatingPoint, PointFailure};
 
 /// The trip the user plans: target speed and fuel on board.
 #[derive(Debug, Clone, Copy, PartialEq, serde::Serialize)]
@@ -39,13 +39,21 @@ pub struct CruisePoint {
 }
 
 /// The cruise point at boat speed `speed` (m/s).
-pub fn cruise_at_speed(system: &System<'_>, trip: &Trip, speed: f64) -> Result<CruisePoint, PointFailure> {
+pub fn cruise_at_speed(
+    system: &System<'_>,
+    trip: &Trip,
+    speed: f64,
+) -> Result<CruisePoint, PointFailure> {
     let _ = (system, trip, speed);
     unimplemented!("solver helper")
 }
 
 /// The cruise point at engine speed `engine_rpm`.
-pub fn cruise_at_rpm(system: &System<'_>, trip: &Trip, engine_rpm: f64) -> Result<CruisePoint, PointFailure> {
+pub fn cruise_at_rpm(
+    system: &System<'_>,
+    trip: &Trip,
+    engine_rpm: f64,
+) -> Result<CruisePoint, PointFailure> {
     let _ = (system, trip, engine_rpm);
     unimplemented!("solver helper")
 }

@@ -1,7 +1,7 @@
 //! The propeller curve: operating points over a speed range for one screw and gear.
 
-use super::point::{OperatingPoint, PointFailure};
 use super::System;
+use super::point::{OperatingPoint, PointFailure};
 
 /// Operating points over a range of speeds; failures are kept with their speed and reason.
 #[derive(Debug, Clone, PartialEq)]

@@ -1,7 +1,7 @@
 //! Matching the propeller curve to the engine's full-load envelope.
 
-use super::point::{OperatingPoint, PointFailure};
 use super::System;
+use super::point::{OperatingPoint, PointFailure};
 
 /// Whether the screw lets the engine reach rated rpm with a little headroom.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, serde::Serialize)]
@@ -26,7 +26,10 @@ pub struct MatchCriteria {
 
 impl Default for MatchCriteria {
     fn default() -> Self {
-        Self { over_above: 1.0, under_below: 0.85 }
+        Self {
+            over_above: 1.0,
+            under_below: 0.85,
+        }
     }
 }
 
@@ -50,13 +53,19 @@ pub struct MatchResult {
 }
 
 /// Finds the boat speed at which the engine turns `engine_rpm` with this screw (m/s).
-pub fn point_at_engine_rpm(system: &System<'_>, engine_rpm: f64) -> Result<OperatingPoint, PointFailure> {
+pub fn point_at_engine_rpm(
+    system: &System<'_>,
+    engine_rpm: f64,
+) -> Result<OperatingPoint, PointFailure> {
     let _ = (system, engine_rpm);
     unimplemented!("solver helper")
 }
 
 /// Matches the system's screw against its engine.
-pub fn match_engine(system: &System<'_>, criteria: &MatchCriteria) -> Result<MatchResult, PointFailure> {
+pub fn match_engine(
+    system: &System<'_>,
+    criteria: &MatchCriteria,
+) -> Result<MatchResult, PointFailure> {
     let _ = (system, criteria);
     unimplemented!("solver helper")
 }

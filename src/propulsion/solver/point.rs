@@ -60,7 +60,9 @@ pub enum PointFailure {
     #[error("resistance: {0}")]
     Resistance(#[from] crate::propulsion::hull::HullError),
     /// No advance ratio in (0, J at KT = 0) gives the required thrust loading.
-    #[error("the screw cannot give {thrust:.0} N at {speed:.2} m/s: no advance ratio satisfies the thrust identity")]
+    #[error(
+        "the screw cannot give {thrust:.0} N at {speed:.2} m/s: no advance ratio satisfies the thrust identity"
+    )]
     NoRoot {
         /// The boat speed, m/s.
         speed: f64,
