@@ -3,27 +3,27 @@
 use std::io::Write;
 
 use super::{OpenwaterArgs, PlainFormat, UsageError};
-use crate::propulsion::screw::{BSeriesScrew, ScrewGeometry, ScrewModel};
+use crate::propulsion::screw::{BSeriesScrew, ScrewGeometry, ScrewModel, open_water_rows};
 use crate::report::openwater::{OpenWaterReport, OpenWaterRow};
 
-/// The J range used when neither `--j` nor `--j-range` is given.
-const DEFAULT_J_RANGE: &str = "0:1.6:0.05";
+/// J step of the default table, which runs from 0 to the zero-thrust advance ratio.
+const DEFAULT_J_STEP: f64 = 0.05;
 /// More advance ratios than this is a typing mistake, not a table anyone reads.
 const MAX_POINTS: usize = 10_000;
 
 /// Runs the command.
 pub fn run(args: &OpenwaterArgs, out: &mut dyn Write) -> anyhow::Result<()> {
     let advance_ratios = match (&args.j, &args.j_range) {
-        (Some(list), _) => parse_j_list(list)?,
-        (None, Some(range)) => parse_j_range(range)?,
-        (None, None) => parse_j_range(DEFAULT_J_RANGE)?,
+        (Some(list), _) => Some(parse_j_list(list)?),
+        (None, Some(range)) => Some(parse_j_range(range)?),
+        (None, None) => None,
     };
     let report = open_water_report(
         args.blades,
         args.area_ratio,
         args.pitch_ratio,
         args.reynolds,
-        &advance_ratios,
+        advance_ratios.as_deref(),
     )?;
     match args.format {
         PlainFormat::Text => out.write_all(crate::report::openwater::text(&report).as_bytes())?,
@@ -32,13 +32,14 @@ pub fn run(args: &OpenwaterArgs, out: &mut dyn Write) -> anyhow::Result<()> {
     Ok(())
 }
 
-/// Builds the open-water report for a screw of the given ratios at each advance ratio.
+/// Builds the open-water report for a screw of the given ratios at each advance ratio
+/// (`None`: from 0 to zero thrust in steps of 0.05).
 pub fn open_water_report(
     blades: u32,
     area_ratio: f64,
     pitch_ratio: f64,
     reynolds: Option<f64>,
-    advance_ratios: &[f64],
+    advance_ratios: Option<&[f64]>,
 ) -> anyhow::Result<OpenWaterReport> {
     positive(
         "--area-ratio",
@@ -53,7 +54,7 @@ pub fn open_water_report(
     if let Some(rn) = reynolds {
         positive("--reynolds", "a blade Reynolds number such as 2e7", rn)?;
     }
-    if advance_ratios.is_empty() {
+    if advance_ratios.is_some_and(<[f64]>::is_empty) {
         return Err(UsageError("the list of advance ratios J is empty; give e.g. --j 0.1,0.2,0.3 or --j-range 0:1.2:0.05".into()).into());
     }
     // The coefficients depend only on the ratios, so a unit diameter is exact.
@@ -68,13 +69,34 @@ pub fn open_water_report(
             .map_err(|e| UsageError(format!("cannot build the B-series screw: {e}")))?,
     );
     let zero_thrust_j = screw.zero_thrust_advance_ratio(reynolds);
+    let default_js;
+    let advance_ratios = match advance_ratios {
+        Some(js) => js,
+        None => {
+            let stop = if zero_thrust_j.is_finite() && zero_thrust_j > 0.0 {
+                zero_thrust_j
+            } else {
+                1.6
+            };
+            default_js = parse_j_range(&format!("0:{stop}:{DEFAULT_J_STEP}"))?;
+            &default_js
+        }
+    };
     let mut points = Vec::with_capacity(advance_ratios.len());
     let mut omitted = Vec::new();
-    for &j in advance_ratios {
-        let ow = screw.coefficients(j, reynolds);
-        let (kt, kq) = (ow.thrust_coefficient, ow.torque_coefficient);
-        match ow.efficiency() {
-            Some(eta0) if kt.is_finite() && kq.is_finite() && eta0.is_finite() => {
+    for row in open_water_rows(&screw, advance_ratios, reynolds) {
+        let (j, kt, kq) = (
+            row.advance_ratio,
+            row.thrust_coefficient,
+            row.torque_coefficient,
+        );
+        match row.efficiency {
+            Some(eta0)
+                if !row.past_zero_thrust
+                    && kt.is_finite()
+                    && kq.is_finite()
+                    && eta0.is_finite() =>
+            {
                 points.push(OpenWaterRow { j, kt, kq, eta0 })
             }
             _ => omitted.push(j),
@@ -212,9 +234,9 @@ mod tests {
 
     #[test]
     fn zero_pitch_ratio_is_refused_before_the_model() {
-        let err = open_water_report(4, 0.55, 0.0, None, &[0.1]).unwrap_err();
+        let err = open_water_report(4, 0.55, 0.0, None, Some(&[0.1])).unwrap_err();
         assert!(format!("{err}").contains("--pitch-ratio"), "{err}");
-        let err = open_water_report(4, f64::NAN, 0.8, None, &[0.1]).unwrap_err();
+        let err = open_water_report(4, f64::NAN, 0.8, None, Some(&[0.1])).unwrap_err();
         assert!(format!("{err}").contains("--area-ratio"), "{err}");
     }
 }
