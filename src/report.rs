@@ -18,67 +18,9 @@ pub const CAUTION: &str = "These figures are estimates from published methods an
 The engine maker's installation limits, local codes and a licensed marine surveyor or naval \
 architect decide the final engine, gear and screw.";
 
-/// Metres per second in one knot (1852 m per hour, exact; NIST SP 811 B.8).
-pub const KNOT_MPS: f64 = 1852.0 / 3600.0;
-/// Metres in one nautical mile (exact; NIST SP 811 B.8).
-pub const NAUTICAL_MILE_M: f64 = 1852.0;
-/// Cubic metres in one litre (exact; NIST SP 811 B.8).
-pub const LITRE_M3: f64 = 1e-3;
-/// Metres in one inch (exact; NIST SP 811 B.8).
-pub const INCH_M: f64 = 0.0254;
+pub use crate::units::{INCH_M, KNOT_MPS, LITRE_M3, NAUTICAL_MILE_M};
 
-/// How one kind of quantity is shown in one unit system: its label and SI units per label unit.
-#[derive(Debug, Clone, PartialEq)]
-pub struct DisplayScale {
-    /// The unit label, e.g. "kW".
-    pub label: String,
-    /// Internal (SI) units per one display unit, e.g. 1000 for kW.
-    pub scale: f64,
-}
-
-impl DisplayScale {
-    /// The display unit of `kind` in `system`, as the units module prints and parses it.
-    ///
-    /// The label is what [`units::format`] writes after the number; the scale is what
-    /// [`units::parse`] gives for one of that unit, so the report holds no constants of its own.
-    pub fn of(kind: Kind, system: UnitSystem) -> Option<Self> {
-        let printed = units::format(1.0, kind, system);
-        let (_, label) = split_quantity(&printed);
-        if label.is_empty() {
-            return None;
-        }
-        let scale = units::parse(&format!("1 {label}"), kind)
-            .or_else(|_| units::parse(&format!("1{label}"), kind))
-            .ok()
-            .filter(|s| s.is_finite() && *s > 0.0)?;
-        Some(Self {
-            label: label.to_string(),
-            scale,
-        })
-    }
-
-    /// `value` (SI) in this display unit with `decimals` places.
-    pub fn number(&self, value: f64, decimals: usize) -> String {
-        format!("{:.*}", decimals, value / self.scale)
-    }
-}
-
-/// Splits "7.50 kn" or "12.0°" into its number and its unit label.
-pub fn split_quantity(text: &str) -> (&str, &str) {
-    let text = text.trim();
-    let end = text
-        .char_indices()
-        .find(|&(i, c)| {
-            !(c.is_ascii_digit()
-                || c == '.'
-                || c == ','
-                || ((c == '-' || c == '+' || c == '−') && i == 0))
-        })
-        .map_or(text.len(), |(i, _)| i);
-    (text[..end].trim(), text[end..].trim())
-}
-
-/// A unit system with the display scales of the kinds a report uses, resolved once.
+/// Numbers and units of a report in one unit system (the units module decides the units).
 #[derive(Debug, Clone)]
 pub struct Display {
     /// The system.
@@ -91,36 +33,29 @@ impl Display {
         Self { system }
     }
 
-    /// Label of `kind`'s display unit ("" when the units module has none for it).
+    /// Label of `kind`'s display unit.
     pub fn unit(&self, kind: Kind) -> String {
-        DisplayScale::of(kind, self.system)
-            .map(|d| d.label)
-            .unwrap_or_default()
+        units::unit_label(kind, self.system).to_string()
     }
 
     /// `value` (SI) of `kind` as a bare number in the display unit with `decimals` places.
     pub fn number(&self, value: f64, kind: Kind, decimals: usize) -> String {
-        if !value.is_finite() {
-            return "—".into();
-        }
-        match DisplayScale::of(kind, self.system) {
-            Some(d) => d.number(value, decimals),
-            None => units::format(value, kind, self.system),
+        let shown = self.scaled(value, kind);
+        if shown.is_finite() {
+            format!("{shown:.decimals$}")
+        } else {
+            "—".into()
         }
     }
 
     /// `value` (SI) of `kind` in the display unit, as a plain number for charts.
     pub fn scaled(&self, value: f64, kind: Kind) -> f64 {
-        DisplayScale::of(kind, self.system).map_or(value, |d| value / d.scale)
+        units::to_display(value, kind, self.system)
     }
 
     /// `value` (SI) of `kind` with its unit, as the units module writes it.
     pub fn quantity(&self, value: f64, kind: Kind) -> String {
-        if value.is_finite() {
-            units::format(value, kind, self.system)
-        } else {
-            "—".into()
-        }
+        units::format(value, kind, self.system)
     }
 }
 
@@ -138,17 +73,18 @@ mod tests {
     use super::*;
 
     #[test]
-    fn split_quantity_handles_spaced_unspaced_and_multiword_units() {
-        assert_eq!(split_quantity("7.50 kn"), ("7.50", "kn"));
-        assert_eq!(split_quantity("12.0°"), ("12.0", "°"));
-        assert_eq!(split_quantity("1.234 US gal/nm"), ("1.234", "US gal/nm"));
-        assert_eq!(split_quantity("-3.5 %"), ("-3.5", "%"));
-        assert_eq!(split_quantity("42"), ("42", ""));
-    }
-
-    #[test]
     fn percent_never_prints_nan() {
         assert_eq!(percent(0.853, 1), "85.3 %");
         assert_eq!(percent(f64::NAN, 1), "—");
+    }
+
+    #[test]
+    fn display_numbers_follow_the_unit_system() {
+        // 1 kn = 1852/3600 m/s exactly (NIST SP 811 B.8).
+        let metric = Display::new(UnitSystem::Metric);
+        assert_eq!(metric.number(7.0 * KNOT_MPS, Kind::Speed, 2), "7.00");
+        assert_eq!(metric.number(f64::NAN, Kind::Speed, 2), "—");
+        let imperial = Display::new(UnitSystem::Imperial);
+        assert_ne!(metric.unit(Kind::Power), imperial.unit(Kind::Power));
     }
 }
