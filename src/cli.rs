@@ -315,7 +315,7 @@ pub fn run(cli: Cli, out: &mut dyn Write) -> anyhow::Result<()> {
         Some(Command::Open { boat }) => open_terminal_ui(&ctx, Some(&boat)),
         Some(Command::Report(args)) => boat::report(&ctx, &args, out),
         Some(Command::Cruise(args)) => boat::cruise(&ctx, &args, out),
-        Some(Command::Check(args)) => store::check(&args, out),
+        Some(Command::Check(args)) => store::check(&ctx, &args, out),
         Some(Command::List(args)) => store::list(&ctx, &args, out),
         Some(Command::Init) => store::init(&ctx, out),
         Some(Command::Openwater(args)) => openwater::run(&args, out),
