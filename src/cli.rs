@@ -5,6 +5,7 @@
 //! does physics of its own.
 
 mod boat;
+mod design;
 mod openwater;
 mod store;
 
@@ -37,9 +38,10 @@ pub struct Cli {
     /// also taken from the TIDEWRIGHT_PROFILES environment variable).
     #[arg(long, global = true, value_name = "DIR")]
     pub profiles: Option<PathBuf>,
-    /// Unit system for text, CSV and Markdown output (JSON is always SI or named units).
-    #[arg(long, global = true, value_enum, default_value_t = Units::Metric)]
-    pub units: Units,
+    /// Unit system for text, CSV, Markdown and charts (default: the boat file's own; JSON is
+    /// always SI or the unit in the field's name).
+    #[arg(long, global = true, value_enum)]
+    pub units: Option<Units>,
     /// What to do; none opens the terminal UI.
     #[command(subcommand)]
     pub command: Option<Command>,
@@ -106,9 +108,9 @@ pub enum Command {
     /// Open-water table of a Wageningen B-series screw: J, KT, 10·KQ, η0.
     Openwater(OpenwaterArgs),
     /// Pitch that matches the engine, the change from the current pitch and rpm per inch.
-    Pitch(DesignArgs),
-    /// Sweep diameter, gear ratio, blade count and area ratio; rank the candidates.
-    Sweep(DesignArgs),
+    Pitch(PitchArgs),
+    /// Sweep diameter, gear ratio, blade count or area ratio; rank the candidates.
+    Sweep(SweepArgs),
     /// Compare the sea-trial log with the prediction and fit a resistance correction.
     Trial(DesignArgs),
     /// Write a Markdown report with SVG charts for the owner and the propeller shop.
@@ -198,7 +200,7 @@ pub struct OpenwaterArgs {
     pub format: PlainFormat,
 }
 
-/// Arguments of `pitch`, `sweep` and `trial`.
+/// Arguments of `trial`.
 #[derive(Debug, Args)]
 pub struct DesignArgs {
     /// A boat name in the profile store, or a path to a boat file.
@@ -206,6 +208,71 @@ pub struct DesignArgs {
     /// Only this screw variant (its label).
     #[arg(long, value_name = "LABEL")]
     pub variant: Option<String>,
+    /// Output format.
+    #[arg(long, value_enum, default_value_t = PlainFormat::Text)]
+    pub format: PlainFormat,
+}
+
+/// Arguments of `pitch`.
+#[derive(Debug, Args)]
+pub struct PitchArgs {
+    /// A boat name in the profile store, or a path to a boat file.
+    pub boat: String,
+    /// Only this screw variant (its label).
+    #[arg(long, value_name = "LABEL")]
+    pub variant: Option<String>,
+    /// Target: absorb this percentage of rated power at rated rpm (default 100).
+    #[arg(long, value_name = "PERCENT", conflicts_with = "light_running")]
+    pub absorb: Option<f64>,
+    /// Target: meet the full-load curve this many rpm above rated (a light-running screw).
+    #[arg(long, value_name = "RPM", allow_hyphen_values = true)]
+    pub light_running: Option<f64>,
+    /// Output format.
+    #[arg(long, value_enum, default_value_t = PlainFormat::Text)]
+    pub format: PlainFormat,
+}
+
+/// What a sweep varies.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, ValueEnum)]
+pub enum SweepOver {
+    /// Screw diameter up to the largest the aperture takes with its tip clearance.
+    Diameter,
+    /// Reduction gear ratio.
+    Gear,
+    /// Blade count.
+    Blades,
+    /// Expanded area ratio AE/A0.
+    Area,
+}
+
+/// How sweep candidates are ranked.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, ValueEnum)]
+pub enum RankBy {
+    /// Least fuel per nautical mile at the target speed.
+    Fuel,
+    /// Highest top speed.
+    Speed,
+    /// Highest propulsive efficiency at the target speed.
+    Efficiency,
+}
+
+/// Arguments of `sweep`.
+#[derive(Debug, Args)]
+pub struct SweepArgs {
+    /// A boat name in the profile store, or a path to a boat file.
+    pub boat: String,
+    /// The screw variant to start from (default: the boat's active variant).
+    #[arg(long, value_name = "LABEL")]
+    pub variant: Option<String>,
+    /// What to vary.
+    #[arg(long, value_enum, default_value_t = SweepOver::Diameter)]
+    pub over: SweepOver,
+    /// Values to try, comma-separated (gear ratios, blade counts or area ratios; not diameter).
+    #[arg(long, value_name = "LIST")]
+    pub values: Option<String>,
+    /// Ranking criterion.
+    #[arg(long, value_enum, default_value_t = RankBy::Fuel)]
+    pub rank: RankBy,
     /// Output format.
     #[arg(long, value_enum, default_value_t = PlainFormat::Text)]
     pub format: PlainFormat,
@@ -241,8 +308,15 @@ pub struct InvalidFiles {
 pub struct Context {
     /// The profile directory given by flag or environment, if any.
     pub profiles: Option<PathBuf>,
-    /// The display unit system.
-    pub units: UnitSystem,
+    /// The display unit system asked for, if any (otherwise the boat file's own).
+    pub units: Option<UnitSystem>,
+}
+
+impl Context {
+    /// The display system for a boat whose file is written in `file_units`.
+    pub fn units_or(&self, file_units: UnitSystem) -> UnitSystem {
+        self.units.unwrap_or(file_units)
+    }
 }
 
 /// Runs the program with the process arguments and returns its exit code.
@@ -308,7 +382,7 @@ pub fn run(cli: Cli, out: &mut dyn Write) -> anyhow::Result<()> {
     });
     let ctx = Context {
         profiles,
-        units: cli.units.into(),
+        units: cli.units.map(UnitSystem::from),
     };
     match cli.command {
         None => open_terminal_ui(&ctx, None),
@@ -319,9 +393,9 @@ pub fn run(cli: Cli, out: &mut dyn Write) -> anyhow::Result<()> {
         Some(Command::List(args)) => store::list(&ctx, &args, out),
         Some(Command::Init) => store::init(&ctx, out),
         Some(Command::Openwater(args)) => openwater::run(&args, out),
-        Some(Command::Pitch(args)) => boat::pitch(&ctx, &args, out),
-        Some(Command::Sweep(args)) => boat::sweep(&ctx, &args, out),
-        Some(Command::Trial(args)) => boat::trial(&ctx, &args, out),
+        Some(Command::Pitch(args)) => design::pitch(&ctx, &args, out),
+        Some(Command::Sweep(args)) => design::sweep(&ctx, &args, out),
+        Some(Command::Trial(args)) => design::trial(&ctx, &args, out),
         Some(Command::Export(args)) => boat::export(&ctx, &args, out),
     }
 }

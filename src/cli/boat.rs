@@ -4,14 +4,16 @@ use std::io::Write;
 
 use anyhow::Context as _;
 
+use super::design;
 use super::store::{LoadedBoat, load_boat};
 use super::{
-    Context, CruiseArgs, DesignArgs, ExportArgs, PlainFormat, ReportArgs, ReportFormat, UsageError,
-    parse_rpm,
+    Context, CruiseArgs, ExportArgs, PlainFormat, ReportArgs, ReportFormat, UsageError, parse_rpm,
 };
+use crate::profile::Rotation;
 use crate::propulsion::solver::cruise::{cruise_at_rpm, cruise_at_speed};
+use crate::propulsion::solver::design::PitchOptions;
 use crate::report::boat::{BoatReport, PointJson, cruise_summary};
-use crate::report::export::{REPORT_FILE, export as export_files};
+use crate::report::export::{Section, export as export_files};
 use crate::report::{CAUTION, Display, json};
 use crate::units::{self, Kind};
 
@@ -59,9 +61,9 @@ pub fn report(ctx: &Context, args: &ReportArgs, out: &mut dyn Write) -> anyhow::
     )
     .map_err(|e| UsageError(e.to_string()))?;
     let text = match args.format {
-        ReportFormat::Text => report.to_text(ctx.units),
-        ReportFormat::Csv => report.to_csv(ctx.units),
-        ReportFormat::Md => report.to_markdown(ctx.units),
+        ReportFormat::Text => report.to_text(loaded.units),
+        ReportFormat::Csv => report.to_csv(loaded.units),
+        ReportFormat::Md => report.to_markdown(loaded.units),
         ReportFormat::Json => json::to_string(&report.to_json())?,
     };
     out.write_all(text.as_bytes())?;
@@ -125,7 +127,7 @@ pub fn cruise(ctx: &Context, args: &CruiseArgs, out: &mut dyn Write) -> anyhow::
     }
     match args.format {
         PlainFormat::Text => {
-            let d = Display::new(ctx.units);
+            let d = Display::new(loaded.units);
             let mut line = cruise_summary(&point, &d);
             if point.beyond_full_load {
                 line.push_str(" — past the engine's full-load curve: not reachable");
@@ -146,22 +148,63 @@ pub fn cruise(ctx: &Context, args: &CruiseArgs, out: &mut dyn Write) -> anyhow::
     Ok(())
 }
 
-/// `pitch BOAT`.
-pub fn pitch(ctx: &Context, args: &DesignArgs, out: &mut dyn Write) -> anyhow::Result<()> {
-    let _ = (ctx, args, out);
-    anyhow::bail!("the pitch recommendation is not part of this build yet")
-}
-
-/// `sweep BOAT`.
-pub fn sweep(ctx: &Context, args: &DesignArgs, out: &mut dyn Write) -> anyhow::Result<()> {
-    let _ = (ctx, args, out);
-    anyhow::bail!("the design sweep is not part of this build yet")
-}
-
-/// `trial BOAT`.
-pub fn trial(ctx: &Context, args: &DesignArgs, out: &mut dyn Write) -> anyhow::Result<()> {
-    let _ = (ctx, args, out);
-    anyhow::bail!("the sea-trial calibration is not part of this build yet")
+/// The sections of the export that come from the design stage: the recommended screw, the
+/// pitch of every variant and the sea-trial calibration.
+fn design_sections(loaded: &LoadedBoat, d: &Display) -> Vec<Section> {
+    let vessel = &loaded.vessel;
+    let mut sections = Vec::new();
+    let active = vessel
+        .active_variant
+        .min(vessel.variants.len().saturating_sub(1));
+    let indices: Vec<usize> = (0..vessel.variants.len()).collect();
+    match design::recommendations(loaded, &indices, &PitchOptions::default()) {
+        Ok(recs) => {
+            let mut body = String::new();
+            if let Some(rec) = recs.get(active) {
+                let g = vessel.variants[active].screw.geometry();
+                let hand = match loaded.doc.variants.get(active).and_then(|v| v.rotation) {
+                    Some(Rotation::Right) => ", right hand",
+                    Some(Rotation::Left) => ", left hand",
+                    None => ", hand of rotation not given",
+                };
+                match rec.recommended_pitch.filter(|p| p.is_finite()) {
+                    Some(p) => body.push_str(&format!(
+                        "**Recommended screw** (from variant {}): {} blades × {} diameter × {} pitch, AE/A0 {:.2}{hand}.\n\n",
+                        rec.label,
+                        g.blades,
+                        d.quantity(g.diameter, Kind::ScrewLength),
+                        d.quantity(p, Kind::ScrewLength),
+                        g.area_ratio
+                    )),
+                    None => body.push_str(&format!("No pitch could be recommended for the active variant {}.\n\n", rec.label)),
+                }
+            }
+            for rec in &recs {
+                body.push_str("```text\n");
+                body.push_str(&design::pitch_text(rec, d));
+                body.push_str("```\n\n");
+            }
+            sections.push(Section {
+                title: "Pitch recommendation".into(),
+                body,
+            });
+        }
+        Err(e) => sections.push(Section {
+            title: "Pitch recommendation".into(),
+            body: format!("Not available: {e:#}"),
+        }),
+    }
+    if !vessel.trial.is_empty() {
+        let body = match design::calibration(loaded, active) {
+            Ok(cal) => format!("```text\n{}```\n", design::trial_text(&cal, d)),
+            Err(e) => format!("Not available: {e:#}"),
+        };
+        sections.push(Section {
+            title: "Sea-trial calibration".into(),
+            body,
+        });
+    }
+    sections
 }
 
 /// `export BOAT --out DIR`.
@@ -172,7 +215,8 @@ pub fn export(ctx: &Context, args: &ExportArgs, out: &mut dyn Write) -> anyhow::
     let engine = &vessel.engine;
     let fine_step = ((engine.rated_rpm - engine.idle_rpm) / CHART_STEPS).max(1.0);
     let curves = BoatReport::build(vessel, None, Some(fine_step), &[])?;
-    let files = export_files(vessel, &report, &curves, &[], ctx.units);
+    let sections = design_sections(&loaded, &Display::new(loaded.units));
+    let files = export_files(vessel, &report, &curves, &sections, loaded.units);
     std::fs::create_dir_all(&args.out)
         .with_context(|| format!("cannot create {}", args.out.display()))?;
     for file in &files {
@@ -181,6 +225,5 @@ pub fn export(ctx: &Context, args: &ExportArgs, out: &mut dyn Write) -> anyhow::
             .with_context(|| format!("cannot write {}", path.display()))?;
         writeln!(out, "wrote {}", path.display())?;
     }
-    let _ = REPORT_FILE;
     Ok(())
 }

@@ -7,7 +7,7 @@ use anyhow::Context as _;
 
 use super::{CheckArgs, Context, InvalidFiles, ListArgs, PlainFormat};
 use crate::profile::store::{load_boat_file, load_engine_file};
-use crate::profile::{BoatDoc, EngineDoc, Origin, Store};
+use crate::profile::{BoatDoc, Origin, Store};
 use crate::propulsion::solver::Vessel;
 use crate::units::{Kind, UnitSystem};
 
@@ -18,12 +18,10 @@ pub struct LoadedBoat {
     pub vessel: Vessel,
     /// The boat document (hand of rotation, calibration, trial log as written).
     pub doc: BoatDoc,
-    /// The engine sheet document.
-    pub engine_doc: EngineDoc,
-    /// Where it came from, as shown to the user.
-    pub origin: String,
     /// Notes for the report: values the core estimated because the profile did not give them.
     pub warnings: Vec<String>,
+    /// The unit system to show it in: `--units`, else the one its file is written in.
+    pub units: UnitSystem,
 }
 
 /// The store the global options point at.
@@ -49,13 +47,13 @@ pub fn load_boat(ctx: &Context, boat: &str) -> anyhow::Result<LoadedBoat> {
         .doc
         .to_default_vessel(&engine.doc)
         .with_context(|| format!("cannot build boat {boat:?} from {origin}"))?;
-    let warnings = estimated_notes(&vessel, ctx.units);
+    let units = ctx.units_or(loaded.doc.units);
+    let warnings = estimated_notes(&vessel, units);
     Ok(LoadedBoat {
         vessel,
         doc: loaded.doc,
-        engine_doc: engine.doc,
-        origin,
         warnings,
+        units,
     })
 }
 

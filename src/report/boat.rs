@@ -401,7 +401,10 @@ impl BoatReport {
             });
         }
         if let Some(limit) = e.full_throttle_limit {
-            line.push_str(&format!(" (full throttle at most {:.0} min)", limit / 60.0));
+            line.push_str(&format!(
+                " (full throttle at most {})",
+                d.quantity(limit, Kind::Time)
+            ));
         }
         line
     }
@@ -530,7 +533,9 @@ pub fn verdict_words(verdict: Verdict) -> &'static str {
 pub fn match_line(v: &VariantReport, d: &Display, rated_rpm: f64) -> String {
     match &v.matching {
         Ok(m) => {
-            let margin = if m.rpm_margin < 0.0 {
+            let margin = if m.rpm_margin.abs() < 0.5 {
+                format!("reaches rated {rated_rpm:.0} rpm")
+            } else if m.rpm_margin < 0.0 {
                 format!("{:.0} rpm short of rated {rated_rpm:.0} rpm", -m.rpm_margin)
             } else {
                 format!("{:.0} rpm above rated {rated_rpm:.0} rpm", m.rpm_margin)
