@@ -619,3 +619,4 @@ fn a_demo_vessel_gives_a_match_per_variant_and_an_operating_table() {
     let target = vessel.cruise_at_target(active).unwrap();
     assert_close!(target.point.speed, vessel.trip.target_speed, 1e-12);
 }
+
