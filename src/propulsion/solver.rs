@@ -2,10 +2,13 @@
 //!
 //! The TUI and CLI both call these functions; neither does physics of its own.
 
+pub mod conditions;
 pub mod cruise;
 pub mod curve;
+pub mod design;
 pub mod matching;
 pub mod point;
+pub mod shaft;
 pub mod trial;
 pub mod vessel;
 
