@@ -392,7 +392,7 @@ fn bracket(
     let mut low = 0.0;
     for tenths in 9..=20 {
         let j = 0.1 * f64::from(tenths) * pitch_ratio;
-        if !(j > low) {
+        if j.is_nan() || j <= low {
             break;
         }
         if excess(j) <= 0.0 {
