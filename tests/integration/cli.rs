@@ -896,6 +896,7 @@ fn terminal_ui_entry_points_do_not_panic() {
     let assert = tidewright()
         .args(["--profiles", &store, "open", "marram"])
         .write_stdin("")
+        .timeout(std::time::Duration::from_secs(10))
         .assert();
     assert!(!String::from_utf8_lossy(&assert.get_output().stderr).contains("panicked"));
 }
