@@ -264,21 +264,22 @@ fn sweep_parameter(
                     vessel.name
                 )
             })?;
+            // The profile's `max_screw_diameter` is the largest screw the aperture takes with
+            // the tip clearance kept; the design module wants the aperture disc and the
+            // clearance as a fraction of that screw, which gives back exactly this diameter.
+            let largest = aperture;
             let clearance = inst.tip_clearance.as_ref().map_or(0.0, |q| q.value);
-            let largest = aperture - 2.0 * clearance;
-            if largest.is_nan() || largest <= 0.0 {
+            if !(clearance.is_finite() && clearance >= 0.0 && clearance < 0.5 * largest) {
                 anyhow::bail!(
-                    "the tip clearance leaves no room for a screw in the aperture of {:?}",
+                    "installation.tip_clearance of {:?} must be at least 0 and less than half of max_screw_diameter",
                     vessel.name
                 );
             }
             let current = vessel.variants[index].screw.geometry().diameter;
             SweepParameter::Diameter {
                 min_diameter: (0.8 * current).min(0.8 * largest),
-                // The profile gives the aperture's largest screw and a clearance in length; the
-                // design module wants the clearance as a fraction of the screw it leaves room for.
                 aperture: ApertureLimit {
-                    aperture_diameter: aperture,
+                    aperture_diameter: largest + 2.0 * clearance,
                     tip_clearance_fraction: clearance / largest,
                 },
                 count: DIAMETER_STEPS,
