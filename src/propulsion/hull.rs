@@ -25,6 +25,14 @@ pub enum HullError {
         /// The value given, SI.
         value: f64,
     },
+    /// A quantity that may be zero but not negative (an area, a height) was negative or not finite.
+    #[error("{field} must be zero or a positive finite number, got {value}")]
+    Negative {
+        /// The field's name, e.g. "appendage wetted area".
+        field: &'static str,
+        /// The value given, SI.
+        value: f64,
+    },
     /// A coefficient lies outside the range where it has a meaning.
     #[error("{field} = {value} is outside the physically possible range {min}–{max}")]
     OutOfRange {

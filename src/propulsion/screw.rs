@@ -4,7 +4,7 @@ pub mod bseries;
 pub mod cavitation;
 pub mod table;
 
-pub use bseries::BSeriesScrew;
+pub use bseries::{BSeriesScrew, OpenWaterRow, open_water_rows};
 pub use table::OpenWaterTable;
 
 use crate::propulsion::Warning;

@@ -1,6 +1,8 @@
 //! Hull–propeller interaction: wake fraction, thrust deduction, relative rotative efficiency.
 
 use super::HullForm;
+use super::friction::{ittc1957_friction_coefficient, reynolds_number};
+use super::holtrop::{Edition, HoltropCoefficients};
 use crate::propulsion::water::WaterProperties;
 
 /// Interaction coefficients at one speed (all dimensionless).
@@ -38,8 +40,39 @@ pub struct ScrewAtStern {
     pub blades: u32,
 }
 
+/// Largest wake fraction returned; above it the regressions are far outside their data.
+pub const MAX_WAKE_FRACTION: f64 = 0.59;
+/// Largest thrust deduction returned.
+pub const MAX_THRUST_DEDUCTION: f64 = 0.49;
+/// Smallest relative rotative efficiency returned.
+pub const MIN_RELATIVE_ROTATIVE_EFFICIENCY: f64 = 0.9;
+/// Largest relative rotative efficiency returned.
+pub const MAX_RELATIVE_ROTATIVE_EFFICIENCY: f64 = 1.1;
+
+impl Interaction {
+    /// These coefficients held inside their physical ranges.
+    ///
+    /// A negative wake or thrust deduction, a wake near 0.6 (the flow nearly stopped at the
+    /// disc) or a thrust deduction near 0.5 (the screw needing twice the towed resistance) are
+    /// never seen behind a single-screw displacement hull; they only arise when a regression is
+    /// pushed far outside its data (a small boat with a large screw, say). Holding them keeps
+    /// the thrust identity solvable and the result on the side of experience.
+    pub fn clamped(self) -> Self {
+        Self {
+            wake_fraction: self.wake_fraction.clamp(0.0, MAX_WAKE_FRACTION),
+            thrust_deduction: self.thrust_deduction.clamp(0.0, MAX_THRUST_DEDUCTION),
+            relative_rotative_efficiency: self.relative_rotative_efficiency.clamp(
+                MIN_RELATIVE_ROTATIVE_EFFICIENCY,
+                MAX_RELATIVE_ROTATIVE_EFFICIENCY,
+            ),
+        }
+    }
+}
+
 impl InteractionMethod {
     /// The interaction coefficients at `speed` (m/s) for this hull, water and screw.
+    ///
+    /// Always finite and inside the ranges of [`Interaction::clamped`]; no allocation.
     pub fn at_speed(
         &self,
         hull: &HullForm,
@@ -47,7 +80,123 @@ impl InteractionMethod {
         screw: &ScrewAtStern,
         speed: f64,
     ) -> Interaction {
-        let _ = (hull, water, screw, speed);
-        unimplemented!("hull helper")
+        let raw = match self {
+            InteractionMethod::Holtrop1984SingleScrew => {
+                holtrop_single_screw(hull, water, screw, speed)
+            }
+            InteractionMethod::Taylor => {
+                let wake = 0.5 * hull.block_coefficient - 0.05;
+                Interaction {
+                    wake_fraction: wake,
+                    thrust_deduction: 0.6 * wake * (1.0 + 0.67 * wake),
+                    relative_rotative_efficiency: 1.0,
+                }
+            }
+            InteractionMethod::User(values) => *values,
+        };
+        let finite = |x: f64, fallback: f64| if x.is_finite() { x } else { fallback };
+        Interaction {
+            wake_fraction: finite(raw.wake_fraction, 0.0),
+            thrust_deduction: finite(raw.thrust_deduction, 0.0),
+            relative_rotative_efficiency: finite(raw.relative_rotative_efficiency, 1.0),
+        }
+        .clamped()
+    }
+}
+
+/// Holtrop (1984) single-screw wake, thrust deduction and ηR (unclamped).
+///
+/// The wake depends on speed through the viscous coefficient CV = (1+k)·CF + CA, with 1+k the
+/// hull form factor blended with the appendage form factor by wetted area.
+pub fn holtrop_single_screw(
+    hull: &HullForm,
+    water: &WaterProperties,
+    screw: &ScrewAtStern,
+    speed: f64,
+) -> Interaction {
+    let input = &hull.input;
+    let (l, b) = (input.length_waterline, input.beam_waterline);
+    let ta = input.draft_aft;
+    let d = screw.diameter;
+    let s = hull.wetted_surface.value;
+    let cb = hull.block_coefficient;
+    let cp = hull.prismatic_coefficient;
+    let cm = hull.midship_coefficient.value;
+    let lcb = hull.lcb_percent();
+    let cstern = input.stern_coefficient;
+    let coefficients = HoltropCoefficients::new(hull, Edition::Revised1984);
+
+    let rn = reynolds_number(speed, l, water.kinematic_viscosity);
+    let cf = ittc1957_friction_coefficient(rn);
+    let s_total = s + input.appendage_area;
+    let k_total = coefficients.form_factor
+        + (input.appendage_form_factor - coefficients.form_factor) * input.appendage_area / s_total;
+    let cv = k_total * cf + coefficients.correlation_allowance;
+
+    let c8 = if b / ta < 5.0 {
+        b * s / (l * d * ta)
+    } else {
+        s * (7.0 * b / ta - 25.0) / (l * d * (b / ta - 3.0))
+    };
+    let c9 = if c8 < 28.0 {
+        c8
+    } else {
+        32.0 - 16.0 / (c8 - 24.0)
+    };
+    let ta_d = ta / d;
+    let c11 = if ta_d < 2.0 {
+        ta_d
+    } else {
+        0.0833333 * ta_d.powi(3) + 1.33333
+    };
+    let c19 = if cp < 0.7 {
+        0.12997 / (0.95 - cb) - 0.11056 / (0.95 - cp)
+    } else {
+        0.18567 / (1.3571 - cm) - 0.71276 + 0.38648 * cp
+    };
+    let c20 = 1.0 + 0.015 * cstern;
+    // CP1 < 1 always for Cp ≤ 0.98 and |lcb| ≤ 10 %; the floor only guards the square root.
+    let one_minus_cp1 = (1.0 - (1.45 * cp - 0.315 - 0.0225 * lcb)).max(0.05);
+
+    let wake_fraction = c9 * c20 * cv * (l / ta) * (0.050776 + 0.93405 * c11 * cv / one_minus_cp1)
+        + 0.27915 * c20 * (b / (l * one_minus_cp1)).sqrt()
+        + c19 * c20;
+    let thrust_deduction =
+        0.25014 * (b / l).powf(0.28956) * ((b * hull.draft_mean).sqrt() / d).powf(0.2624)
+            / (1.0 - cp + 0.0225 * lcb).max(0.01).powf(0.01762)
+            + 0.0015 * cstern;
+    let relative_rotative_efficiency =
+        0.9922 - 0.05908 * screw.area_ratio + 0.07424 * (cp - 0.0225 * lcb);
+    Interaction {
+        wake_fraction,
+        thrust_deduction,
+        relative_rotative_efficiency,
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn clamping_keeps_values_physical_and_leaves_normal_ones_alone() {
+        let normal = Interaction {
+            wake_fraction: 0.25,
+            thrust_deduction: 0.18,
+            relative_rotative_efficiency: 1.01,
+        };
+        assert_eq!(normal.clamped(), normal);
+        let wild = Interaction {
+            wake_fraction: -0.2,
+            thrust_deduction: 0.7,
+            relative_rotative_efficiency: 0.5,
+        };
+        let held = wild.clamped();
+        assert_eq!(held.wake_fraction, 0.0);
+        assert_eq!(held.thrust_deduction, MAX_THRUST_DEDUCTION);
+        assert_eq!(
+            held.relative_rotative_efficiency,
+            MIN_RELATIVE_ROTATIVE_EFFICIENCY
+        );
     }
 }

@@ -1,5 +1,7 @@
 //! The resistance model of a boat: a method, air drag and margins, evaluated at any speed.
 
+use super::friction::{ittc1957_friction_coefficient, reynolds_number};
+use super::holtrop::{self, Edition, HoltropCoefficients};
 use super::{HullError, HullForm};
 use crate::propulsion::Warning;
 use crate::propulsion::water::WaterProperties;
@@ -71,7 +73,11 @@ pub struct Margins {
 
 impl Default for Margins {
     fn default() -> Self {
-        Self { service: 0.0, fouling: 0.0, resistance_factor: 1.0 }
+        Self {
+            service: 0.0,
+            fouling: 0.0,
+            resistance_factor: 1.0,
+        }
     }
 }
 
@@ -90,21 +96,277 @@ pub struct ResistanceModel {
     pub margins: Margins,
 }
 
+impl ResistanceTable {
+    /// Checks that the table has at least two rows, finite non-negative values and strictly
+    /// increasing speeds.
+    pub fn validate(&self) -> Result<(), HullError> {
+        if self.rows.len() < 2 {
+            return Err(HullError::BadTable(format!(
+                "needs at least two rows (speed, resistance), got {}",
+                self.rows.len()
+            )));
+        }
+        for (i, &(speed, resistance)) in self.rows.iter().enumerate() {
+            if !(speed.is_finite() && speed >= 0.0 && resistance.is_finite() && resistance >= 0.0) {
+                return Err(HullError::BadTable(format!(
+                    "row {}: speed {speed} m/s and resistance {resistance} N must be finite and not negative",
+                    i + 1
+                )));
+            }
+        }
+        if let Some(i) = self.rows.windows(2).position(|w| w[1].0 <= w[0].0) {
+            return Err(HullError::BadTable(format!(
+                "speeds must increase strictly from row to row; row {} ({} m/s) is not above row {} ({} m/s)",
+                i + 2,
+                self.rows[i + 1].0,
+                i + 1,
+                self.rows[i].0
+            )));
+        }
+        Ok(())
+    }
+
+    /// Resistance at `speed` m/s by linear interpolation, N; an error outside the table.
+    pub fn interpolate(&self, speed: f64) -> Result<f64, HullError> {
+        self.validate()?;
+        let (min, max) = (self.rows[0].0, self.rows[self.rows.len() - 1].0);
+        if !(min..=max).contains(&speed) {
+            return Err(HullError::OutsideTable { speed, min, max });
+        }
+        // Rows are few (a tank test has 5–20), so a linear scan beats a binary search's setup.
+        let upper = self
+            .rows
+            .iter()
+            .position(|&(v, _)| v >= speed)
+            .unwrap_or(self.rows.len() - 1);
+        if upper == 0 {
+            return Ok(self.rows[0].1);
+        }
+        let (v0, r0) = self.rows[upper - 1];
+        let (v1, r1) = self.rows[upper];
+        Ok(r0 + (r1 - r0) * (speed - v0) / (v1 - v0))
+    }
+}
+
+impl AirDrag {
+    /// Air drag ½·ρair·Cd·A·(V + headwind)·|V + headwind| at boat speed `speed` m/s, N.
+    ///
+    /// The signed square lets a following wind stronger than the boat push it along.
+    pub fn force(&self, speed: f64) -> f64 {
+        let relative = speed + self.headwind;
+        0.5 * self.air_density
+            * self.drag_coefficient
+            * self.frontal_area
+            * relative
+            * relative.abs()
+    }
+}
+
+impl ResistanceMethod {
+    /// Short name of the method for display and for warning sources.
+    pub fn name(&self) -> &'static str {
+        match self {
+            ResistanceMethod::HoltropMennen => "Holtrop-Mennen (1982/1984)",
+            ResistanceMethod::Table(_) => "resistance table",
+        }
+    }
+}
+
+/// The Holtrop edition a [`ResistanceMethod::HoltropMennen`] model evaluates.
+pub const HOLTROP_EDITION: Edition = Edition::Revised1984;
+
 impl ResistanceModel {
     /// Total resistance and its components at `speed` (m/s); 0 m/s gives all zeros.
+    ///
+    /// The components always sum to `total`: friction·form_factor + appendages + wave + bulb +
+    /// transom + correlation + air + margin. `margin` holds fouling (fouling × friction) and the
+    /// service margin (service × (calm water + air)); every force is then multiplied by the
+    /// calibration factor `resistance_factor`. For a table, `friction` is the ITTC-1957 friction
+    /// of the resolved wetted surface (form factor 1) and `wave` the rest of the table's value
+    /// (the residuary resistance). No allocation.
     pub fn resistance(&self, speed: f64) -> Result<ResistanceComponents, HullError> {
-        let _ = speed;
-        unimplemented!("hull helper")
+        if !speed.is_finite() || speed < 0.0 {
+            return Err(HullError::InvalidSpeed(speed));
+        }
+        if speed == 0.0 {
+            let form_factor = match self.method {
+                ResistanceMethod::HoltropMennen => {
+                    HoltropCoefficients::new(&self.hull, HOLTROP_EDITION).form_factor
+                }
+                ResistanceMethod::Table(_) => 1.0,
+            };
+            return Ok(ResistanceComponents {
+                form_factor,
+                ..Default::default()
+            });
+        }
+        let mut parts = match &self.method {
+            ResistanceMethod::HoltropMennen => {
+                let r = HoltropCoefficients::new(&self.hull, HOLTROP_EDITION)
+                    .at_speed(speed, &self.water);
+                ResistanceComponents {
+                    friction: r.friction,
+                    form_factor: r.form_factor,
+                    appendages: r.appendages,
+                    wave: r.wave,
+                    bulb: r.bulb,
+                    transom: r.transom,
+                    correlation: r.correlation,
+                    ..Default::default()
+                }
+            }
+            ResistanceMethod::Table(table) => {
+                let tabulated = table.interpolate(speed)?;
+                let friction = self.ittc_friction(speed);
+                ResistanceComponents {
+                    friction,
+                    form_factor: 1.0,
+                    wave: tabulated - friction,
+                    ..Default::default()
+                }
+            }
+        };
+        let calm_water = parts.friction * parts.form_factor
+            + parts.appendages
+            + parts.wave
+            + parts.bulb
+            + parts.transom
+            + parts.correlation;
+        parts.air = self.air.map_or(0.0, |air| air.force(speed));
+        parts.margin =
+            self.margins.fouling * parts.friction + self.margins.service * (calm_water + parts.air);
+        let factor = self.margins.resistance_factor;
+        for force in [
+            &mut parts.friction,
+            &mut parts.appendages,
+            &mut parts.wave,
+            &mut parts.bulb,
+            &mut parts.transom,
+            &mut parts.correlation,
+            &mut parts.air,
+            &mut parts.margin,
+        ] {
+            *force *= factor;
+        }
+        parts.total = parts.friction * parts.form_factor
+            + parts.appendages
+            + parts.wave
+            + parts.bulb
+            + parts.transom
+            + parts.correlation
+            + parts.air
+            + parts.margin;
+        Ok(parts)
     }
 
     /// Warnings for this model: hull outside the method's published parameter ranges, etc.
     pub fn warnings(&self) -> Vec<Warning> {
-        unimplemented!("hull helper")
+        let mut warnings = self.hull.warnings.clone();
+        match &self.method {
+            ResistanceMethod::HoltropMennen => {
+                warnings.extend(holtrop::validity_warnings(&self.hull, HOLTROP_EDITION));
+            }
+            ResistanceMethod::Table(table) => {
+                if let Err(e) = table.validate() {
+                    warnings.push(Warning::new(SOURCE, e.to_string()));
+                }
+            }
+        }
+        let m = &self.margins;
+        if !(m.resistance_factor.is_finite() && (0.5..=2.0).contains(&m.resistance_factor)) {
+            warnings.push(Warning::new(
+                SOURCE,
+                format!(
+                    "resistance calibration factor {} is far from 1 (0.5–2 expected): check the sea-trial fit",
+                    m.resistance_factor
+                ),
+            ));
+        }
+        if !(0.0..=1.0).contains(&m.service) || !(0.0..=2.0).contains(&m.fouling) {
+            warnings.push(Warning::new(
+                SOURCE,
+                format!(
+                    "margins service {:.0} % / fouling {:.0} % are unusual (0–100 % / 0–200 %)",
+                    m.service * 100.0,
+                    m.fouling * 100.0
+                ),
+            ));
+        }
+        warnings
     }
 
     /// Speed-dependent warnings, e.g. a Froude number past the method's range, at `speed` m/s.
     pub fn warnings_at(&self, speed: f64) -> Vec<Warning> {
-        let _ = speed;
-        unimplemented!("hull helper")
+        let mut warnings = Vec::new();
+        match &self.method {
+            ResistanceMethod::HoltropMennen => {
+                let fn_l = self.hull.froude_number(speed);
+                warnings.extend(holtrop::froude_warning(fn_l, HOLTROP_EDITION));
+            }
+            ResistanceMethod::Table(table) => match table.interpolate(speed) {
+                Err(e) => warnings.push(Warning::new(SOURCE, e.to_string())),
+                Ok(tabulated) => {
+                    let friction = self.ittc_friction(speed);
+                    if speed > 0.0 && tabulated < friction {
+                        warnings.push(Warning::new(
+                            SOURCE,
+                            format!(
+                                "table resistance {tabulated:.0} N at {speed:.2} m/s is below the flat-plate friction \
+                                 {friction:.0} N of the wetted surface: check the table's units"
+                            ),
+                        ));
+                    }
+                }
+            },
+        }
+        warnings
+    }
+
+    /// ITTC-1957 frictional resistance of the resolved bare hull at `speed` m/s, N.
+    fn ittc_friction(&self, speed: f64) -> f64 {
+        let rn = reynolds_number(
+            speed,
+            self.hull.input.length_waterline,
+            self.water.kinematic_viscosity,
+        );
+        0.5 * self.water.density
+            * speed
+            * speed
+            * self.hull.wetted_surface.value
+            * ittc1957_friction_coefficient(rn)
+    }
+}
+
+const SOURCE: &str = "resistance";
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn table_interpolates_between_rows() {
+        let table = ResistanceTable {
+            rows: vec![(0.0, 0.0), (2.0, 1000.0), (4.0, 5000.0)],
+        };
+        assert_eq!(table.interpolate(3.0).unwrap(), 3000.0);
+        assert_eq!(table.interpolate(0.0).unwrap(), 0.0);
+        assert!(table.interpolate(4.1).is_err());
+        let bad = ResistanceTable {
+            rows: vec![(0.0, 0.0), (2.0, f64::NAN)],
+        };
+        assert!(matches!(bad.validate(), Err(HullError::BadTable(_))));
+    }
+
+    #[test]
+    fn tailwind_faster_than_the_boat_pushes() {
+        let air = AirDrag {
+            air_density: 1.2,
+            drag_coefficient: 1.0,
+            frontal_area: 2.0,
+            headwind: -3.0,
+        };
+        assert!(air.force(1.0) < 0.0);
+        assert_eq!(air.force(3.0), 0.0);
+        assert!((air.force(5.0) - 0.5 * 1.2 * 2.0 * 4.0).abs() < 1e-12);
     }
 }
