@@ -36,7 +36,9 @@ pub enum Action {
     /// The loop saved the boat; the text says where.
     Saved(String),
     /// The loop found the boat's file changed by another program since it was loaded.
-    ChangedOnDisk,
+    FileChanged,
+    /// A save was refused because the file changed on disk since it was loaded.
+    SaveConflict,
     /// Something the loop tried failed; the text says what and why.
     Failed(String),
 }
@@ -114,8 +116,11 @@ pub enum PickKind {
 pub enum Overlay {
     /// Nothing over the screen.
     None,
-    /// The help overlay.
-    Help,
+    /// The help overlay, scrolled down by `scroll` lines.
+    Help {
+        /// Lines scrolled past.
+        scroll: u16,
+    },
     /// A list to choose from.
     Pick {
         /// What is being chosen.
@@ -246,7 +251,7 @@ impl App {
     /// The keyboard mode for the current state.
     pub fn mode(&self) -> Mode {
         match (&self.overlay, &self.edit) {
-            (Overlay::Help, _) => Mode::Help,
+            (Overlay::Help { .. }, _) => Mode::Help,
             (Overlay::Pick { .. }, _) => Mode::Pick,
             (Overlay::Confirm(_), _) => Mode::Confirm,
             (Overlay::None, Some(_)) => Mode::Edit,
@@ -327,7 +332,14 @@ impl App {
                 self.set_status(Level::Info, format!("saved {where_}"));
                 None
             }
-            Action::ChangedOnDisk => {
+            Action::FileChanged => {
+                if !self.changed_on_disk {
+                    self.changed_on_disk = true;
+                    self.set_status(Level::Error, "the boat's file was changed by another program since it was opened");
+                }
+                None
+            }
+            Action::SaveConflict => {
                 self.changed_on_disk = true;
                 self.overlay = Overlay::Confirm(Question::OverwriteChanged);
                 None
@@ -373,8 +385,13 @@ impl App {
                 None
             }
             Mode::Help => {
-                if command == Command::ToggleHelp {
-                    self.overlay = Overlay::None;
+                if let Overlay::Help { scroll } = &mut self.overlay {
+                    match command {
+                        Command::ToggleHelp => self.overlay = Overlay::None,
+                        Command::ListDown => *scroll = (*scroll + 1).min(40),
+                        Command::ListUp => *scroll = scroll.saturating_sub(1),
+                        _ => {}
+                    }
                 }
                 None
             }
@@ -397,7 +414,7 @@ impl App {
                     row.saturating_sub(1)
                 };
             }
-            Command::BeginEdit => self.begin_edit(),
+            Command::BeginEdit => return self.begin_edit(),
             Command::NudgeUp => self.nudge(1.0),
             Command::NudgeDown => self.nudge(-1.0),
             Command::Undo => match self.undo.pop() {
@@ -489,7 +506,7 @@ impl App {
                 return Some(Effect::ListBoats);
             }
             Command::SwitchEngine => return Some(Effect::ListEngines),
-            Command::ToggleHelp => self.overlay = Overlay::Help,
+            Command::ToggleHelp => self.overlay = Overlay::Help { scroll: 0 },
             Command::Quit => {
                 if self.dirty() {
                     self.overlay = Overlay::Confirm(Question::QuitUnsaved);
@@ -543,9 +560,9 @@ impl App {
         }
     }
 
-    fn begin_edit(&mut self) {
-        let Some(field) = self.selected_field() else { return };
-        match fields::value(field, &self.doc) {
+    fn begin_edit(&mut self) -> Option<Effect> {
+        let field = self.selected_field()?;
+        match fields::value(field, &self.doc.boat) {
             FieldValue::Number { value, kind } => {
                 self.edit = Some(EditBuffer {
                     target: EditTarget::Field(field),
@@ -560,21 +577,22 @@ impl App {
                     Err(why) => self.set_status(Level::Error, why),
                 }
             }
-            FieldValue::Engine(_) => {
-                // The engine sheet comes from the store: the loop lists it.
-                self.overlay = Overlay::None;
-                self.status = None;
-                self.pending_engine_switch();
-            }
+            // The engine sheet comes from the store: the loop lists what there is.
+            FieldValue::Engine(_) => return Some(Effect::ListEngines),
             FieldValue::Text(text) => {
                 self.edit = Some(EditBuffer { target: EditTarget::Field(field), text, problem: None });
             }
+            FieldValue::ReadOnly(_) => {
+                let estimated = fields::kind_of(field).is_some();
+                if estimated {
+                    self.edit = Some(EditBuffer { target: EditTarget::Field(field), text: String::new(), problem: None });
+                    self.revalidate();
+                } else {
+                    self.set_status(Level::Info, format!("{} is not edited here", fields::label(field)));
+                }
+            }
         }
-    }
-
-    fn pending_engine_switch(&mut self) {
-        // Selecting the engine row and pressing Enter is the same as the engine key.
-        self.set_status(Level::Info, "press e to choose an engine sheet from the store");
+        None
     }
 
     /// Parses the edit buffer and records why it is not valid.

@@ -191,6 +191,8 @@ pub const BINDINGS: &[Binding] = &[
     bind(M::Confirm, &[ch('y', "y")], C::Yes, "yes", "yes", true),
     bind(M::Confirm, &[ch('n', "n"), code(KeyCode::Esc, "Esc")], C::No, "no", "no", true),
     bind(M::Help, &[ch('?', "?"), code(KeyCode::Esc, "Esc"), ch('q', "q"), code(KeyCode::F(1), "F1")], C::ToggleHelp, "close", "close the help", true),
+    bind(M::Help, &[code(KeyCode::Down, "↓"), ch('j', "j")], C::ListDown, "scroll", "scroll the help down", true),
+    bind(M::Help, &[code(KeyCode::Up, "↑"), ch('k', "k")], C::ListUp, "", "scroll the help up", false),
 ];
 
 /// The command bound to `key` in `mode`, if any.
