@@ -103,11 +103,20 @@ fn open(store: &Store, arg: Option<&str>) -> Result<(Opened, SaveTarget, Option<
     Ok((Opened { name: boat.name, boat: boat.doc, engine: engine.doc, savable }, target, stamp))
 }
 
+/// The app for `boat` of `store` (or its first boat), as the terminal UI starts it; for tests
+/// and benchmarks that drive [`App::update`] and [`render::draw`] without a terminal.
+pub fn open_app(store: &Store, boat: Option<&str>) -> Result<App, ProfileError> {
+    let (opened, _, _) = open(store, boat)?;
+    let units = opened.boat.units;
+    Ok(App::new(opened, units, theme::Theme::plain()))
+}
+
 /// Runs the terminal UI on `store`, opening `boat` (a name in the store or a path to a boat
 /// file), or the store's first boat — the embedded demo fleet's when the store does not exist.
-pub fn run(store: &Store, boat: Option<&str>) -> anyhow::Result<()> {
+/// `units` sets the display units at start; `None` uses the units the boat's file is written in.
+pub fn run(store: &Store, boat: Option<&str>, units: Option<UnitSystem>) -> anyhow::Result<()> {
     let (opened, target, stamp) = open(store, boat).context("opening the boat")?;
-    let units = opened.boat.units;
+    let units = units.unwrap_or(opened.boat.units);
     let mut app = App::new(opened, units, theme::Theme::from_env());
     let mut session = Session { store: store.clone(), target, stamp, last_disk_check: Instant::now() };
 
@@ -203,9 +212,4 @@ fn carry_out(effect: Effect, session: &mut Session) -> Action {
         },
         Effect::Quit => Action::Resize,
     }
-}
-
-/// The unit system a boat is shown in at first: the one its file is written in.
-pub fn initial_units(boat: &crate::profile::BoatDoc) -> UnitSystem {
-    boat.units
 }

@@ -2,11 +2,11 @@
 //! labels as well as colour.
 
 use ratatui::buffer::Buffer;
-use ratatui::layout::{Constraint, Rect};
+use ratatui::layout::Rect;
 use ratatui::style::Style;
 use ratatui::symbols::Marker;
 use ratatui::text::{Line, Span};
-use ratatui::widgets::{Axis, Block, Borders, Chart, Dataset, GraphType, LegendPosition, Widget};
+use ratatui::widgets::{Axis, Block, Borders, Chart, Dataset, GraphType, Paragraph, Widget, Wrap};
 
 /// Which chart the chart area shows.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Default)]
@@ -68,11 +68,13 @@ pub enum Glyph {
     Bar,
     /// `█`
     Block,
+    /// A quarter block, `▖` and its turns.
+    Quarter,
 }
 
 impl Glyph {
     /// The glyphs given to screw variants in turn.
-    pub const FOR_VARIANTS: [Glyph; 2] = [Glyph::Dot, Glyph::Bar];
+    pub const FOR_VARIANTS: [Glyph; 3] = [Glyph::Dot, Glyph::Bar, Glyph::Quarter];
 
     /// The character drawn, also written in the legend.
     pub fn symbol(self) -> &'static str {
@@ -80,6 +82,7 @@ impl Glyph {
             Glyph::Dot => "•",
             Glyph::Bar => "▄",
             Glyph::Block => "█",
+            Glyph::Quarter => "▖",
         }
     }
 
@@ -88,6 +91,7 @@ impl Glyph {
             Glyph::Dot => Marker::Dot,
             Glyph::Bar => Marker::Bar,
             Glyph::Block => Marker::Block,
+            Glyph::Quarter => Marker::Quadrant,
         }
     }
 }
@@ -179,13 +183,24 @@ impl Widget for ChartWidget<'_> {
         if inner.width < 10 || inner.height < 4 {
             return;
         }
-        let (chart_area, note_area) = match &view.note {
-            Some(_) if inner.height > 5 => (
-                Rect { height: inner.height - 1, ..inner },
-                Some(Rect { y: inner.y + inner.height - 1, height: 1, ..inner }),
-            ),
-            _ => (inner, None),
-        };
+        // The legend and the note go under the plot, so they never hide a curve.
+        let mut below: Vec<Line> = Vec::new();
+        let legend: Vec<&str> = view.series.iter().filter_map(|s| s.name.as_deref()).collect();
+        if !legend.is_empty() {
+            // Non-breaking spaces keep each entry whole when the legend wraps.
+            let entries: Vec<String> = legend.iter().map(|e| e.replace(' ', "\u{a0}")).collect();
+            below.push(Line::raw(entries.join("  ")));
+        }
+        if let Some(note) = &view.note {
+            below.push(Line::styled(note.clone(), self.frame_style));
+        }
+        let below_height: u16 = below
+            .iter()
+            .map(|l| super::field_list::wrapped_height(&l.to_string(), inner.width))
+            .sum::<u16>()
+            .min(inner.height.saturating_sub(6));
+        let chart_area = Rect { height: inner.height - below_height, ..inner };
+        let below_area = Rect { y: inner.y + chart_area.height, height: below_height, ..inner };
         let (x_bounds, y_bounds) = view.bounds();
         let datasets: Vec<Dataset> = view
             .series
@@ -217,11 +232,10 @@ impl Widget for ChartWidget<'_> {
                     .labels(axis_labels(y_bounds))
                     .style(self.frame_style),
             )
-            .legend_position(Some(LegendPosition::TopLeft))
-            .hidden_legend_constraints((Constraint::Percentage(60), Constraint::Percentage(60)));
+            .legend_position(None);
         chart.render(chart_area, buf);
-        if let (Some(note), Some(note_area)) = (&view.note, note_area) {
-            Line::styled(note.clone(), self.frame_style).render(note_area, buf);
+        if below_height > 0 {
+            Paragraph::new(below).wrap(Wrap { trim: true }).render(below_area, buf);
         }
     }
 }

@@ -95,7 +95,9 @@ impl Widget for FieldList<'_> {
             Some((text, _)) => wrapped_height(text, inner.width).min(3).min(inner.height.saturating_sub(1)),
             None => 0,
         };
-        let extra = (self.footer_lines.len() as u16).min(inner.height.saturating_sub(reason_height + 1));
+        let notes_height: u16 = self.footer_lines.iter().map(|l| wrapped_height(l, inner.width)).sum();
+        // The notes give way to the list when space is short, keeping at least two rows.
+        let extra = notes_height.min(inner.height.saturating_sub(reason_height + 2));
         let list_height = inner.height.saturating_sub(reason_height + extra) as usize;
 
         let first = if self.selected >= list_height { self.selected + 1 - list_height } else { 0 };
@@ -137,14 +139,13 @@ impl Widget for FieldList<'_> {
                 Span::styled(marks, self.theme.warning),
             ]));
         }
-        while lines.len() < list_height {
-            lines.push(Line::default());
-        }
-        for extra_line in self.footer_lines.iter().take(extra as usize) {
-            lines.push(Line::styled(extra_line.clone(), self.theme.accent));
-        }
-        let list_area = Rect { height: list_height as u16 + extra, ..inner };
+        let list_area = Rect { height: list_height as u16, ..inner };
         Paragraph::new(lines).render(list_area, buf);
+        if extra > 0 {
+            let notes: Vec<Line> = self.footer_lines.iter().map(|l| Line::styled(l.clone(), self.theme.accent)).collect();
+            let notes_area = Rect { y: inner.y + list_height as u16, height: extra, ..inner };
+            Paragraph::new(notes).wrap(Wrap { trim: true }).render(notes_area, buf);
+        }
         if let Some((text, style)) = reason {
             let reason_area = Rect {
                 y: inner.y + inner.height - reason_height,
@@ -157,7 +158,7 @@ impl Widget for FieldList<'_> {
 }
 
 /// How many lines `text` takes when wrapped to `width` columns (a close upper estimate).
-fn wrapped_height(text: &str, width: u16) -> u16 {
+pub fn wrapped_height(text: &str, width: u16) -> u16 {
     let width = width.max(1) as usize;
     let mut lines = 1usize;
     let mut used = 0usize;

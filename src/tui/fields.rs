@@ -608,6 +608,15 @@ fn number_of(field: FieldId, boat: &BoatDoc) -> Option<f64> {
     }
 }
 
+/// `value` rounded to 9 significant decimals of its magnitude, removing binary round-off.
+fn clean(value: f64) -> f64 {
+    if value == 0.0 || !value.is_finite() {
+        return value;
+    }
+    let scale = 10f64.powi(9 - value.abs().log10().ceil() as i32);
+    (value * scale).round() / scale
+}
+
 /// Nudges `field` by `direction` steps in display units of `system`.
 pub fn nudge(field: FieldId, boat: &mut BoatDoc, direction: f64, system: UnitSystem) -> Result<(), String> {
     let Some(kind) = kind_of(field) else {
@@ -622,12 +631,11 @@ pub fn nudge(field: FieldId, boat: &mut BoatDoc, direction: f64, system: UnitSys
     let step = nudge_step(field, kind, system);
     let next = match kind {
         FieldKind::Unit(k) => {
-            let shown = units::to_display(current, k, system) + direction * step;
-            // Keep nudged values on the step's grid so 14.0 in + 0.1 in shows as 14.1 in.
-            let shown = (shown / step).round() * step;
+            // Rounding off the last bits keeps 14.0 in + 0.1 in from showing as 14.099999 in.
+            let shown = clean(units::to_display(current, k, system) + direction * step);
             units::from_display(shown, k, system)
         }
-        _ => ((current + direction * step) / step).round() * step,
+        _ => clean(current + direction * step),
     };
     set_number(field, boat, next)?;
     match problem_at(field, boat) {
@@ -724,7 +732,8 @@ pub fn pane_notes(pane: Pane, app: &App) -> Vec<String> {
         .enumerate()
         .map(|(i, v)| {
             let active = if i == boat.active_variant { "◀" } else { "" };
-            format!("{} {}{active}", variant_glyph(i).symbol(), v.label)
+            // Non-breaking spaces keep each entry whole when the line wraps.
+            format!("{} {}{active}", variant_glyph(i).symbol(), v.label).replace(' ', "\u{a0}")
         })
         .collect();
     let mut notes = vec![format!("Variants: {}", variants.join("  "))];

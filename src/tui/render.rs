@@ -39,10 +39,16 @@ pub fn draw(app: &App, area: Rect, buf: &mut Buffer) {
         too_small(area, buf);
         return;
     }
+    let readout_text = readout_lines(app);
+    let readout_height: u16 = readout_text
+        .iter()
+        .map(|l| super::field_list::wrapped_height(&l.to_string(), area.width))
+        .sum::<u16>()
+        .min(6);
     let [header, main, readout, status, footer] = Layout::vertical([
         Constraint::Length(1),
         Constraint::Min(10),
-        Constraint::Length(if area.width >= 120 { 3 } else { 4 }),
+        Constraint::Length(readout_height),
         Constraint::Length(1),
         Constraint::Length(1),
     ])
@@ -51,7 +57,9 @@ pub fn draw(app: &App, area: Rect, buf: &mut Buffer) {
     let pane_width = if area.width >= WIDE { 50 } else { 38 };
     let [left, right] = Layout::horizontal([Constraint::Length(pane_width), Constraint::Min(20)]).areas(main);
     if area.width >= WIDE && area.height >= TALL {
-        let rects = Layout::vertical([Constraint::Ratio(1, 3); 3]).split(left);
+        // Screw and Powerplant fit whole; the Vessel pane, the longest, scrolls with the selection.
+        let rects =
+            Layout::vertical([Constraint::Min(8), Constraint::Length(13), Constraint::Length(12)]).split(left);
         for (pane, rect) in Pane::ALL.iter().zip(rects.iter()) {
             draw_pane(app, *pane, *rect, buf);
         }
@@ -62,7 +70,7 @@ pub fn draw(app: &App, area: Rect, buf: &mut Buffer) {
     }
     let view = chart_view(app);
     ChartWidget { view: &view, frame_style: app.theme.dim }.render(right, buf);
-    draw_readout(app, readout, buf);
+    Paragraph::new(readout_text).wrap(Wrap { trim: true }).render(readout, buf);
     draw_status(app, status, buf);
     draw_footer(app, footer, buf);
     match &app.overlay {
@@ -75,9 +83,9 @@ pub fn draw(app: &App, area: Rect, buf: &mut Buffer) {
 
 fn too_small(area: Rect, buf: &mut Buffer) {
     let text = vec![
-        Line::from("tidewright needs a terminal of at least 80×24."),
-        Line::from(format!("This one is {}×{}: please make it larger.", area.width, area.height)),
-        Line::from("q quits."),
+        Line::from(format!("tidewright needs {MIN_WIDTH}×{MIN_HEIGHT} or more.")),
+        Line::from(format!("This terminal is {}×{}.", area.width, area.height)),
+        Line::from("Make it larger, or press q to quit."),
     ];
     Paragraph::new(text).wrap(Wrap { trim: true }).render(area, buf);
 }
@@ -309,7 +317,7 @@ pub fn readout_lines(app: &App) -> Vec<Line<'static>> {
                 format!("load {:.0} %", p.load_fraction * 100.0),
                 units::format(p.fuel_volume_flow, Kind::FuelRate, system),
                 units::format(c.fuel_per_distance, Kind::FuelPerDistance, system),
-                format!("range {}", units::format(c.range, Kind::Distance, system)),
+                format!("range {:.0} {}", units::to_display(c.range, Kind::Distance, system), units::unit_label(Kind::Distance, system)),
             ];
             first.push(Span::styled(figures.join(" · "), theme.accent));
             if c.beyond_full_load {
@@ -351,10 +359,6 @@ pub fn readout_lines(app: &App) -> Vec<Line<'static>> {
     lines
 }
 
-fn draw_readout(app: &App, area: Rect, buf: &mut Buffer) {
-    Paragraph::new(readout_lines(app)).wrap(Wrap { trim: true }).render(area, buf);
-}
-
 fn draw_status(app: &App, area: Rect, buf: &mut Buffer) {
     if let Some(status) = &app.status {
         let style = match status.level {
@@ -367,9 +371,28 @@ fn draw_status(app: &App, area: Rect, buf: &mut Buffer) {
     }
 }
 
+/// The footer's hints that fit in `width`: the table's order, but help and quit always stay.
+pub fn footer_hints_fitting(mode: Mode, width: u16) -> Vec<(&'static str, &'static str)> {
+    let hints = keys::footer_hints(mode);
+    let cost = |(k, h): &(&str, &str)| k.chars().count() + h.chars().count() + 3;
+    let kept_last: Vec<_> =
+        hints.iter().filter(|(_, h)| *h == "help" || *h == "quit").copied().collect();
+    let mut budget = (width as usize).saturating_sub(kept_last.iter().map(cost).sum());
+    let mut out = Vec::new();
+    for hint in hints.iter().filter(|(_, h)| *h != "help" && *h != "quit") {
+        if cost(hint) > budget {
+            break;
+        }
+        budget -= cost(hint);
+        out.push(*hint);
+    }
+    out.extend(kept_last);
+    out
+}
+
 fn draw_footer(app: &App, area: Rect, buf: &mut Buffer) {
     let mut spans = Vec::new();
-    for (key, hint) in keys::footer_hints(app.mode()) {
+    for (key, hint) in footer_hints_fitting(app.mode(), area.width) {
         spans.push(Span::styled(key, app.theme.focus.add_modifier(Modifier::BOLD)));
         spans.push(Span::styled(format!(" {hint}  "), app.theme.dim));
     }

@@ -4,9 +4,11 @@
 
 use crate::profile::{BoatDoc, EngineDoc};
 use crate::propulsion::Warning;
-use crate::propulsion::solver::{
-    CruisePoint, MatchResult, PropellerCurve, Trip, Vessel, cruise_at_speed, match_engine,
-};
+use crate::propulsion::solver::cruise::cruise_at_speed;
+use crate::propulsion::solver::design::{PitchOptions, PitchRecommendation, recommend_pitch};
+use crate::propulsion::solver::matching::match_engine;
+use crate::propulsion::solver::{CruisePoint, MatchResult, PropellerCurve, Trip, Vessel};
+use crate::units::{self, Kind, UnitSystem};
 
 /// Speeds solved per propeller curve (enough for a smooth braille line at 120 columns).
 pub const CURVE_POINTS: usize = 64;
@@ -47,6 +49,9 @@ pub struct Solved {
     pub envelope: Vec<(f64, f64)>,
     /// Sea-trial points (engine rpm, speed over ground m/s).
     pub trial: Vec<(f64, f64)>,
+    /// The pitch recommendation for the active variant (default target: rated power at rated
+    /// rpm with the service margin), or why there is none.
+    pub recommendation: Result<PitchRecommendation, String>,
 }
 
 /// The cached solution: solved, or why the document could not be built into a vessel.
@@ -74,9 +79,32 @@ impl Solution {
         s.variants.get(s.vessel.active_variant)
     }
 
-    /// The recommended pitch for the active variant, m, when the design core gives one.
+    /// The recommended pitch for the active variant, m, when the design core found one.
     pub fn recommended_pitch(&self) -> Option<f64> {
-        None
+        self.solved()?.recommendation.as_ref().ok()?.recommended_pitch
+    }
+
+    /// The recommendation line of the Screw pane, in `system`'s units.
+    pub fn recommendation_line(&self, system: UnitSystem) -> Option<String> {
+        let rec = match &self.solved()?.recommendation {
+            Ok(rec) => rec,
+            Err(why) => return Some(format!("No pitch recommendation: {why}")),
+        };
+        let Some(pitch) = rec.recommended_pitch else {
+            return Some(format!("No pitch found for rated power at rated rpm ({:?})", rec.stop));
+        };
+        let change = rec.change.unwrap_or(0.0);
+        let sign = if change >= 0.0 { "+" } else { "−" };
+        let limit = match rec.within_repitch_limit {
+            Some(true) => "within re-pitch limit",
+            Some(false) => "BEYOND re-pitch limit: new screw",
+            None => "",
+        };
+        Some(format!(
+            "Recommended pitch {} ({sign}{}, {limit}); p adds it",
+            units::format(pitch, Kind::ScrewLength, system),
+            units::format(change.abs(), Kind::ScrewLength, system),
+        ))
     }
 }
 
@@ -91,7 +119,9 @@ pub fn solve_vessel(vessel: Vessel) -> Solved {
     let variants = (0..vessel.variants.len()).map(|i| solve_variant(&vessel, i)).collect();
     let envelope = vessel.engine.full_load_power.points.clone();
     let trial = vessel.trial.iter().map(|run| (run.engine_rpm, run.speed_over_ground)).collect();
-    Solved { variants, warnings, envelope, trial, vessel }
+    let recommendation =
+        recommend_pitch(&vessel, vessel.active_variant, &PitchOptions::default()).map_err(|e| e.to_string());
+    Solved { variants, warnings, envelope, trial, recommendation, vessel }
 }
 
 fn solve_variant(vessel: &Vessel, index: usize) -> VariantSolution {

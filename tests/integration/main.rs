@@ -9,5 +9,6 @@ mod hull;
 mod profiles;
 mod screw;
 mod solver;
+mod tui;
 mod units;
 mod water;
