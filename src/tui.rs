@@ -62,7 +62,9 @@ impl Session {
 
     /// Whether the boat's file on disk differs from what was loaded or last saved.
     fn changed_on_disk(&self) -> bool {
-        let (Some(path), Some(stamp)) = (self.path(), &self.stamp) else { return false };
+        let (Some(path), Some(stamp)) = (self.path(), &self.stamp) else {
+            return false;
+        };
         match std::fs::read(&path) {
             Ok(bytes) => {
                 let now = FileStamp::of(&bytes, None);
@@ -74,7 +76,10 @@ impl Session {
 }
 
 /// Opens `arg` (a boat name in the store or a path), or the store's first boat when `None`.
-fn open(store: &Store, arg: Option<&str>) -> Result<(Opened, SaveTarget, Option<FileStamp>), ProfileError> {
+fn open(
+    store: &Store,
+    arg: Option<&str>,
+) -> Result<(Opened, SaveTarget, Option<FileStamp>), ProfileError> {
     let name = match arg {
         Some(a) => a.to_string(),
         None => match store.list_boats()?.into_iter().next() {
@@ -83,7 +88,9 @@ fn open(store: &Store, arg: Option<&str>) -> Result<(Opened, SaveTarget, Option<
                 return Err(ProfileError::NotFound {
                     kind: "boat",
                     name: "(any)".into(),
-                    place: store.root().map_or("the demo fleet".into(), |r| r.display().to_string()),
+                    place: store
+                        .root()
+                        .map_or("the demo fleet".into(), |r| r.display().to_string()),
                 });
             }
         },
@@ -100,7 +107,16 @@ fn open(store: &Store, arg: Option<&str>) -> Result<(Opened, SaveTarget, Option<
         }
     };
     let savable = !matches!(target, SaveTarget::Demo);
-    Ok((Opened { name: boat.name, boat: boat.doc, engine: engine.doc, savable }, target, stamp))
+    Ok((
+        Opened {
+            name: boat.name,
+            boat: boat.doc,
+            engine: engine.doc,
+            savable,
+        },
+        target,
+        stamp,
+    ))
 }
 
 /// The app for `boat` of `store` (or its first boat), as the terminal UI starts it; for tests
@@ -118,14 +134,20 @@ pub fn run(store: &Store, boat: Option<&str>, units: Option<UnitSystem>) -> anyh
     let (opened, target, stamp) = open(store, boat).context("opening the boat")?;
     let units = units.unwrap_or(opened.boat.units);
     let mut app = App::new(opened, units, theme::Theme::from_env());
-    let mut session = Session { store: store.clone(), target, stamp, last_disk_check: Instant::now() };
+    let mut session = Session {
+        store: store.clone(),
+        target,
+        stamp,
+        last_disk_check: Instant::now(),
+    };
 
     // SIGTERM and SIGHUP (a dropped SSH link) set a flag; the loop sees it within
     // SIGNAL_CHECK, leaves, and the terminal is restored below. Nothing is saved on the way
     // out, so no file can be left half-written.
     let stop = Arc::new(AtomicBool::new(false));
     for signal in [signal_hook::consts::SIGTERM, signal_hook::consts::SIGHUP] {
-        signal_hook::flag::register(signal, Arc::clone(&stop)).context("installing the signal handler")?;
+        signal_hook::flag::register(signal, Arc::clone(&stop))
+            .context("installing the signal handler")?;
     }
     // `init` installs a panic hook that restores the terminal before the default hook prints.
     let mut terminal = ratatui::try_init().context("setting up the terminal")?;
@@ -176,14 +198,25 @@ fn carry_out(effect: Effect, session: &mut Session) -> Action {
     match effect {
         Effect::Save { boat, overwrite } => {
             let result = match &session.target {
-                SaveTarget::Store(name) => session.store.save_boat(name, &boat, session.stamp.as_ref(), overwrite),
-                SaveTarget::File(path) => save_boat_file(path, &boat, session.stamp.as_ref(), overwrite),
-                SaveTarget::Demo => return failed("not saved", &anyhow!("the demo fleet is read-only")),
+                SaveTarget::Store(name) => {
+                    session
+                        .store
+                        .save_boat(name, &boat, session.stamp.as_ref(), overwrite)
+                }
+                SaveTarget::File(path) => {
+                    save_boat_file(path, &boat, session.stamp.as_ref(), overwrite)
+                }
+                SaveTarget::Demo => {
+                    return failed("not saved", &anyhow!("the demo fleet is read-only"));
+                }
             };
             match result {
                 Ok(saved) => {
                     session.stamp = Some(saved.stamp);
-                    let backup = saved.backup.map(|b| format!(" (previous kept as {})", b.display())).unwrap_or_default();
+                    let backup = saved
+                        .backup
+                        .map(|b| format!(" (previous kept as {})", b.display()))
+                        .unwrap_or_default();
                     Action::Saved(format!("{}{backup}", saved.path.display()))
                 }
                 Err(ProfileError::ChangedOnDisk { .. }) => Action::SaveConflict,

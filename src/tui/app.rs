@@ -221,7 +221,10 @@ pub struct App {
 impl App {
     /// A new app editing `opened`, showing units in `units`.
     pub fn new(opened: Opened, units: UnitSystem, theme: Theme) -> Self {
-        let doc = Document { boat: opened.boat, engine: opened.engine };
+        let doc = Document {
+            boat: opened.boat,
+            engine: opened.engine,
+        };
         let solution = Solution::solve(&doc.boat, &doc.engine);
         Self {
             name: opened.name,
@@ -270,7 +273,9 @@ impl App {
         }
         match (mode, key.code) {
             (Mode::Edit, KeyCode::Char(c))
-                if !key.modifiers.intersects(KeyModifiers::CONTROL | KeyModifiers::ALT) =>
+                if !key
+                    .modifiers
+                    .intersects(KeyModifiers::CONTROL | KeyModifiers::ALT) =>
             {
                 Some(Action::Type(c))
             }
@@ -286,7 +291,8 @@ impl App {
     /// The selected field of the focused pane, if the pane has any.
     pub fn selected_field(&self) -> Option<FieldId> {
         let list = self.pane_fields(self.focus);
-        list.get(self.selected[self.focus.index()].min(list.len().saturating_sub(1))).copied()
+        list.get(self.selected[self.focus.index()].min(list.len().saturating_sub(1)))
+            .copied()
     }
 
     /// Applies `action`: the only place the state changes. Returns I/O for the loop to do.
@@ -335,7 +341,10 @@ impl App {
             Action::FileChanged => {
                 if !self.changed_on_disk {
                     self.changed_on_disk = true;
-                    self.set_status(Level::Error, "the boat's file was changed by another program since it was opened");
+                    self.set_status(
+                        Level::Error,
+                        "the boat's file was changed by another program since it was opened",
+                    );
                 }
                 None
             }
@@ -352,7 +361,10 @@ impl App {
     }
 
     fn set_status(&mut self, level: Level, text: impl Into<String>) {
-        self.status = Some(Status { text: text.into(), level });
+        self.status = Some(Status {
+            text: text.into(),
+            level,
+        });
     }
 
     fn open_picker(&mut self, kind: PickKind, entries: Vec<String>) {
@@ -364,7 +376,11 @@ impl App {
             self.set_status(Level::Error, format!("the store holds no {what}"));
             return;
         }
-        self.overlay = Overlay::Pick { kind, entries, highlighted: 0 };
+        self.overlay = Overlay::Pick {
+            kind,
+            entries,
+            highlighted: 0,
+        };
     }
 
     fn command(&mut self, command: Command) -> Option<Effect> {
@@ -465,7 +481,10 @@ impl App {
             }
             Command::AddVariant | Command::DuplicateVariant => {
                 let mut next = self.doc.clone();
-                let label = fields::duplicate_active_variant(&mut next.boat, command == Command::AddVariant);
+                let label = fields::duplicate_active_variant(
+                    &mut next.boat,
+                    command == Command::AddVariant,
+                );
                 self.commit(next);
                 self.set_status(Level::Info, format!("added variant {label}"));
             }
@@ -484,9 +503,15 @@ impl App {
                     let mut next = self.doc.clone();
                     let label = fields::add_variant_with_pitch(&mut next.boat, pitch, self.units);
                     self.commit(next);
-                    self.set_status(Level::Info, format!("added variant {label} with the recommended pitch"));
+                    self.set_status(
+                        Level::Info,
+                        format!("added variant {label} with the recommended pitch"),
+                    );
                 }
-                None => self.set_status(Level::Error, "no pitch recommendation for the active variant"),
+                None => self.set_status(
+                    Level::Error,
+                    "no pitch recommendation for the active variant",
+                ),
             },
             Command::Save => {
                 if !self.savable {
@@ -496,7 +521,10 @@ impl App {
                     );
                     return None;
                 }
-                return Some(Effect::Save { boat: Box::new(self.doc.boat.clone()), overwrite: false });
+                return Some(Effect::Save {
+                    boat: Box::new(self.doc.boat.clone()),
+                    overwrite: false,
+                });
             }
             Command::OpenBoat => {
                 if self.dirty() {
@@ -520,11 +548,18 @@ impl App {
     }
 
     fn pick(&mut self, command: Command) -> Option<Effect> {
-        let Overlay::Pick { kind, entries, highlighted } = &mut self.overlay else {
+        let Overlay::Pick {
+            kind,
+            entries,
+            highlighted,
+        } = &mut self.overlay
+        else {
             return None;
         };
         match command {
-            Command::ListDown => *highlighted = (*highlighted + 1).min(entries.len().saturating_sub(1)),
+            Command::ListDown => {
+                *highlighted = (*highlighted + 1).min(entries.len().saturating_sub(1))
+            }
             Command::ListUp => *highlighted = highlighted.saturating_sub(1),
             Command::Cancel => self.overlay = Overlay::None,
             Command::Accept => {
@@ -548,11 +583,15 @@ impl App {
         self.overlay = Overlay::None;
         match (question, command) {
             (Question::QuitUnsaved, Command::Yes) => Some(Effect::Quit),
-            (Question::OverwriteChanged, Command::Yes) => {
-                Some(Effect::Save { boat: Box::new(self.doc.boat.clone()), overwrite: true })
-            }
+            (Question::OverwriteChanged, Command::Yes) => Some(Effect::Save {
+                boat: Box::new(self.doc.boat.clone()),
+                overwrite: true,
+            }),
             (Question::OverwriteChanged, _) => {
-                self.set_status(Level::Error, "not saved: the file on disk was left as it is");
+                self.set_status(
+                    Level::Error,
+                    "not saved: the file on disk was left as it is",
+                );
                 None
             }
             (Question::OpenUnsaved, Command::Yes) => Some(Effect::ListBoats),
@@ -580,15 +619,26 @@ impl App {
             // The engine sheet comes from the store: the loop lists what there is.
             FieldValue::Engine(_) => return Some(Effect::ListEngines),
             FieldValue::Text(text) => {
-                self.edit = Some(EditBuffer { target: EditTarget::Field(field), text, problem: None });
+                self.edit = Some(EditBuffer {
+                    target: EditTarget::Field(field),
+                    text,
+                    problem: None,
+                });
             }
             FieldValue::ReadOnly(_) => {
                 let estimated = fields::kind_of(field).is_some();
                 if estimated {
-                    self.edit = Some(EditBuffer { target: EditTarget::Field(field), text: String::new(), problem: None });
+                    self.edit = Some(EditBuffer {
+                        target: EditTarget::Field(field),
+                        text: String::new(),
+                        problem: None,
+                    });
                     self.revalidate();
                 } else {
-                    self.set_status(Level::Info, format!("{} is not edited here", fields::label(field)));
+                    self.set_status(
+                        Level::Info,
+                        format!("{} is not edited here", fields::label(field)),
+                    );
                 }
             }
         }
@@ -599,9 +649,7 @@ impl App {
     fn revalidate(&mut self) {
         let Some(edit) = &self.edit else { return };
         let problem = match edit.target {
-            EditTarget::TargetSpeed => {
-                fields::parse_target_speed(&edit.text).err()
-            }
+            EditTarget::TargetSpeed => fields::parse_target_speed(&edit.text).err(),
             EditTarget::Field(field) => {
                 let mut probe = self.doc.clone();
                 fields::set_from_text(field, &mut probe.boat, &edit.text).err()
@@ -614,15 +662,16 @@ impl App {
 
     fn accept_edit(&mut self) {
         self.revalidate();
-        let Some(edit) = self.edit.clone() else { return };
+        let Some(edit) = self.edit.clone() else {
+            return;
+        };
         if edit.problem.is_some() {
             return; // Shown with its reason; never applied.
         }
         let mut next = self.doc.clone();
         let result = match edit.target {
-            EditTarget::TargetSpeed => {
-                fields::parse_target_speed(&edit.text).map(|speed| fields::set_target_speed(&mut next.boat, speed))
-            }
+            EditTarget::TargetSpeed => fields::parse_target_speed(&edit.text)
+                .map(|speed| fields::set_target_speed(&mut next.boat, speed)),
             EditTarget::Field(field) => fields::set_from_text(field, &mut next.boat, &edit.text),
         };
         match result {
@@ -639,7 +688,9 @@ impl App {
     }
 
     fn nudge(&mut self, direction: f64) {
-        let Some(field) = self.selected_field() else { return };
+        let Some(field) = self.selected_field() else {
+            return;
+        };
         let mut next = self.doc.clone();
         match fields::nudge(field, &mut next.boat, direction, self.units) {
             Ok(()) => self.commit(next),

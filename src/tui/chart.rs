@@ -24,8 +24,12 @@ pub enum ChartKind {
 
 impl ChartKind {
     /// All charts in the order the chart key cycles through them.
-    pub const ALL: [ChartKind; 4] =
-        [ChartKind::PowerVsRpm, ChartKind::SpeedVsRpm, ChartKind::FuelVsRpm, ChartKind::RangeVsSpeed];
+    pub const ALL: [ChartKind; 4] = [
+        ChartKind::PowerVsRpm,
+        ChartKind::SpeedVsRpm,
+        ChartKind::FuelVsRpm,
+        ChartKind::RangeVsSpeed,
+    ];
 
     /// The next chart in the cycle.
     pub fn next(self) -> Self {
@@ -185,7 +189,11 @@ impl Widget for ChartWidget<'_> {
         }
         // The legend and the note go under the plot, so they never hide a curve.
         let mut below: Vec<Line> = Vec::new();
-        let legend: Vec<&str> = view.series.iter().filter_map(|s| s.name.as_deref()).collect();
+        let legend: Vec<&str> = view
+            .series
+            .iter()
+            .filter_map(|s| s.name.as_deref())
+            .collect();
         if !legend.is_empty() {
             // Non-breaking spaces keep each entry whole when the legend wraps.
             let entries: Vec<String> = legend.iter().map(|e| e.replace(' ', "\u{a0}")).collect();
@@ -199,8 +207,15 @@ impl Widget for ChartWidget<'_> {
             .map(|l| super::field_list::wrapped_height(&l.to_string(), inner.width))
             .sum::<u16>()
             .min(inner.height.saturating_sub(6));
-        let chart_area = Rect { height: inner.height - below_height, ..inner };
-        let below_area = Rect { y: inner.y + chart_area.height, height: below_height, ..inner };
+        let chart_area = Rect {
+            height: inner.height - below_height,
+            ..inner
+        };
+        let below_area = Rect {
+            y: inner.y + chart_area.height,
+            height: below_height,
+            ..inner
+        };
         let (x_bounds, y_bounds) = view.bounds();
         let datasets: Vec<Dataset> = view
             .series
@@ -235,7 +250,9 @@ impl Widget for ChartWidget<'_> {
             .legend_position(None);
         chart.render(chart_area, buf);
         if below_height > 0 {
-            Paragraph::new(below).wrap(Wrap { trim: true }).render(below_area, buf);
+            Paragraph::new(below)
+                .wrap(Wrap { trim: true })
+                .render(below_area, buf);
         }
     }
 }
@@ -270,9 +287,17 @@ mod tests {
     fn draw(view: &ChartView, width: u16, height: u16) -> String {
         let area = Rect::new(0, 0, width, height);
         let mut buf = Buffer::empty(area);
-        ChartWidget { view, frame_style: Style::default() }.render(area, &mut buf);
+        ChartWidget {
+            view,
+            frame_style: Style::default(),
+        }
+        .render(area, &mut buf);
         (0..height)
-            .map(|y| (0..width).map(|x| buf[(x, y)].symbol().to_string()).collect::<String>())
+            .map(|y| {
+                (0..width)
+                    .map(|x| buf[(x, y)].symbol().to_string())
+                    .collect::<String>()
+            })
             .collect::<Vec<_>>()
             .join("\n")
     }
@@ -286,7 +311,10 @@ mod tests {
         assert!(text.contains("• A"), "{text}");
         assert!(text.contains("3000"), "{text}");
         assert!(text.contains("no trial log"), "{text}");
-        assert!(text.chars().any(|c| ('\u{2801}'..='\u{28FF}').contains(&c)), "no braille in\n{text}");
+        assert!(
+            text.chars().any(|c| ('\u{2801}'..='\u{28FF}').contains(&c)),
+            "no braille in\n{text}"
+        );
     }
 
     #[test]
@@ -296,7 +324,10 @@ mod tests {
         let (x, y) = v.bounds();
         assert_eq!(x, [1000.0, 3000.0]);
         assert!((y[1] - 63.0).abs() < 1e-9);
-        let empty = ChartView { series: vec![], ..view() };
+        let empty = ChartView {
+            series: vec![],
+            ..view()
+        };
         assert_eq!(empty.bounds(), ([0.0, 1.0], [0.0, 1.05]));
         draw(&empty, 30, 8);
         draw(&view(), 3, 3);

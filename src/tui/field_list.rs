@@ -82,9 +82,20 @@ impl FieldList<'_> {
 
 impl Widget for FieldList<'_> {
     fn render(self, area: Rect, buf: &mut Buffer) {
-        let border_style = if self.focused { self.theme.focus } else { self.theme.dim };
-        let title = if self.focused { format!(" ▶ {} ", self.title) } else { format!(" {} ", self.title) };
-        let block = Block::default().borders(Borders::ALL).border_style(border_style).title(title);
+        let border_style = if self.focused {
+            self.theme.focus
+        } else {
+            self.theme.dim
+        };
+        let title = if self.focused {
+            format!(" ▶ {} ", self.title)
+        } else {
+            format!(" {} ", self.title)
+        };
+        let block = Block::default()
+            .borders(Borders::ALL)
+            .border_style(border_style)
+            .title(title);
         let inner = block.inner(area);
         block.render(area, buf);
         if inner.height == 0 || inner.width < 4 {
@@ -92,17 +103,33 @@ impl Widget for FieldList<'_> {
         }
         let reason = self.reason();
         let reason_height = match &reason {
-            Some((text, _)) => wrapped_height(text, inner.width).min(3).min(inner.height.saturating_sub(1)),
+            Some((text, _)) => wrapped_height(text, inner.width)
+                .min(3)
+                .min(inner.height.saturating_sub(1)),
             None => 0,
         };
-        let notes_height: u16 = self.footer_lines.iter().map(|l| wrapped_height(l, inner.width)).sum();
+        let notes_height: u16 = self
+            .footer_lines
+            .iter()
+            .map(|l| wrapped_height(l, inner.width))
+            .sum();
         // The notes give way to the list when space is short, keeping at least two rows.
         let extra = notes_height.min(inner.height.saturating_sub(reason_height + 2));
         let list_height = inner.height.saturating_sub(reason_height + extra) as usize;
 
-        let first = if self.selected >= list_height { self.selected + 1 - list_height } else { 0 };
+        let first = if self.selected >= list_height {
+            self.selected + 1 - list_height
+        } else {
+            0
+        };
         let width = inner.width as usize;
-        let label_width = self.rows.iter().map(|r| r.label.chars().count()).max().unwrap_or(0).min(width / 2);
+        let label_width = self
+            .rows
+            .iter()
+            .map(|r| r.label.chars().count())
+            .max()
+            .unwrap_or(0)
+            .min(width / 2);
         let mut lines: Vec<Line> = Vec::with_capacity(inner.height as usize);
         for (index, row) in self.rows.iter().enumerate().skip(first).take(list_height) {
             let selected = self.focused && index == self.selected;
@@ -112,26 +139,52 @@ impl Widget for FieldList<'_> {
             };
             let marks = format!(
                 "{}{}",
-                if row.estimated_by.is_some() { ESTIMATED_MARK } else { " " },
-                if row.warning.is_some() { WARNING_MARK } else { " " }
+                if row.estimated_by.is_some() {
+                    ESTIMATED_MARK
+                } else {
+                    " "
+                },
+                if row.warning.is_some() {
+                    WARNING_MARK
+                } else {
+                    " "
+                }
             );
             let pointer = if selected { "›" } else { " " };
             let label: String = row.label.chars().take(label_width).collect();
             let used = 1 + label_width + 1 + 2;
             let value_width = width.saturating_sub(used);
             let value: String = if value.chars().count() > value_width {
-                value.chars().rev().take(value_width).collect::<Vec<_>>().into_iter().rev().collect()
+                value
+                    .chars()
+                    .rev()
+                    .take(value_width)
+                    .collect::<Vec<_>>()
+                    .into_iter()
+                    .rev()
+                    .collect()
             } else {
                 value
             };
-            let mut value_style = if row.warning.is_some() { self.theme.warning } else { Style::default() };
+            let mut value_style = if row.warning.is_some() {
+                self.theme.warning
+            } else {
+                Style::default()
+            };
             if selected {
                 value_style = value_style.add_modifier(Modifier::REVERSED);
-                if let Some(TypedValue { problem: Some(_), .. }) = &self.typing {
+                if let Some(TypedValue {
+                    problem: Some(_), ..
+                }) = &self.typing
+                {
                     value_style = self.theme.error.add_modifier(Modifier::REVERSED);
                 }
             }
-            let label_style = if selected { self.theme.focus.add_modifier(Modifier::BOLD) } else { Style::default() };
+            let label_style = if selected {
+                self.theme.focus.add_modifier(Modifier::BOLD)
+            } else {
+                Style::default()
+            };
             lines.push(Line::from(vec![
                 Span::styled(pointer, self.theme.focus),
                 Span::styled(format!("{label:<label_width$} "), label_style),
@@ -139,12 +192,25 @@ impl Widget for FieldList<'_> {
                 Span::styled(marks, self.theme.warning),
             ]));
         }
-        let list_area = Rect { height: list_height as u16, ..inner };
+        let list_area = Rect {
+            height: list_height as u16,
+            ..inner
+        };
         Paragraph::new(lines).render(list_area, buf);
         if extra > 0 {
-            let notes: Vec<Line> = self.footer_lines.iter().map(|l| Line::styled(l.clone(), self.theme.accent)).collect();
-            let notes_area = Rect { y: inner.y + list_height as u16, height: extra, ..inner };
-            Paragraph::new(notes).wrap(Wrap { trim: true }).render(notes_area, buf);
+            let notes: Vec<Line> = self
+                .footer_lines
+                .iter()
+                .map(|l| Line::styled(l.clone(), self.theme.accent))
+                .collect();
+            let notes_area = Rect {
+                y: inner.y + list_height as u16,
+                height: extra,
+                ..inner
+            };
+            Paragraph::new(notes)
+                .wrap(Wrap { trim: true })
+                .render(notes_area, buf);
         }
         if let Some((text, style)) = reason {
             let reason_area = Rect {
@@ -152,7 +218,9 @@ impl Widget for FieldList<'_> {
                 height: reason_height,
                 ..inner
             };
-            Paragraph::new(Line::styled(text, style)).wrap(Wrap { trim: true }).render(reason_area, buf);
+            Paragraph::new(Line::styled(text, style))
+                .wrap(Wrap { trim: true })
+                .render(reason_area, buf);
         }
     }
 }
@@ -186,7 +254,12 @@ mod tests {
 
     fn rows() -> Vec<FieldRow> {
         vec![
-            FieldRow { label: "Diameter".into(), value: "22.0 in".into(), about: "screw diameter".into(), ..Default::default() },
+            FieldRow {
+                label: "Diameter".into(),
+                value: "22.0 in".into(),
+                about: "screw diameter".into(),
+                ..Default::default()
+            },
             FieldRow {
                 label: "Pitch".into(),
                 value: "17.0 in".into(),
@@ -207,7 +280,11 @@ mod tests {
         let mut buf = Buffer::empty(area);
         list.render(area, &mut buf);
         (0..height)
-            .map(|y| (0..width).map(|x| buf[(x, y)].symbol().to_string()).collect::<String>())
+            .map(|y| {
+                (0..width)
+                    .map(|x| buf[(x, y)].symbol().to_string())
+                    .collect::<String>()
+            })
             .collect::<Vec<_>>()
             .join("\n")
     }
@@ -217,7 +294,15 @@ mod tests {
         let theme = Theme::plain();
         let rows = rows();
         let text = draw(
-            FieldList { title: "Screw", rows: &rows, selected: 1, focused: true, typing: None, footer_lines: &[], theme: &theme },
+            FieldList {
+                title: "Screw",
+                rows: &rows,
+                selected: 1,
+                focused: true,
+                typing: None,
+                footer_lines: &[],
+                theme: &theme,
+            },
             40,
             8,
         );
@@ -238,7 +323,10 @@ mod tests {
                 rows: &rows,
                 selected: 2,
                 focused: true,
-                typing: Some(TypedValue { text: "31 furlongs", problem: Some("unknown unit \"furlongs\"") }),
+                typing: Some(TypedValue {
+                    text: "31 furlongs",
+                    problem: Some("unknown unit \"furlongs\""),
+                }),
                 footer_lines: &[],
                 theme: &theme,
             },
@@ -254,7 +342,19 @@ mod tests {
         let theme = Theme::plain();
         let rows = rows();
         for (w, h) in [(0, 0), (1, 1), (3, 2), (5, 3), (10, 2)] {
-            draw(FieldList { title: "X", rows: &rows, selected: 2, focused: true, typing: None, footer_lines: &[], theme: &theme }, w, h);
+            draw(
+                FieldList {
+                    title: "X",
+                    rows: &rows,
+                    selected: 2,
+                    focused: true,
+                    typing: None,
+                    footer_lines: &[],
+                    theme: &theme,
+                },
+                w,
+                h,
+            );
         }
     }
 

@@ -198,7 +198,14 @@ pub fn fields_of(pane: Pane, boat: &BoatDoc) -> Vec<FieldId> {
             F::Reserve,
             F::FuelDensity,
         ],
-        Pane::Screw => vec![F::VariantLabel, F::Blades, F::Diameter, F::Pitch, F::AreaRatio, F::PitchRatio],
+        Pane::Screw => vec![
+            F::VariantLabel,
+            F::Blades,
+            F::Diameter,
+            F::Pitch,
+            F::AreaRatio,
+            F::PitchRatio,
+        ],
     }
 }
 
@@ -250,7 +257,9 @@ fn about(field: FieldId) -> &'static str {
         F::Displacement => "displacement mass in the load condition solved",
         F::LengthWaterline | F::BeamWaterline => "at the waterline of the load condition",
         F::DraftAft | F::DraftForward => "canoe-body draft, without keel or skeg",
-        F::WettedSurface | F::HalfEntranceAngle | F::TransomArea => "type a value to replace the estimate",
+        F::WettedSurface | F::HalfEntranceAngle | F::TransomArea => {
+            "type a value to replace the estimate"
+        }
         F::ResistanceMethod => "a resistance table is edited in the boat's file",
         F::ServiceMargin => "added to total resistance for sea state and fouling",
         F::Fouling => "added to frictional resistance",
@@ -365,8 +374,14 @@ fn resolved_text(r: Option<&Resolved>, kind: Kind, system: UnitSystem) -> Option
 /// The value of `field` in `doc`.
 pub fn value(field: FieldId, boat: &BoatDoc) -> FieldValue {
     use FieldId as F;
-    let num = |value: f64, kind: Kind| FieldValue::Number { value, kind: FieldKind::Unit(kind) };
-    let plain = |value: f64, decimals: usize| FieldValue::Number { value, kind: FieldKind::Plain(decimals) };
+    let num = |value: f64, kind: Kind| FieldValue::Number {
+        value,
+        kind: FieldKind::Unit(kind),
+    };
+    let plain = |value: f64, decimals: usize| FieldValue::Number {
+        value,
+        kind: FieldKind::Plain(decimals),
+    };
     let opt = |q: &Option<Quantity>, kind: Kind| match q {
         Some(q) => num(q.value, kind),
         None => FieldValue::ReadOnly("estimated".into()),
@@ -415,16 +430,25 @@ pub fn value(field: FieldId, boat: &BoatDoc) -> FieldValue {
             None => num(0.0, Kind::Speed),
         },
         F::EngineSheet => FieldValue::Engine(boat.engine.clone()),
-        F::RatedRpm | F::RatedPower | F::FuelDensity | F::PitchRatio => FieldValue::ReadOnly(String::new()),
+        F::RatedRpm | F::RatedPower | F::FuelDensity | F::PitchRatio => {
+            FieldValue::ReadOnly(String::new())
+        }
         F::GearRatio => plain(boat.installation.gear_ratio, 2),
         F::ShaftEfficiency => num(boat.installation.shaft_efficiency, Kind::Fraction),
         F::GearEfficiency => num(boat.installation.gear_efficiency, Kind::Fraction),
         F::Tank => num(boat.trip.tank.value, Kind::Volume),
         F::UsableFraction => num(boat.trip.usable_fraction, Kind::Fraction),
         F::Reserve => num(boat.trip.reserve, Kind::Fraction),
-        F::VariantLabel => FieldValue::Text(active_doc(boat).map(|v| v.label.clone()).unwrap_or_default()),
+        F::VariantLabel => FieldValue::Text(
+            active_doc(boat)
+                .map(|v| v.label.clone())
+                .unwrap_or_default(),
+        ),
         F::Blades => match active_doc(boat) {
-            Some(v) => FieldValue::Number { value: f64::from(v.blades), kind: FieldKind::Count },
+            Some(v) => FieldValue::Number {
+                value: f64::from(v.blades),
+                kind: FieldKind::Count,
+            },
             None => FieldValue::ReadOnly("no variant".into()),
         },
         F::Diameter => match active_doc(boat) {
@@ -490,7 +514,9 @@ fn set_number(field: FieldId, boat: &mut BoatDoc, value: f64) -> Result<(), Stri
     match field {
         F::Displacement => match load_case_mut(boat) {
             Some(case) => set_quantity(&mut case.displacement, value),
-            None => return Err("the boat file gives no displacement for this load condition".into()),
+            None => {
+                return Err("the boat file gives no displacement for this load condition".into());
+            }
         },
         F::LengthWaterline => set_quantity(&mut boat.hull.length_waterline, value),
         F::BeamWaterline => set_quantity(&mut boat.hull.beam_waterline, value),
@@ -517,7 +543,9 @@ fn set_number(field: FieldId, boat: &mut BoatDoc, value: f64) -> Result<(), Stri
         F::UsableFraction => boat.trip.usable_fraction = value,
         F::Reserve => boat.trip.reserve = value,
         F::Blades | F::Diameter | F::Pitch | F::AreaRatio => {
-            let Some(v) = active_doc_mut(boat) else { return not_here() };
+            let Some(v) = active_doc_mut(boat) else {
+                return not_here();
+            };
             match field {
                 F::Blades => {
                     if !(value >= 0.0 && value <= f64::from(u32::MAX) && value.fract() == 0.0) {
@@ -538,7 +566,10 @@ fn set_number(field: FieldId, boat: &mut BoatDoc, value: f64) -> Result<(), Stri
 /// The first validation problem of `boat` at the field's file key, if any.
 fn problem_at(field: FieldId, boat: &BoatDoc) -> Option<String> {
     let key = file_key(field, boat);
-    boat.validate().into_iter().find(|issue| issue.key == key).map(|issue| issue.problem)
+    boat.validate()
+        .into_iter()
+        .find(|issue| issue.key == key)
+        .map(|issue| issue.problem)
 }
 
 /// Parses `text` for `field` and writes it into `boat`; the reason when it is not valid.
@@ -546,13 +577,17 @@ pub fn set_from_text(field: FieldId, boat: &mut BoatDoc, text: &str) -> Result<(
     let doc_value = {
         let kind = kind_of(field);
         match kind {
-            Some(FieldKind::Unit(kind)) => Some(units::parse(text, kind).map_err(|e| e.to_string())?),
+            Some(FieldKind::Unit(kind)) => {
+                Some(units::parse(text, kind).map_err(|e| e.to_string())?)
+            }
             Some(FieldKind::Plain(_)) | Some(FieldKind::Count) => Some(
                 text.trim()
                     .parse::<f64>()
                     .ok()
                     .filter(|v| v.is_finite())
-                    .ok_or_else(|| format!("expected a plain number such as 2.5, got {:?}", text.trim()))?,
+                    .ok_or_else(|| {
+                        format!("expected a plain number such as 2.5, got {:?}", text.trim())
+                    })?,
             ),
             None => None,
         }
@@ -581,7 +616,9 @@ pub fn kind_of(field: FieldId) -> Option<FieldKind> {
     use FieldId as F;
     Some(match field {
         F::Displacement => FieldKind::Unit(Kind::Mass),
-        F::LengthWaterline | F::BeamWaterline | F::DraftAft | F::DraftForward => FieldKind::Unit(Kind::Length),
+        F::LengthWaterline | F::BeamWaterline | F::DraftAft | F::DraftForward => {
+            FieldKind::Unit(Kind::Length)
+        }
         F::WettedSurface | F::TransomArea | F::WindageArea => FieldKind::Unit(Kind::Area),
         F::HalfEntranceAngle => FieldKind::Unit(Kind::Angle),
         F::ServiceMargin
@@ -618,7 +655,12 @@ fn clean(value: f64) -> f64 {
 }
 
 /// Nudges `field` by `direction` steps in display units of `system`.
-pub fn nudge(field: FieldId, boat: &mut BoatDoc, direction: f64, system: UnitSystem) -> Result<(), String> {
+pub fn nudge(
+    field: FieldId,
+    boat: &mut BoatDoc,
+    direction: f64,
+    system: UnitSystem,
+) -> Result<(), String> {
     let Some(kind) = kind_of(field) else {
         return Err(format!("{} has no step to nudge by", label(field)));
     };
@@ -664,7 +706,9 @@ fn derived_text(field: FieldId, app: &App) -> String {
         FieldId::RatedPower => solved
             .map(|s| units::format(s.vessel.engine.rated_power(), Kind::Power, system))
             .unwrap_or_else(|| "—".into()),
-        FieldId::FuelDensity => units::format(app.doc.engine.fuel_density.value, Kind::Density, system),
+        FieldId::FuelDensity => {
+            units::format(app.doc.engine.fuel_density.value, Kind::Density, system)
+        }
         FieldId::PitchRatio => solved
             .and_then(|s| s.vessel.variants.get(s.vessel.active_variant))
             .map(|v| format!("{:.3}", v.screw.geometry().pitch_ratio()))
@@ -680,12 +724,24 @@ fn warning_for(field: FieldId, app: &App) -> Option<String> {
         return None;
     }
     let solved = app.solution.solved()?;
-    let variant_warnings = app.solution.active().map(|v| v.warnings.as_slice()).unwrap_or(&[]);
+    let variant_warnings = app
+        .solution
+        .active()
+        .map(|v| v.warnings.as_slice())
+        .unwrap_or(&[]);
     let screw_field = matches!(
         field,
-        FieldId::Blades | FieldId::Diameter | FieldId::Pitch | FieldId::AreaRatio | FieldId::PitchRatio
+        FieldId::Blades
+            | FieldId::Diameter
+            | FieldId::Pitch
+            | FieldId::AreaRatio
+            | FieldId::PitchRatio
     );
-    let pool: &[crate::propulsion::Warning] = if screw_field { variant_warnings } else { &solved.warnings };
+    let pool: &[crate::propulsion::Warning] = if screw_field {
+        variant_warnings
+    } else {
+        &solved.warnings
+    };
     pool.iter()
         .find(|w| words.iter().any(|word| w.message.contains(word)))
         .map(|w| w.to_string())
@@ -705,7 +761,9 @@ pub fn rows(pane: Pane, app: &App) -> Vec<FieldRow> {
             };
             row.value = match value(field, boat) {
                 FieldValue::Number { value, kind } => format_number(value, kind, app.units),
-                FieldValue::Choice(text) | FieldValue::Engine(text) | FieldValue::Text(text) => text,
+                FieldValue::Choice(text) | FieldValue::Engine(text) | FieldValue::Text(text) => {
+                    text
+                }
                 FieldValue::ReadOnly(text) => match estimate(field, app) {
                     Some((resolved, kind)) => {
                         row.estimated_by = resolved.estimated_by.map(str::to_string);
@@ -747,9 +805,14 @@ pub fn pane_notes(pane: Pane, app: &App) -> Vec<String> {
 pub fn next_choice(field: FieldId, boat: &mut BoatDoc) -> Result<(), String> {
     match field {
         FieldId::LoadCondition => {
-            let given: Vec<LoadCondition> =
-                LoadCondition::ALL.into_iter().filter(|c| boat.load.case(*c).is_some()).collect();
-            let at = given.iter().position(|c| *c == boat.load.default).unwrap_or(0);
+            let given: Vec<LoadCondition> = LoadCondition::ALL
+                .into_iter()
+                .filter(|c| boat.load.case(*c).is_some())
+                .collect();
+            let at = given
+                .iter()
+                .position(|c| *c == boat.load.default)
+                .unwrap_or(0);
             match given.get((at + 1) % given.len().max(1)) {
                 Some(next) => boat.load.default = *next,
                 None => return Err("the boat file gives no load conditions".into()),
@@ -780,7 +843,11 @@ pub fn target_speed(boat: &BoatDoc) -> f64 {
 /// Parses a typed target speed, m/s.
 pub fn parse_target_speed(text: &str) -> Result<f64, String> {
     let speed = units::parse(text, Kind::Speed).map_err(|e| e.to_string())?;
-    if speed > 0.0 { Ok(speed) } else { Err("expected a target speed above zero".into()) }
+    if speed > 0.0 {
+        Ok(speed)
+    } else {
+        Err("expected a target speed above zero".into())
+    }
 }
 
 /// Sets the trip's target speed, m/s.
@@ -811,7 +878,10 @@ fn unused_label(boat: &BoatDoc, base: &str) -> String {
     if !taken(base) {
         return base.to_string();
     }
-    (2..).map(|n| format!("{base} {n}")).find(|l| !taken(l)).unwrap_or_else(|| base.to_string())
+    (2..)
+        .map(|n| format!("{base} {n}"))
+        .find(|l| !taken(l))
+        .unwrap_or_else(|| base.to_string())
 }
 
 /// Adds a copy of the active variant (named "new" when `fresh`, else "… copy") and makes it
@@ -820,9 +890,16 @@ pub fn duplicate_active_variant(boat: &mut BoatDoc, fresh: bool) -> String {
     let Some(source) = active_doc(boat).cloned() else {
         return String::new();
     };
-    let base = if fresh { "new".to_string() } else { format!("{} copy", source.label) };
+    let base = if fresh {
+        "new".to_string()
+    } else {
+        format!("{} copy", source.label)
+    };
     let label = unused_label(boat, &base);
-    boat.variants.push(VariantDoc { label: label.clone(), ..source });
+    boat.variants.push(VariantDoc {
+        label: label.clone(),
+        ..source
+    });
     boat.active_variant = boat.variants.len() - 1;
     label
 }
@@ -844,7 +921,11 @@ pub fn add_variant_with_pitch(boat: &mut BoatDoc, pitch: f64, system: UnitSystem
     };
     let base = format!("pitch {}", units::format(pitch, Kind::ScrewLength, system));
     let label = unused_label(boat, &base);
-    boat.variants.push(VariantDoc { label: label.clone(), pitch: Quantity::new(pitch), ..source });
+    boat.variants.push(VariantDoc {
+        label: label.clone(),
+        pitch: Quantity::new(pitch),
+        ..source
+    });
     boat.active_variant = boat.variants.len() - 1;
     label
 }

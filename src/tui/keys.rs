@@ -31,7 +31,13 @@ impl Mode {
     }
 
     /// Every mode, in the order the help lists them.
-    pub const ALL: [Mode; 5] = [Mode::Browse, Mode::Edit, Mode::Pick, Mode::Confirm, Mode::Help];
+    pub const ALL: [Mode; 5] = [
+        Mode::Browse,
+        Mode::Edit,
+        Mode::Pick,
+        Mode::Confirm,
+        Mode::Help,
+    ];
 }
 
 /// What a key asks for; the app turns it into an [`super::app::Action`].
@@ -113,13 +119,25 @@ pub struct Key {
 }
 
 const fn ch(c: char, label: &'static str) -> Key {
-    Key { code: KeyCode::Char(c), ctrl: false, label }
+    Key {
+        code: KeyCode::Char(c),
+        ctrl: false,
+        label,
+    }
 }
 const fn ctrl(c: char, label: &'static str) -> Key {
-    Key { code: KeyCode::Char(c), ctrl: true, label }
+    Key {
+        code: KeyCode::Char(c),
+        ctrl: true,
+        label,
+    }
 }
 const fn code(code: KeyCode, label: &'static str) -> Key {
-    Key { code, ctrl: false, label }
+    Key {
+        code,
+        ctrl: false,
+        label,
+    }
 }
 
 /// One row of the key table.
@@ -147,7 +165,14 @@ const fn bind(
     help: &'static str,
     in_footer: bool,
 ) -> Binding {
-    Binding { mode, keys, command, hint, help, in_footer }
+    Binding {
+        mode,
+        keys,
+        command,
+        hint,
+        help,
+        in_footer,
+    }
 }
 
 use Command as C;
@@ -204,7 +229,11 @@ pub fn lookup(mode: Mode, key: &KeyEvent) -> Option<Command> {
     BINDINGS
         .iter()
         .filter(|b| b.mode == mode)
-        .find(|b| b.keys.iter().any(|k| k.code == key.code && k.ctrl == ctrl_held))
+        .find(|b| {
+            b.keys
+                .iter()
+                .any(|k| k.code == key.code && k.ctrl == ctrl_held)
+        })
         .map(|b| b.command)
 }
 
@@ -219,7 +248,12 @@ pub fn footer_hints(mode: Mode) -> Vec<(&'static str, &'static str)> {
 
 /// The keys of a binding joined for display, e.g. "↑ / k".
 pub fn key_labels(binding: &Binding) -> String {
-    binding.keys.iter().map(|k| k.label).collect::<Vec<_>>().join(" / ")
+    binding
+        .keys
+        .iter()
+        .map(|k| k.label)
+        .collect::<Vec<_>>()
+        .join(" / ")
 }
 
 /// The bindings of `mode`, in table order.
@@ -236,9 +270,17 @@ pub fn markdown() -> String {
          opens this list on screen.\n",
     );
     for mode in Mode::ALL {
-        out.push_str(&format!("\n## {}\n\n| Keys | What they do |\n| --- | --- |\n", mode.heading()));
+        out.push_str(&format!(
+            "\n## {}\n\n| Keys | What they do |\n| --- | --- |\n",
+            mode.heading()
+        ));
         for b in bindings_for(mode) {
-            let keys = b.keys.iter().map(|k| format!("`{}`", k.label)).collect::<Vec<_>>().join(", ");
+            let keys = b
+                .keys
+                .iter()
+                .map(|k| format!("`{}`", k.label))
+                .collect::<Vec<_>>()
+                .join(", ");
             out.push_str(&format!("| {keys} | {} |\n", b.help));
         }
         if mode == Mode::Edit {
@@ -262,7 +304,11 @@ mod tests {
             let mut seen = Vec::new();
             for b in bindings_for(mode) {
                 for k in b.keys {
-                    assert!(!seen.contains(&(k.code, k.ctrl)), "{} bound twice in {mode:?}", k.label);
+                    assert!(
+                        !seen.contains(&(k.code, k.ctrl)),
+                        "{} bound twice in {mode:?}",
+                        k.label
+                    );
                     seen.push((k.code, k.ctrl));
                 }
             }
@@ -296,7 +342,11 @@ mod tests {
         let md = markdown();
         for b in BINDINGS {
             for k in b.keys {
-                assert!(md.contains(&format!("`{}`", k.label)), "{} missing", k.label);
+                assert!(
+                    md.contains(&format!("`{}`", k.label)),
+                    "{} missing",
+                    k.label
+                );
             }
         }
     }

@@ -55,46 +55,72 @@ pub fn draw(app: &App, area: Rect, buf: &mut Buffer) {
     .areas(area);
     draw_header(app, header, buf);
     let pane_width = if area.width >= WIDE { 50 } else { 38 };
-    let [left, right] = Layout::horizontal([Constraint::Length(pane_width), Constraint::Min(20)]).areas(main);
+    let [left, right] =
+        Layout::horizontal([Constraint::Length(pane_width), Constraint::Min(20)]).areas(main);
     if area.width >= WIDE && area.height >= TALL {
         // Screw and Powerplant fit whole; the Vessel pane, the longest, scrolls with the selection.
-        let rects =
-            Layout::vertical([Constraint::Min(8), Constraint::Length(13), Constraint::Length(12)]).split(left);
+        let rects = Layout::vertical([
+            Constraint::Min(8),
+            Constraint::Length(13),
+            Constraint::Length(12),
+        ])
+        .split(left);
         for (pane, rect) in Pane::ALL.iter().zip(rects.iter()) {
             draw_pane(app, *pane, *rect, buf);
         }
     } else {
-        let [tabs, body] = Layout::vertical([Constraint::Length(1), Constraint::Min(3)]).areas(left);
+        let [tabs, body] =
+            Layout::vertical([Constraint::Length(1), Constraint::Min(3)]).areas(left);
         draw_tabs(app, tabs, buf);
         draw_pane(app, app.focus, body, buf);
     }
     let view = chart_view(app);
-    ChartWidget { view: &view, frame_style: app.theme.dim }.render(right, buf);
-    Paragraph::new(readout_text).wrap(Wrap { trim: true }).render(readout, buf);
+    ChartWidget {
+        view: &view,
+        frame_style: app.theme.dim,
+    }
+    .render(right, buf);
+    Paragraph::new(readout_text)
+        .wrap(Wrap { trim: true })
+        .render(readout, buf);
     draw_status(app, status, buf);
     draw_footer(app, footer, buf);
     match &app.overlay {
         Overlay::None => {}
         Overlay::Help { scroll } => draw_help(app, *scroll, area, buf),
-        Overlay::Pick { kind, entries, highlighted } => draw_picker(app, *kind, entries, *highlighted, area, buf),
+        Overlay::Pick {
+            kind,
+            entries,
+            highlighted,
+        } => draw_picker(app, *kind, entries, *highlighted, area, buf),
         Overlay::Confirm(question) => draw_question(app, question.text(), area, buf),
     }
 }
 
 fn too_small(area: Rect, buf: &mut Buffer) {
     let text = vec![
-        Line::from(format!("tidewright needs {MIN_WIDTH}×{MIN_HEIGHT} or more.")),
+        Line::from(format!(
+            "tidewright needs {MIN_WIDTH}×{MIN_HEIGHT} or more."
+        )),
         Line::from(format!("This terminal is {}×{}.", area.width, area.height)),
         Line::from("Make it larger, or press q to quit."),
     ];
-    Paragraph::new(text).wrap(Wrap { trim: true }).render(area, buf);
+    Paragraph::new(text)
+        .wrap(Wrap { trim: true })
+        .render(area, buf);
 }
 
 fn draw_header(app: &App, area: Rect, buf: &mut Buffer) {
     let mut spans = vec![
-        Span::styled(" tidewright ", app.theme.focus.add_modifier(Modifier::REVERSED)),
+        Span::styled(
+            " tidewright ",
+            app.theme.focus.add_modifier(Modifier::REVERSED),
+        ),
         Span::raw(" "),
-        Span::styled(app.name.clone(), Style::default().add_modifier(Modifier::BOLD)),
+        Span::styled(
+            app.name.clone(),
+            Style::default().add_modifier(Modifier::BOLD),
+        ),
     ];
     if app.dirty() {
         spans.push(Span::styled(" ● unsaved", app.theme.warning));
@@ -117,7 +143,9 @@ fn draw_tabs(app: &App, area: Rect, buf: &mut Buffer) {
     let mut spans = Vec::new();
     for pane in Pane::ALL {
         let style = if pane == app.focus {
-            app.theme.focus.add_modifier(Modifier::REVERSED | Modifier::BOLD)
+            app.theme
+                .focus
+                .add_modifier(Modifier::REVERSED | Modifier::BOLD)
         } else {
             app.theme.dim
         };
@@ -131,15 +159,24 @@ fn draw_pane(app: &App, pane: Pane, area: Rect, buf: &mut Buffer) {
     let rows = fields::rows(pane, app);
     let focused = app.focus == pane && app.overlay == Overlay::None;
     let typing = match &app.edit {
-        Some(edit) if focused && matches!(edit.target, EditTarget::Field(_)) => {
-            Some(TypedValue { text: &edit.text, problem: edit.problem.as_deref() })
-        }
+        Some(edit) if focused && matches!(edit.target, EditTarget::Field(_)) => Some(TypedValue {
+            text: &edit.text,
+            problem: edit.problem.as_deref(),
+        }),
         _ => None,
     };
     let extra = fields::pane_notes(pane, app);
     let selected = app.selected[pane.index()].min(rows.len().saturating_sub(1));
-    FieldList { title: &pane_title(app, pane), rows: &rows, selected, focused, typing, footer_lines: &extra, theme: &app.theme }
-        .render(area, buf);
+    FieldList {
+        title: &pane_title(app, pane),
+        rows: &rows,
+        selected,
+        focused,
+        typing,
+        footer_lines: &extra,
+        theme: &app.theme,
+    }
+    .render(area, buf);
 }
 
 fn pane_title(app: &App, pane: Pane) -> String {
@@ -164,7 +201,12 @@ fn every_nth(points: &[(f64, f64)], count: usize) -> Vec<(f64, f64)> {
         return Vec::new();
     }
     let step = (points.len() / count.max(1)).max(1);
-    points.iter().skip(step / 2).step_by(step).copied().collect()
+    points
+        .iter()
+        .skip(step / 2)
+        .step_by(step)
+        .copied()
+        .collect()
 }
 
 fn convert(points: &[(f64, f64)], x: Option<Kind>, y: Kind, system: UnitSystem) -> Vec<(f64, f64)> {
@@ -183,9 +225,24 @@ pub fn chart_view(app: &App) -> ChartView {
     let system = app.units;
     let kind = app.chart;
     let (x_kind, y_kind, x_title, y_title) = match kind {
-        ChartKind::PowerVsRpm => (None, Kind::Power, "engine rpm".to_string(), units::unit_label(Kind::Power, system)),
-        ChartKind::SpeedVsRpm => (None, Kind::Speed, "engine rpm".to_string(), units::unit_label(Kind::Speed, system)),
-        ChartKind::FuelVsRpm => (None, Kind::FuelRate, "engine rpm".to_string(), units::unit_label(Kind::FuelRate, system)),
+        ChartKind::PowerVsRpm => (
+            None,
+            Kind::Power,
+            "engine rpm".to_string(),
+            units::unit_label(Kind::Power, system),
+        ),
+        ChartKind::SpeedVsRpm => (
+            None,
+            Kind::Speed,
+            "engine rpm".to_string(),
+            units::unit_label(Kind::Speed, system),
+        ),
+        ChartKind::FuelVsRpm => (
+            None,
+            Kind::FuelRate,
+            "engine rpm".to_string(),
+            units::unit_label(Kind::FuelRate, system),
+        ),
         ChartKind::RangeVsSpeed => (
             Some(Kind::Speed),
             Kind::Distance,
@@ -220,7 +277,12 @@ pub fn chart_view(app: &App) -> ChartView {
         let top = solved.envelope.iter().map(|p| p.1).fold(0.0, f64::max);
         view.series.push(Series {
             name: Some(format!("┆ rated {rated:.0} rpm")),
-            points: convert(&[(rated, 0.0), (rated, top * 1.02)], None, Kind::Power, system),
+            points: convert(
+                &[(rated, 0.0), (rated, top * 1.02)],
+                None,
+                Kind::Power,
+                system,
+            ),
             shape: SeriesShape::Line,
             style: reference.add_modifier(Modifier::DIM),
         });
@@ -239,8 +301,17 @@ pub fn chart_view(app: &App) -> ChartView {
             points.retain(|p| p.0 <= max_rpm * 1.04);
         }
         let glyph = variant_glyph(index);
-        let active = if index == solved.vessel.active_variant { " ◀" } else { "" };
-        view.series.push(Series { name: None, points: points.clone(), shape: SeriesShape::Line, style });
+        let active = if index == solved.vessel.active_variant {
+            " ◀"
+        } else {
+            ""
+        };
+        view.series.push(Series {
+            name: None,
+            points: points.clone(),
+            shape: SeriesShape::Line,
+            style,
+        });
         view.series.push(Series {
             name: Some(format!("{} {}{active}", glyph.symbol(), variant.label)),
             points: every_nth(&points, 6),
@@ -250,12 +321,24 @@ pub fn chart_view(app: &App) -> ChartView {
         if let Ok(m) = &variant.matched {
             let p = m.top_point;
             let point = match kind {
-                ChartKind::PowerVsRpm => (p.engine_rpm, units::to_display(p.brake_power, Kind::Power, system)),
-                ChartKind::SpeedVsRpm => (p.engine_rpm, units::to_display(p.speed, Kind::Speed, system)),
-                ChartKind::FuelVsRpm => (p.engine_rpm, units::to_display(p.fuel_volume_flow, Kind::FuelRate, system)),
+                ChartKind::PowerVsRpm => (
+                    p.engine_rpm,
+                    units::to_display(p.brake_power, Kind::Power, system),
+                ),
+                ChartKind::SpeedVsRpm => (
+                    p.engine_rpm,
+                    units::to_display(p.speed, Kind::Speed, system),
+                ),
+                ChartKind::FuelVsRpm => (
+                    p.engine_rpm,
+                    units::to_display(p.fuel_volume_flow, Kind::FuelRate, system),
+                ),
                 ChartKind::RangeVsSpeed => {
                     let range = variant.range_by_speed.last().map_or(f64::NAN, |r| r.1);
-                    (units::to_display(p.speed, Kind::Speed, system), units::to_display(range, Kind::Distance, system))
+                    (
+                        units::to_display(p.speed, Kind::Speed, system),
+                        units::to_display(range, Kind::Distance, system),
+                    )
                 }
             };
             if point.0.is_finite() && point.1.is_finite() {
@@ -283,8 +366,13 @@ pub fn chart_view(app: &App) -> ChartView {
             });
         }
     }
-    if let Some(failure) = solved.variants.iter().find_map(|v| v.curve_failure.as_ref()) {
-        view.note.get_or_insert_with(|| format!("some points not solved: {failure}"));
+    if let Some(failure) = solved
+        .variants
+        .iter()
+        .find_map(|v| v.curve_failure.as_ref())
+    {
+        view.note
+            .get_or_insert_with(|| format!("some points not solved: {failure}"));
     }
     view
 }
@@ -307,7 +395,10 @@ pub fn readout_lines(app: &App) -> Vec<Line<'static>> {
         Some(edit) if edit.target == EditTarget::TargetSpeed => format!("{}▏", edit.text),
         _ => units::format(target, Kind::Speed, system),
     };
-    let mut first = vec![Span::styled(format!("At {target_text}: "), Style::default().add_modifier(Modifier::BOLD))];
+    let mut first = vec![Span::styled(
+        format!("At {target_text}: "),
+        Style::default().add_modifier(Modifier::BOLD),
+    )];
     match app.solution.active().map(|v| &v.cruise) {
         Some(Ok(c)) => {
             let p = &c.point;
@@ -317,7 +408,11 @@ pub fn readout_lines(app: &App) -> Vec<Line<'static>> {
                 format!("load {:.0} %", p.load_fraction * 100.0),
                 units::format(p.fuel_volume_flow, Kind::FuelRate, system),
                 units::format(c.fuel_per_distance, Kind::FuelPerDistance, system),
-                format!("range {:.0} {}", units::to_display(c.range, Kind::Distance, system), units::unit_label(Kind::Distance, system)),
+                format!(
+                    "range {:.0} {}",
+                    units::to_display(c.range, Kind::Distance, system),
+                    units::unit_label(Kind::Distance, system)
+                ),
             ];
             first.push(Span::styled(figures.join(" · "), theme.accent));
             if c.beyond_full_load {
@@ -326,14 +421,22 @@ pub fn readout_lines(app: &App) -> Vec<Line<'static>> {
         }
         Some(Err(why)) => first.push(Span::styled(format!("not reachable: {why}"), theme.error)),
         None => first.push(Span::styled(
-            app.solution.result.as_ref().err().cloned().unwrap_or_default(),
+            app.solution
+                .result
+                .as_ref()
+                .err()
+                .cloned()
+                .unwrap_or_default(),
             theme.error,
         )),
     }
-    if let Some(edit) = app.edit.as_ref().filter(|e| e.target == EditTarget::TargetSpeed) {
-        if let Some(problem) = &edit.problem {
-            first.push(Span::styled(format!("  ✗ {problem}"), theme.error));
-        }
+    if let Some(problem) = app
+        .edit
+        .as_ref()
+        .filter(|e| e.target == EditTarget::TargetSpeed)
+        .and_then(|e| e.problem.as_ref())
+    {
+        first.push(Span::styled(format!("  ✗ {problem}"), theme.error));
     }
     lines.push(Line::from(first));
     if let Some(variant) = app.solution.active() {
@@ -344,14 +447,20 @@ pub fn readout_lines(app: &App) -> Vec<Line<'static>> {
                     _ => theme.warning.add_modifier(Modifier::BOLD),
                 };
                 Line::from(vec![
-                    Span::raw(format!("{}: margin at rated {:+.0} rpm · absorbs {:.0} % at rated · top {} · ", variant.label,
+                    Span::raw(format!(
+                        "{}: margin at rated {:+.0} rpm · absorbs {:.0} % at rated · top {} · ",
+                        variant.label,
                         m.rpm_margin,
                         m.absorbed_fraction_at_rated * 100.0,
-                        units::format(m.top_speed, Kind::Speed, system))),
+                        units::format(m.top_speed, Kind::Speed, system)
+                    )),
                     Span::styled(verdict_text(m.verdict), verdict_style),
                 ])
             }
-            Err(why) => Line::styled(format!("{}: no match with the engine: {why}", variant.label), theme.error),
+            Err(why) => Line::styled(
+                format!("{}: no match with the engine: {why}", variant.label),
+                theme.error,
+            ),
         };
         lines.push(line);
     }
@@ -375,8 +484,11 @@ fn draw_status(app: &App, area: Rect, buf: &mut Buffer) {
 pub fn footer_hints_fitting(mode: Mode, width: u16) -> Vec<(&'static str, &'static str)> {
     let hints = keys::footer_hints(mode);
     let cost = |(k, h): &(&str, &str)| k.chars().count() + h.chars().count() + 3;
-    let kept_last: Vec<_> =
-        hints.iter().filter(|(_, h)| *h == "help" || *h == "quit").copied().collect();
+    let kept_last: Vec<_> = hints
+        .iter()
+        .filter(|(_, h)| *h == "help" || *h == "quit")
+        .copied()
+        .collect();
     let mut budget = (width as usize).saturating_sub(kept_last.iter().map(cost).sum());
     let mut out = Vec::new();
     for hint in hints.iter().filter(|(_, h)| *h != "help" && *h != "quit") {
@@ -393,7 +505,10 @@ pub fn footer_hints_fitting(mode: Mode, width: u16) -> Vec<(&'static str, &'stat
 fn draw_footer(app: &App, area: Rect, buf: &mut Buffer) {
     let mut spans = Vec::new();
     for (key, hint) in footer_hints_fitting(app.mode(), area.width) {
-        spans.push(Span::styled(key, app.theme.focus.add_modifier(Modifier::BOLD)));
+        spans.push(Span::styled(
+            key,
+            app.theme.focus.add_modifier(Modifier::BOLD),
+        ));
         spans.push(Span::styled(format!(" {hint}  "), app.theme.dim));
     }
     Line::from(spans).render(area, buf);
@@ -402,14 +517,22 @@ fn draw_footer(app: &App, area: Rect, buf: &mut Buffer) {
 fn centred(area: Rect, width: u16, height: u16) -> Rect {
     let width = width.min(area.width);
     let height = height.min(area.height);
-    Rect { x: area.x + (area.width - width) / 2, y: area.y + (area.height - height) / 2, width, height }
+    Rect {
+        x: area.x + (area.width - width) / 2,
+        y: area.y + (area.height - height) / 2,
+        width,
+        height,
+    }
 }
 
 /// The help overlay's lines for one column: the modes given, every binding.
 fn help_lines(app: &App, modes: &[Mode], width: usize) -> Vec<Line<'static>> {
     let mut lines = Vec::new();
     for mode in modes {
-        lines.push(Line::styled(mode.heading().to_string(), app.theme.focus.add_modifier(Modifier::BOLD)));
+        lines.push(Line::styled(
+            mode.heading().to_string(),
+            app.theme.focus.add_modifier(Modifier::BOLD),
+        ));
         for b in keys::bindings_for(*mode) {
             let keys = keys::key_labels(b);
             let help_width = width.saturating_sub(13);
@@ -419,7 +542,10 @@ fn help_lines(app: &App, modes: &[Mode], width: usize) -> Vec<Line<'static>> {
                 help.push('…');
             }
             lines.push(Line::from(vec![
-                Span::styled(format!("{keys:<12} "), Style::default().add_modifier(Modifier::BOLD)),
+                Span::styled(
+                    format!("{keys:<12} "),
+                    Style::default().add_modifier(Modifier::BOLD),
+                ),
                 Span::raw(help),
             ]));
         }
@@ -428,7 +554,11 @@ fn help_lines(app: &App, modes: &[Mode], width: usize) -> Vec<Line<'static>> {
 }
 
 fn draw_help(app: &App, scroll: u16, area: Rect, buf: &mut Buffer) {
-    let rect = centred(area, area.width.saturating_sub(2), area.height.saturating_sub(2));
+    let rect = centred(
+        area,
+        area.width.saturating_sub(2),
+        area.height.saturating_sub(2),
+    );
     Clear.render(rect, buf);
     let block = Block::default()
         .borders(Borders::ALL)
@@ -436,26 +566,56 @@ fn draw_help(app: &App, scroll: u16, area: Rect, buf: &mut Buffer) {
         .title(" Keys — ? or Esc closes, j/k scroll ");
     let inner = block.inner(rect);
     block.render(rect, buf);
-    let [left, right] = Layout::horizontal([Constraint::Percentage(52), Constraint::Percentage(48)]).areas(inner);
+    let [left, right] =
+        Layout::horizontal([Constraint::Percentage(52), Constraint::Percentage(48)]).areas(inner);
     let left_lines = help_lines(app, &[Mode::Browse], left.width as usize);
-    let mut right_lines = help_lines(app, &[Mode::Edit, Mode::Pick, Mode::Confirm, Mode::Help], right.width as usize);
+    let mut right_lines = help_lines(
+        app,
+        &[Mode::Edit, Mode::Pick, Mode::Confirm, Mode::Help],
+        right.width as usize,
+    );
     right_lines.push(Line::default());
-    right_lines.push(Line::styled("Markers", app.theme.focus.add_modifier(Modifier::BOLD)));
-    right_lines.push(Line::raw(format!("{}  value estimated (reason shown when selected)", super::field_list::ESTIMATED_MARK)));
-    right_lines.push(Line::raw(format!("{}  value with a warning", super::field_list::WARNING_MARK)));
-    Paragraph::new(left_lines).scroll((scroll, 0)).render(left, buf);
-    Paragraph::new(right_lines).scroll((scroll, 0)).render(right, buf);
+    right_lines.push(Line::styled(
+        "Markers",
+        app.theme.focus.add_modifier(Modifier::BOLD),
+    ));
+    right_lines.push(Line::raw(format!(
+        "{}  value estimated (reason shown when selected)",
+        super::field_list::ESTIMATED_MARK
+    )));
+    right_lines.push(Line::raw(format!(
+        "{}  value with a warning",
+        super::field_list::WARNING_MARK
+    )));
+    Paragraph::new(left_lines)
+        .scroll((scroll, 0))
+        .render(left, buf);
+    Paragraph::new(right_lines)
+        .scroll((scroll, 0))
+        .render(right, buf);
 }
 
-fn draw_picker(app: &App, kind: PickKind, entries: &[String], highlighted: usize, area: Rect, buf: &mut Buffer) {
+fn draw_picker(
+    app: &App,
+    kind: PickKind,
+    entries: &[String],
+    highlighted: usize,
+    area: Rect,
+    buf: &mut Buffer,
+) {
     let title = match kind {
         PickKind::Boat => " Open a boat ",
         PickKind::Engine => " Engine sheet for this boat ",
     };
-    let height = (entries.len() as u16 + 2).min(area.height.saturating_sub(4)).max(3);
+    let height = (entries.len() as u16 + 2)
+        .min(area.height.saturating_sub(4))
+        .max(3);
     let rect = centred(area, 44, height);
     Clear.render(rect, buf);
-    let block = Block::default().borders(Borders::ALL).border_style(app.theme.focus).title(title);
+    let block = Block::default()
+        .borders(Borders::ALL)
+        .border_style(app.theme.focus)
+        .title(title);
     let inner = block.inner(rect);
     block.render(rect, buf);
     let visible = inner.height as usize;
@@ -467,7 +627,10 @@ fn draw_picker(app: &App, kind: PickKind, entries: &[String], highlighted: usize
         .take(visible)
         .map(|(i, e)| {
             if i == highlighted {
-                Line::styled(format!("› {e}"), app.theme.focus.add_modifier(Modifier::REVERSED))
+                Line::styled(
+                    format!("› {e}"),
+                    app.theme.focus.add_modifier(Modifier::REVERSED),
+                )
             } else {
                 Line::raw(format!("  {e}"))
             }
@@ -479,7 +642,10 @@ fn draw_picker(app: &App, kind: PickKind, entries: &[String], highlighted: usize
 fn draw_question(app: &App, question: &str, area: Rect, buf: &mut Buffer) {
     let rect = centred(area, 52, 6);
     Clear.render(rect, buf);
-    let block = Block::default().borders(Borders::ALL).border_style(app.theme.warning).title(" Question ");
+    let block = Block::default()
+        .borders(Borders::ALL)
+        .border_style(app.theme.warning)
+        .title(" Question ");
     let inner = block.inner(rect);
     block.render(rect, buf);
     Paragraph::new(vec![

@@ -81,7 +81,11 @@ impl Solution {
 
     /// The recommended pitch for the active variant, m, when the design core found one.
     pub fn recommended_pitch(&self) -> Option<f64> {
-        self.solved()?.recommendation.as_ref().ok()?.recommended_pitch
+        self.solved()?
+            .recommendation
+            .as_ref()
+            .ok()?
+            .recommended_pitch
     }
 
     /// The recommendation line of the Screw pane, in `system`'s units.
@@ -91,7 +95,10 @@ impl Solution {
             Err(why) => return Some(format!("No pitch recommendation: {why}")),
         };
         let Some(pitch) = rec.recommended_pitch else {
-            return Some(format!("No pitch found for rated power at rated rpm ({:?})", rec.stop));
+            return Some(format!(
+                "No pitch found for rated power at rated rpm ({:?})",
+                rec.stop
+            ));
         };
         let change = rec.change.unwrap_or(0.0);
         let sign = if change >= 0.0 { "+" } else { "−" };
@@ -116,12 +123,25 @@ pub fn solve_vessel(vessel: Vessel) -> Solved {
         Ok(w) => warnings.extend(w),
         Err(e) => warnings.push(Warning::new("engine sheet", e.to_string())),
     }
-    let variants = (0..vessel.variants.len()).map(|i| solve_variant(&vessel, i)).collect();
+    let variants = (0..vessel.variants.len())
+        .map(|i| solve_variant(&vessel, i))
+        .collect();
     let envelope = vessel.engine.full_load_power.points.clone();
-    let trial = vessel.trial.iter().map(|run| (run.engine_rpm, run.speed_over_ground)).collect();
-    let recommendation =
-        recommend_pitch(&vessel, vessel.active_variant, &PitchOptions::default()).map_err(|e| e.to_string());
-    Solved { variants, warnings, envelope, trial, recommendation, vessel }
+    let trial = vessel
+        .trial
+        .iter()
+        .map(|run| (run.engine_rpm, run.speed_over_ground))
+        .collect();
+    let recommendation = recommend_pitch(&vessel, vessel.active_variant, &PitchOptions::default())
+        .map_err(|e| e.to_string());
+    Solved {
+        variants,
+        warnings,
+        envelope,
+        trial,
+        recommendation,
+        vessel,
+    }
 }
 
 fn solve_variant(vessel: &Vessel, index: usize) -> VariantSolution {
@@ -134,9 +154,15 @@ fn solve_variant(vessel: &Vessel, index: usize) -> VariantSolution {
         Ok(m) if m.top_speed > 0.0 => m.top_speed,
         _ => trip.target_speed.max(0.5) * 1.5,
     };
-    let meeting_rpm = matched.as_ref().map(|m| m.meeting_rpm).unwrap_or(f64::INFINITY);
+    let meeting_rpm = matched
+        .as_ref()
+        .map(|m| m.meeting_rpm)
+        .unwrap_or(f64::INFINITY);
     let curve = PropellerCurve::over_speeds(&system, 0.12 * top, 1.12 * top, CURVE_POINTS);
-    let curve_failure = curve.points.iter().find_map(|(_, r)| r.as_ref().err().map(|e| e.to_string()));
+    let curve_failure = curve
+        .points
+        .iter()
+        .find_map(|(_, r)| r.as_ref().err().map(|e| e.to_string()));
     let mut solution = VariantSolution {
         label: vessel.variants[index].label.clone(),
         matched,
@@ -149,10 +175,14 @@ fn solve_variant(vessel: &Vessel, index: usize) -> VariantSolution {
         curve_failure,
     };
     for point in curve.solved() {
-        solution.power_by_rpm.push((point.engine_rpm, point.brake_power));
+        solution
+            .power_by_rpm
+            .push((point.engine_rpm, point.brake_power));
         solution.speed_by_rpm.push((point.engine_rpm, point.speed));
         if point.engine_rpm <= meeting_rpm * 1.0001 {
-            solution.fuel_by_rpm.push((point.engine_rpm, point.fuel_volume_flow));
+            solution
+                .fuel_by_rpm
+                .push((point.engine_rpm, point.fuel_volume_flow));
             if let Ok(c) = CruisePoint::from_point(&trip, *point) {
                 solution.range_by_speed.push((point.speed, c.range));
             }

@@ -65,7 +65,11 @@ impl Theme {
 
     /// The colour of full-load envelope and other reference lines.
     pub fn reference(&self) -> Style {
-        if self.colour { Style::default().fg(Color::White) } else { Style::default() }
+        if self.colour {
+            Style::default().fg(Color::White)
+        } else {
+            Style::default()
+        }
     }
 }
 
@@ -76,7 +80,10 @@ mod tests {
     #[test]
     fn plain_theme_has_no_colours() {
         let t = Theme::plain();
-        for s in [t.focus, t.dim, t.warning, t.error, t.accent, t.reference()].iter().chain(t.series.iter()) {
+        for s in [t.focus, t.dim, t.warning, t.error, t.accent, t.reference()]
+            .iter()
+            .chain(t.series.iter())
+        {
             assert_eq!(s.fg, None);
             assert_eq!(s.bg, None);
         }
