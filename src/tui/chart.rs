@@ -295,7 +295,7 @@ mod tests {
         (0..height)
             .map(|y| {
                 (0..width)
-                    .map(|x| buf[(x, y)].symbol().to_string())
+                    .map(|x| buf[(x, y)].symbol().replace('\u{a0}', " "))
                     .collect::<String>()
             })
             .collect::<Vec<_>>()

@@ -307,7 +307,7 @@ mod tests {
             8,
         );
         assert!(text.contains("▶ Screw"));
-        assert!(text.contains("› Pitch"), "{text}");
+        assert!(text.contains("›Pitch"), "{text}");
         assert!(text.contains("17.0 in !"), "{text}");
         assert!(text.contains("31.2 m²~"), "{text}");
         assert!(text.contains("! P/D 1.45"), "{text}");

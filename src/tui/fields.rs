@@ -503,43 +503,44 @@ pub fn nudge_step(field: FieldId, kind: FieldKind, system: UnitSystem) -> f64 {
     }
 }
 
-fn set_quantity(q: &mut Quantity, value: f64) {
-    *q = Quantity::new(value);
+fn set_quantity(target: &mut Quantity, typed: &Quantity) {
+    *target = typed.clone();
 }
 
-/// Writes `value` (internal unit) into `field` of `boat`.
-fn set_number(field: FieldId, boat: &mut BoatDoc, value: f64) -> Result<(), String> {
+/// Writes `typed` (internal unit; kept as typed for the file) into `field` of `boat`.
+fn set_number(field: FieldId, boat: &mut BoatDoc, typed: Quantity) -> Result<(), String> {
     use FieldId as F;
+    let value = typed.value;
     let not_here = || Err(format!("{} is not edited here", label(field)));
     match field {
         F::Displacement => match load_case_mut(boat) {
-            Some(case) => set_quantity(&mut case.displacement, value),
+            Some(case) => set_quantity(&mut case.displacement, &typed),
             None => {
                 return Err("the boat file gives no displacement for this load condition".into());
             }
         },
-        F::LengthWaterline => set_quantity(&mut boat.hull.length_waterline, value),
-        F::BeamWaterline => set_quantity(&mut boat.hull.beam_waterline, value),
-        F::DraftAft => set_quantity(&mut boat.hull.draft_aft, value),
-        F::DraftForward => set_quantity(&mut boat.hull.draft_forward, value),
-        F::WettedSurface => boat.hull.wetted_surface = Some(Quantity::new(value)),
-        F::HalfEntranceAngle => boat.hull.half_entrance_angle = Some(Quantity::new(value)),
-        F::TransomArea => boat.hull.transom_area = Some(Quantity::new(value)),
+        F::LengthWaterline => set_quantity(&mut boat.hull.length_waterline, &typed),
+        F::BeamWaterline => set_quantity(&mut boat.hull.beam_waterline, &typed),
+        F::DraftAft => set_quantity(&mut boat.hull.draft_aft, &typed),
+        F::DraftForward => set_quantity(&mut boat.hull.draft_forward, &typed),
+        F::WettedSurface => boat.hull.wetted_surface = Some(typed.clone()),
+        F::HalfEntranceAngle => boat.hull.half_entrance_angle = Some(typed.clone()),
+        F::TransomArea => boat.hull.transom_area = Some(typed.clone()),
         F::ServiceMargin => boat.resistance.service_margin = value,
         F::Fouling => boat.resistance.fouling = value,
-        F::WaterTemperature => set_quantity(&mut boat.water.temperature, value),
+        F::WaterTemperature => set_quantity(&mut boat.water.temperature, &typed),
         F::WindageArea => match &mut boat.windage {
-            Some(w) => set_quantity(&mut w.frontal_area, value),
+            Some(w) => set_quantity(&mut w.frontal_area, &typed),
             None => return not_here(),
         },
         F::Headwind => match &mut boat.windage {
-            Some(w) => w.headwind = Some(Quantity::new(value)),
+            Some(w) => w.headwind = Some(typed.clone()),
             None => return not_here(),
         },
         F::GearRatio => boat.installation.gear_ratio = value,
         F::ShaftEfficiency => boat.installation.shaft_efficiency = value,
         F::GearEfficiency => boat.installation.gear_efficiency = value,
-        F::Tank => set_quantity(&mut boat.trip.tank, value),
+        F::Tank => set_quantity(&mut boat.trip.tank, &typed),
         F::UsableFraction => boat.trip.usable_fraction = value,
         F::Reserve => boat.trip.reserve = value,
         F::Blades | F::Diameter | F::Pitch | F::AreaRatio => {
@@ -553,8 +554,8 @@ fn set_number(field: FieldId, boat: &mut BoatDoc, value: f64) -> Result<(), Stri
                     }
                     v.blades = value as u32;
                 }
-                F::Diameter => set_quantity(&mut v.diameter, value),
-                F::Pitch => set_quantity(&mut v.pitch, value),
+                F::Diameter => set_quantity(&mut v.diameter, &typed),
+                F::Pitch => set_quantity(&mut v.pitch, &typed),
                 _ => v.area_ratio = value,
             }
         }
@@ -577,10 +578,11 @@ pub fn set_from_text(field: FieldId, boat: &mut BoatDoc, text: &str) -> Result<(
     let doc_value = {
         let kind = kind_of(field);
         match kind {
+            // Kept as typed, so the file shows "19 in" rather than a converted number.
             Some(FieldKind::Unit(kind)) => {
-                Some(units::parse(text, kind).map_err(|e| e.to_string())?)
+                Some(Quantity::from_text(text, kind).map_err(|e| e.to_string())?)
             }
-            Some(FieldKind::Plain(_)) | Some(FieldKind::Count) => Some(
+            Some(FieldKind::Plain(_)) | Some(FieldKind::Count) => Some(Quantity::new(
                 text.trim()
                     .parse::<f64>()
                     .ok()
@@ -588,7 +590,7 @@ pub fn set_from_text(field: FieldId, boat: &mut BoatDoc, text: &str) -> Result<(
                     .ok_or_else(|| {
                         format!("expected a plain number such as 2.5, got {:?}", text.trim())
                     })?,
-            ),
+            )),
             None => None,
         }
     };
@@ -679,7 +681,7 @@ pub fn nudge(
         }
         _ => clean(current + direction * step),
     };
-    set_number(field, boat, next)?;
+    set_number(field, boat, Quantity::new(next))?;
     match problem_at(field, boat) {
         Some(problem) => Err(problem),
         None => Ok(()),

@@ -61,7 +61,7 @@ pub fn draw(app: &App, area: Rect, buf: &mut Buffer) {
         // Screw and Powerplant fit whole; the Vessel pane, the longest, scrolls with the selection.
         let rects = Layout::vertical([
             Constraint::Min(8),
-            Constraint::Length(13),
+            Constraint::Length(12),
             Constraint::Length(12),
         ])
         .split(left);
