@@ -404,7 +404,7 @@ impl App {
                 if let Overlay::Help { scroll } = &mut self.overlay {
                     match command {
                         Command::ToggleHelp => self.overlay = Overlay::None,
-                        Command::ListDown => *scroll = (*scroll + 1).min(40),
+                        Command::ListDown => *scroll = (*scroll + 1).min(60),
                         Command::ListUp => *scroll = scroll.saturating_sub(1),
                         _ => {}
                     }

@@ -525,7 +525,10 @@ fn centred(area: Rect, width: u16, height: u16) -> Rect {
     }
 }
 
-/// The help overlay's lines for one column: the modes given, every binding.
+/// Width of the key column in the help overlay.
+const HELP_KEY_WIDTH: usize = 18;
+
+/// The help overlay's lines for the modes given: every binding, the help cut to `width`.
 fn help_lines(app: &App, modes: &[Mode], width: usize) -> Vec<Line<'static>> {
     let mut lines = Vec::new();
     for mode in modes {
@@ -535,7 +538,7 @@ fn help_lines(app: &App, modes: &[Mode], width: usize) -> Vec<Line<'static>> {
         ));
         for b in keys::bindings_for(*mode) {
             let keys = keys::key_labels(b);
-            let help_width = width.saturating_sub(13);
+            let help_width = width.saturating_sub(HELP_KEY_WIDTH + 1);
             let mut help: String = b.help.chars().take(help_width).collect();
             if b.help.chars().count() > help_width && help_width > 1 {
                 help.pop();
@@ -543,7 +546,7 @@ fn help_lines(app: &App, modes: &[Mode], width: usize) -> Vec<Line<'static>> {
             }
             lines.push(Line::from(vec![
                 Span::styled(
-                    format!("{keys:<12} "),
+                    format!("{keys:<HELP_KEY_WIDTH$} "),
                     Style::default().add_modifier(Modifier::BOLD),
                 ),
                 Span::raw(help),
@@ -551,6 +554,21 @@ fn help_lines(app: &App, modes: &[Mode], width: usize) -> Vec<Line<'static>> {
         }
     }
     lines
+}
+
+fn marker_lines(app: &App) -> Vec<Line<'static>> {
+    vec![
+        Line::default(),
+        Line::styled("Markers", app.theme.focus.add_modifier(Modifier::BOLD)),
+        Line::raw(format!(
+            "{}  value estimated (the reason shows when selected)",
+            super::field_list::ESTIMATED_MARK
+        )),
+        Line::raw(format!(
+            "{}  value with a warning",
+            super::field_list::WARNING_MARK
+        )),
+    ]
 }
 
 fn draw_help(app: &App, scroll: u16, area: Rect, buf: &mut Buffer) {
@@ -566,33 +584,27 @@ fn draw_help(app: &App, scroll: u16, area: Rect, buf: &mut Buffer) {
         .title(" Keys — ? or Esc closes, j/k scroll ");
     let inner = block.inner(rect);
     block.render(rect, buf);
-    let [left, right] =
-        Layout::horizontal([Constraint::Percentage(52), Constraint::Percentage(48)]).areas(inner);
-    let left_lines = help_lines(app, &[Mode::Browse], left.width as usize);
-    let mut right_lines = help_lines(
-        app,
-        &[Mode::Edit, Mode::Pick, Mode::Confirm, Mode::Help],
-        right.width as usize,
-    );
-    right_lines.push(Line::default());
-    right_lines.push(Line::styled(
-        "Markers",
-        app.theme.focus.add_modifier(Modifier::BOLD),
-    ));
-    right_lines.push(Line::raw(format!(
-        "{}  value estimated (reason shown when selected)",
-        super::field_list::ESTIMATED_MARK
-    )));
-    right_lines.push(Line::raw(format!(
-        "{}  value with a warning",
-        super::field_list::WARNING_MARK
-    )));
-    Paragraph::new(left_lines)
-        .scroll((scroll, 0))
-        .render(left, buf);
-    Paragraph::new(right_lines)
-        .scroll((scroll, 0))
-        .render(right, buf);
+    let others = [Mode::Edit, Mode::Pick, Mode::Confirm, Mode::Help];
+    if inner.width >= 110 {
+        let [left, right] =
+            Layout::horizontal([Constraint::Percentage(55), Constraint::Percentage(45)])
+                .areas(inner);
+        let left_lines = help_lines(app, &[Mode::Browse], left.width as usize);
+        let mut right_lines = help_lines(app, &others, right.width as usize);
+        right_lines.extend(marker_lines(app));
+        Paragraph::new(left_lines)
+            .scroll((scroll, 0))
+            .render(left, buf);
+        Paragraph::new(right_lines)
+            .scroll((scroll, 0))
+            .render(right, buf);
+    } else {
+        // One column, scrolled with j/k, so no help text is cut short at 80 columns.
+        let mut lines = help_lines(app, &Mode::ALL, inner.width as usize);
+        lines.extend(marker_lines(app));
+        let last_top = (lines.len() as u16).saturating_sub(inner.height);
+        Paragraph::new(lines).scroll((scroll.min(last_top), 0)).render(inner, buf);
+    }
 }
 
 fn draw_picker(
