@@ -603,7 +603,9 @@ fn draw_help(app: &App, scroll: u16, area: Rect, buf: &mut Buffer) {
         let mut lines = help_lines(app, &Mode::ALL, inner.width as usize);
         lines.extend(marker_lines(app));
         let last_top = (lines.len() as u16).saturating_sub(inner.height);
-        Paragraph::new(lines).scroll((scroll.min(last_top), 0)).render(inner, buf);
+        Paragraph::new(lines)
+            .scroll((scroll.min(last_top), 0))
+            .render(inner, buf);
     }
 }
 
