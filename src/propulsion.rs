@@ -25,7 +25,10 @@ pub struct Warning {
 impl Warning {
     /// A warning from `source` with the given message.
     pub fn new(source: &'static str, message: impl Into<String>) -> Self {
-        Self { source, message: message.into() }
+        Self {
+            source,
+            message: message.into(),
+        }
     }
 }
 
@@ -47,11 +50,17 @@ pub struct Resolved {
 impl Resolved {
     /// A value the user gave.
     pub fn given(value: f64) -> Self {
-        Self { value, estimated_by: None }
+        Self {
+            value,
+            estimated_by: None,
+        }
     }
     /// A value estimated by the named method.
     pub fn estimated(value: f64, method: &'static str) -> Self {
-        Self { value, estimated_by: Some(method) }
+        Self {
+            value,
+            estimated_by: Some(method),
+        }
     }
     /// Whether the value was estimated rather than given.
     pub fn is_estimated(&self) -> bool {

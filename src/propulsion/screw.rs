@@ -44,7 +44,11 @@ pub struct OpenWaterPoint {
 impl OpenWaterPoint {
     /// Open-water efficiency η0 = J·KT/(2π·KQ); `None` where KT ≤ 0 or KQ ≤ 0.
     pub fn efficiency(&self) -> Option<f64> {
-        let (j, kt, kq) = (self.advance_ratio, self.thrust_coefficient, self.torque_coefficient);
+        let (j, kt, kq) = (
+            self.advance_ratio,
+            self.thrust_coefficient,
+            self.torque_coefficient,
+        );
         (kt > 0.0 && kq > 0.0 && j >= 0.0).then(|| j * kt / (2.0 * std::f64::consts::PI * kq))
     }
 }

@@ -5,6 +5,7 @@
 mod support;
 
 mod cli;
+mod design;
 mod hull;
 mod profiles;
 mod screw;

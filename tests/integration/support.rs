@@ -9,7 +9,11 @@ macro_rules! assert_close {
         assert!(
             got.is_finite() && ((got - want).abs() / scale) <= rel,
             "{} = {} but expected {} within {} % (off by {:.4} %)",
-            stringify!($got), got, want, rel * 100.0, (got - want).abs() / scale * 100.0
+            stringify!($got),
+            got,
+            want,
+            rel * 100.0,
+            (got - want).abs() / scale * 100.0
         );
     }};
 }

@@ -1,6 +1,12 @@
 //! One operating point: the thrust identity solved at one boat speed.
 
-use super::System;
+use super::{Installation, RootOutcome, System, brent};
+use crate::propulsion::engine::EngineSheet;
+use crate::propulsion::hull::Interaction;
+use crate::propulsion::screw::ScrewModel;
+use crate::propulsion::water::WaterProperties;
+use std::convert::Infallible;
+use std::f64::consts::PI;
 use thiserror::Error;
 
 /// A solved operating point at one boat speed. SI units, rpm named as such.
@@ -60,7 +66,9 @@ pub enum PointFailure {
     #[error("resistance: {0}")]
     Resistance(#[from] crate::propulsion::hull::HullError),
     /// No advance ratio in (0, J at KT = 0) gives the required thrust loading.
-    #[error("the screw cannot give {thrust:.0} N at {speed:.2} m/s: no advance ratio satisfies the thrust identity")]
+    #[error(
+        "the screw cannot give {thrust:.0} N at {speed:.2} m/s: no advance ratio satisfies the thrust identity"
+    )]
     NoRoot {
         /// The boat speed, m/s.
         speed: f64,
@@ -78,10 +86,675 @@ pub enum PointFailure {
     /// The interaction coefficients are outside their meaningful range.
     #[error("interaction coefficient out of range: {0}")]
     BadInteraction(String),
+    /// An installation, trip or query value is outside its meaningful range.
+    #[error("{field} = {value} is not valid: expected {expected}")]
+    BadInput {
+        /// The value's name, e.g. "gear ratio".
+        field: &'static str,
+        /// The value given (SI).
+        value: f64,
+        /// What was expected.
+        expected: &'static str,
+    },
+    /// A result came out non-finite or with an impossible sign (a defect in a model's data).
+    #[error("{quantity} came out as {value} at {speed:.2} m/s, which is not physical")]
+    Unphysical {
+        /// The boat speed, m/s.
+        speed: f64,
+        /// Which result, e.g. "torque coefficient".
+        quantity: &'static str,
+        /// The value it came out as.
+        value: f64,
+    },
+    /// The engine sheet is unusable.
+    #[error("engine sheet: {0}")]
+    Engine(#[from] crate::propulsion::engine::EngineError),
+    /// No boat speed up to the largest considered turns the engine at the requested rpm.
+    #[error(
+        "the engine does not reach {engine_rpm:.0} rpm at any speed up to {max_speed:.2} m/s \
+         with this screw"
+    )]
+    RpmOutOfReach {
+        /// The engine rpm asked for.
+        engine_rpm: f64,
+        /// The largest boat speed considered, m/s.
+        max_speed: f64,
+    },
+}
+
+/// Largest number of root-finder iterations for the advance ratio.
+pub const MAX_ADVANCE_RATIO_ITERATIONS: u32 = 100;
+
+/// The solver stops when |KT(J)/(J²·loading) − 1| is below this (the thrust identity residual).
+pub const THRUST_IDENTITY_TOLERANCE: f64 = 1e-10;
+
+/// Largest number of passes of the Reynolds-number iteration (J → n → Rn → KT(J, Rn)).
+pub const MAX_REYNOLDS_PASSES: u32 = 5;
+
+/// The Reynolds iteration stops when Rn changes by less than this fraction between passes.
+pub const REYNOLDS_TOLERANCE: f64 = 1e-3;
+
+/// The part of a system from the screw to the engine, in its water: what turns a required
+/// thrust at a speed of advance into screw rpm, power and fuel.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Drive<'a> {
+    /// The screw.
+    pub screw: &'a ScrewModel,
+    /// Gear and shaft.
+    pub installation: Installation,
+    /// The engine sheet.
+    pub engine: &'a EngineSheet,
+    /// The water the screw works in (density kg/m³, kinematic viscosity m²/s).
+    pub water: WaterProperties,
+    /// Whether to apply the B-series Reynolds-number correction at full scale.
+    pub reynolds_correction: bool,
+}
+
+/// Why the advance-ratio root could not be found.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum AdvanceRatioFailure {
+    /// No J in (0, J at KT = 0] gives the loading (KT ≤ 0 at J = 0, or a bad bracket).
+    NoRoot,
+    /// The iteration cap was reached.
+    NotConverged {
+        /// Iterations used.
+        iterations: u32,
+    },
+}
+
+/// The root of the thrust identity KT(J) = loading·J² on (0, `upper_j`], where
+/// loading = T/(ρ·Va²·D²) is the required thrust loading KT/J², `thrust_coefficient` gives
+/// KT(J), and `upper_j` is the J at KT = 0 or any J between the root and it. Returns J.
+/// Brent's method on the bracket [0, `upper_j`]: at J = 0 the difference KT − loading·J² is
+/// KT(0) > 0 and at zero thrust it is −loading·J0² < 0. No allocation.
+pub fn advance_ratio_for_loading(
+    loading: f64,
+    upper_j: f64,
+    thrust_coefficient: impl Fn(f64) -> f64,
+) -> Result<f64, AdvanceRatioFailure> {
+    advance_ratio_between(loading, 0.0, upper_j, thrust_coefficient)
+}
+
+/// As [`advance_ratio_for_loading`] on the bracket [`low_j`, `high_j`], which must hold the
+/// root: KT − loading·J² > 0 at `low_j` and ≤ 0 at `high_j`.
+fn advance_ratio_between(
+    loading: f64,
+    low_j: f64,
+    high_j: f64,
+    thrust_coefficient: impl Fn(f64) -> f64,
+) -> Result<f64, AdvanceRatioFailure> {
+    let bracket_ok = low_j.is_finite() && low_j >= 0.0 && high_j.is_finite() && high_j > low_j;
+    if !(loading.is_finite() && loading > 0.0 && bracket_ok) {
+        return Err(AdvanceRatioFailure::NoRoot);
+    }
+    let excess = |j: f64| thrust_coefficient(j) - loading * j * j;
+    let (low, high) = (excess(low_j), excess(high_j));
+    if !(low > 0.0 && high <= 0.0) {
+        return Err(AdvanceRatioFailure::NoRoot);
+    }
+    let accept =
+        |j: f64, fj: f64| j > 0.0 && fj.abs() <= THRUST_IDENTITY_TOLERANCE * loading * j * j;
+    let outcome = brent(
+        |j| Ok::<_, Infallible>(excess(j)),
+        (low_j, low),
+        (high_j, high),
+        accept,
+        1e-15 * high_j,
+        MAX_ADVANCE_RATIO_ITERATIONS,
+    );
+    match outcome {
+        Ok(RootOutcome::Converged { x, .. }) if x > 0.0 => Ok(x),
+        Ok(RootOutcome::Converged { .. }) => Err(AdvanceRatioFailure::NoRoot),
+        Ok(RootOutcome::IterationCap { iterations }) => {
+            Err(AdvanceRatioFailure::NotConverged { iterations })
+        }
+        Err(never) => match never {},
+    }
+}
+
+/// Blade-section Reynolds number at 0.75R: Rn = c·√(Va² + (0.75·π·n·D)²)/ν, with chord c (m),
+/// speed of advance Va (m/s), screw speed n (rev/s), diameter D (m), kinematic viscosity ν
+/// (m²/s) (ITTC 1978 performance prediction method).
+pub fn reynolds_at_075r(
+    chord: f64,
+    advance_speed: f64,
+    screw_rps: f64,
+    diameter: f64,
+    viscosity: f64,
+) -> f64 {
+    let section_speed = 0.75 * PI * screw_rps * diameter;
+    chord * advance_speed.hypot(section_speed) / viscosity
+}
+
+/// The operating point at `speed` (m/s) with resistance `resistance` (N) and the interaction
+/// coefficients given — the thrust identity of design §2.6 without the hull model. A speed of
+/// 0 gives a zero point. No allocation.
+pub fn solve_with_resistance(
+    drive: &Drive<'_>,
+    speed: f64,
+    resistance: f64,
+    interaction: Interaction,
+) -> Result<OperatingPoint, PointFailure> {
+    if !(speed.is_finite() && speed >= 0.0) {
+        return Err(PointFailure::InvalidSpeed(speed));
+    }
+    drive.installation.check()?;
+    check_interaction(&interaction)?;
+    let Interaction {
+        wake_fraction,
+        thrust_deduction,
+        relative_rotative_efficiency,
+    } = interaction;
+    if speed == 0.0 {
+        return Ok(OperatingPoint::at_rest(interaction));
+    }
+    if !(resistance.is_finite() && resistance > 0.0) {
+        return Err(PointFailure::Unphysical {
+            speed,
+            quantity: "resistance",
+            value: resistance,
+        });
+    }
+    let density = drive.water.density;
+    let viscosity = drive.water.kinematic_viscosity;
+    if !(density.is_finite() && density > 0.0) {
+        return Err(PointFailure::BadInput {
+            field: "water density",
+            value: density,
+            expected: "a positive density in kg/m³",
+        });
+    }
+    let diameter = drive.screw.geometry().diameter;
+    if !(diameter.is_finite() && diameter > 0.0) {
+        return Err(PointFailure::BadInput {
+            field: "screw diameter",
+            value: diameter,
+            expected: "a positive diameter in metres",
+        });
+    }
+    let advance_speed = speed * (1.0 - wake_fraction);
+    let thrust = resistance / (1.0 - thrust_deduction);
+    let loading = thrust / (density * advance_speed * advance_speed * diameter * diameter);
+
+    let chord = if drive.reynolds_correction && viscosity > 0.0 {
+        drive.screw.chord_at_075r()
+    } else {
+        None
+    };
+    let mut reynolds: Option<f64> = None;
+    let mut previous_j: Option<f64> = None;
+    let mut pass = 1;
+    let (advance_ratio, coefficients) = loop {
+        let kt = |j: f64| drive.screw.coefficients(j, reynolds).thrust_coefficient;
+        let (low_j, high_j) = match previous_j {
+            // A later pass of the Reynolds iteration moves J very little: a tight bracket
+            // around the last root, widened to the full one where it does not hold.
+            Some(j) => {
+                let excess = |j: f64| kt(j) - loading * j * j;
+                if excess(0.97 * j) > 0.0 && excess(1.03 * j) <= 0.0 {
+                    (0.97 * j, 1.03 * j)
+                } else {
+                    bracket(drive.screw, reynolds, loading, kt)
+                }
+            }
+            None => bracket(drive.screw, reynolds, loading, kt),
+        };
+        let advance_ratio =
+            advance_ratio_between(loading, low_j, high_j, kt).map_err(|f| match f {
+                AdvanceRatioFailure::NoRoot => PointFailure::NoRoot { speed, thrust },
+                AdvanceRatioFailure::NotConverged { iterations } => {
+                    PointFailure::NotConverged { speed, iterations }
+                }
+            })?;
+        let coefficients = drive.screw.coefficients(advance_ratio, reynolds);
+        let Some(chord) = chord else {
+            break (advance_ratio, coefficients);
+        };
+        let screw_rps = advance_speed / (advance_ratio * diameter);
+        let updated = reynolds_at_075r(chord, advance_speed, screw_rps, diameter, viscosity);
+        let settled = reynolds.is_some_and(|r| (updated - r).abs() <= REYNOLDS_TOLERANCE * r);
+        if settled || pass >= MAX_REYNOLDS_PASSES || !updated.is_finite() {
+            break (advance_ratio, coefficients);
+        }
+        reynolds = Some(updated);
+        previous_j = Some(advance_ratio);
+        pass += 1;
+    };
+
+    let kt = coefficients.thrust_coefficient;
+    let kq = coefficients.torque_coefficient;
+    if !(kq.is_finite() && kq > 0.0) {
+        return Err(PointFailure::Unphysical {
+            speed,
+            quantity: "torque coefficient KQ",
+            value: kq,
+        });
+    }
+    let screw_rps = advance_speed / (advance_ratio * diameter);
+    let torque = kq * density * screw_rps * screw_rps * diameter.powi(5);
+    let delivered_power = 2.0 * PI * screw_rps * torque / relative_rotative_efficiency;
+    let installation = drive.installation;
+    let brake_power =
+        delivered_power / (installation.shaft_efficiency * installation.gear_efficiency);
+    let engine_rpm = 60.0 * screw_rps * installation.gear_ratio;
+    let full_load = drive.engine.full_load_power_at(engine_rpm);
+    let load_fraction = if full_load > 0.0 {
+        brake_power / full_load
+    } else {
+        f64::INFINITY
+    };
+    let fuel_mass_flow = drive.engine.fuel_mass_flow(engine_rpm, brake_power);
+    let point = OperatingPoint {
+        speed,
+        resistance,
+        thrust,
+        wake_fraction,
+        thrust_deduction,
+        relative_rotative_efficiency,
+        advance_speed,
+        advance_ratio,
+        thrust_coefficient: kt,
+        torque_coefficient: kq,
+        open_water_efficiency: coefficients.efficiency().unwrap_or(0.0),
+        reynolds: reynolds.unwrap_or(0.0),
+        screw_rps,
+        engine_rpm,
+        torque,
+        effective_power: resistance * speed,
+        delivered_power,
+        brake_power,
+        load_fraction,
+        fuel_mass_flow,
+        fuel_volume_flow: drive.engine.fuel_volume_flow(engine_rpm, brake_power),
+    };
+    point.check_finite()
+}
+
+/// A bracket [low, high] of the advance-ratio root, found without searching for zero thrust
+/// when it can be avoided. With KT falling in J, KT(J) ≤ KT(0) = loading·J² at
+/// J = √(KT(0)/loading), so that J is past the root; it is used when it lies below 0.9·P/D,
+/// where a fixed-pitch screw still gives thrust (zero thrust lies near or beyond the face
+/// pitch) and KT still falls. Otherwise, for a lightly loaded screw, J steps up from 0.9·P/D
+/// by 0.1·P/D to the first J past the root (up to 2·P/D), and only failing that is the screw's
+/// zero-thrust J used.
+fn bracket(
+    screw: &ScrewModel,
+    reynolds: Option<f64>,
+    loading: f64,
+    thrust_coefficient: impl Fn(f64) -> f64,
+) -> (f64, f64) {
+    let pitch_ratio = screw.geometry().pitch_ratio();
+    let by_loading = (thrust_coefficient(0.0) / loading).sqrt();
+    if by_loading.is_finite() && by_loading > 0.0 && by_loading <= 0.9 * pitch_ratio {
+        return (0.0, by_loading);
+    }
+    let excess = |j: f64| thrust_coefficient(j) - loading * j * j;
+    let mut low = 0.0;
+    for tenths in 9..=20 {
+        let j = 0.1 * f64::from(tenths) * pitch_ratio;
+        if j.is_nan() || j <= low {
+            break;
+        }
+        if excess(j) <= 0.0 {
+            return (low, j);
+        }
+        low = j;
+    }
+    (0.0, screw.zero_thrust_advance_ratio(reynolds))
+}
+
+/// Interaction coefficients must be finite with w < 1, t < 1 and ηR > 0.
+fn check_interaction(interaction: &Interaction) -> Result<(), PointFailure> {
+    let Interaction {
+        wake_fraction: w,
+        thrust_deduction: t,
+        relative_rotative_efficiency: eta,
+    } = *interaction;
+    let problem = if !(w.is_finite() && w > -1.0 && w < 1.0) {
+        Some(format!("wake fraction {w} must lie between -1 and 1"))
+    } else if !(t.is_finite() && t > -1.0 && t < 1.0) {
+        Some(format!("thrust deduction {t} must lie between -1 and 1"))
+    } else if !(eta.is_finite() && eta > 0.0 && eta < 2.0) {
+        Some(format!(
+            "relative rotative efficiency {eta} must lie between 0 and 2"
+        ))
+    } else {
+        None
+    };
+    // Allocates only on the failure path.
+    problem.map_or(Ok(()), |p| Err(PointFailure::BadInteraction(p)))
+}
+
+impl OperatingPoint {
+    /// The point of a boat at rest: every speed, force, power and flow 0.
+    fn at_rest(interaction: Interaction) -> Self {
+        Self {
+            speed: 0.0,
+            resistance: 0.0,
+            thrust: 0.0,
+            wake_fraction: interaction.wake_fraction,
+            thrust_deduction: interaction.thrust_deduction,
+            relative_rotative_efficiency: interaction.relative_rotative_efficiency,
+            advance_speed: 0.0,
+            advance_ratio: 0.0,
+            thrust_coefficient: 0.0,
+            torque_coefficient: 0.0,
+            open_water_efficiency: 0.0,
+            reynolds: 0.0,
+            screw_rps: 0.0,
+            engine_rpm: 0.0,
+            torque: 0.0,
+            effective_power: 0.0,
+            delivered_power: 0.0,
+            brake_power: 0.0,
+            load_fraction: 0.0,
+            fuel_mass_flow: 0.0,
+            fuel_volume_flow: 0.0,
+        }
+    }
+
+    /// Thrust the screw gives at this point, KT·ρ·n²·D⁴, N (for checking the thrust identity).
+    pub fn screw_thrust(&self, density: f64, diameter: f64) -> f64 {
+        self.thrust_coefficient * density * self.screw_rps.powi(2) * diameter.powi(4)
+    }
+
+    /// Every field finite, or the first that is not as a failure.
+    fn check_finite(self) -> Result<Self, PointFailure> {
+        let fields = [
+            ("resistance", self.resistance),
+            ("thrust", self.thrust),
+            ("speed of advance", self.advance_speed),
+            ("advance ratio", self.advance_ratio),
+            ("thrust coefficient KT", self.thrust_coefficient),
+            ("open-water efficiency", self.open_water_efficiency),
+            ("Reynolds number", self.reynolds),
+            ("screw rps", self.screw_rps),
+            ("engine rpm", self.engine_rpm),
+            ("torque", self.torque),
+            ("effective power", self.effective_power),
+            ("delivered power", self.delivered_power),
+            ("brake power", self.brake_power),
+            ("load fraction", self.load_fraction),
+            ("fuel mass flow", self.fuel_mass_flow),
+            ("fuel volume flow", self.fuel_volume_flow),
+        ];
+        match fields.iter().find(|(_, value)| !value.is_finite()) {
+            Some(&(quantity, value)) => Err(PointFailure::Unphysical {
+                speed: self.speed,
+                quantity,
+                value,
+            }),
+            None => Ok(self),
+        }
+    }
 }
 
 /// Solves the thrust identity at `speed` m/s (design §2.6). A speed of 0 gives a zero point.
+///
+/// Resistance from the system's model; wake, thrust deduction and ηR at that speed; then
+/// [`solve_with_resistance`]. No allocation on the success path.
 pub fn solve_point(system: &System<'_>, speed: f64) -> Result<OperatingPoint, PointFailure> {
-    let _ = (system, speed);
-    unimplemented!("solver helper")
+    if !(speed.is_finite() && speed >= 0.0) {
+        return Err(PointFailure::InvalidSpeed(speed));
+    }
+    let model = system.resistance;
+    let interaction =
+        system
+            .interaction
+            .at_speed(&model.hull, &model.water, &system.screw_at_stern(), speed);
+    if speed == 0.0 {
+        // The estimates may be undefined at rest; a boat at rest needs none of them.
+        let interaction = if check_interaction(&interaction).is_ok() {
+            interaction
+        } else {
+            Interaction {
+                wake_fraction: 0.0,
+                thrust_deduction: 0.0,
+                relative_rotative_efficiency: 1.0,
+            }
+        };
+        return solve_with_resistance(&system.drive(), 0.0, 0.0, interaction);
+    }
+    let resistance = model.resistance(speed)?.total;
+    solve_with_resistance(&system.drive(), speed, resistance, interaction)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::propulsion::engine::{FuelModel, RpmCurve};
+    use crate::propulsion::screw::{OpenWaterPoint, OpenWaterTable, ScrewGeometry};
+
+    /// The positive root of a − b·J − L·J² = 0: the thrust identity for KT = a − b·J.
+    fn quadratic_root(a: f64, b: f64, loading: f64) -> f64 {
+        (-b + (b * b + 4.0 * loading * a).sqrt()) / (2.0 * loading)
+    }
+
+    #[test]
+    fn linear_thrust_curve_gives_the_quadratic_root() {
+        let (a, b) = (0.40, 0.45);
+        for loading in [1e-6, 0.01, 0.5, 1.55, 10.0, 1e3, 1e7] {
+            let j = advance_ratio_for_loading(loading, a / b, |j| a - b * j).unwrap();
+            let want = quadratic_root(a, b, loading);
+            assert!(
+                (j - want).abs() <= 1e-9 * want,
+                "loading {loading}: {j} vs {want}"
+            );
+            let residual = (a - b * j) / (loading * j * j) - 1.0;
+            assert!(
+                residual.abs() < 1e-9,
+                "loading {loading}: residual {residual}"
+            );
+        }
+    }
+
+    #[test]
+    fn no_root_is_reported() {
+        let kt = |j: f64| 0.4 - 0.45 * j;
+        assert_eq!(
+            advance_ratio_for_loading(0.0, 0.9, kt),
+            Err(AdvanceRatioFailure::NoRoot)
+        );
+        assert_eq!(
+            advance_ratio_for_loading(f64::NAN, 0.9, kt),
+            Err(AdvanceRatioFailure::NoRoot)
+        );
+        assert_eq!(
+            advance_ratio_for_loading(1.0, -1.0, kt),
+            Err(AdvanceRatioFailure::NoRoot)
+        );
+        // A screw that gives no thrust at J = 0.
+        let dead = |j: f64| -0.1 - j;
+        assert_eq!(
+            advance_ratio_for_loading(1.0, 0.5, dead),
+            Err(AdvanceRatioFailure::NoRoot)
+        );
+    }
+
+    fn table_screw() -> ScrewModel {
+        let geometry = ScrewGeometry {
+            blades: 3,
+            diameter: 0.6,
+            pitch: 0.48,
+            area_ratio: 0.5,
+        };
+        let row = |j: f64| OpenWaterPoint {
+            advance_ratio: j,
+            thrust_coefficient: 0.40 - 0.45 * j,
+            torque_coefficient: 0.050 - 0.040 * j,
+        };
+        ScrewModel::Table(
+            OpenWaterTable::new(geometry, vec![row(0.0), row(0.5), row(1.0)]).unwrap(),
+        )
+    }
+
+    fn engine() -> EngineSheet {
+        EngineSheet {
+            name: "Invented 4-cylinder".into(),
+            rated_rpm: 3000.0,
+            idle_rpm: 700.0,
+            full_load_power: RpmCurve {
+                points: vec![(1000.0, 20e3), (3000.0, 60e3)],
+            },
+            propeller_law: None,
+            fuel: FuelModel::Willans {
+                full_load_sfc: 230e-3 / 3.6e6,
+                zero_load_fraction: 0.1,
+            },
+            fuel_density: 840.0,
+            duty: None,
+            full_throttle_limit: None,
+            max_continuous_power: None,
+        }
+    }
+
+    const SEA: WaterProperties = WaterProperties {
+        density: 1025.0,
+        kinematic_viscosity: 1.19e-6,
+        vapour_pressure: 1700.0,
+    };
+    const GEAR: Installation = Installation {
+        gear_ratio: 2.0,
+        shaft_efficiency: 0.98,
+        gear_efficiency: 0.97,
+    };
+    const INTERACTION: Interaction = Interaction {
+        wake_fraction: 0.2,
+        thrust_deduction: 0.15,
+        relative_rotative_efficiency: 1.02,
+    };
+
+    #[test]
+    fn a_point_with_a_table_screw_satisfies_every_identity() {
+        let (screw, engine) = (table_screw(), engine());
+        let drive = Drive {
+            screw: &screw,
+            installation: GEAR,
+            engine: &engine,
+            water: SEA,
+            reynolds_correction: true,
+        };
+        let p = solve_with_resistance(&drive, 4.0, 5000.0, INTERACTION).unwrap();
+        // By hand: Va = 4·0.8 = 3.2 m/s, T = 5000/0.85 = 5882.35 N,
+        // loading = T/(1025·3.2²·0.6²) = 1.55677; J from a − bJ − L·J² = 0.
+        assert!((p.advance_speed - 3.2).abs() < 1e-12);
+        assert!((p.thrust - 5000.0 / 0.85).abs() < 1e-9);
+        let loading = p.thrust / (1025.0 * 3.2 * 3.2 * 0.36);
+        assert!((loading - 1.55677).abs() < 1e-5);
+        let j = quadratic_root(0.40, 0.45, loading);
+        assert!((p.advance_ratio - j).abs() < 1e-9 * j);
+        assert!(((p.screw_thrust(1025.0, 0.6) - p.thrust) / p.thrust).abs() < 1e-9);
+        let n = 3.2 / (j * 0.6);
+        assert!((p.screw_rps - n).abs() < 1e-8 * n);
+        let kq = 0.050 - 0.040 * j;
+        let torque = kq * 1025.0 * n * n * 0.6f64.powi(5);
+        assert!((p.torque - torque).abs() < 1e-8 * torque);
+        let delivered = 2.0 * PI * n * torque / 1.02;
+        assert!((p.delivered_power - delivered).abs() < 1e-8 * delivered);
+        assert!((p.brake_power - delivered / (0.98 * 0.97)).abs() < 1e-8 * delivered);
+        assert!((p.engine_rpm - 120.0 * n).abs() < 1e-8 * p.engine_rpm);
+        let full = 20e3 + (p.engine_rpm - 1000.0) / 2000.0 * 40e3;
+        assert!((p.load_fraction - p.brake_power / full).abs() < 1e-9);
+        assert!(
+            (p.fuel_mass_flow - engine.fuel_mass_flow(p.engine_rpm, p.brake_power)).abs() < 1e-15
+        );
+        // A table screw has no chord, so no Reynolds correction is made.
+        assert_eq!(p.reynolds, 0.0);
+        assert!((p.open_water_efficiency - j * (0.40 - 0.45 * j) / (2.0 * PI * kq)).abs() < 1e-9);
+    }
+
+    #[test]
+    fn extreme_loadings_still_solve_or_fail_cleanly() {
+        let (screw, engine) = (table_screw(), engine());
+        let drive = Drive {
+            screw: &screw,
+            installation: GEAR,
+            engine: &engine,
+            water: SEA,
+            reynolds_correction: false,
+        };
+        // Towing a barge at a crawl and a feather-light hull at speed.
+        for (speed, resistance) in [(0.01, 5e4), (1e-6, 1.0), (8.0, 1e-3), (20.0, 1e6)] {
+            let p = solve_with_resistance(&drive, speed, resistance, INTERACTION).unwrap();
+            let residual = p.screw_thrust(1025.0, 0.6) / p.thrust - 1.0;
+            assert!(residual.abs() < 1e-6, "speed {speed}: residual {residual}");
+            assert!(p.advance_ratio > 0.0 && p.advance_ratio < 0.4 / 0.45);
+        }
+    }
+
+    #[test]
+    fn failures_carry_their_reason() {
+        let (screw, engine) = (table_screw(), engine());
+        let drive = Drive {
+            screw: &screw,
+            installation: GEAR,
+            engine: &engine,
+            water: SEA,
+            reynolds_correction: false,
+        };
+        assert_eq!(
+            solve_with_resistance(&drive, -1.0, 100.0, INTERACTION),
+            Err(PointFailure::InvalidSpeed(-1.0))
+        );
+        assert!(matches!(
+            solve_with_resistance(&drive, f64::NAN, 100.0, INTERACTION),
+            Err(PointFailure::InvalidSpeed(_))
+        ));
+        let wake = Interaction {
+            wake_fraction: 1.0,
+            ..INTERACTION
+        };
+        let message = solve_with_resistance(&drive, 3.0, 100.0, wake)
+            .unwrap_err()
+            .to_string();
+        assert!(message.contains("wake fraction 1"), "{message}");
+        let infinite = solve_with_resistance(&drive, 3.0, f64::INFINITY, INTERACTION);
+        assert!(matches!(
+            infinite,
+            Err(PointFailure::Unphysical {
+                quantity: "resistance",
+                ..
+            })
+        ));
+        let bad_gear = Drive {
+            installation: Installation {
+                gear_ratio: -2.0,
+                ..GEAR
+            },
+            ..drive
+        };
+        assert!(matches!(
+            solve_with_resistance(&bad_gear, 3.0, 100.0, INTERACTION),
+            Err(PointFailure::BadInput {
+                field: "gear ratio",
+                ..
+            })
+        ));
+    }
+
+    #[test]
+    fn at_rest_everything_is_zero() {
+        let (screw, engine) = (table_screw(), engine());
+        let drive = Drive {
+            screw: &screw,
+            installation: GEAR,
+            engine: &engine,
+            water: SEA,
+            reynolds_correction: true,
+        };
+        let p = solve_with_resistance(&drive, 0.0, 0.0, INTERACTION).unwrap();
+        assert_eq!(
+            (p.engine_rpm, p.brake_power, p.fuel_mass_flow, p.thrust),
+            (0.0, 0.0, 0.0, 0.0)
+        );
+        assert_eq!(p.wake_fraction, 0.2);
+    }
+
+    #[test]
+    fn reynolds_formula_matches_hand_value() {
+        // c = 0.2 m, Va = 3 m/s, n = 10 rev/s, D = 0.6 m, ν = 1.19e-6 m²/s:
+        // section speed 0.75·π·10·0.6 = 14.137 m/s, √(9 + 199.86) = 14.452 m/s → Rn = 2.4289e6.
+        let rn = reynolds_at_075r(0.2, 3.0, 10.0, 0.6, 1.19e-6);
+        assert!((rn - 2.4289e6).abs() < 0.0005e6, "{rn}");
+    }
 }

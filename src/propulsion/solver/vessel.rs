@@ -1,7 +1,8 @@
 //! A whole boat in SI form, ready to solve: resistance, interaction, gear, screws, engine, trip.
 
-use super::cruise::Trip;
-use super::matching::MatchCriteria;
+use super::cruise::{CruisePoint, Trip, cruise_at_rpm, cruise_at_speed};
+use super::matching::{MatchCriteria, MatchResult, match_engine};
+use super::point::PointFailure;
 use super::trial::TrialRun;
 use super::{Installation, System};
 use crate::propulsion::engine::EngineSheet;
@@ -56,5 +57,94 @@ impl Vessel {
             engine: &self.engine,
             reynolds_correction: self.reynolds_correction,
         }
+    }
+}
+
+/// One row of the rpm-step operating table.
+#[derive(Debug, Clone, PartialEq)]
+pub struct OperatingRow {
+    /// Engine speed of the row, rpm.
+    pub engine_rpm: f64,
+    /// Whether this row is the wide-open-throttle point (the match's meeting rpm).
+    pub wide_open_throttle: bool,
+    /// The cruise figures at this rpm, or why they could not be found.
+    pub cruise: Result<CruisePoint, PointFailure>,
+}
+
+/// The most rows an operating table may have (a guard against a tiny rpm step).
+pub const MAX_OPERATING_ROWS: usize = 1000;
+
+impl Vessel {
+    /// The propulsion system of the active variant.
+    pub fn active_system(&self) -> System<'_> {
+        self.system(self.active_variant)
+    }
+
+    /// The engine match of every variant, in the order of `variants`.
+    pub fn match_all(&self) -> Vec<Result<MatchResult, PointFailure>> {
+        (0..self.variants.len())
+            .map(|index| match_engine(&self.system(index), &self.match_criteria))
+            .collect()
+    }
+
+    /// The cruise point of variant `index` at the trip's target speed.
+    pub fn cruise_at_target(&self, index: usize) -> Result<CruisePoint, PointFailure> {
+        cruise_at_speed(&self.system(index), &self.trip, self.trip.target_speed)
+    }
+
+    /// The rpm-step operating table of variant `index`: a row at every multiple of
+    /// `step_rpm` from idle up to the wide-open-throttle rpm of the match, and a last row at
+    /// wide-open throttle itself. If the match fails, the rows go up to rated rpm and the
+    /// last row's failure says why.
+    pub fn operating_table(
+        &self,
+        index: usize,
+        step_rpm: f64,
+    ) -> Result<Vec<OperatingRow>, PointFailure> {
+        let system = self.system(index);
+        let engine = &self.engine;
+        let matched = match_engine(&system, &self.match_criteria);
+        let top_rpm = matched.as_ref().map_or(engine.rated_rpm, |m| m.meeting_rpm);
+        if !(step_rpm.is_finite() && step_rpm > 0.0) {
+            return Err(PointFailure::BadInput {
+                field: "rpm step",
+                value: step_rpm,
+                expected: "a positive step in rpm",
+            });
+        }
+        let first_step = (engine.idle_rpm / step_rpm).ceil();
+        let last_step = (top_rpm / step_rpm).floor();
+        let steps = (last_step - first_step + 1.0).max(0.0);
+        if !(steps.is_finite() && steps < MAX_OPERATING_ROWS as f64) {
+            return Err(PointFailure::BadInput {
+                field: "rpm step",
+                value: step_rpm,
+                expected: "a step giving at most 1000 rows between idle and full throttle",
+            });
+        }
+        let mut rows = Vec::with_capacity(steps as usize + 1);
+        for k in 0..steps as usize {
+            let engine_rpm = (first_step + k as f64) * step_rpm;
+            // The step that lands on the wide-open-throttle rpm is that row.
+            if (engine_rpm - top_rpm).abs() <= 1e-6 * top_rpm {
+                break;
+            }
+            let cruise = cruise_at_rpm(&system, &self.trip, engine_rpm);
+            rows.push(OperatingRow {
+                engine_rpm,
+                wide_open_throttle: false,
+                cruise,
+            });
+        }
+        let cruise = match matched {
+            Ok(m) => CruisePoint::from_point(&self.trip, m.top_point),
+            Err(failure) => Err(failure),
+        };
+        rows.push(OperatingRow {
+            engine_rpm: top_rpm,
+            wide_open_throttle: true,
+            cruise,
+        });
+        Ok(rows)
     }
 }

@@ -1,0 +1,469 @@
+//! What-if conditions (displacement, fouling, sea state) side by side, and the uncertainty band
+//! of the propeller curve over displacement and wake.
+
+use super::Vessel;
+use super::cruise::cruise_at_speed;
+use super::design::{ConditionSummary, DesignError, PitchOptions, PitchRecommendation, SearchStop};
+use super::design::{matching_pitch, recommend_pitch_for_condition};
+use super::matching::{Verdict, match_engine, point_at_engine_rpm};
+use crate::propulsion::Warning;
+use crate::propulsion::hull::{HullError, Interaction, InteractionMethod};
+use thiserror::Error;
+
+/// Why a condition could not be applied to the boat.
+#[derive(Debug, Clone, PartialEq, Error)]
+pub enum ConditionError {
+    /// A condition value is outside its meaningful range.
+    #[error("condition '{label}': {field} = {value} is not valid: {expected}")]
+    BadValue {
+        /// The condition's label.
+        label: String,
+        /// The field.
+        field: &'static str,
+        /// The value given.
+        value: f64,
+        /// What was expected.
+        expected: &'static str,
+    },
+    /// The hull with the new displacement could not be resolved.
+    #[error("condition '{label}': hull: {source}")]
+    Hull {
+        /// The condition's label.
+        label: String,
+        /// The hull error.
+        source: HullError,
+    },
+    /// The variant index is past the boat's list of screws.
+    #[error("screw variant {index} does not exist: the boat has {count} variants")]
+    NoSuchVariant {
+        /// The index asked for.
+        index: usize,
+        /// How many variants the boat has.
+        count: usize,
+    },
+    /// A pitch recommendation for the condition failed.
+    #[error("{0}")]
+    Design(#[from] DesignError),
+}
+
+/// A what-if condition: any field left `None` keeps the boat's own value.
+#[derive(Debug, Clone, PartialEq, serde::Serialize)]
+pub struct Condition {
+    /// The condition's name, e.g. "light", "full load", "fouled".
+    pub label: String,
+    /// Displacement volume, m³.
+    pub displacement_volume: Option<f64>,
+    /// Fouling as added friction, fraction of friction.
+    pub fouling: Option<f64>,
+    /// Service (sea-state) margin on total resistance, fraction.
+    pub service_margin: Option<f64>,
+}
+
+impl Condition {
+    /// A condition with only the displacement volume (m³) changed.
+    pub fn displacement(label: impl Into<String>, displacement_volume: f64) -> Self {
+        Self {
+            label: label.into(),
+            displacement_volume: Some(displacement_volume),
+            fouling: None,
+            service_margin: None,
+        }
+    }
+    /// A condition with only the fouling (fraction of friction) changed.
+    pub fn fouled(label: impl Into<String>, fouling: f64) -> Self {
+        Self {
+            label: label.into(),
+            displacement_volume: None,
+            fouling: Some(fouling),
+            service_margin: None,
+        }
+    }
+    /// A condition with only the sea-state margin (fraction of total resistance) changed.
+    pub fn sea_state(label: impl Into<String>, service_margin: f64) -> Self {
+        Self {
+            label: label.into(),
+            displacement_volume: None,
+            fouling: None,
+            service_margin: Some(service_margin),
+        }
+    }
+    /// Light, half-load and full-load conditions from their displacement volumes (m³).
+    pub fn load_cases(light: f64, half: f64, full: f64) -> [Condition; 3] {
+        [
+            Condition::displacement("light", light),
+            Condition::displacement("half load", half),
+            Condition::displacement("full load", full),
+        ]
+    }
+
+    /// The vessel under this condition.
+    ///
+    /// A new displacement sinks the hull in parallel: ΔT = Δ∇/(Cwp·L·B) (wall-sided waterline);
+    /// a wetted surface the user gave is scaled by (∇'/∇)^(2/3); estimated values are
+    /// re-estimated by `HullInput::resolve` for the new draft.
+    pub fn apply(&self, vessel: &Vessel) -> Result<Vessel, ConditionError> {
+        let bad = |field, value, expected| ConditionError::BadValue {
+            label: self.label.clone(),
+            field,
+            value,
+            expected,
+        };
+        let mut out = vessel.clone();
+        if let Some(volume) = self.displacement_volume {
+            if !(volume.is_finite() && volume > 0.0) {
+                return Err(bad(
+                    "displacement volume",
+                    volume,
+                    "a positive volume in m³",
+                ));
+            }
+            let form = &vessel.resistance.hull;
+            let mut input = form.input.clone();
+            let old = input.displacement_volume;
+            let waterplane =
+                form.waterplane_coefficient.value * input.length_waterline * input.beam_waterline;
+            if !(waterplane.is_finite() && waterplane > 0.0) {
+                return Err(bad(
+                    "waterplane area",
+                    waterplane,
+                    "a positive area from Cwp·L·B",
+                ));
+            }
+            let sinkage = (volume - old) / waterplane;
+            input.draft_aft += sinkage;
+            input.draft_forward += sinkage;
+            if input.draft_aft <= 0.0 || input.draft_forward <= 0.0 {
+                return Err(bad(
+                    "displacement volume",
+                    volume,
+                    "a volume that leaves the hull a positive draft",
+                ));
+            }
+            input.displacement_volume = volume;
+            if let Some(s) = input.wetted_surface {
+                input.wetted_surface = Some(s * (volume / old).powf(2.0 / 3.0));
+            }
+            out.resistance.hull = input.resolve().map_err(|source| ConditionError::Hull {
+                label: self.label.clone(),
+                source,
+            })?;
+        }
+        if let Some(fouling) = self.fouling {
+            if !(fouling.is_finite() && (0.0..=3.0).contains(&fouling)) {
+                return Err(bad(
+                    "fouling",
+                    fouling,
+                    "a fraction of friction from 0 to 3",
+                ));
+            }
+            out.resistance.margins.fouling = fouling;
+        }
+        if let Some(service) = self.service_margin {
+            if !(service.is_finite() && (0.0..=2.0).contains(&service)) {
+                return Err(bad(
+                    "sea-state margin",
+                    service,
+                    "a fraction of resistance from 0 to 2",
+                ));
+            }
+            out.resistance.margins.service = service;
+        }
+        Ok(out)
+    }
+}
+
+/// The same boat and screw under one condition.
+#[derive(Debug, Clone, PartialEq, serde::Serialize)]
+pub struct ConditionOutcome {
+    /// The condition.
+    pub condition: ConditionSummary,
+    /// Match verdict.
+    pub verdict: Option<Verdict>,
+    /// Full-throttle (meeting) engine rpm, rpm.
+    pub full_throttle_rpm: Option<f64>,
+    /// Top speed, m/s.
+    pub top_speed: Option<f64>,
+    /// Brake power at rated rpm as a fraction of rated power.
+    pub absorbed_fraction_at_rated: Option<f64>,
+    /// Engine rpm at the target speed, rpm.
+    pub cruise_rpm: Option<f64>,
+    /// Brake power at the target speed, W.
+    pub cruise_power: Option<f64>,
+    /// Fuel volume flow at the target speed, m³/s.
+    pub cruise_fuel_volume_flow: Option<f64>,
+    /// Whether the target speed is beyond the full-load curve in this condition.
+    pub cruise_beyond_full_load: Option<bool>,
+    /// Why a figure is missing, if one is.
+    pub problem: Option<String>,
+}
+
+fn check_variant(vessel: &Vessel, index: usize) -> Result<(), ConditionError> {
+    if index < vessel.variants.len() {
+        Ok(())
+    } else {
+        Err(ConditionError::NoSuchVariant {
+            index,
+            count: vessel.variants.len(),
+        })
+    }
+}
+
+/// Solves variant `index` under the boat's own condition and each of `conditions`, in order
+/// (the first outcome is the boat as given, labelled "as given").
+pub fn compare_conditions(
+    vessel: &Vessel,
+    index: usize,
+    conditions: &[Condition],
+) -> Result<Vec<ConditionOutcome>, ConditionError> {
+    check_variant(vessel, index)?;
+    let mut outcomes = vec![outcome(vessel, index, "as given")];
+    for condition in conditions {
+        let changed = condition.apply(vessel)?;
+        outcomes.push(outcome(&changed, index, &condition.label));
+    }
+    Ok(outcomes)
+}
+
+fn outcome(vessel: &Vessel, index: usize, label: &str) -> ConditionOutcome {
+    let system = vessel.system(index);
+    let mut problems = Vec::new();
+    let mut out = ConditionOutcome {
+        condition: ConditionSummary::of(vessel, label),
+        verdict: None,
+        full_throttle_rpm: None,
+        top_speed: None,
+        absorbed_fraction_at_rated: None,
+        cruise_rpm: None,
+        cruise_power: None,
+        cruise_fuel_volume_flow: None,
+        cruise_beyond_full_load: None,
+        problem: None,
+    };
+    match match_engine(&system, &vessel.match_criteria) {
+        Ok(m) => {
+            out.verdict = Some(m.verdict);
+            out.full_throttle_rpm = Some(m.meeting_rpm);
+            out.top_speed = Some(m.top_speed);
+            out.absorbed_fraction_at_rated = Some(m.absorbed_fraction_at_rated);
+        }
+        Err(e) => problems.push(format!("match: {e}")),
+    }
+    match cruise_at_speed(&system, &vessel.trip, vessel.trip.target_speed) {
+        Ok(c) => {
+            out.cruise_rpm = Some(c.point.engine_rpm);
+            out.cruise_power = Some(c.point.brake_power);
+            out.cruise_fuel_volume_flow = Some(c.point.fuel_volume_flow);
+            out.cruise_beyond_full_load = Some(c.beyond_full_load);
+        }
+        Err(e) => problems.push(format!("cruise: {e}")),
+    }
+    if !problems.is_empty() {
+        out.problem = Some(problems.join("; "));
+    }
+    out
+}
+
+/// The pitch recommendation of variant `index` made for `condition`.
+pub fn recommend_pitch_under(
+    vessel: &Vessel,
+    index: usize,
+    condition: &Condition,
+    options: &PitchOptions,
+) -> Result<PitchRecommendation, ConditionError> {
+    let changed = condition.apply(vessel)?;
+    let summary = ConditionSummary::of(&changed, condition.label.clone());
+    Ok(recommend_pitch_for_condition(
+        &changed, index, options, summary,
+    )?)
+}
+
+/// The ranges of the uncertainty band.
+#[derive(Debug, Clone, Copy, PartialEq, serde::Serialize)]
+pub struct UncertaintyRanges {
+    /// Displacement spread either side of the given value, fraction (0.10 = ±10 %).
+    pub displacement_fraction: f64,
+    /// Wake fraction shift either side of the estimate (0.05 = ±0.05).
+    pub wake_shift: f64,
+    /// Number of engine rpm points from idle to rated (≥ 2).
+    pub rpm_points: usize,
+}
+
+impl Default for UncertaintyRanges {
+    fn default() -> Self {
+        Self {
+            displacement_fraction: 0.10,
+            wake_shift: 0.05,
+            rpm_points: 12,
+        }
+    }
+}
+
+/// The band of the propeller curve at one engine rpm.
+#[derive(Debug, Clone, Copy, PartialEq, serde::Serialize)]
+pub struct BandPoint {
+    /// Engine speed, rpm.
+    pub engine_rpm: f64,
+    /// Brake power of the boat as given, W.
+    pub nominal_power: Option<f64>,
+    /// Smallest brake power over the band's cases, W.
+    pub low_power: Option<f64>,
+    /// Largest brake power over the band's cases, W.
+    pub high_power: Option<f64>,
+    /// Boat speed as given, m/s.
+    pub nominal_speed: Option<f64>,
+}
+
+/// The propeller curve's band and the recommended pitch's range over it.
+#[derive(Debug, Clone, PartialEq, serde::Serialize)]
+pub struct UncertaintyBand {
+    /// The ranges used.
+    pub ranges: UncertaintyRanges,
+    /// Speed at which an estimated wake is frozen before shifting it, m/s (the target speed).
+    pub wake_reference_speed: f64,
+    /// The band at each rpm from idle to rated.
+    pub points: Vec<BandPoint>,
+    /// Recommended pitch of the boat as given, m.
+    pub pitch_nominal: Option<f64>,
+    /// Smallest recommended pitch over the band's cases, m.
+    pub pitch_low: Option<f64>,
+    /// Largest recommended pitch over the band's cases, m.
+    pub pitch_high: Option<f64>,
+    /// Number of band cases whose pitch search did not converge.
+    pub unsolved_cases: usize,
+    /// Warnings, e.g. a shifted wake clamped at zero.
+    pub warnings: Vec<Warning>,
+}
+
+/// The band of variant `index`'s propeller curve over displacement × (1 ± f) and wake ± s,
+/// with the pitch recommendation's range over the same nine cases.
+///
+/// A wake estimated by a speed-dependent method is frozen at the target speed before it is
+/// shifted (`InteractionMethod::User` with the estimate's t and ηR); the unshifted cases keep
+/// the boat's own method, so the nominal curve is inside the band.
+pub fn uncertainty_band(
+    vessel: &Vessel,
+    index: usize,
+    ranges: &UncertaintyRanges,
+    pitch_options: &PitchOptions,
+) -> Result<UncertaintyBand, ConditionError> {
+    check_variant(vessel, index)?;
+    let bad = |field, value, expected| ConditionError::BadValue {
+        label: "uncertainty band".into(),
+        field,
+        value,
+        expected,
+    };
+    if !(ranges.displacement_fraction.is_finite()
+        && (0.0..0.9).contains(&ranges.displacement_fraction))
+    {
+        return Err(bad(
+            "displacement spread",
+            ranges.displacement_fraction,
+            "a fraction from 0 to 0.9",
+        ));
+    }
+    if !(ranges.wake_shift.is_finite() && (0.0..0.5).contains(&ranges.wake_shift)) {
+        return Err(bad(
+            "wake shift",
+            ranges.wake_shift,
+            "a wake fraction shift from 0 to 0.5",
+        ));
+    }
+    if ranges.rpm_points < 2 {
+        return Err(bad("rpm points", ranges.rpm_points as f64, "at least 2"));
+    }
+    let mut warnings = Vec::new();
+    let volume = vessel.resistance.hull.input.displacement_volume;
+    let reference_speed = vessel.trip.target_speed;
+    let mut cases: Vec<Vessel> = Vec::with_capacity(9);
+    for factor in [
+        1.0 - ranges.displacement_fraction,
+        1.0,
+        1.0 + ranges.displacement_fraction,
+    ] {
+        let loaded = Condition::displacement("band", volume * factor).apply(vessel)?;
+        let system = loaded.system(index);
+        let frozen: Interaction = loaded.interaction.at_speed(
+            &loaded.resistance.hull,
+            &loaded.resistance.water,
+            &system.screw_at_stern(),
+            reference_speed,
+        );
+        cases.push(loaded.clone());
+        for shift in [-ranges.wake_shift, ranges.wake_shift] {
+            if shift == 0.0 {
+                continue;
+            }
+            let mut wake = frozen.wake_fraction + shift;
+            if wake < 0.0 {
+                warnings.push(Warning::new(
+                    "uncertainty band",
+                    format!("the shifted wake fraction {wake:.3} was clamped at 0"),
+                ));
+                wake = 0.0;
+            }
+            let mut shifted = loaded.clone();
+            shifted.interaction = InteractionMethod::User(Interaction {
+                wake_fraction: wake,
+                ..frozen
+            });
+            cases.push(shifted);
+        }
+    }
+
+    let engine = &vessel.engine;
+    let (idle, rated) = (engine.idle_rpm.max(1.0), engine.rated_rpm);
+    let nominal_system = vessel.system(index);
+    let points = (0..ranges.rpm_points)
+        .map(|i| {
+            let rpm = idle + (rated - idle) * i as f64 / (ranges.rpm_points - 1) as f64;
+            let nominal = point_at_engine_rpm(&nominal_system, rpm).ok();
+            let powers: Vec<f64> = cases
+                .iter()
+                .filter_map(|case| {
+                    point_at_engine_rpm(&case.system(index), rpm)
+                        .ok()
+                        .map(|p| p.brake_power)
+                })
+                .chain(nominal.map(|p| p.brake_power))
+                .collect();
+            BandPoint {
+                engine_rpm: rpm,
+                nominal_power: nominal.map(|p| p.brake_power),
+                low_power: powers.iter().copied().reduce(f64::min),
+                high_power: powers.iter().copied().reduce(f64::max),
+                nominal_speed: nominal.map(|p| p.speed),
+            }
+        })
+        .collect();
+
+    let (pitch_nominal, _) = matching_pitch(vessel, index, pitch_options)?;
+    let mut pitches = Vec::new();
+    let mut unsolved_cases = 0;
+    for case in &cases {
+        match matching_pitch(case, index, pitch_options)? {
+            (Some(p), SearchStop::Converged) => pitches.push(p),
+            _ => unsolved_cases += 1,
+        }
+    }
+    pitches.extend(pitch_nominal);
+    if unsolved_cases > 0 {
+        warnings.push(Warning::new(
+            "uncertainty band",
+            format!(
+                "{unsolved_cases} of {} cases found no pitch: the pitch range covers the rest only",
+                cases.len()
+            ),
+        ));
+    }
+    Ok(UncertaintyBand {
+        ranges: *ranges,
+        wake_reference_speed: reference_speed,
+        points,
+        pitch_nominal,
+        pitch_low: pitches.iter().copied().reduce(f64::min),
+        pitch_high: pitches.iter().copied().reduce(f64::max),
+        unsolved_cases,
+        warnings,
+    })
+}
