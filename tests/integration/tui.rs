@@ -670,6 +670,17 @@ fn capture(session: &str) -> String {
         .into_owned()
 }
 
+/// Whether this build's command line does not open the terminal UI yet (the CLI is built in
+/// another part of the project): it has no `open` command, or says the UI is not built.
+fn cli_lacks_the_ui(pane: &str) -> bool {
+    let help = std::process::Command::new(env!("CARGO_BIN_EXE_tidewright"))
+        .arg("--help")
+        .output()
+        .map(|o| String::from_utf8_lossy(&o.stdout).into_owned())
+        .unwrap_or_default();
+    pane.contains("not built yet") || !help.lines().any(|l| l.trim_start().starts_with("open"))
+}
+
 /// Ends the session's tmux server when dropped, also when the test fails.
 struct KillServer(String);
 
@@ -752,7 +763,7 @@ fn tmux_open_change_pitch_save_quit() {
     });
     let text = match opened {
         Ok(text) => text,
-        Err(text) if text.contains("not built yet") => {
+        Err(text) if cli_lacks_the_ui(&text) => {
             eprintln!("skipped: this build's CLI does not open the terminal UI yet:\n{text}");
             return;
         }
@@ -833,7 +844,7 @@ fn tmux_sigterm_and_sighup_restore_the_terminal() {
         let _kill = KillServer(session.clone());
         match wait_for(&session, 5.0, |t| t.contains("At 7.0 kn")) {
             Ok(_) => {}
-            Err(text) if text.contains("not built yet") => {
+            Err(text) if cli_lacks_the_ui(&text) => {
                 eprintln!("skipped: this build's CLI does not open the terminal UI yet");
                 return;
             }
