@@ -150,7 +150,7 @@ pub fn run(store: &Store, boat: Option<&str>, units: Option<UnitSystem>) -> anyh
             .context("installing the signal handler")?;
     }
     // `init` installs a panic hook that restores the terminal before the default hook prints.
-    let mut terminal = ratatui::try_init().context("setting up the terminal")?;
+    let mut terminal = ratatui::try_init().context("setting up the terminal (the terminal UI needs an interactive terminal; `tidewright --help` lists the headless commands)")?;
     let result = event_loop(&mut terminal, &mut app, &mut session, &stop);
     ratatui::restore();
     result
