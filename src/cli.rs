@@ -1,6 +1,475 @@
-//! Command-line subcommands.
+//! Command-line subcommands: argument definitions, dispatch and the exit-code mapping.
+//!
+//! The binary stays thin: [`main_entry`] parses the arguments, runs one command and turns its
+//! result into an exit code. Every command calls the library (profiles, solver, report); none
+//! does physics of its own.
+
+mod boat;
+mod design;
+mod openwater;
+mod store;
+
+use clap::{Args, Parser, Subcommand, ValueEnum};
+use std::io::Write;
+use std::path::PathBuf;
+use std::process::ExitCode;
+
+use crate::units::UnitSystem;
+
+/// Exit code: the command did what was asked.
+pub const EXIT_OK: u8 = 0;
+/// Exit code: a runtime error (a profile that cannot be loaded, a file that cannot be written,
+/// a boat that cannot be solved).
+pub const EXIT_RUNTIME: u8 = 1;
+/// Exit code: the command line itself is wrong (unknown option, missing or malformed value).
+pub const EXIT_USAGE: u8 = 2;
+/// Exit code: `check` found at least one invalid profile.
+pub const EXIT_INVALID_FILES: u8 = 3;
+
+/// Environment variable naming the profile directory when `--profiles` is not given.
+pub const PROFILES_ENV: &str = "TIDEWRIGHT_PROFILES";
+
+/// Repower planning for displacement motorboats: hull resistance, screw, engine match, pitch,
+/// cruise and fuel. With no subcommand, opens the terminal UI.
+#[derive(Debug, Parser)]
+#[command(name = "tidewright", version, about, long_about = None)]
+pub struct Cli {
+    /// Profile directory holding boats/ and engines/ (default: the user's data directory;
+    /// also taken from the TIDEWRIGHT_PROFILES environment variable).
+    #[arg(long, global = true, value_name = "DIR")]
+    pub profiles: Option<PathBuf>,
+    /// Unit system for text, CSV, Markdown and charts (default: the boat file's own; JSON is
+    /// always SI or the unit in the field's name).
+    #[arg(long, global = true, value_enum)]
+    pub units: Option<Units>,
+    /// What to do; none opens the terminal UI.
+    #[command(subcommand)]
+    pub command: Option<Command>,
+}
+
+/// The unit system chosen on the command line.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, ValueEnum)]
+pub enum Units {
+    /// Metres, millimetres, kilowatts, litres.
+    Metric,
+    /// Feet and inches, horsepower, US gallons.
+    Imperial,
+}
+
+impl From<Units> for UnitSystem {
+    fn from(units: Units) -> Self {
+        match units {
+            Units::Metric => UnitSystem::Metric,
+            Units::Imperial => UnitSystem::Imperial,
+        }
+    }
+}
+
+/// Output format of `report`.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, ValueEnum)]
+pub enum ReportFormat {
+    /// Aligned plain-text tables.
+    Text,
+    /// One comma-separated table of every variant's operating points.
+    Csv,
+    /// A JSON document with SI values (or the unit in the field's name).
+    Json,
+    /// A Markdown document.
+    Md,
+}
+
+/// Output format of the commands that print text or JSON.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, ValueEnum)]
+pub enum PlainFormat {
+    /// Readable text.
+    Text,
+    /// JSON with SI values (or the unit in the field's name).
+    Json,
+}
+
+/// The subcommands.
+#[derive(Debug, Subcommand)]
+pub enum Command {
+    /// Open a boat in the terminal UI.
+    Open {
+        /// A boat name in the profile store, or a path to a boat file.
+        boat: String,
+    },
+    /// Operating table, match verdict, top speed and cruise line of a boat, per screw variant.
+    Report(ReportArgs),
+    /// One cruise line at a given speed or engine rpm: rpm, speed, power, load, fuel, range.
+    Cruise(CruiseArgs),
+    /// Validate boat and engine profile files; exit code 0 only when all are valid.
+    Check(CheckArgs),
+    /// List the boats and engine sheets in the store (or in the built-in demo fleet).
+    List(ListArgs),
+    /// Create the profile store with the demo fleet (never overwrites a file).
+    Init,
+    /// Open-water table of a Wageningen B-series screw: J, KT, 10·KQ, η0.
+    Openwater(OpenwaterArgs),
+    /// Pitch that matches the engine, the change from the current pitch and rpm per inch.
+    Pitch(PitchArgs),
+    /// Sweep diameter, gear ratio, blade count or area ratio; rank the candidates.
+    Sweep(SweepArgs),
+    /// Compare the sea-trial log with the prediction and fit a resistance correction.
+    Trial(DesignArgs),
+    /// Write a Markdown report with SVG charts for the owner and the propeller shop.
+    Export(ExportArgs),
+}
+
+/// Arguments of `report`.
+#[derive(Debug, Args)]
+pub struct ReportArgs {
+    /// A boat name in the profile store, or a path to a boat file.
+    pub boat: String,
+    /// Output format.
+    #[arg(long, value_enum, default_value_t = ReportFormat::Text)]
+    pub format: ReportFormat,
+    /// Only this screw variant (its label).
+    #[arg(long, value_name = "LABEL")]
+    pub variant: Option<String>,
+    /// Engine-rpm step of the operating table (default: chosen from the rpm range).
+    #[arg(long, value_name = "RPM")]
+    pub step: Option<String>,
+}
+
+/// Arguments of `cruise`.
+#[derive(Debug, Args)]
+#[command(group(clap::ArgGroup::new("at").required(true).args(["speed", "rpm"])))]
+pub struct CruiseArgs {
+    /// A boat name in the profile store, or a path to a boat file.
+    pub boat: String,
+    /// Boat speed with its unit, e.g. 7kn or 3.6m/s.
+    #[arg(long, value_name = "SPEED")]
+    pub speed: Option<String>,
+    /// Engine speed, rpm.
+    #[arg(long, value_name = "RPM")]
+    pub rpm: Option<String>,
+    /// Screw variant label (default: the boat's active variant).
+    #[arg(long, value_name = "LABEL")]
+    pub variant: Option<String>,
+    /// Output format.
+    #[arg(long, value_enum, default_value_t = PlainFormat::Text)]
+    pub format: PlainFormat,
+}
+
+/// Arguments of `check`.
+#[derive(Debug, Args)]
+pub struct CheckArgs {
+    /// Profile files (boats or engine sheets, told apart by their content).
+    #[arg(required = true, value_name = "FILE")]
+    pub files: Vec<PathBuf>,
+}
+
+/// Arguments of `list`.
+#[derive(Debug, Args)]
+pub struct ListArgs {
+    /// Output format.
+    #[arg(long, value_enum, default_value_t = PlainFormat::Text)]
+    pub format: PlainFormat,
+}
+
+/// Arguments of `openwater`.
+#[derive(Debug, Args)]
+pub struct OpenwaterArgs {
+    /// Number of blades Z.
+    #[arg(long, value_name = "Z")]
+    pub blades: u32,
+    /// Expanded blade area ratio AE/A0.
+    #[arg(long, value_name = "AE/A0")]
+    pub area_ratio: f64,
+    /// Pitch ratio P/D.
+    #[arg(long, value_name = "P/D")]
+    pub pitch_ratio: f64,
+    /// Blade-section Reynolds number at 0.75R for the full-scale correction (none: model scale).
+    #[arg(long, value_name = "RN")]
+    pub reynolds: Option<f64>,
+    /// Advance ratios as a comma-separated list, e.g. 0.1,0.2,0.3.
+    #[arg(
+        long,
+        value_name = "LIST",
+        conflicts_with = "j_range",
+        allow_hyphen_values = true
+    )]
+    pub j: Option<String>,
+    /// Advance ratios as START:STOP:STEP, e.g. 0:1.2:0.05 (default 0:1.6:0.05).
+    #[arg(long, value_name = "START:STOP:STEP", allow_hyphen_values = true)]
+    pub j_range: Option<String>,
+    /// Output format.
+    #[arg(long, value_enum, default_value_t = PlainFormat::Text)]
+    pub format: PlainFormat,
+}
+
+/// Arguments of `trial`.
+#[derive(Debug, Args)]
+pub struct DesignArgs {
+    /// A boat name in the profile store, or a path to a boat file.
+    pub boat: String,
+    /// Only this screw variant (its label).
+    #[arg(long, value_name = "LABEL")]
+    pub variant: Option<String>,
+    /// Output format.
+    #[arg(long, value_enum, default_value_t = PlainFormat::Text)]
+    pub format: PlainFormat,
+}
+
+/// Arguments of `pitch`.
+#[derive(Debug, Args)]
+pub struct PitchArgs {
+    /// A boat name in the profile store, or a path to a boat file.
+    pub boat: String,
+    /// Only this screw variant (its label).
+    #[arg(long, value_name = "LABEL")]
+    pub variant: Option<String>,
+    /// Target: absorb this percentage of rated power at rated rpm (default 100).
+    #[arg(long, value_name = "PERCENT", conflicts_with = "light_running")]
+    pub absorb: Option<f64>,
+    /// Target: meet the full-load curve this many rpm above rated (a light-running screw).
+    #[arg(long, value_name = "RPM", allow_hyphen_values = true)]
+    pub light_running: Option<f64>,
+    /// Output format.
+    #[arg(long, value_enum, default_value_t = PlainFormat::Text)]
+    pub format: PlainFormat,
+}
+
+/// What a sweep varies.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, ValueEnum)]
+pub enum SweepOver {
+    /// Screw diameter up to the largest the aperture takes with its tip clearance.
+    Diameter,
+    /// Reduction gear ratio.
+    Gear,
+    /// Blade count.
+    Blades,
+    /// Expanded area ratio AE/A0.
+    Area,
+}
+
+/// How sweep candidates are ranked.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, ValueEnum)]
+pub enum RankBy {
+    /// Least fuel per nautical mile at the target speed.
+    Fuel,
+    /// Highest top speed.
+    Speed,
+    /// Highest propulsive efficiency at the target speed.
+    Efficiency,
+}
+
+/// Arguments of `sweep`.
+#[derive(Debug, Args)]
+pub struct SweepArgs {
+    /// A boat name in the profile store, or a path to a boat file.
+    pub boat: String,
+    /// The screw variant to start from (default: the boat's active variant).
+    #[arg(long, value_name = "LABEL")]
+    pub variant: Option<String>,
+    /// What to vary.
+    #[arg(long, value_enum, default_value_t = SweepOver::Diameter)]
+    pub over: SweepOver,
+    /// Values to try, comma-separated (gear ratios, blade counts or area ratios; not diameter).
+    #[arg(long, value_name = "LIST")]
+    pub values: Option<String>,
+    /// Ranking criterion.
+    #[arg(long, value_enum, default_value_t = RankBy::Fuel)]
+    pub rank: RankBy,
+    /// Output format.
+    #[arg(long, value_enum, default_value_t = PlainFormat::Text)]
+    pub format: PlainFormat,
+}
+
+/// Arguments of `export`.
+#[derive(Debug, Args)]
+pub struct ExportArgs {
+    /// A boat name in the profile store, or a path to a boat file.
+    pub boat: String,
+    /// Directory to write the report and charts into (created if missing).
+    #[arg(long, value_name = "DIR")]
+    pub out: PathBuf,
+}
+
+/// A mistake on the command line found after parsing (an empty list, a malformed value).
+#[derive(Debug, thiserror::Error)]
+#[error("{0}")]
+pub struct UsageError(pub String);
+
+/// Raised by `check` when some files are invalid; the problems were already printed.
+#[derive(Debug, thiserror::Error)]
+#[error("{invalid} of {total} profile files are invalid")]
+pub struct InvalidFiles {
+    /// Number of invalid files.
+    pub invalid: usize,
+    /// Number of files checked.
+    pub total: usize,
+}
+
+/// Everything a command needs from the global options.
+#[derive(Debug, Clone)]
+pub struct Context {
+    /// The profile directory given by flag or environment, if any.
+    pub profiles: Option<PathBuf>,
+    /// The display unit system asked for, if any (otherwise the boat file's own).
+    pub units: Option<UnitSystem>,
+}
+
+impl Context {
+    /// The display system for a boat whose file is written in `file_units`.
+    pub fn units_or(&self, file_units: UnitSystem) -> UnitSystem {
+        self.units.unwrap_or(file_units)
+    }
+}
 
 /// Runs the program with the process arguments and returns its exit code.
-pub fn main_entry() -> std::process::ExitCode {
-    std::process::ExitCode::SUCCESS
+pub fn main_entry() -> ExitCode {
+    let cli = match Cli::try_parse() {
+        Ok(cli) => cli,
+        Err(err) => {
+            // clap prints help and version to stdout with success, usage errors to stderr.
+            let code = if err.use_stderr() {
+                EXIT_USAGE
+            } else {
+                EXIT_OK
+            };
+            let _ = err.print();
+            return ExitCode::from(code);
+        }
+    };
+    let mut stdout = std::io::stdout().lock();
+    match run(cli, &mut stdout) {
+        Ok(()) => ExitCode::from(EXIT_OK),
+        Err(err) => {
+            if is_broken_pipe(&err) {
+                // The reader went away (e.g. `| head`): not an error worth reporting.
+                return ExitCode::from(EXIT_OK);
+            }
+            let _ = stdout.flush();
+            let code = exit_code_for(&err);
+            if code != EXIT_INVALID_FILES || !err.is::<InvalidFiles>() {
+                eprintln!("error: {err:#}");
+            } else {
+                eprintln!("{err}");
+            }
+            ExitCode::from(code)
+        }
+    }
+}
+
+/// The documented exit code for an error that ended a command.
+pub fn exit_code_for(err: &anyhow::Error) -> u8 {
+    if err.is::<InvalidFiles>() {
+        EXIT_INVALID_FILES
+    } else if err.chain().any(|cause| cause.is::<UsageError>()) {
+        EXIT_USAGE
+    } else {
+        EXIT_RUNTIME
+    }
+}
+
+fn is_broken_pipe(err: &anyhow::Error) -> bool {
+    err.chain().any(|cause| {
+        cause
+            .downcast_ref::<std::io::Error>()
+            .is_some_and(|io| io.kind() == std::io::ErrorKind::BrokenPipe)
+    })
+}
+
+/// Runs one parsed command line, writing its output to `out`.
+pub fn run(cli: Cli, out: &mut dyn Write) -> anyhow::Result<()> {
+    let profiles = cli.profiles.or_else(|| {
+        std::env::var_os(PROFILES_ENV)
+            .filter(|v| !v.is_empty())
+            .map(PathBuf::from)
+    });
+    let ctx = Context {
+        profiles,
+        units: cli.units.map(UnitSystem::from),
+    };
+    match cli.command {
+        None => open_terminal_ui(&ctx, None),
+        Some(Command::Open { boat }) => open_terminal_ui(&ctx, Some(&boat)),
+        Some(Command::Report(args)) => boat::report(&ctx, &args, out),
+        Some(Command::Cruise(args)) => boat::cruise(&ctx, &args, out),
+        Some(Command::Check(args)) => store::check(&ctx, &args, out),
+        Some(Command::List(args)) => store::list(&ctx, &args, out),
+        Some(Command::Init) => store::init(&ctx, out),
+        Some(Command::Openwater(args)) => openwater::run(&args, out),
+        Some(Command::Pitch(args)) => design::pitch(&ctx, &args, out),
+        Some(Command::Sweep(args)) => design::sweep(&ctx, &args, out),
+        Some(Command::Trial(args)) => design::trial(&ctx, &args, out),
+        Some(Command::Export(args)) => boat::export(&ctx, &args, out),
+    }
+}
+
+fn open_terminal_ui(ctx: &Context, boat: Option<&str>) -> anyhow::Result<()> {
+    crate::tui::run(&store::store(ctx), boat, ctx.units)
+}
+
+/// Parses an engine speed given as a plain number or with its unit ("1800", "1800 rpm").
+pub(crate) fn parse_rpm(text: &str, option: &str) -> anyhow::Result<f64> {
+    let trimmed = text.trim();
+    let value = match trimmed.parse::<f64>() {
+        Ok(v) => v,
+        Err(_) => crate::units::parse(trimmed, crate::units::Kind::Rotation).map_err(|e| {
+            UsageError(format!(
+                "{option}: expected an engine speed in rpm such as 1800, got {text:?} ({e})"
+            ))
+        })?,
+    };
+    if !value.is_finite() || value <= 0.0 {
+        return Err(UsageError(format!(
+            "{option}: expected a positive engine speed in rpm, got {text:?}"
+        ))
+        .into());
+    }
+    Ok(value)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use clap::CommandFactory;
+
+    #[test]
+    fn clap_definitions_are_consistent() {
+        Cli::command().debug_assert();
+    }
+
+    #[test]
+    fn usage_errors_map_to_exit_code_two_even_with_context() {
+        let err = anyhow::Error::new(UsageError("bad".into())).context("while reading --j");
+        assert_eq!(exit_code_for(&err), EXIT_USAGE);
+        let err = anyhow::anyhow!("profile broken");
+        assert_eq!(exit_code_for(&err), EXIT_RUNTIME);
+        let err = anyhow::Error::new(InvalidFiles {
+            invalid: 1,
+            total: 2,
+        });
+        assert_eq!(exit_code_for(&err), EXIT_INVALID_FILES);
+    }
+
+    #[test]
+    fn rpm_accepts_plain_numbers_and_rejects_nonsense() {
+        assert_eq!(parse_rpm("1800", "--rpm").unwrap(), 1800.0);
+        assert!(parse_rpm("-5", "--rpm").is_err());
+        assert!(parse_rpm("0", "--rpm").is_err());
+        assert!(parse_rpm("NaN", "--rpm").is_err());
+    }
+
+    #[test]
+    fn cruise_needs_speed_or_rpm() {
+        assert!(Cli::try_parse_from(["tidewright", "cruise", "boat"]).is_err());
+        assert!(Cli::try_parse_from(["tidewright", "cruise", "boat", "--rpm", "1800"]).is_ok());
+        assert!(
+            Cli::try_parse_from([
+                "tidewright",
+                "cruise",
+                "boat",
+                "--rpm",
+                "1",
+                "--speed",
+                "7kn"
+            ])
+            .is_err()
+        );
+    }
 }

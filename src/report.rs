@@ -1,1 +1,90 @@
 //! Reports of solved boats: text, CSV, JSON, Markdown and SVG charts.
+//!
+//! The report layer calls the solver and lays its results out; it does no physics. Numbers in
+//! text, CSV, Markdown and charts are shown in the chosen [`UnitSystem`]; JSON always carries SI
+//! values or the unit in the field's name (`speed_kn`, `brake_kw`, `fuel_lph`).
+
+pub mod boat;
+pub mod export;
+pub mod json;
+pub mod openwater;
+pub mod svg;
+pub mod table;
+
+use crate::units::{self, Kind, UnitSystem};
+
+/// The caution shown wherever a pitch, a match verdict or an engine load is given.
+pub const CAUTION: &str = "These figures are estimates from published methods and the inputs given. \
+The engine maker's installation limits, local codes and a licensed marine surveyor or naval \
+architect decide the final engine, gear and screw.";
+
+pub use crate::units::{INCH_M, KNOT_MPS, LITRE_M3, NAUTICAL_MILE_M};
+
+/// Numbers and units of a report in one unit system (the units module decides the units).
+#[derive(Debug, Clone)]
+pub struct Display {
+    /// The system.
+    pub system: UnitSystem,
+}
+
+impl Display {
+    /// The display for `system`.
+    pub fn new(system: UnitSystem) -> Self {
+        Self { system }
+    }
+
+    /// Label of `kind`'s display unit.
+    pub fn unit(&self, kind: Kind) -> String {
+        units::unit_label(kind, self.system).to_string()
+    }
+
+    /// `value` (SI) of `kind` as a bare number in the display unit with `decimals` places.
+    pub fn number(&self, value: f64, kind: Kind, decimals: usize) -> String {
+        let shown = self.scaled(value, kind);
+        if shown.is_finite() {
+            format!("{shown:.decimals$}")
+        } else {
+            "—".into()
+        }
+    }
+
+    /// `value` (SI) of `kind` in the display unit, as a plain number for charts.
+    pub fn scaled(&self, value: f64, kind: Kind) -> f64 {
+        units::to_display(value, kind, self.system)
+    }
+
+    /// `value` (SI) of `kind` with its unit, as the units module writes it.
+    pub fn quantity(&self, value: f64, kind: Kind) -> String {
+        units::format(value, kind, self.system)
+    }
+}
+
+/// `fraction` as a percentage with `decimals` places ("—" when not finite).
+pub fn percent(fraction: f64, decimals: usize) -> String {
+    if fraction.is_finite() {
+        format!("{:.*} %", decimals, fraction * 100.0)
+    } else {
+        "—".into()
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn percent_never_prints_nan() {
+        assert_eq!(percent(0.853, 1), "85.3 %");
+        assert_eq!(percent(f64::NAN, 1), "—");
+    }
+
+    #[test]
+    fn display_numbers_follow_the_unit_system() {
+        // 1 kn = 1852/3600 m/s exactly (NIST SP 811 B.8).
+        let metric = Display::new(UnitSystem::Metric);
+        assert_eq!(metric.number(7.0 * KNOT_MPS, Kind::Speed, 2), "7.00");
+        assert_eq!(metric.number(f64::NAN, Kind::Speed, 2), "—");
+        let imperial = Display::new(UnitSystem::Imperial);
+        assert_ne!(metric.unit(Kind::Power), imperial.unit(Kind::Power));
+    }
+}

@@ -26,7 +26,8 @@ pub enum FuelModel {
     /// Fuel mass flow, kg/s, measured along the maker's propeller curve, by engine rpm.
     RateAlongPropellerCurve(RpmCurve),
     /// Full-load SFC with a Willans-line part-load model: at a fixed rpm fuel flow is linear in
-    /// brake power, flow = SFC_full·(f0·P_full(rpm) + (1 − f0)·P).
+    /// brake power, flow = SFC_full·(f0·P_full(rpm) + (1 − f0)·P) (Willans' line: P. W. Willans
+    /// 1888; J. B. Heywood, *Internal Combustion Engine Fundamentals*, 1988).
     Willans {
         /// SFC at full load (rated), kg/J.
         full_load_sfc: f64,

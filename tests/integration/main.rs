@@ -11,5 +11,6 @@ mod profiles;
 mod robustness;
 mod screw;
 mod solver;
+mod tui;
 mod units;
 mod water;

@@ -353,7 +353,19 @@ fn worked_example_of_the_method_document() {
         ("fuel kg/h", p.fuel_mass_flow * 3600.0, 6.5868),
         ("fuel L/h", p.fuel_volume_flow * 3.6e6, 7.8416),
     ];
-    for (name, got, want) in checks {
+    // 800 L tank, 90 % usable, 20 % reserve: 576 L for range.
+    let cruise = cruise_at_speed(&system(&resistance, &screw, &engine), &boat_trip(), 3.6).unwrap();
+    let nautical_mile = 1852.0;
+    let cruise_checks = [
+        (
+            "L/nmi",
+            cruise.fuel_per_distance * 1e3 * nautical_mile,
+            1.1206,
+        ),
+        ("range nmi", cruise.range / nautical_mile, 514.02),
+        ("endurance h", cruise.endurance / 3600.0, 73.454),
+    ];
+    for (name, got, want) in checks.into_iter().chain(cruise_checks) {
         assert!(
             (got - want).abs() <= 0.005 * want.abs(),
             "{name}: {got} vs the document's {want}"

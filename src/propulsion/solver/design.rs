@@ -449,11 +449,11 @@ fn search_pitch(
             };
             return lost(
                 format!(
-                    "no pitch between P/D {:.2} and {:.2} meets the target: the {bound} searched pitch {:.3} m gives {:+.1} % of the target power",
+                    "no pitch between P/D {:.2} and {:.2} meets the target: the {bound} searched pitch {:.3} m absorbs only {:.1} % of the target power",
                     options.min_pitch_ratio,
                     options.max_pitch_ratio,
                     limit,
-                    f_near * 100.0
+                    (1.0 + f_near) * 100.0
                 ),
                 evaluations,
             );
@@ -777,7 +777,7 @@ impl SweepParameter {
     /// The parameter's name for the user.
     pub fn name(&self) -> &'static str {
         match self {
-            SweepParameter::Diameter { .. } => "diameter (m)",
+            SweepParameter::Diameter { .. } => "diameter",
             SweepParameter::GearRatio(_) => "gear ratio",
             SweepParameter::Blades(_) => "blade count",
             SweepParameter::AreaRatio(_) => "area ratio AE/A0",

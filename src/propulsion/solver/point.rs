@@ -291,19 +291,13 @@ pub fn solve_with_resistance(
             // around the last root, widened to the full one where it does not hold.
             Some(j) => {
                 let excess = |j: f64| kt(j) - loading * j * j;
-                let low = if excess(0.97 * j) > 0.0 {
-                    0.97 * j
+                if excess(0.97 * j) > 0.0 && excess(1.03 * j) <= 0.0 {
+                    (0.97 * j, 1.03 * j)
                 } else {
-                    0.0
-                };
-                let high = if excess(1.03 * j) <= 0.0 {
-                    1.03 * j
-                } else {
-                    upper_bracket(drive.screw, reynolds, loading, kt)
-                };
-                (low, high)
+                    bracket(drive.screw, reynolds, loading, kt)
+                }
             }
-            None => (0.0, upper_bracket(drive.screw, reynolds, loading, kt)),
+            None => bracket(drive.screw, reynolds, loading, kt),
         };
         let advance_ratio =
             advance_ratio_between(loading, low_j, high_j, kt).map_err(|f| match f {
@@ -376,27 +370,37 @@ pub fn solve_with_resistance(
     point.check_finite()
 }
 
-/// An upper end for the advance-ratio bracket, searching for zero thrust only when it cannot
-/// be avoided. With KT falling in J, KT(J) ≤ KT(0) = loading·J² at J = √(KT(0)/loading), so
-/// that J is past the root; it is used when it lies below 0.9·P/D, where a fixed-pitch screw
-/// still gives thrust (zero thrust lies near or beyond the face pitch) and KT still falls.
-/// Otherwise 0.9·P/D itself when the root lies below it, else the screw's zero-thrust J
-/// (only for a lightly loaded screw, slipping less than about 10 %).
-fn upper_bracket(
+/// A bracket [low, high] of the advance-ratio root, found without searching for zero thrust
+/// when it can be avoided. With KT falling in J, KT(J) ≤ KT(0) = loading·J² at
+/// J = √(KT(0)/loading), so that J is past the root; it is used when it lies below 0.9·P/D,
+/// where a fixed-pitch screw still gives thrust (zero thrust lies near or beyond the face
+/// pitch) and KT still falls. Otherwise, for a lightly loaded screw, J steps up from 0.9·P/D
+/// by 0.1·P/D to the first J past the root (up to 2·P/D), and only failing that is the screw's
+/// zero-thrust J used.
+fn bracket(
     screw: &ScrewModel,
     reynolds: Option<f64>,
     loading: f64,
     thrust_coefficient: impl Fn(f64) -> f64,
-) -> f64 {
-    let safe = 0.9 * screw.geometry().pitch_ratio();
+) -> (f64, f64) {
+    let pitch_ratio = screw.geometry().pitch_ratio();
     let by_loading = (thrust_coefficient(0.0) / loading).sqrt();
-    if by_loading.is_finite() && by_loading > 0.0 && by_loading <= safe {
-        by_loading
-    } else if safe > 0.0 && thrust_coefficient(safe) - loading * safe * safe <= 0.0 {
-        safe
-    } else {
-        screw.zero_thrust_advance_ratio(reynolds)
+    if by_loading.is_finite() && by_loading > 0.0 && by_loading <= 0.9 * pitch_ratio {
+        return (0.0, by_loading);
     }
+    let excess = |j: f64| thrust_coefficient(j) - loading * j * j;
+    let mut low = 0.0;
+    for tenths in 9..=20 {
+        let j = 0.1 * f64::from(tenths) * pitch_ratio;
+        if j.is_nan() || j <= low {
+            break;
+        }
+        if excess(j) <= 0.0 {
+            return (low, j);
+        }
+        low = j;
+    }
+    (0.0, screw.zero_thrust_advance_ratio(reynolds))
 }
 
 /// Interaction coefficients must be finite with w < 1, t < 1 and ηR > 0.

@@ -1,0 +1,596 @@
+//! Design commands on one boat: `pitch`, `sweep` and `trial`.
+
+use std::io::Write;
+
+use anyhow::Context as _;
+use serde::Serialize;
+
+use super::store::{LoadedBoat, load_boat};
+use super::{
+    Context, DesignArgs, PitchArgs, PlainFormat, RankBy, SweepArgs, SweepOver, UsageError,
+};
+use crate::propulsion::solver::design::{
+    ApertureLimit, PitchOptions, PitchRecommendation, PitchTarget, RankCriterion, SweepOptions,
+    SweepParameter, SweepResult, recommend_pitch, sweep as run_sweep,
+};
+use crate::propulsion::solver::trial::{Calibration, CalibrationOptions, calibrate};
+use crate::report::table::{Column, Table};
+use crate::report::{CAUTION, Display, INCH_M, KNOT_MPS, json};
+use crate::units::Kind;
+
+/// Diameters tried by a diameter sweep.
+const DIAMETER_STEPS: usize = 6;
+
+/// The variants asked for: one by label, or all.
+pub fn variant_indices(loaded: &LoadedBoat, label: Option<&str>) -> anyhow::Result<Vec<usize>> {
+    let vessel = &loaded.vessel;
+    match label {
+        None => Ok((0..vessel.variants.len()).collect()),
+        Some(label) => vessel
+            .variants
+            .iter()
+            .position(|v| v.label == label)
+            .map(|i| vec![i])
+            .ok_or_else(|| {
+                let known: Vec<&str> = vessel.variants.iter().map(|v| v.label.as_str()).collect();
+                UsageError(format!(
+                    "--variant: boat {:?} has no screw variant {label:?}; its variants are: {}",
+                    vessel.name,
+                    known.join(", ")
+                ))
+                .into()
+            }),
+    }
+}
+
+fn finite_or_none(value: Option<f64>) -> Option<f64> {
+    value.filter(|v| v.is_finite())
+}
+
+/// One variant's recommendation in JSON.
+#[derive(Debug, Serialize)]
+struct PitchJson {
+    label: String,
+    current_pitch_m: f64,
+    recommended_pitch_m: Option<f64>,
+    change_m: Option<f64>,
+    within_repitch_limit: Option<bool>,
+    repitch_limit_m: f64,
+    rpm_per_inch: Option<f64>,
+    rpm_per_10mm: Option<f64>,
+    target: String,
+    target_rpm: f64,
+    target_kw: f64,
+    absorbed_kw: Option<f64>,
+    condition: String,
+    search: String,
+    warnings: Vec<String>,
+}
+
+impl From<&PitchRecommendation> for PitchJson {
+    fn from(r: &PitchRecommendation) -> Self {
+        Self {
+            label: r.label.clone(),
+            current_pitch_m: r.current_pitch,
+            recommended_pitch_m: finite_or_none(r.recommended_pitch),
+            change_m: finite_or_none(r.change),
+            within_repitch_limit: r.within_repitch_limit,
+            repitch_limit_m: r.repitch_limit,
+            rpm_per_inch: finite_or_none(r.rpm_per_inch),
+            rpm_per_10mm: finite_or_none(r.rpm_per_10mm),
+            target: r.target.describe(),
+            target_rpm: r.target_point.engine_rpm,
+            target_kw: r.target_point.brake_power / 1e3,
+            absorbed_kw: finite_or_none(r.absorbed_power.map(|w| w / 1e3)),
+            condition: r.condition.describe(),
+            search: stop_text(&r.stop),
+            warnings: r.warnings.iter().map(ToString::to_string).collect(),
+        }
+    }
+}
+
+fn stop_text(stop: &crate::propulsion::solver::design::SearchStop) -> String {
+    use crate::propulsion::solver::design::SearchStop;
+    match stop {
+        SearchStop::Converged => "converged".into(),
+        SearchStop::BracketLost(reason) => format!("no pitch found: {reason}"),
+        SearchStop::IterationsExhausted => "iteration limit reached".into(),
+    }
+}
+
+/// The pitch options of the command line.
+pub fn pitch_options(args: &PitchArgs) -> anyhow::Result<PitchOptions> {
+    let target = match (args.light_running, args.absorb) {
+        (Some(rpm), _) => PitchTarget::LightRunning { rpm_margin: rpm },
+        (None, Some(pct)) => PitchTarget::RatedPower {
+            fraction: pct / 100.0,
+        },
+        (None, None) => PitchTarget::default(),
+    };
+    let options = PitchOptions {
+        target,
+        ..PitchOptions::default()
+    };
+    // Reject what the search would refuse, as a usage error naming the option.
+    if let PitchTarget::RatedPower { fraction } = target
+        && !(fraction.is_finite() && fraction > 0.0 && fraction <= 1.5)
+    {
+        return Err(UsageError(format!(
+            "--absorb: expected a percentage of rated power above 0 and at most 150, got {}",
+            fraction * 100.0
+        ))
+        .into());
+    }
+    if let PitchTarget::LightRunning { rpm_margin } = target
+        && !rpm_margin.is_finite()
+    {
+        return Err(
+            UsageError("--light-running: expected an rpm margin such as 100".into()).into(),
+        );
+    }
+    Ok(options)
+}
+
+/// The pitch recommendations of the variants asked for, each with its reason when unsolved.
+pub fn recommendations(
+    loaded: &LoadedBoat,
+    indices: &[usize],
+    options: &PitchOptions,
+) -> anyhow::Result<Vec<PitchRecommendation>> {
+    indices
+        .iter()
+        .map(|&i| {
+            recommend_pitch(&loaded.vessel, i, options).with_context(|| {
+                format!(
+                    "pitch recommendation for screw {}",
+                    loaded.vessel.variants[i].label
+                )
+            })
+        })
+        .collect()
+}
+
+/// Text lines of one recommendation.
+pub fn pitch_text(r: &PitchRecommendation, d: &Display) -> String {
+    let mut out = format!(
+        "Screw {}: current pitch {}\n",
+        r.label,
+        d.quantity(r.current_pitch, Kind::ScrewLength)
+    );
+    out.push_str(&format!(
+        "  target: {} ({:.0} rpm, {}); condition {}\n",
+        r.target.describe(),
+        r.target_point.engine_rpm,
+        d.quantity(r.target_point.brake_power, Kind::Power),
+        r.condition.describe()
+    ));
+    match (r.recommended_pitch, r.change) {
+        (Some(p), Some(c)) if p.is_finite() && c.is_finite() => {
+            let sign = if c >= 0.0 { "+" } else { "−" };
+            out.push_str(&format!(
+                "  recommended pitch {} (change {sign}{}), {}\n",
+                d.quantity(p, Kind::ScrewLength),
+                d.quantity(c.abs(), Kind::ScrewLength),
+                match r.within_repitch_limit {
+                    Some(true) => format!(
+                        "within the re-pitch limit of ±{}",
+                        d.quantity(r.repitch_limit, Kind::ScrewLength)
+                    ),
+                    _ => format!(
+                        "BEYOND the re-pitch limit of ±{}: a new screw is needed",
+                        d.quantity(r.repitch_limit, Kind::ScrewLength)
+                    ),
+                }
+            ));
+        }
+        _ => out.push_str(&format!("  no pitch recommended: {}\n", stop_text(&r.stop))),
+    }
+    if let Some(slope) = finite_or_none(r.rpm_per_inch) {
+        out.push_str(&format!(
+            "  full-throttle rpm changes by {slope:+.0} rpm per inch of pitch ({:+.0} rpm per 10 mm)\n",
+            slope * 0.010 / INCH_M
+        ));
+    }
+    for w in &r.warnings {
+        out.push_str(&format!("  warning: {w}\n"));
+    }
+    out.push_str(&format!("  caution: {}\n", r.caution));
+    out
+}
+
+/// `pitch BOAT`.
+pub fn pitch(ctx: &Context, args: &PitchArgs, out: &mut dyn Write) -> anyhow::Result<()> {
+    let loaded = load_boat(ctx, &args.boat)?;
+    let indices = variant_indices(&loaded, args.variant.as_deref())?;
+    let options = pitch_options(args)?;
+    let recs = recommendations(&loaded, &indices, &options)?;
+    match args.format {
+        PlainFormat::Json => {
+            #[derive(Serialize)]
+            struct Doc {
+                boat: String,
+                variants: Vec<PitchJson>,
+                caution: &'static str,
+            }
+            let doc = Doc {
+                boat: loaded.vessel.name.clone(),
+                variants: recs.iter().map(PitchJson::from).collect(),
+                caution: CAUTION,
+            };
+            out.write_all(json::to_string(&doc)?.as_bytes())?;
+        }
+        PlainFormat::Text => {
+            let d = Display::new(loaded.units);
+            writeln!(out, "{}: pitch recommendation", loaded.vessel.name)?;
+            for r in &recs {
+                writeln!(out)?;
+                out.write_all(pitch_text(r, &d).as_bytes())?;
+            }
+            writeln!(out, "\nCaution: {CAUTION}")?;
+        }
+    }
+    Ok(())
+}
+
+fn sweep_parameter(
+    loaded: &LoadedBoat,
+    index: usize,
+    args: &SweepArgs,
+) -> anyhow::Result<SweepParameter> {
+    let vessel = &loaded.vessel;
+    let values = |default: &[f64]| -> anyhow::Result<Vec<f64>> {
+        match &args.values {
+            None => Ok(default.to_vec()),
+            Some(text) => {
+                let list: Result<Vec<f64>, _> = text
+                    .split(',')
+                    .map(str::trim)
+                    .filter(|s| !s.is_empty())
+                    .map(str::parse::<f64>)
+                    .collect();
+                match list {
+                    Ok(v) if !v.is_empty() && v.iter().all(|x| x.is_finite() && *x > 0.0) => Ok(v),
+                    _ => Err(UsageError(format!("--values: expected a comma-separated list of positive numbers, got {text:?}")).into()),
+                }
+            }
+        }
+    };
+    Ok(match args.over {
+        SweepOver::Diameter => {
+            let inst = &loaded.doc.installation;
+            let aperture = inst.max_screw_diameter.as_ref().map(|q| q.value).ok_or_else(|| {
+                anyhow::anyhow!(
+                    "boat {:?} gives no installation.max_screw_diameter, so the aperture limit of a diameter sweep is unknown",
+                    vessel.name
+                )
+            })?;
+            // The profile's `max_screw_diameter` is the largest screw the aperture takes with
+            // the tip clearance kept; the design module wants the aperture disc and the
+            // clearance as a fraction of that screw, which gives back exactly this diameter.
+            let largest = aperture;
+            let clearance = inst.tip_clearance.as_ref().map_or(0.0, |q| q.value);
+            if !(clearance.is_finite() && clearance >= 0.0 && clearance < 0.5 * largest) {
+                anyhow::bail!(
+                    "installation.tip_clearance of {:?} must be at least 0 and less than half of max_screw_diameter",
+                    vessel.name
+                );
+            }
+            let current = vessel.variants[index].screw.geometry().diameter;
+            SweepParameter::Diameter {
+                min_diameter: (0.8 * current).min(0.8 * largest),
+                aperture: ApertureLimit {
+                    aperture_diameter: largest + 2.0 * clearance,
+                    tip_clearance_fraction: clearance / largest,
+                },
+                count: DIAMETER_STEPS,
+            }
+        }
+        SweepOver::Gear => {
+            let g = vessel.installation.gear_ratio;
+            SweepParameter::GearRatio(values(
+                &[g - 0.5, g - 0.25, g, g + 0.25, g + 0.5].map(|x: f64| x.max(1.0)),
+            )?)
+        }
+        SweepOver::Blades => {
+            let list = values(&[3.0, 4.0, 5.0])?;
+            if list.iter().any(|b| b.fract() != 0.0) {
+                return Err(
+                    UsageError("--values: blade counts must be whole numbers".into()).into(),
+                );
+            }
+            SweepParameter::Blades(list.into_iter().map(|b| b as u32).collect())
+        }
+        SweepOver::Area => SweepParameter::AreaRatio(values(&[0.40, 0.55, 0.70, 0.85])?),
+    })
+}
+
+/// One sweep as text.
+fn sweep_text(result: &SweepResult, label: &str, d: &Display) -> String {
+    let mut out = format!(
+        "Screw {label}: sweep of {} — ranked by {}\n",
+        result.parameter, result.criterion
+    );
+    out.push_str(&format!(
+        "  each candidate pitched to {}\n",
+        result.target.describe()
+    ));
+    let mut table = Table::new(vec![
+        Column::number("rank", ""),
+        Column::text("screw"),
+        Column::number("gear", ""),
+        Column::number("pitch", &d.unit(Kind::ScrewLength)),
+        Column::number("top speed", &d.unit(Kind::Speed)),
+        Column::number("η0 target", ""),
+        Column::number("η0 top", ""),
+        Column::number("fuel/nm", &d.unit(Kind::FuelPerDistance)),
+        Column::text("note"),
+    ]);
+    for c in &result.candidates {
+        let opt =
+            |v: Option<f64>, f: &dyn Fn(f64) -> String| finite_or_none(v).map_or("—".into(), f);
+        table.push(vec![
+            if c.rank > 0 {
+                c.rank.to_string()
+            } else {
+                "—".into()
+            },
+            format!(
+                "{} × {}, AE/A0 {:.2}",
+                c.geometry.blades,
+                d.quantity(c.geometry.diameter, Kind::ScrewLength),
+                c.geometry.area_ratio
+            ),
+            format!("{:.2}", c.gear_ratio),
+            opt(c.pitch, &|p| d.number(p, Kind::ScrewLength, 1)),
+            opt(c.top_speed, &|v| d.number(v, Kind::Speed, 2)),
+            opt(c.open_water_efficiency_at_target, &|v| format!("{v:.3}")),
+            opt(c.open_water_efficiency_at_top, &|v| format!("{v:.3}")),
+            opt(c.fuel_per_distance_at_target, &|v| {
+                d.number(v, Kind::FuelPerDistance, 2)
+            }),
+            c.problem.clone().unwrap_or_default(),
+        ]);
+    }
+    out.push_str(&table.to_text("  "));
+    out
+}
+
+/// One candidate in JSON.
+#[derive(Debug, Serialize)]
+struct CandidateJson {
+    rank: usize,
+    value: f64,
+    blades: u32,
+    diameter_m: f64,
+    area_ratio: f64,
+    gear_ratio: f64,
+    pitch_m: Option<f64>,
+    top_speed_kn: Option<f64>,
+    meeting_rpm: Option<f64>,
+    eta0_at_target: Option<f64>,
+    eta0_at_top: Option<f64>,
+    propulsive_efficiency_at_target: Option<f64>,
+    fuel_l_per_nm_at_target: Option<f64>,
+    problem: Option<String>,
+}
+
+/// `sweep BOAT`.
+pub fn sweep(ctx: &Context, args: &SweepArgs, out: &mut dyn Write) -> anyhow::Result<()> {
+    let loaded = load_boat(ctx, &args.boat)?;
+    let index = match &args.variant {
+        Some(label) => variant_indices(&loaded, Some(label))?[0],
+        None => loaded
+            .vessel
+            .active_variant
+            .min(loaded.vessel.variants.len() - 1),
+    };
+    let parameter = sweep_parameter(&loaded, index, args)?;
+    let criterion = match args.rank {
+        RankBy::Fuel => RankCriterion::LeastFuelPerDistance,
+        RankBy::Speed => RankCriterion::HighestTopSpeed,
+        RankBy::Efficiency => RankCriterion::HighestPropulsiveEfficiency,
+    };
+    let options = SweepOptions {
+        criterion,
+        ..SweepOptions::default()
+    };
+    let result = run_sweep(&loaded.vessel, index, &parameter, &options).context("sweep")?;
+    let label = &loaded.vessel.variants[index].label;
+    match args.format {
+        PlainFormat::Json => {
+            #[derive(Serialize)]
+            struct Doc<'a> {
+                boat: &'a str,
+                variant: &'a str,
+                parameter: &'static str,
+                criterion: &'static str,
+                target: String,
+                target_speed_kn: f64,
+                candidates: Vec<CandidateJson>,
+                caution: &'static str,
+            }
+            let nm_per_m = crate::report::NAUTICAL_MILE_M / crate::report::LITRE_M3;
+            let doc = Doc {
+                boat: &loaded.vessel.name,
+                variant: label,
+                parameter: result.parameter,
+                criterion: result.criterion,
+                target: result.target.describe(),
+                target_speed_kn: result.target_speed / KNOT_MPS,
+                candidates: result
+                    .candidates
+                    .iter()
+                    .map(|c| CandidateJson {
+                        rank: c.rank,
+                        value: c.value,
+                        blades: c.geometry.blades,
+                        diameter_m: c.geometry.diameter,
+                        area_ratio: c.geometry.area_ratio,
+                        gear_ratio: c.gear_ratio,
+                        pitch_m: finite_or_none(c.pitch),
+                        top_speed_kn: finite_or_none(c.top_speed.map(|v| v / KNOT_MPS)),
+                        meeting_rpm: finite_or_none(c.meeting_rpm),
+                        eta0_at_target: finite_or_none(c.open_water_efficiency_at_target),
+                        eta0_at_top: finite_or_none(c.open_water_efficiency_at_top),
+                        propulsive_efficiency_at_target: finite_or_none(
+                            c.propulsive_efficiency_at_target,
+                        ),
+                        fuel_l_per_nm_at_target: finite_or_none(
+                            c.fuel_per_distance_at_target.map(|v| v * nm_per_m),
+                        ),
+                        problem: c.problem.clone(),
+                    })
+                    .collect(),
+                caution: CAUTION,
+            };
+            out.write_all(json::to_string(&doc)?.as_bytes())?;
+        }
+        PlainFormat::Text => {
+            let d = Display::new(loaded.units);
+            out.write_all(sweep_text(&result, label, &d).as_bytes())?;
+            writeln!(out, "\nCaution: {CAUTION}")?;
+        }
+    }
+    Ok(())
+}
+
+/// The calibration of the boat's active (or chosen) variant against its trial log.
+pub fn calibration(loaded: &LoadedBoat, index: usize) -> anyhow::Result<Calibration> {
+    let vessel = &loaded.vessel;
+    if vessel.trial.is_empty() {
+        anyhow::bail!(
+            "boat {:?} has no sea-trial log ([trial] runs) to compare with",
+            vessel.name
+        );
+    }
+    calibrate(
+        &vessel.system(index),
+        &vessel.trial,
+        &CalibrationOptions::default(),
+    )
+    .with_context(|| format!("sea-trial calibration of {}", vessel.name))
+}
+
+/// The calibration as text.
+pub fn trial_text(cal: &Calibration, d: &Display) -> String {
+    let mut table = Table::new(vec![
+        Column::number("engine", "rpm"),
+        Column::number("runs", ""),
+        Column::number("measured", &d.unit(Kind::Speed)),
+        Column::number("predicted", &d.unit(Kind::Speed)),
+        Column::number("calibrated", &d.unit(Kind::Speed)),
+        Column::number("current", &d.unit(Kind::Speed)),
+    ]);
+    let opt =
+        |v: Option<f64>| finite_or_none(v).map_or("—".into(), |v| d.number(v, Kind::Speed, 2));
+    for p in &cal.points {
+        table.push(vec![
+            format!("{:.0}", p.engine_rpm),
+            format!("{}{}", p.runs, if p.two_way { " (two-way)" } else { "" }),
+            d.number(p.measured_speed, Kind::Speed, 2),
+            opt(p.predicted_before),
+            opt(p.predicted_after),
+            opt(p.current),
+        ]);
+    }
+    let mut out = table.to_text("  ");
+    out.push_str(&format!(
+        "  RMS error {} before, {} after; resistance factor {:.3} (was {:.3})",
+        d.quantity(cal.rms_before, Kind::Speed),
+        d.quantity(cal.rms_after, Kind::Speed),
+        cal.resistance_factor,
+        cal.resistance_factor_before
+    ));
+    if let Some(w) = cal.wake_fraction {
+        out.push_str(&format!(", wake fraction {w:.3}"));
+    }
+    out.push('\n');
+    for w in &cal.warnings {
+        out.push_str(&format!("  warning: {w}\n"));
+    }
+    out
+}
+
+/// `trial BOAT`.
+pub fn trial(ctx: &Context, args: &DesignArgs, out: &mut dyn Write) -> anyhow::Result<()> {
+    let loaded = load_boat(ctx, &args.boat)?;
+    let index = match &args.variant {
+        Some(label) => variant_indices(&loaded, Some(label))?[0],
+        None => loaded
+            .vessel
+            .active_variant
+            .min(loaded.vessel.variants.len() - 1),
+    };
+    let cal = calibration(&loaded, index)?;
+    let label = &loaded.vessel.variants[index].label;
+    match args.format {
+        PlainFormat::Json => {
+            #[derive(Serialize)]
+            struct PointJson {
+                engine_rpm: f64,
+                runs: usize,
+                two_way: bool,
+                measured_kn: f64,
+                predicted_kn: Option<f64>,
+                calibrated_kn: Option<f64>,
+                current_kn: Option<f64>,
+            }
+            #[derive(Serialize)]
+            struct Doc<'a> {
+                boat: &'a str,
+                variant: &'a str,
+                rms_before_kn: f64,
+                rms_after_kn: f64,
+                resistance_factor_before: f64,
+                resistance_factor: f64,
+                wake_fraction: Option<f64>,
+                points: Vec<PointJson>,
+                warnings: Vec<String>,
+            }
+            let kn = |v: Option<f64>| finite_or_none(v.map(|v| v / KNOT_MPS));
+            if !(cal.rms_before.is_finite()
+                && cal.rms_after.is_finite()
+                && cal.resistance_factor.is_finite())
+            {
+                anyhow::bail!(
+                    "the sea-trial calibration of {} gave a value that is not a finite number",
+                    loaded.vessel.name
+                );
+            }
+            let doc = Doc {
+                boat: &loaded.vessel.name,
+                variant: label,
+                rms_before_kn: cal.rms_before / KNOT_MPS,
+                rms_after_kn: cal.rms_after / KNOT_MPS,
+                resistance_factor_before: cal.resistance_factor_before,
+                resistance_factor: cal.resistance_factor,
+                wake_fraction: finite_or_none(cal.wake_fraction),
+                points: cal
+                    .points
+                    .iter()
+                    .map(|p| PointJson {
+                        engine_rpm: p.engine_rpm,
+                        runs: p.runs,
+                        two_way: p.two_way,
+                        measured_kn: p.measured_speed / KNOT_MPS,
+                        predicted_kn: kn(p.predicted_before),
+                        calibrated_kn: kn(p.predicted_after),
+                        current_kn: kn(p.current),
+                    })
+                    .collect(),
+                warnings: cal.warnings.iter().map(ToString::to_string).collect(),
+            };
+            out.write_all(json::to_string(&doc)?.as_bytes())?;
+        }
+        PlainFormat::Text => {
+            let d = Display::new(loaded.units);
+            writeln!(
+                out,
+                "{}: sea trial against the prediction (screw {label})",
+                loaded.vessel.name
+            )?;
+            out.write_all(trial_text(&cal, &d).as_bytes())?;
+        }
+    }
+    Ok(())
+}

@@ -1,0 +1,760 @@
+//! The report of one boat: operating table per screw variant, match, top speed, cruise line.
+
+use serde::Serialize;
+
+use super::json::finite;
+use super::table::{Column, Table};
+use super::{CAUTION, Display, KNOT_MPS, LITRE_M3, NAUTICAL_MILE_M, percent};
+use crate::propulsion::engine::Duty;
+use crate::propulsion::screw::ScrewGeometry;
+use crate::propulsion::solver::cruise::{cruise_at_rpm, cruise_at_speed};
+use crate::propulsion::solver::matching::match_engine;
+use crate::propulsion::solver::{CruisePoint, MatchResult, Trip, Verdict, Vessel};
+use crate::units::{Kind, UnitSystem};
+
+/// More rows than this in one operating table is a mistake in the step.
+const MAX_ROWS: usize = 400;
+
+/// Why a report could not be built.
+#[derive(Debug, Clone, PartialEq, thiserror::Error)]
+pub enum ReportError {
+    /// No screw variant has the label asked for.
+    #[error("boat {boat:?} has no screw variant {label:?}; its variants are: {known}")]
+    UnknownVariant {
+        /// The boat.
+        boat: String,
+        /// The label asked for.
+        label: String,
+        /// The labels it has, comma-separated.
+        known: String,
+    },
+    /// The rpm step is not a positive number or gives too many rows.
+    #[error("rpm step {0} is not usable: expected a positive number giving at most 400 rows")]
+    BadStep(f64),
+}
+
+/// The engine sheet as the report shows it.
+#[derive(Debug, Clone, PartialEq)]
+pub struct EngineSummary {
+    /// The sheet's name.
+    pub name: String,
+    /// Rated speed, rpm.
+    pub rated_rpm: f64,
+    /// Power at rated rpm, W.
+    pub rated_power: f64,
+    /// Idle speed, rpm.
+    pub idle_rpm: f64,
+    /// Duty rating, if given.
+    pub duty: Option<Duty>,
+    /// Full-throttle time limit, s, if given.
+    pub full_throttle_limit: Option<f64>,
+}
+
+/// One row of an operating table: an engine rpm and the cruise point there, or why not.
+#[derive(Debug, Clone, PartialEq)]
+pub struct RpmRow {
+    /// Engine speed asked for, rpm.
+    pub engine_rpm: f64,
+    /// The point, or the solver's reason for not giving one.
+    pub outcome: Result<CruisePoint, String>,
+}
+
+/// Everything the report shows for one screw variant.
+#[derive(Debug, Clone, PartialEq)]
+pub struct VariantReport {
+    /// The variant's label.
+    pub label: String,
+    /// Its geometry.
+    pub geometry: ScrewGeometry,
+    /// The operating table.
+    pub rows: Vec<RpmRow>,
+    /// The match against the engine, or why it failed.
+    pub matching: Result<MatchResult, String>,
+    /// The cruise point at the trip's target speed, or why it failed.
+    pub target: Result<CruisePoint, String>,
+}
+
+/// The report of one boat, in SI.
+#[derive(Debug, Clone, PartialEq)]
+pub struct BoatReport {
+    /// The boat's name.
+    pub boat: String,
+    /// Its engine sheet.
+    pub engine: EngineSummary,
+    /// Its trip (target speed, tank).
+    pub trip: Trip,
+    /// One entry per variant reported.
+    pub variants: Vec<VariantReport>,
+    /// Warnings from every model involved, without duplicates.
+    pub warnings: Vec<String>,
+}
+
+/// A round rpm step giving about ten rows between idle and rated.
+pub fn default_step(idle_rpm: f64, rated_rpm: f64) -> f64 {
+    let span = (rated_rpm - idle_rpm).max(1.0);
+    [25.0, 50.0, 100.0, 200.0, 250.0, 500.0, 1000.0]
+        .into_iter()
+        .find(|s| span / s <= 14.0)
+        .unwrap_or(1000.0)
+}
+
+/// Engine speeds from idle to rated in `step`: the round multiples of the step plus both ends.
+pub fn rpm_steps(idle_rpm: f64, rated_rpm: f64, step: f64) -> Result<Vec<f64>, ReportError> {
+    if !(step.is_finite() && step > 0.0) || (rated_rpm - idle_rpm) / step > MAX_ROWS as f64 {
+        return Err(ReportError::BadStep(step));
+    }
+    let mut steps = vec![idle_rpm];
+    let mut k = (idle_rpm / step).floor() + 1.0;
+    while k * step < rated_rpm - 1e-6 {
+        if k * step > idle_rpm + 1e-6 {
+            steps.push(k * step);
+        }
+        k += 1.0;
+    }
+    if rated_rpm > idle_rpm {
+        steps.push(rated_rpm);
+    }
+    Ok(steps)
+}
+
+/// The reason a cruise point cannot be shown, if any of its numbers is not finite.
+fn checked(point: CruisePoint) -> Result<CruisePoint, String> {
+    let p = &point.point;
+    for (value, field) in [
+        (p.speed, "speed"),
+        (p.resistance, "resistance"),
+        (p.thrust, "thrust"),
+        (p.advance_ratio, "advance ratio"),
+        (p.thrust_coefficient, "KT"),
+        (p.torque_coefficient, "KQ"),
+        (p.open_water_efficiency, "open-water efficiency"),
+        (p.screw_rps, "screw speed"),
+        (p.engine_rpm, "engine speed"),
+        (p.delivered_power, "delivered power"),
+        (p.brake_power, "brake power"),
+        (p.load_fraction, "engine load"),
+        (p.fuel_volume_flow, "fuel rate"),
+        (point.fuel_per_distance, "fuel per distance"),
+        (point.range, "range"),
+    ] {
+        finite(value, field).map_err(|e| format!("not shown: {e}"))?;
+    }
+    Ok(point)
+}
+
+fn checked_match(m: MatchResult) -> Result<MatchResult, String> {
+    for (value, field) in [
+        (m.meeting_rpm, "meeting rpm"),
+        (m.top_speed, "top speed"),
+        (m.absorbed_fraction_at_rated, "power absorbed at rated rpm"),
+        (m.rpm_margin, "rpm margin"),
+    ] {
+        finite(value, field).map_err(|e| format!("match not shown: {e}"))?;
+    }
+    Ok(m)
+}
+
+impl BoatReport {
+    /// Solves `vessel` for the report: every variant, or only the one labelled `variant`.
+    pub fn build(
+        vessel: &Vessel,
+        variant: Option<&str>,
+        step_rpm: Option<f64>,
+        extra_warnings: &[String],
+    ) -> Result<Self, ReportError> {
+        let indices = variant_indices(vessel, variant)?;
+        let engine = &vessel.engine;
+        let step = step_rpm.unwrap_or_else(|| default_step(engine.idle_rpm, engine.rated_rpm));
+        let rpms = rpm_steps(engine.idle_rpm, engine.rated_rpm, step)?;
+        let mut warnings: Vec<String> = extra_warnings.to_vec();
+        let mut add = |w: String| {
+            if !warnings.contains(&w) {
+                warnings.push(w);
+            }
+        };
+        vessel
+            .resistance
+            .warnings()
+            .iter()
+            .for_each(|w| add(w.to_string()));
+        vessel
+            .resistance
+            .warnings_at(vessel.trip.target_speed)
+            .iter()
+            .for_each(|w| add(w.to_string()));
+        match engine.validate() {
+            Ok(ws) => ws.iter().for_each(|w| add(w.to_string())),
+            Err(e) => add(format!("engine sheet {}: {e}", engine.name)),
+        }
+        let mut variants = Vec::with_capacity(indices.len());
+        for index in indices {
+            let v = &vessel.variants[index];
+            v.screw
+                .warnings()
+                .iter()
+                .for_each(|w| add(format!("{}: {w}", v.label)));
+            let system = vessel.system(index);
+            let rows = rpms
+                .iter()
+                .map(|&rpm| RpmRow {
+                    engine_rpm: rpm,
+                    outcome: cruise_at_rpm(&system, &vessel.trip, rpm)
+                        .map_err(|e| e.to_string())
+                        .and_then(checked),
+                })
+                .collect();
+            let matching = match_engine(&system, &vessel.match_criteria)
+                .map_err(|e| e.to_string())
+                .and_then(checked_match);
+            let target = cruise_at_speed(&system, &vessel.trip, vessel.trip.target_speed)
+                .map_err(|e| e.to_string())
+                .and_then(checked);
+            variants.push(VariantReport {
+                label: v.label.clone(),
+                geometry: *v.screw.geometry(),
+                rows,
+                matching,
+                target,
+            });
+        }
+        Ok(Self {
+            boat: vessel.name.clone(),
+            engine: EngineSummary {
+                name: engine.name.clone(),
+                rated_rpm: engine.rated_rpm,
+                rated_power: engine.rated_power(),
+                idle_rpm: engine.idle_rpm,
+                duty: engine.duty,
+                full_throttle_limit: engine.full_throttle_limit,
+            },
+            trip: vessel.trip,
+            variants,
+            warnings,
+        })
+    }
+
+    /// The aligned text report.
+    pub fn to_text(&self, system: UnitSystem) -> String {
+        let d = Display::new(system);
+        let mut out = String::new();
+        out.push_str(&format!("{}\n", self.boat));
+        out.push_str(&format!("{}\n", self.engine_line(&d)));
+        out.push_str(&format!("{}\n", self.trip_line(&d)));
+        for v in &self.variants {
+            out.push('\n');
+            out.push_str(&format!(
+                "Screw {}: {}\n",
+                v.label,
+                screw_spec(&v.geometry, &d)
+            ));
+            out.push_str(&operating_table(v, &d, false).to_text("  "));
+            out.push_str(&format!("  {}\n", match_line(v, &d, self.engine.rated_rpm)));
+            out.push_str(&format!(
+                "  {}\n",
+                target_line(v, &d, self.trip.target_speed, &self.engine)
+            ));
+        }
+        out.push('\n');
+        if !self.warnings.is_empty() {
+            out.push_str("Warnings:\n");
+            for w in &self.warnings {
+                out.push_str(&format!("  - {w}\n"));
+            }
+        }
+        out.push_str(&format!("Caution: {CAUTION}\n"));
+        out
+    }
+
+    /// A Markdown document of the same report.
+    pub fn to_markdown(&self, system: UnitSystem) -> String {
+        let d = Display::new(system);
+        let mut out = format!("# {}\n\n", super::table::md_cell(&self.boat));
+        out.push_str(&format!(
+            "- {}\n- {}\n",
+            self.engine_line(&d),
+            self.trip_line(&d)
+        ));
+        for v in &self.variants {
+            out.push_str(&format!(
+                "\n## Screw {}\n\n{}\n\n",
+                v.label,
+                screw_spec(&v.geometry, &d)
+            ));
+            out.push_str(&operating_table(v, &d, false).to_markdown());
+            out.push_str(&format!(
+                "\n- {}\n",
+                match_line(v, &d, self.engine.rated_rpm)
+            ));
+            out.push_str(&format!(
+                "- {}\n",
+                target_line(v, &d, self.trip.target_speed, &self.engine)
+            ));
+        }
+        if !self.warnings.is_empty() {
+            out.push_str("\n## Warnings\n\n");
+            for w in &self.warnings {
+                out.push_str(&format!("- {w}\n"));
+            }
+        }
+        out.push_str(&format!("\n> **Caution.** {CAUTION}\n"));
+        out
+    }
+
+    /// One CSV table of every variant's operating points (a `variant` column first).
+    pub fn to_csv(&self, system: UnitSystem) -> String {
+        let d = Display::new(system);
+        let mut all = Table::default();
+        for v in &self.variants {
+            let table = operating_table(v, &d, true);
+            if all.columns.is_empty() {
+                all.columns = table.columns.clone();
+            }
+            all.rows.extend(table.rows);
+        }
+        if all.columns.is_empty() {
+            all = operating_table(
+                &VariantReport {
+                    label: String::new(),
+                    geometry: ScrewGeometry {
+                        blades: 0,
+                        diameter: 0.0,
+                        pitch: 0.0,
+                        area_ratio: 0.0,
+                    },
+                    rows: vec![],
+                    matching: Err(String::new()),
+                    target: Err(String::new()),
+                },
+                &d,
+                true,
+            );
+        }
+        all.to_csv()
+    }
+
+    /// The JSON document (SI or named units, whatever the display system).
+    pub fn to_json(&self) -> BoatJson {
+        BoatJson {
+            boat: self.boat.clone(),
+            units: "SI, or the unit named at the end of the field",
+            engine: EngineJson {
+                name: self.engine.name.clone(),
+                rated_rpm: self.engine.rated_rpm,
+                rated_kw: self.engine.rated_power / 1e3,
+                idle_rpm: self.engine.idle_rpm,
+            },
+            target_speed_kn: self.trip.target_speed / KNOT_MPS,
+            variants: self
+                .variants
+                .iter()
+                .map(|v| {
+                    let mut points = Vec::new();
+                    let mut unsolved = Vec::new();
+                    for row in &v.rows {
+                        match &row.outcome {
+                            Ok(c) => points.push(PointJson::from(c)),
+                            Err(reason) => unsolved.push(UnsolvedJson {
+                                engine_rpm: row.engine_rpm,
+                                reason: reason.clone(),
+                            }),
+                        }
+                    }
+                    VariantJson {
+                        label: v.label.clone(),
+                        blades: v.geometry.blades,
+                        diameter_m: v.geometry.diameter,
+                        pitch_m: v.geometry.pitch,
+                        area_ratio: v.geometry.area_ratio,
+                        points,
+                        unsolved,
+                        matching: v.matching.as_ref().ok().map(|m| MatchJson {
+                            meeting_rpm: m.meeting_rpm,
+                            top_speed_kn: m.top_speed / KNOT_MPS,
+                            absorbed_pct_at_rated: m.absorbed_fraction_at_rated * 100.0,
+                            verdict: m.verdict,
+                            rpm_margin: m.rpm_margin,
+                        }),
+                        match_error: v.matching.as_ref().err().cloned(),
+                        cruise: v.target.as_ref().ok().map(PointJson::from),
+                        cruise_error: v.target.as_ref().err().cloned(),
+                    }
+                })
+                .collect(),
+            warnings: self.warnings.clone(),
+            caution: CAUTION,
+        }
+    }
+
+    fn engine_line(&self, d: &Display) -> String {
+        let e = &self.engine;
+        let mut line = format!(
+            "Engine {}: {} at {:.0} rpm rated, idle {:.0} rpm",
+            e.name,
+            d.quantity(e.rated_power, Kind::Power),
+            e.rated_rpm,
+            e.idle_rpm
+        );
+        if let Some(duty) = e.duty {
+            line.push_str(match duty {
+                Duty::Continuous => ", continuous duty",
+                Duty::Intermittent => ", intermittent duty",
+            });
+        }
+        if let Some(limit) = e.full_throttle_limit {
+            line.push_str(&format!(
+                " (full throttle at most {})",
+                d.quantity(limit, Kind::Time)
+            ));
+        }
+        line
+    }
+
+    fn trip_line(&self, d: &Display) -> String {
+        let t = &self.trip;
+        format!(
+            "Target speed {} · tank {} ({} usable, {} reserve)",
+            d.quantity(t.target_speed, Kind::Speed),
+            d.quantity(t.tank_volume, Kind::Volume),
+            percent(t.usable_fraction, 0),
+            percent(t.reserve_fraction, 0)
+        )
+    }
+}
+
+fn variant_indices(vessel: &Vessel, label: Option<&str>) -> Result<Vec<usize>, ReportError> {
+    match label {
+        None => Ok((0..vessel.variants.len()).collect()),
+        Some(label) => vessel
+            .variants
+            .iter()
+            .position(|v| v.label == label)
+            .map(|i| vec![i])
+            .ok_or_else(|| ReportError::UnknownVariant {
+                boat: vessel.name.clone(),
+                label: label.to_string(),
+                known: vessel
+                    .variants
+                    .iter()
+                    .map(|v| v.label.as_str())
+                    .collect::<Vec<_>>()
+                    .join(", "),
+            }),
+    }
+}
+
+/// "3 blades × 508 mm × 356 mm pitch, AE/A0 0.50".
+pub fn screw_spec(g: &ScrewGeometry, d: &Display) -> String {
+    format!(
+        "{} blades × {} diameter × {} pitch, AE/A0 {:.2} (P/D {:.3})",
+        g.blades,
+        d.quantity(g.diameter, Kind::ScrewLength),
+        d.quantity(g.pitch, Kind::ScrewLength),
+        g.area_ratio,
+        if g.diameter > 0.0 {
+            g.pitch / g.diameter
+        } else {
+            0.0
+        }
+    )
+}
+
+/// The operating table of one variant; with `with_label` a first column names the variant.
+pub fn operating_table(v: &VariantReport, d: &Display, with_label: bool) -> Table {
+    let mut columns = Vec::new();
+    if with_label {
+        columns.push(Column::text("variant"));
+    }
+    columns.extend([
+        Column::number("engine", "rpm"),
+        Column::number("screw", "rpm"),
+        Column::number("speed", &d.unit(Kind::Speed)),
+        Column::number("power", &d.unit(Kind::Power)),
+        Column::number("load", "%"),
+        Column::number("fuel/h", &d.unit(Kind::FuelRate)),
+        Column::number("fuel/nm", &d.unit(Kind::FuelPerDistance)),
+        Column::number("range", &d.unit(Kind::Distance)),
+        Column::text("note"),
+    ]);
+    let mut table = Table::new(columns);
+    let imperial = d.system == UnitSystem::Imperial;
+    for row in &v.rows {
+        let mut cells = Vec::new();
+        if with_label {
+            cells.push(v.label.clone());
+        }
+        match &row.outcome {
+            Ok(c) => {
+                let p = &c.point;
+                cells.extend([
+                    format!("{:.0}", p.engine_rpm),
+                    format!("{:.0}", p.screw_rps * 60.0),
+                    d.number(p.speed, Kind::Speed, 2),
+                    d.number(p.brake_power, Kind::Power, 1),
+                    format!("{:.0}", p.load_fraction * 100.0),
+                    d.number(
+                        p.fuel_volume_flow,
+                        Kind::FuelRate,
+                        if imperial { 2 } else { 1 },
+                    ),
+                    d.number(
+                        c.fuel_per_distance,
+                        Kind::FuelPerDistance,
+                        if imperial { 3 } else { 2 },
+                    ),
+                    d.number(c.range, Kind::Distance, 0),
+                    if c.beyond_full_load {
+                        "past full load: not reachable".into()
+                    } else {
+                        String::new()
+                    },
+                ]);
+            }
+            Err(reason) => {
+                cells.push(format!("{:.0}", row.engine_rpm));
+                cells.extend(std::iter::repeat_n("—".to_string(), 7));
+                cells.push(reason.clone());
+            }
+        }
+        table.push(cells);
+    }
+    table
+}
+
+/// The verdict in words.
+pub fn verdict_words(verdict: Verdict) -> &'static str {
+    match verdict {
+        Verdict::Over => "over-propped",
+        Verdict::Matched => "matched",
+        Verdict::Under => "under-propped",
+    }
+}
+
+/// "Match: over-propped — …" for one variant.
+pub fn match_line(v: &VariantReport, d: &Display, rated_rpm: f64) -> String {
+    match &v.matching {
+        Ok(m) => {
+            let margin = if m.rpm_margin.abs() < 0.5 {
+                format!("reaches rated {rated_rpm:.0} rpm")
+            } else if m.rpm_margin < 0.0 {
+                format!("{:.0} rpm short of rated {rated_rpm:.0} rpm", -m.rpm_margin)
+            } else {
+                format!("{:.0} rpm above rated {rated_rpm:.0} rpm", m.rpm_margin)
+            };
+            format!(
+                "Match: {} — full throttle at {:.0} rpm ({margin}), top speed {}, the screw absorbs {} of rated power at rated rpm",
+                verdict_words(m.verdict),
+                m.meeting_rpm,
+                d.quantity(m.top_speed, Kind::Speed),
+                percent(m.absorbed_fraction_at_rated, 0)
+            )
+        }
+        Err(reason) => format!("Match: not found — {reason}"),
+    }
+}
+
+/// "At 7.0 kn: …" for one variant.
+pub fn target_line(
+    v: &VariantReport,
+    d: &Display,
+    target_speed: f64,
+    engine: &EngineSummary,
+) -> String {
+    let at = d.quantity(target_speed, Kind::Speed);
+    match &v.target {
+        Ok(c) => {
+            let mut line = format!("At {at}: {}", cruise_summary(c, d));
+            if c.beyond_full_load {
+                line.push_str(" — past the engine's full-load curve: not reachable");
+            } else if engine.duty == Some(Duty::Intermittent) {
+                line.push_str(" (engine rated for intermittent duty)");
+            }
+            line
+        }
+        Err(reason) => format!("At {at}: not solved — {reason}"),
+    }
+}
+
+/// rpm · speed · power · load · fuel/h · fuel/nm · range.
+pub fn cruise_summary(c: &CruisePoint, d: &Display) -> String {
+    let p = &c.point;
+    format!(
+        "{:.0} rpm · {} · {} · {} load · {} · {} · range {}",
+        p.engine_rpm,
+        d.quantity(p.speed, Kind::Speed),
+        d.quantity(p.brake_power, Kind::Power),
+        percent(p.load_fraction, 0),
+        d.quantity(p.fuel_volume_flow, Kind::FuelRate),
+        d.quantity(c.fuel_per_distance, Kind::FuelPerDistance),
+        d.quantity(c.range, Kind::Distance)
+    )
+}
+
+/// The report as JSON.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct BoatJson {
+    /// The boat's name.
+    pub boat: String,
+    /// How the values are expressed.
+    pub units: &'static str,
+    /// The engine sheet.
+    pub engine: EngineJson,
+    /// The trip's target speed, kn.
+    pub target_speed_kn: f64,
+    /// The variants.
+    pub variants: Vec<VariantJson>,
+    /// Warnings.
+    pub warnings: Vec<String>,
+    /// The caution.
+    pub caution: &'static str,
+}
+
+/// The engine sheet in JSON.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct EngineJson {
+    /// Name.
+    pub name: String,
+    /// Rated speed, rpm.
+    pub rated_rpm: f64,
+    /// Rated power, kW.
+    pub rated_kw: f64,
+    /// Idle speed, rpm.
+    pub idle_rpm: f64,
+}
+
+/// One variant in JSON.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct VariantJson {
+    /// Label.
+    pub label: String,
+    /// Blade count.
+    pub blades: u32,
+    /// Diameter, m.
+    pub diameter_m: f64,
+    /// Pitch, m.
+    pub pitch_m: f64,
+    /// Expanded area ratio.
+    pub area_ratio: f64,
+    /// Solved operating points at the rpm steps.
+    pub points: Vec<PointJson>,
+    /// Rpm steps that could not be solved, with the reason.
+    pub unsolved: Vec<UnsolvedJson>,
+    /// The match, if found.
+    #[serde(rename = "match")]
+    pub matching: Option<MatchJson>,
+    /// Why the match was not found, if not.
+    pub match_error: Option<String>,
+    /// The cruise point at the target speed, if solved.
+    pub cruise: Option<PointJson>,
+    /// Why the cruise point was not solved, if not.
+    pub cruise_error: Option<String>,
+}
+
+/// One operating point in JSON.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct PointJson {
+    /// Engine speed, rpm.
+    pub engine_rpm: f64,
+    /// Screw speed, rpm.
+    pub prop_rpm: f64,
+    /// Boat speed, kn.
+    pub speed_kn: f64,
+    /// Resistance, N.
+    pub resistance_n: f64,
+    /// Required thrust, N.
+    pub thrust_n: f64,
+    /// Advance ratio J.
+    pub j: f64,
+    /// KT.
+    pub kt: f64,
+    /// KQ.
+    pub kq: f64,
+    /// Open-water efficiency.
+    pub eta0: f64,
+    /// Delivered power, kW.
+    pub delivered_kw: f64,
+    /// Brake power, kW.
+    pub brake_kw: f64,
+    /// Engine load, % of full-load power at this rpm.
+    pub load_pct: f64,
+    /// Fuel rate, L/h.
+    pub fuel_lph: f64,
+    /// Fuel per nautical mile, L/nm.
+    pub fuel_l_per_nm: f64,
+    /// Range with usable fuel less reserve, nm.
+    pub range_nm: f64,
+    /// Whether the point lies past the full-load curve.
+    pub beyond_full_load: bool,
+}
+
+impl From<&CruisePoint> for PointJson {
+    fn from(c: &CruisePoint) -> Self {
+        let p = &c.point;
+        Self {
+            engine_rpm: p.engine_rpm,
+            prop_rpm: p.screw_rps * 60.0,
+            speed_kn: p.speed / KNOT_MPS,
+            resistance_n: p.resistance,
+            thrust_n: p.thrust,
+            j: p.advance_ratio,
+            kt: p.thrust_coefficient,
+            kq: p.torque_coefficient,
+            eta0: p.open_water_efficiency,
+            delivered_kw: p.delivered_power / 1e3,
+            brake_kw: p.brake_power / 1e3,
+            load_pct: p.load_fraction * 100.0,
+            fuel_lph: p.fuel_volume_flow / LITRE_M3 * 3600.0,
+            fuel_l_per_nm: c.fuel_per_distance / LITRE_M3 * NAUTICAL_MILE_M,
+            range_nm: c.range / NAUTICAL_MILE_M,
+            beyond_full_load: c.beyond_full_load,
+        }
+    }
+}
+
+/// An rpm step that could not be solved.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct UnsolvedJson {
+    /// Engine speed asked for, rpm.
+    pub engine_rpm: f64,
+    /// Why.
+    pub reason: String,
+}
+
+/// The match in JSON.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct MatchJson {
+    /// Engine rpm at wide-open throttle.
+    pub meeting_rpm: f64,
+    /// Top speed, kn.
+    pub top_speed_kn: f64,
+    /// Power absorbed at rated rpm, % of rated power.
+    pub absorbed_pct_at_rated: f64,
+    /// over / matched / under.
+    pub verdict: Verdict,
+    /// Meeting rpm minus rated rpm.
+    pub rpm_margin: f64,
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn steps_run_from_idle_to_rated_on_round_numbers() {
+        let s = rpm_steps(750.0, 2600.0, 200.0).unwrap();
+        assert_eq!(s.first(), Some(&750.0));
+        assert_eq!(s[1], 800.0);
+        assert_eq!(s.last(), Some(&2600.0));
+        assert!(s.windows(2).all(|w| w[1] > w[0]));
+        assert_eq!(rpm_steps(800.0, 2600.0, 200.0).unwrap()[1], 1000.0);
+        assert!(rpm_steps(800.0, 2600.0, 0.0).is_err());
+        assert!(rpm_steps(800.0, 2600.0, f64::NAN).is_err());
+        assert!(rpm_steps(800.0, 2600.0, 0.5).is_err());
+    }
+
+    #[test]
+    fn default_step_gives_a_readable_table() {
+        assert_eq!(default_step(700.0, 2600.0), 200.0);
+        assert_eq!(default_step(600.0, 1800.0), 100.0);
+        assert_eq!(default_step(900.0, 3800.0), 250.0);
+    }
+}

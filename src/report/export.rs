@@ -1,0 +1,255 @@
+//! The printable report for the owner and the propeller shop: Markdown with SVG charts.
+
+use super::boat::{BoatReport, match_line, operating_table, screw_spec, target_line};
+use super::svg::{Chart, Series, SeriesStyle};
+use super::{CAUTION, Display};
+use crate::propulsion::solver::Vessel;
+use crate::units::{Kind, UnitSystem};
+
+/// One file of the export: its name inside the output directory and its text.
+#[derive(Debug, Clone, PartialEq)]
+pub struct ExportFile {
+    /// File name, e.g. "power.svg".
+    pub name: String,
+    /// The file's contents.
+    pub contents: String,
+}
+
+/// A section added by a later stage (pitch recommendation, cavitation, calibration).
+#[derive(Debug, Clone, PartialEq)]
+pub struct Section {
+    /// The heading.
+    pub title: String,
+    /// Markdown body.
+    pub body: String,
+}
+
+/// Name of the Markdown file in the export.
+pub const REPORT_FILE: &str = "report.md";
+
+/// The charts of the export, in display units: power, speed, fuel rate and range.
+pub fn charts(vessel: &Vessel, curves: &BoatReport, system: UnitSystem) -> Vec<(String, Chart)> {
+    let d = Display::new(system);
+    let power_unit = d.unit(Kind::Power);
+    let speed_unit = d.unit(Kind::Speed);
+    let fuel_unit = d.unit(Kind::FuelRate);
+    let distance_unit = d.unit(Kind::Distance);
+    let solved = |v: &super::boat::VariantReport| -> Vec<crate::propulsion::solver::CruisePoint> {
+        v.rows
+            .iter()
+            .filter_map(|r| r.outcome.as_ref().ok().copied())
+            .collect()
+    };
+    let per_variant =
+        |f: &dyn Fn(&crate::propulsion::solver::CruisePoint) -> (f64, f64)| -> Vec<Series> {
+            curves
+                .variants
+                .iter()
+                .map(|v| Series {
+                    name: format!("screw {}", v.label),
+                    points: solved(v).iter().map(f).collect(),
+                    style: SeriesStyle::Line,
+                })
+                .collect()
+        };
+
+    let mut power = vec![Series {
+        name: format!("{} full load", vessel.engine.name),
+        points: vessel
+            .engine
+            .full_load_power
+            .points
+            .iter()
+            .map(|&(rpm, w)| (rpm, d.scaled(w, Kind::Power)))
+            .collect(),
+        style: SeriesStyle::Line,
+    }];
+    power.extend(per_variant(&|c| {
+        (
+            c.point.engine_rpm,
+            d.scaled(c.point.brake_power, Kind::Power),
+        )
+    }));
+    let meeting: Vec<(f64, f64)> = curves
+        .variants
+        .iter()
+        .filter_map(|v| v.matching.as_ref().ok())
+        .map(|m| {
+            (
+                m.meeting_rpm,
+                d.scaled(m.top_point.brake_power, Kind::Power),
+            )
+        })
+        .collect();
+    if !meeting.is_empty() {
+        power.push(Series {
+            name: "full-throttle point".into(),
+            points: meeting,
+            style: SeriesStyle::Markers,
+        });
+    }
+
+    let mut speed = per_variant(&|c| (c.point.engine_rpm, d.scaled(c.point.speed, Kind::Speed)));
+    if !vessel.trial.is_empty() {
+        speed.push(Series {
+            name: "sea trial (speed over ground)".into(),
+            points: vessel
+                .trial
+                .iter()
+                .map(|r| (r.engine_rpm, d.scaled(r.speed_over_ground, Kind::Speed)))
+                .collect(),
+            style: SeriesStyle::Markers,
+        });
+    }
+    let fuel = per_variant(&|c| {
+        (
+            c.point.engine_rpm,
+            d.scaled(c.point.fuel_volume_flow, Kind::FuelRate),
+        )
+    });
+    let range = per_variant(&|c| {
+        (
+            d.scaled(c.point.speed, Kind::Speed),
+            d.scaled(c.range, Kind::Distance),
+        )
+    });
+
+    vec![
+        (
+            "power.svg".into(),
+            Chart {
+                title: format!("{}: brake power vs engine speed", curves.boat),
+                x_label: "engine speed (rpm)".into(),
+                y_label: format!("brake power ({power_unit})"),
+                series: power,
+            },
+        ),
+        (
+            "speed.svg".into(),
+            Chart {
+                title: format!("{}: boat speed vs engine speed", curves.boat),
+                x_label: "engine speed (rpm)".into(),
+                y_label: format!("speed ({speed_unit})"),
+                series: speed,
+            },
+        ),
+        (
+            "fuel.svg".into(),
+            Chart {
+                title: format!("{}: fuel rate vs engine speed", curves.boat),
+                x_label: "engine speed (rpm)".into(),
+                y_label: format!("fuel rate ({fuel_unit})"),
+                series: fuel,
+            },
+        ),
+        (
+            "range.svg".into(),
+            Chart {
+                title: format!("{}: range vs boat speed", curves.boat),
+                x_label: format!("speed ({speed_unit})"),
+                y_label: format!("range ({distance_unit})"),
+                series: range,
+            },
+        ),
+    ]
+}
+
+/// The Markdown report and its charts.
+pub fn export(
+    vessel: &Vessel,
+    report: &BoatReport,
+    curves: &BoatReport,
+    sections: &[Section],
+    system: UnitSystem,
+) -> Vec<ExportFile> {
+    let d = Display::new(system);
+    let charts = charts(vessel, curves, system);
+    let mut md = format!(
+        "# Repower report: {}\n\n",
+        super::table::md_cell(&report.boat)
+    );
+    md.push_str(&format!("> **Caution.** {CAUTION}\n\n"));
+
+    md.push_str("## Engine sheet\n\n");
+    let e = &vessel.engine;
+    md.push_str(&format!(
+        "{}: rated {} at {:.0} rpm, idle {:.0} rpm.\n\n",
+        e.name,
+        d.quantity(e.rated_power(), Kind::Power),
+        e.rated_rpm,
+        e.idle_rpm
+    ));
+    let mut envelope = super::table::Table::new(vec![
+        super::table::Column::number("engine", "rpm"),
+        super::table::Column::number("full-load power", &d.unit(Kind::Power)),
+    ]);
+    for &(rpm, w) in &e.full_load_power.points {
+        envelope.push(vec![format!("{rpm:.0}"), d.number(w, Kind::Power, 1)]);
+    }
+    md.push_str(&envelope.to_markdown());
+
+    md.push_str("\n## Installation and trip\n\n");
+    let inst = &vessel.installation;
+    md.push_str(&format!(
+        "- Reduction gear {:.2}:1, shaft efficiency {}, gear efficiency {}\n",
+        inst.gear_ratio,
+        super::percent(inst.shaft_efficiency, 1),
+        super::percent(inst.gear_efficiency, 1)
+    ));
+    md.push_str(&format!(
+        "- Target speed {}, tank {} ({} usable, {} reserve)\n",
+        d.quantity(vessel.trip.target_speed, Kind::Speed),
+        d.quantity(vessel.trip.tank_volume, Kind::Volume),
+        super::percent(vessel.trip.usable_fraction, 0),
+        super::percent(vessel.trip.reserve_fraction, 0)
+    ));
+
+    md.push_str("\n## Screws and match\n\n");
+    for v in &report.variants {
+        md.push_str(&format!("### Screw {}\n\n", v.label));
+        md.push_str(&format!("- Spec: {}\n", screw_spec(&v.geometry, &d)));
+        md.push_str(&format!(
+            "- {}\n",
+            match_line(v, &d, report.engine.rated_rpm)
+        ));
+        md.push_str(&format!(
+            "- {}\n\n",
+            target_line(v, &d, report.trip.target_speed, &report.engine)
+        ));
+        md.push_str(&operating_table(v, &d, false).to_markdown());
+        md.push('\n');
+    }
+    for section in sections {
+        md.push_str(&format!(
+            "## {}\n\n{}\n\n",
+            section.title,
+            section.body.trim_end()
+        ));
+    }
+
+    md.push_str("## Charts\n\n");
+    for (name, chart) in &charts {
+        md.push_str(&format!(
+            "![{}]({name})\n\n",
+            super::table::md_cell(&chart.title)
+        ));
+    }
+    if !report.warnings.is_empty() {
+        md.push_str("## Warnings\n\n");
+        for w in &report.warnings {
+            md.push_str(&format!("- {w}\n"));
+        }
+        md.push('\n');
+    }
+    md.push_str(&format!("## Caution\n\n{CAUTION}\n"));
+
+    let mut files = vec![ExportFile {
+        name: REPORT_FILE.into(),
+        contents: md,
+    }];
+    files.extend(charts.into_iter().map(|(name, chart)| ExportFile {
+        name,
+        contents: chart.to_svg(),
+    }));
+    files
+}
