@@ -149,11 +149,43 @@ pub fn run(store: &Store, boat: Option<&str>, units: Option<UnitSystem>) -> anyh
         signal_hook::flag::register(signal, Arc::clone(&stop))
             .context("installing the signal handler")?;
     }
+    watch_for_a_stuck_loop(Arc::clone(&stop));
     // `init` installs a panic hook that restores the terminal before the default hook prints.
     let mut terminal = ratatui::try_init().context("setting up the terminal (the terminal UI needs an interactive terminal; `tidewright --help` lists the headless commands)")?;
     let result = event_loop(&mut terminal, &mut app, &mut session, &stop);
     ratatui::restore();
     result
+}
+
+/// How often the watchdog of [`watch_for_a_stuck_loop`] looks.
+const WATCHDOG_PERIOD: Duration = Duration::from_millis(500);
+/// How long the loop may take to leave after a stop signal before the watchdog ends it.
+const STOP_GRACE: Duration = Duration::from_secs(1);
+
+/// Ends the program when the event loop cannot: once the terminal is gone (a dropped SSH
+/// link), crossterm's event poll spins without ever returning (crossterm issue #793), so the
+/// loop sees neither the signal flag nor an error. The watchdog leaves for it when a stop was
+/// asked more than [`STOP_GRACE`] ago or the terminal no longer answers. Nothing can be
+/// half-written: saves are atomic and none is started on the way out.
+fn watch_for_a_stuck_loop(stop: Arc<AtomicBool>) {
+    std::thread::spawn(move || {
+        let mut asked: Option<Instant> = None;
+        loop {
+            std::thread::sleep(WATCHDOG_PERIOD);
+            if stop.load(Ordering::Relaxed) {
+                asked.get_or_insert_with(Instant::now);
+            }
+            if crossterm::terminal::size().is_err() {
+                // 128 + SIGHUP: the terminal hung up.
+                std::process::exit(129);
+            }
+            if asked.is_some_and(|at| at.elapsed() >= STOP_GRACE) {
+                ratatui::restore();
+                // 128 + SIGTERM: stopped by a signal.
+                std::process::exit(143);
+            }
+        }
+    });
 }
 
 fn event_loop(
@@ -163,6 +195,12 @@ fn event_loop(
     stop: &AtomicBool,
 ) -> anyhow::Result<()> {
     terminal.draw(|frame| render::render(app, frame))?;
+    // Debug builds only: a panic on demand, so that the robustness tests can prove in tmux
+    // that the terminal is restored after one (tests/integration/robustness/terminal.rs).
+    #[cfg(debug_assertions)]
+    if std::env::var_os("TIDEWRIGHT_PANIC_AFTER_DRAW").is_some() {
+        panic!("panic requested by TIDEWRIGHT_PANIC_AFTER_DRAW after the first draw");
+    }
     while !stop.load(Ordering::Relaxed) {
         if !event::poll(SIGNAL_CHECK)? {
             continue;

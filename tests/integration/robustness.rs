@@ -9,6 +9,7 @@ mod loader;
 mod screw;
 mod solver;
 mod store;
+mod terminal;
 mod units;
 
 /// The proptest configuration of this module: `cases` cases, and no regression files written

@@ -1,0 +1,262 @@
+//! The real binary's terminal UI in tmux: after a panic, SIGTERM, SIGHUP and a closed terminal
+//! the terminal is back in its normal state (cooked mode with echo, main screen, visible
+//! cursor, no mouse reporting), and the boat's file is untouched by unsaved edits.
+//!
+//! Each test runs its own tmux server (its own socket) and ends it, also on failure. Without
+//! tmux the tests print why they skip.
+
+use std::path::{Path, PathBuf};
+use std::process::{Command, Output};
+use std::time::{Duration, Instant};
+use tidewright::profile::Store;
+
+/// Text the UI always shows in its readout strip once it is drawn.
+const UI_DRAWN: &str = "Screw";
+/// The environment variable that makes a debug build panic after its first draw.
+const PANIC_VAR: &str = "TIDEWRIGHT_PANIC_AFTER_DRAW";
+
+/// A tmux server of this test's own, ended when dropped.
+struct Tmux {
+    socket: String,
+}
+
+impl Tmux {
+    /// Starts a server with one 100×30 session running `command`; `None` when tmux is absent.
+    fn start(name: &str, command: &str) -> Option<Self> {
+        if Command::new("tmux").arg("-V").output().is_err() {
+            println!("skipped: tmux is not installed (.ci/run installs it)");
+            return None;
+        }
+        let tmux = Self {
+            socket: format!("tidewright-robust-{name}-{}", std::process::id()),
+        };
+        let started = tmux.run(&[
+            "new-session",
+            "-d",
+            "-s",
+            "main",
+            "-x",
+            "100",
+            "-y",
+            "30",
+            command,
+        ]);
+        assert!(
+            started.status.success(),
+            "tmux: {}",
+            String::from_utf8_lossy(&started.stderr)
+        );
+        Some(tmux)
+    }
+
+    fn run(&self, args: &[&str]) -> Output {
+        Command::new("tmux")
+            .args(["-L", &self.socket, "-f", "/dev/null"])
+            .args(args)
+            .output()
+            .expect("tmux runs")
+    }
+
+    /// The pane's text.
+    fn screen(&self) -> String {
+        String::from_utf8_lossy(&self.run(&["capture-pane", "-p", "-t", "main"]).stdout)
+            .into_owned()
+    }
+
+    /// A tmux format variable of the pane, e.g. `alternate_on`.
+    fn flag(&self, name: &str) -> String {
+        let format = format!("#{{{name}}}");
+        let out = self.run(&["display-message", "-p", "-t", "main", &format]);
+        String::from_utf8_lossy(&out.stdout).trim().to_owned()
+    }
+
+    /// Waits up to `seconds` until the screen satisfies `done`; the last screen either way.
+    fn wait_for(&self, seconds: f64, done: impl Fn(&str) -> bool) -> Result<String, String> {
+        let deadline = Instant::now() + Duration::from_secs_f64(seconds);
+        loop {
+            let text = self.screen();
+            if done(&text) {
+                return Ok(text);
+            }
+            if Instant::now() > deadline {
+                return Err(text);
+            }
+            std::thread::sleep(Duration::from_millis(40));
+        }
+    }
+
+    /// The pid of the program the pane's shell is running.
+    fn program_pid(&self) -> u32 {
+        let shell: u32 = self.flag("pane_pid").parse().expect("pane pid");
+        let children = std::fs::read_to_string(format!("/proc/{shell}/task/{shell}/children"))
+            .expect("the shell's children");
+        children
+            .split_whitespace()
+            .next()
+            .and_then(|pid| pid.parse().ok())
+            .expect("the shell runs the program")
+    }
+
+    fn send(&self, keys: &str) {
+        self.run(&["send-keys", "-t", "main", keys]);
+    }
+}
+
+impl Drop for Tmux {
+    fn drop(&mut self) {
+        let _ = self.run(&["kill-server"]);
+    }
+}
+
+/// A fresh store with the demo fleet, and the command line that opens its marram in the UI,
+/// then reports the exit code and the terminal modes from the same terminal.
+fn store_and_command(env: &str) -> (tempfile::TempDir, Store, String) {
+    let dir = tempfile::tempdir().expect("temporary directory");
+    let store = Store::at(dir.path().join("profiles"));
+    store.init().expect("init the demo fleet");
+    let bin = env!("CARGO_BIN_EXE_tidewright");
+    let command = format!(
+        "{env} {bin} --profiles '{}' open marram; echo \"EXIT=$?\"; \
+         stty -a | tr ' ;' '\\n\\n' | grep -x -e '-\\?icanon' -e '-\\?echo' | tr '\\n' ' '; echo MODES; sleep 30",
+        store.root().unwrap().display()
+    );
+    (dir, store, command)
+}
+
+/// Asserts that the terminal is back to normal after the program left, given the screen.
+fn assert_restored(tmux: &Tmux, screen: &str, how: &str) {
+    let modes = screen
+        .lines()
+        .find(|line| line.contains("MODES"))
+        .unwrap_or_else(|| panic!("{how}: no mode line:\n{screen}"));
+    assert!(
+        modes.contains("icanon") && !modes.contains("-icanon"),
+        "{how}: terminal left in raw mode: {modes}"
+    );
+    assert!(
+        modes.split_whitespace().any(|m| m == "echo"),
+        "{how}: echo left off: {modes}"
+    );
+    assert_eq!(
+        tmux.flag("alternate_on"),
+        "0",
+        "{how}: still on the alternate screen"
+    );
+    assert_eq!(tmux.flag("cursor_flag"), "1", "{how}: cursor left hidden");
+    assert_eq!(
+        tmux.flag("mouse_any_flag"),
+        "0",
+        "{how}: mouse reporting left on"
+    );
+    assert!(
+        !screen.contains("At 7.0 kn"),
+        "{how}: the UI's screen is still shown:\n{screen}"
+    );
+}
+
+/// The store's temporary files next to the boat.
+fn temporaries(boats: &Path) -> Vec<PathBuf> {
+    std::fs::read_dir(boats)
+        .unwrap()
+        .map(|e| e.unwrap().path())
+        .filter(|p| p.file_name().unwrap().to_string_lossy().ends_with(".tmp"))
+        .collect()
+}
+
+/// Starts the UI, waits for it and makes one unsaved edit (pitch nudged up).
+fn start_and_edit(name: &str, env: &str) -> Option<(Tmux, tempfile::TempDir, PathBuf, Vec<u8>)> {
+    let (dir, store, command) = store_and_command(env);
+    let tmux = Tmux::start(name, &command)?;
+    if let Err(text) = tmux.wait_for(8.0, |t| t.contains(UI_DRAWN) && t.contains("kn")) {
+        panic!("{name}: the UI did not come up:\n{text}");
+    }
+    assert_eq!(
+        tmux.flag("alternate_on"),
+        "1",
+        "{name}: the UI uses the alternate screen"
+    );
+    let path = store.boat_path("marram").unwrap();
+    let before = std::fs::read(&path).unwrap();
+    tmux.send("+");
+    Some((tmux, dir, path, before))
+}
+
+#[test]
+fn the_terminal_is_restored_after_sigterm_and_sighup_and_nothing_is_half_written() {
+    for signal in ["TERM", "HUP"] {
+        let Some((tmux, _dir, path, before)) = start_and_edit(&signal.to_lowercase(), "") else {
+            return;
+        };
+        let pid = tmux.program_pid();
+        let sent = Command::new("kill")
+            .args([format!("-{signal}"), pid.to_string()])
+            .status()
+            .unwrap();
+        assert!(sent.success());
+        let screen = tmux
+            .wait_for(3.0, |t| t.contains("MODES"))
+            .unwrap_or_else(|t| panic!("SIG{signal}: the program did not leave:\n{t}"));
+        assert_restored(&tmux, &screen, &format!("SIG{signal}"));
+        assert_eq!(
+            std::fs::read(&path).unwrap(),
+            before,
+            "SIG{signal}: unsaved edit written"
+        );
+        assert!(temporaries(path.parent().unwrap()).is_empty());
+    }
+}
+
+#[test]
+fn the_terminal_is_restored_after_a_panic() {
+    if !cfg!(debug_assertions) {
+        println!("skipped: only debug builds panic on request");
+        return;
+    }
+    let (_dir, _store, command) = store_and_command(&format!("{PANIC_VAR}=1"));
+    let Some(tmux) = Tmux::start("panic", &command) else {
+        return;
+    };
+    let screen = tmux
+        .wait_for(8.0, |t| t.contains("MODES"))
+        .unwrap_or_else(|t| panic!("the program did not end after its panic:\n{t}"));
+    assert!(
+        screen.contains("EXIT=101"),
+        "a panic exits with 101:\n{screen}"
+    );
+    // The panic message is printed on the restored main screen, readable.
+    assert!(
+        screen.contains(PANIC_VAR),
+        "the panic message is not shown:\n{screen}"
+    );
+    assert_restored(&tmux, &screen, "panic");
+}
+
+#[test]
+fn a_closed_terminal_ends_the_program_without_writing() {
+    // A dropped SSH link: the terminal itself goes away and the kernel hangs up the program.
+    let Some((tmux, _dir, path, before)) = start_and_edit("closed", "") else {
+        return;
+    };
+    let pid = tmux.program_pid();
+    tmux.run(&["kill-session", "-t", "main"]);
+    let deadline = Instant::now() + Duration::from_secs(3);
+    while Path::new(&format!("/proc/{pid}")).exists() && Instant::now() < deadline {
+        // A zombie has left already; only a live process counts.
+        let state = std::fs::read_to_string(format!("/proc/{pid}/stat")).unwrap_or_default();
+        if state.split_whitespace().nth(2) == Some("Z") {
+            break;
+        }
+        std::thread::sleep(Duration::from_millis(40));
+    }
+    let state = std::fs::read_to_string(format!("/proc/{pid}/stat")).unwrap_or_default();
+    assert!(
+        state.is_empty() || state.split_whitespace().nth(2) == Some("Z"),
+        "the program still runs 3 s after its terminal closed: {state}"
+    );
+    assert_eq!(
+        std::fs::read(&path).unwrap(),
+        before,
+        "unsaved edit written"
+    );
+    assert!(temporaries(path.parent().unwrap()).is_empty());
+}
