@@ -104,7 +104,25 @@ impl Tmux {
 
 impl Drop for Tmux {
     fn drop(&mut self) {
+        // The server may have left already (its last session killed); ask for the socket by
+        // its usual place then, so that no stale socket file is left behind either.
+        let reported = self.flag("socket_path");
         let _ = self.run(&["kill-server"]);
+        let socket = if reported.is_empty() {
+            let dir = std::env::var_os("TMUX_TMPDIR")
+                .map_or_else(|| PathBuf::from("/tmp"), PathBuf::from);
+            // This process's uid: the owner of its /proc entry.
+            let uid = std::fs::metadata("/proc/self").ok().map(|m| {
+                use std::os::unix::fs::MetadataExt;
+                m.uid()
+            });
+            uid.map(|uid| dir.join(format!("tmux-{uid}")).join(&self.socket))
+        } else {
+            Some(PathBuf::from(reported))
+        };
+        if let Some(socket) = socket {
+            let _ = std::fs::remove_file(socket);
+        }
     }
 }
 
