@@ -208,6 +208,13 @@ pub struct DesignArgs {
     /// Only this screw variant (its label).
     #[arg(long, value_name = "LABEL")]
     pub variant: Option<String>,
+    /// Also fit a constant wake fraction (kept only when it beats the resistance factor alone).
+    #[arg(long)]
+    pub fit_wake: bool,
+    /// Save the fitted correction in the boat's [calibration] (the previous file is kept as
+    /// NAME.toml.bak); every later prediction applies it.
+    #[arg(long)]
+    pub save: bool,
     /// Output format.
     #[arg(long, value_enum, default_value_t = PlainFormat::Text)]
     pub format: PlainFormat,

@@ -200,8 +200,13 @@ fn design_sections(loaded: &LoadedBoat, d: &Display) -> Vec<Section> {
         }),
     }
     if !vessel.trial.is_empty() {
-        let body = match design::calibration(loaded, active) {
-            Ok(cal) => format!("```text\n{}```\n", design::trial_text(&cal, d)),
+        let body = match design::calibration(loaded, active, false) {
+            Ok(cal) => format!(
+                "{}.\n\n{}.\n\n```text\n{}```\n",
+                loaded.calibration_line(),
+                design::comparison_text(loaded, design::rms_with_saved(loaded, active, &cal), d),
+                design::trial_text(&cal, d)
+            ),
             Err(e) => format!("Not available: {e:#}"),
         };
         sections.push(Section {
