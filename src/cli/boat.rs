@@ -199,6 +199,18 @@ fn design_sections(loaded: &LoadedBoat, d: &Display) -> Vec<Section> {
             body: format!("Not available: {e:#}"),
         }),
     }
+    let what_if = super::conditions::what_if(
+        loaded,
+        active,
+        &super::conditions::WhatIfSettings::default(),
+    );
+    sections.push(Section {
+        title: "What-if conditions".into(),
+        body: match what_if {
+            Ok(w) => w.to_markdown(d),
+            Err(e) => format!("Not available: {e:#}"),
+        },
+    });
     if !vessel.trial.is_empty() {
         let body = match design::calibration(loaded, active, false) {
             Ok(cal) => format!(

@@ -215,11 +215,13 @@ pub fn pitch(ctx: &Context, args: &PitchArgs, out: &mut dyn Write) -> anyhow::Re
             #[derive(Serialize)]
             struct Doc {
                 boat: String,
+                calibration: Option<crate::report::checks::AppliedCalibration>,
                 variants: Vec<PitchJson>,
                 caution: &'static str,
             }
             let doc = Doc {
                 boat: loaded.vessel.name.clone(),
+                calibration: loaded.applied_calibration(),
                 variants: recs.iter().map(PitchJson::from).collect(),
                 caution: CAUTION,
             };
@@ -228,6 +230,7 @@ pub fn pitch(ctx: &Context, args: &PitchArgs, out: &mut dyn Write) -> anyhow::Re
         PlainFormat::Text => {
             let d = Display::new(loaded.units);
             writeln!(out, "{}: pitch recommendation", loaded.vessel.name)?;
+            writeln!(out, "{}", loaded.calibration_line())?;
             for r in &recs {
                 writeln!(out)?;
                 out.write_all(pitch_text(r, &d).as_bytes())?;
@@ -412,6 +415,7 @@ pub fn sweep(ctx: &Context, args: &SweepArgs, out: &mut dyn Write) -> anyhow::Re
                 criterion: &'static str,
                 target: String,
                 target_speed_kn: f64,
+                calibration: Option<crate::report::checks::AppliedCalibration>,
                 candidates: Vec<CandidateJson>,
                 caution: &'static str,
             }
@@ -423,6 +427,7 @@ pub fn sweep(ctx: &Context, args: &SweepArgs, out: &mut dyn Write) -> anyhow::Re
                 criterion: result.criterion,
                 target: result.target.describe(),
                 target_speed_kn: result.target_speed / KNOT_MPS,
+                calibration: loaded.applied_calibration(),
                 candidates: result
                     .candidates
                     .iter()
@@ -453,6 +458,7 @@ pub fn sweep(ctx: &Context, args: &SweepArgs, out: &mut dyn Write) -> anyhow::Re
         }
         PlainFormat::Text => {
             let d = Display::new(loaded.units);
+            writeln!(out, "{}", loaded.calibration_line())?;
             out.write_all(sweep_text(&result, label, &d).as_bytes())?;
             writeln!(out, "\nCaution: {CAUTION}")?;
         }
