@@ -298,16 +298,36 @@ pub struct ConditionsArgs {
     #[arg(long, value_name = "LABEL")]
     pub variant: Option<String>,
     /// Added friction of the fouled-hull case, % of friction resistance.
-    #[arg(long, value_name = "PERCENT", default_value_t = 30.0)]
+    #[arg(
+        long,
+        value_name = "PERCENT",
+        default_value_t = 30.0,
+        allow_hyphen_values = true
+    )]
     pub fouled: f64,
     /// Sea-state margin of the seaway case, % of total resistance.
-    #[arg(long, value_name = "PERCENT", default_value_t = 30.0)]
+    #[arg(
+        long,
+        value_name = "PERCENT",
+        default_value_t = 30.0,
+        allow_hyphen_values = true
+    )]
     pub sea_margin: f64,
     /// Uncertainty band: displacement spread either side, %.
-    #[arg(long, value_name = "PERCENT", default_value_t = 10.0)]
+    #[arg(
+        long,
+        value_name = "PERCENT",
+        default_value_t = 10.0,
+        allow_hyphen_values = true
+    )]
     pub spread: f64,
     /// Uncertainty band: wake-fraction shift either side (a fraction such as 0.05).
-    #[arg(long, value_name = "W", default_value_t = 0.05)]
+    #[arg(
+        long,
+        value_name = "W",
+        default_value_t = 0.05,
+        allow_hyphen_values = true
+    )]
     pub wake_shift: f64,
     /// Output format.
     #[arg(long, value_enum, default_value_t = PlainFormat::Text)]
