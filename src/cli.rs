@@ -458,10 +458,7 @@ pub fn run(cli: Cli, out: &mut dyn Write) -> anyhow::Result<()> {
 }
 
 fn open_terminal_ui(ctx: &Context, boat: Option<&str>) -> anyhow::Result<()> {
-    let _ = (ctx, boat);
-    anyhow::bail!(
-        "the terminal UI is not built yet; use the headless commands (see `tidewright --help`)"
-    )
+    crate::tui::run(&store::store(ctx), boat, ctx.units)
 }
 
 /// Parses an engine speed given as a plain number or with its unit ("1800", "1800 rpm").

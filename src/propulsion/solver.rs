@@ -12,10 +12,10 @@ pub mod shaft;
 pub mod trial;
 pub mod vessel;
 
-pub use cruise::{CruisePoint, Trip};
+pub use cruise::{CruisePoint, Trip, cruise_at_rpm, cruise_at_speed};
 pub use curve::PropellerCurve;
-pub use matching::{MatchCriteria, MatchResult, Verdict};
-pub use point::{Drive, OperatingPoint, PointFailure};
+pub use matching::{MatchCriteria, MatchResult, Verdict, match_engine, point_at_engine_rpm};
+pub use point::{Drive, OperatingPoint, PointFailure, solve_point};
 pub use trial::{RunDirection, TrialRun};
 pub use vessel::{OperatingRow, Variant, Vessel};
 

@@ -11,5 +11,6 @@ mod hull;
 mod profiles;
 mod screw;
 mod solver;
+mod tui;
 mod units;
 mod water;

@@ -88,3 +88,19 @@ fn air_density_ideal_gas() {
         1e-4
     );
 }
+
+#[test]
+fn fresh_water_at_other_temperatures() {
+    // ITTC 7.5-02-01-03 (2011) fresh-water table, which tabulates Tanaka et al. (2001) density
+    // and IAPWS-2008 viscosity; the figures at 10, 20 and 30 °C are from memory of that table
+    // (they agree with the CRC Handbook's water table to the digits given).
+    for (temperature_c, density, kinematic_viscosity) in [
+        (10.0, 999.7026, 1.3063e-6),
+        (20.0, 998.2067, 1.0034e-6),
+        (30.0, 995.6488, 0.8008e-6),
+    ] {
+        let fresh = water_properties(WaterKind::Fresh, temperature_c).unwrap();
+        assert_close!(fresh.density, density, 1e-4);
+        assert_close!(fresh.kinematic_viscosity, kinematic_viscosity, 2e-3);
+    }
+}

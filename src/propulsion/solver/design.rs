@@ -8,7 +8,7 @@
 use super::cruise::cruise_at_speed;
 use super::matching::{match_engine, point_at_engine_rpm};
 use super::point::PointFailure;
-use super::{Installation, System, Vessel};
+use super::{Installation, RootOutcome, System, Vessel};
 use crate::propulsion::Warning;
 use crate::propulsion::screw::{BSeriesScrew, ScrewError, ScrewGeometry, ScrewModel};
 use thiserror::Error;
@@ -479,25 +479,26 @@ fn search_pitch(
         }
     };
     let (far, f_far) = far_bracket;
-    let result = brent_root(
+    let tolerance = options.power_tolerance;
+    let result = super::brent(
         &mut residual,
         (near, f_near),
         (far, f_far),
+        |_, fx| fx.abs() <= tolerance,
         options.pitch_tolerance,
-        options.power_tolerance,
         options.max_iterations,
     );
     match result {
-        Ok(root) => PitchSearch {
-            pitch: root.converged.then_some(root.x),
-            absorbed_power: root
-                .converged
-                .then_some((1.0 + root.fx) * target.brake_power),
-            stop: if root.converged {
-                SearchStop::Converged
-            } else {
-                SearchStop::IterationsExhausted
-            },
+        Ok(RootOutcome::Converged { x, fx, .. }) => PitchSearch {
+            pitch: Some(x),
+            absorbed_power: Some((1.0 + fx) * target.brake_power),
+            stop: SearchStop::Converged,
+            evaluations,
+        },
+        Ok(RootOutcome::IterationCap { .. }) => PitchSearch {
+            pitch: None,
+            absorbed_power: None,
+            stop: SearchStop::IterationsExhausted,
             evaluations,
         },
         Err(e) => lost(
@@ -505,94 +506,6 @@ fn search_pitch(
             evaluations,
         ),
     }
-}
-
-/// A root found (or not) by [`brent_root`].
-#[derive(Debug, Clone, Copy, PartialEq)]
-pub(crate) struct Root {
-    /// The best abscissa.
-    pub x: f64,
-    /// The function value there.
-    pub fx: f64,
-    /// Whether the tolerance was met within the iteration limit.
-    pub converged: bool,
-}
-
-/// Brent's (1973) bracketed root finder; `a` and `b` carry their function values of opposite
-/// sign. Stops when the bracket is below `x_tolerance` or |f| ≤ `f_tolerance`.
-pub(crate) fn brent_root<E>(
-    f: &mut impl FnMut(f64) -> Result<f64, E>,
-    (mut a, mut fa): (f64, f64),
-    (mut b, mut fb): (f64, f64),
-    x_tolerance: f64,
-    f_tolerance: f64,
-    max_iterations: u32,
-) -> Result<Root, E> {
-    let (mut c, mut fc) = (b, fb);
-    let (mut d, mut e) = (b - a, b - a);
-    for _ in 0..max_iterations {
-        if (fb > 0.0 && fc > 0.0) || (fb < 0.0 && fc < 0.0) {
-            c = a;
-            fc = fa;
-            d = b - a;
-            e = d;
-        }
-        if fc.abs() < fb.abs() {
-            a = b;
-            b = c;
-            c = a;
-            fa = fb;
-            fb = fc;
-            fc = fa;
-        }
-        let tol = 2.0 * f64::EPSILON * b.abs() + 0.5 * x_tolerance;
-        let half = 0.5 * (c - b);
-        if half.abs() <= tol || fb.abs() <= f_tolerance {
-            return Ok(Root {
-                x: b,
-                fx: fb,
-                converged: true,
-            });
-        }
-        if e.abs() >= tol && fa.abs() > fb.abs() {
-            let s = fb / fa;
-            let (mut p, mut q);
-            if a == c {
-                p = 2.0 * half * s;
-                q = 1.0 - s;
-            } else {
-                let qa = fa / fc;
-                let r = fb / fc;
-                p = s * (2.0 * half * qa * (qa - r) - (b - a) * (r - 1.0));
-                q = (qa - 1.0) * (r - 1.0) * (s - 1.0);
-            }
-            if p > 0.0 {
-                q = -q;
-            }
-            p = p.abs();
-            let min1 = 3.0 * half * q - (tol * q).abs();
-            let min2 = (e * q).abs();
-            if 2.0 * p < min1.min(min2) {
-                e = d;
-                d = p / q;
-            } else {
-                d = half;
-                e = d;
-            }
-        } else {
-            d = half;
-            e = d;
-        }
-        a = b;
-        fa = fb;
-        b += if d.abs() > tol { d } else { tol.copysign(half) };
-        fb = f(b)?;
-    }
-    Ok(Root {
-        x: b,
-        fx: fb,
-        converged: false,
-    })
 }
 
 /// The pitch (m) of variant `index` that meets `options.target` and how the search stopped,
@@ -1136,21 +1049,6 @@ fn rank_candidates(candidates: &mut [SweepCandidate], criterion: RankCriterion) 
 #[cfg(test)]
 mod tests {
     use super::*;
-
-    #[test]
-    fn brent_finds_cube_root_of_two() {
-        let mut f = |x: f64| -> Result<f64, ()> { Ok(x * x * x - 2.0) };
-        let root = brent_root(&mut f, (0.0, -2.0), (2.0, 6.0), 1e-12, 0.0, 100).unwrap();
-        assert!(root.converged);
-        assert!((root.x - 2f64.cbrt()).abs() < 1e-10, "{}", root.x);
-    }
-
-    #[test]
-    fn brent_reports_iterations_exhausted() {
-        let mut f = |x: f64| -> Result<f64, ()> { Ok(x - 0.3) };
-        let root = brent_root(&mut f, (0.0, -0.3), (1.0, 0.7), 1e-15, 0.0, 1).unwrap();
-        assert!(!root.converged);
-    }
 
     #[test]
     fn aperture_limit_leaves_the_clearance_on_both_sides() {

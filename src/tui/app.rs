@@ -1,0 +1,721 @@
+//! The application state and the one function that changes it, [`App::update`].
+//!
+//! Keys become [`Action`]s through the key table; `update` edits the document, re-builds the
+//! vessel and re-solves every variant at once (see [`super::solve`]); anything that touches
+//! files comes back as an [`Effect`] for the event loop to carry out.
+
+use super::chart::ChartKind;
+use super::fields::{self, FieldId, FieldValue, Pane};
+use super::keys::{self, Command, Mode};
+use super::solve::Solution;
+use super::theme::Theme;
+use crate::profile::{BoatDoc, EngineDoc};
+use crate::units::{self, UnitSystem};
+use crossterm::event::{KeyCode, KeyEvent, KeyEventKind, KeyModifiers};
+
+/// Longest undo history kept, in edits.
+const UNDO_LIMIT: usize = 200;
+
+/// Everything that can happen to the app: from keys, and from the loop reporting an effect.
+#[derive(Debug, Clone)]
+pub enum Action {
+    /// A command from the key table.
+    Command(Command),
+    /// A character typed into the value being edited.
+    Type(char),
+    /// The terminal was resized (nothing to change; the loop redraws).
+    Resize,
+    /// The loop read the store's boat list for the open-boat picker.
+    BoatList(Vec<String>),
+    /// The loop read the store's engine list for the engine picker.
+    EngineList(Vec<String>),
+    /// The loop opened a boat (with its engine sheet).
+    BoatOpened(Box<Opened>),
+    /// The loop loaded an engine sheet to use for this boat.
+    EngineLoaded(Box<EngineDoc>, String),
+    /// The loop saved the boat; the text says where.
+    Saved(String),
+    /// The loop found the boat's file changed by another program since it was loaded.
+    FileChanged,
+    /// A save was refused because the file changed on disk since it was loaded.
+    SaveConflict,
+    /// Something the loop tried failed; the text says what and why.
+    Failed(String),
+}
+
+/// A boat opened by the loop, ready to edit.
+#[derive(Debug, Clone)]
+pub struct Opened {
+    /// The boat's name in the store (or its path).
+    pub name: String,
+    /// The boat document.
+    pub boat: BoatDoc,
+    /// Its engine sheet.
+    pub engine: EngineDoc,
+    /// Whether the boat can be saved (a store boat) or is read-only (the embedded demo).
+    pub savable: bool,
+}
+
+/// I/O the loop carries out for `update`.
+#[derive(Debug, Clone, PartialEq)]
+pub enum Effect {
+    /// Save the boat through the store; `overwrite` even if it changed on disk.
+    Save {
+        /// The document to write.
+        boat: Box<BoatDoc>,
+        /// Write even though the file changed on disk since it was loaded.
+        overwrite: bool,
+    },
+    /// List the store's boats.
+    ListBoats,
+    /// Open the named boat.
+    OpenBoat(String),
+    /// List the store's engine sheets.
+    ListEngines,
+    /// Load the named engine sheet.
+    LoadEngine(String),
+    /// Leave the program.
+    Quit,
+}
+
+/// A question waiting for y/n.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Question {
+    /// Quit although there are unsaved changes?
+    QuitUnsaved,
+    /// Overwrite the file that another program changed?
+    OverwriteChanged,
+    /// Open another boat although there are unsaved changes?
+    OpenUnsaved,
+}
+
+impl Question {
+    /// The question as shown.
+    pub fn text(self) -> &'static str {
+        match self {
+            Question::QuitUnsaved => "There are unsaved changes. Quit without saving?",
+            Question::OverwriteChanged => {
+                "The boat's file was changed by another program since it was opened. Overwrite it?"
+            }
+            Question::OpenUnsaved => "There are unsaved changes. Open another boat and drop them?",
+        }
+    }
+}
+
+/// What a picker is choosing.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum PickKind {
+    /// A boat to open.
+    Boat,
+    /// An engine sheet for this boat.
+    Engine,
+}
+
+/// An overlay over the main screen.
+#[derive(Debug, Clone, PartialEq)]
+pub enum Overlay {
+    /// Nothing over the screen.
+    None,
+    /// The help overlay, scrolled down by `scroll` lines.
+    Help {
+        /// Lines scrolled past.
+        scroll: u16,
+    },
+    /// A list to choose from.
+    Pick {
+        /// What is being chosen.
+        kind: PickKind,
+        /// The entries.
+        entries: Vec<String>,
+        /// The highlighted entry.
+        highlighted: usize,
+    },
+    /// A y/n question.
+    Confirm(Question),
+}
+
+/// What is being typed into.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum EditTarget {
+    /// A field of a pane.
+    Field(FieldId),
+    /// The trip's target speed (from the readout strip).
+    TargetSpeed,
+}
+
+/// The value being typed, validated on every keystroke.
+#[derive(Debug, Clone, PartialEq)]
+pub struct EditBuffer {
+    /// What it will change.
+    pub target: EditTarget,
+    /// The text typed so far.
+    pub text: String,
+    /// Why the text is not valid, or `None` when Enter would apply it.
+    pub problem: Option<String>,
+}
+
+/// How serious a status message is.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Level {
+    /// Information: saved, opened.
+    Info,
+    /// Something went wrong; nothing was changed.
+    Error,
+}
+
+/// The one line of news under the readout.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Status {
+    /// The message.
+    pub text: String,
+    /// How serious it is.
+    pub level: Level,
+}
+
+/// The document under edit: the boat and the engine sheet it uses.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Document {
+    /// The boat.
+    pub boat: BoatDoc,
+    /// Its engine sheet.
+    pub engine: EngineDoc,
+}
+
+/// The whole state of the terminal UI: plain data, changed only by [`App::update`].
+#[derive(Debug, Clone)]
+pub struct App {
+    /// The boat's name in the store, or its path.
+    pub name: String,
+    /// The document being edited.
+    pub doc: Document,
+    /// The document as last saved or opened, to tell unsaved changes.
+    pub saved: Document,
+    /// Whether saving is possible (false for the embedded demo).
+    pub savable: bool,
+    /// The solved results for the current document, every variant.
+    pub solution: Solution,
+    /// The pane with the keyboard.
+    pub focus: Pane,
+    /// The selected row of each pane.
+    pub selected: [usize; 3],
+    /// The value being typed, if any.
+    pub edit: Option<EditBuffer>,
+    /// Earlier documents, the latest last.
+    pub undo: Vec<Document>,
+    /// Undone documents, the latest undone last.
+    pub redo: Vec<Document>,
+    /// The display unit system.
+    pub units: UnitSystem,
+    /// The chart shown.
+    pub chart: ChartKind,
+    /// The overlay shown.
+    pub overlay: Overlay,
+    /// The status line.
+    pub status: Option<Status>,
+    /// Styles (colour or NO_COLOR).
+    pub theme: Theme,
+    /// Set when the boat's file changed on disk since it was opened or saved.
+    pub changed_on_disk: bool,
+}
+
+impl App {
+    /// A new app editing `opened`, showing units in `units`.
+    pub fn new(opened: Opened, units: UnitSystem, theme: Theme) -> Self {
+        let doc = Document {
+            boat: opened.boat,
+            engine: opened.engine,
+        };
+        let solution = Solution::solve(&doc.boat, &doc.engine);
+        Self {
+            name: opened.name,
+            saved: doc.clone(),
+            doc,
+            savable: opened.savable,
+            solution,
+            focus: Pane::Screw,
+            selected: [0; 3],
+            edit: None,
+            undo: Vec::new(),
+            redo: Vec::new(),
+            units,
+            chart: ChartKind::default(),
+            overlay: Overlay::None,
+            status: None,
+            theme,
+            changed_on_disk: false,
+        }
+    }
+
+    /// Whether the document differs from what was last saved or opened.
+    pub fn dirty(&self) -> bool {
+        self.doc != self.saved
+    }
+
+    /// The keyboard mode for the current state.
+    pub fn mode(&self) -> Mode {
+        match (&self.overlay, &self.edit) {
+            (Overlay::Help { .. }, _) => Mode::Help,
+            (Overlay::Pick { .. }, _) => Mode::Pick,
+            (Overlay::Confirm(_), _) => Mode::Confirm,
+            (Overlay::None, Some(_)) => Mode::Edit,
+            (Overlay::None, None) => Mode::Browse,
+        }
+    }
+
+    /// The action a key press asks for in the current mode, if any.
+    pub fn action_for_key(&self, key: &KeyEvent) -> Option<Action> {
+        if key.kind == KeyEventKind::Release {
+            return None;
+        }
+        let mode = self.mode();
+        if let Some(command) = keys::lookup(mode, key) {
+            return Some(Action::Command(command));
+        }
+        match (mode, key.code) {
+            (Mode::Edit, KeyCode::Char(c))
+                if !key
+                    .modifiers
+                    .intersects(KeyModifiers::CONTROL | KeyModifiers::ALT) =>
+            {
+                Some(Action::Type(c))
+            }
+            _ => None,
+        }
+    }
+
+    /// The fields of the focused pane.
+    pub fn pane_fields(&self, pane: Pane) -> Vec<FieldId> {
+        fields::fields_of(pane, &self.doc.boat)
+    }
+
+    /// The selected field of the focused pane, if the pane has any.
+    pub fn selected_field(&self) -> Option<FieldId> {
+        let list = self.pane_fields(self.focus);
+        list.get(self.selected[self.focus.index()].min(list.len().saturating_sub(1)))
+            .copied()
+    }
+
+    /// Applies `action`: the only place the state changes. Returns I/O for the loop to do.
+    pub fn update(&mut self, action: Action) -> Option<Effect> {
+        match action {
+            Action::Command(command) => self.command(command),
+            Action::Type(c) => {
+                if let Some(edit) = &mut self.edit {
+                    edit.text.push(c);
+                }
+                self.revalidate();
+                None
+            }
+            Action::Resize => None,
+            Action::BoatList(entries) => {
+                self.open_picker(PickKind::Boat, entries);
+                None
+            }
+            Action::EngineList(entries) => {
+                self.open_picker(PickKind::Engine, entries);
+                None
+            }
+            Action::BoatOpened(opened) => {
+                let opened = *opened;
+                let (units, theme, chart) = (self.units, self.theme.clone(), self.chart);
+                let name = opened.name.clone();
+                *self = App::new(opened, units, theme);
+                self.chart = chart;
+                self.set_status(Level::Info, format!("opened {name}"));
+                None
+            }
+            Action::EngineLoaded(engine, name) => {
+                let mut next = self.doc.clone();
+                fields::set_engine_name(&mut next.boat, &name);
+                next.engine = *engine;
+                self.commit(next);
+                self.set_status(Level::Info, format!("engine sheet {name} in use"));
+                None
+            }
+            Action::Saved(where_) => {
+                self.saved = self.doc.clone();
+                self.changed_on_disk = false;
+                self.set_status(Level::Info, format!("saved {where_}"));
+                None
+            }
+            Action::FileChanged => {
+                if !self.changed_on_disk {
+                    self.changed_on_disk = true;
+                    self.set_status(
+                        Level::Error,
+                        "the boat's file was changed by another program since it was opened",
+                    );
+                }
+                None
+            }
+            Action::SaveConflict => {
+                self.changed_on_disk = true;
+                self.overlay = Overlay::Confirm(Question::OverwriteChanged);
+                None
+            }
+            Action::Failed(why) => {
+                self.set_status(Level::Error, why);
+                None
+            }
+        }
+    }
+
+    fn set_status(&mut self, level: Level, text: impl Into<String>) {
+        self.status = Some(Status {
+            text: text.into(),
+            level,
+        });
+    }
+
+    fn open_picker(&mut self, kind: PickKind, entries: Vec<String>) {
+        if entries.is_empty() {
+            let what = match kind {
+                PickKind::Boat => "boats",
+                PickKind::Engine => "engine sheets",
+            };
+            self.set_status(Level::Error, format!("the store holds no {what}"));
+            return;
+        }
+        self.overlay = Overlay::Pick {
+            kind,
+            entries,
+            highlighted: 0,
+        };
+    }
+
+    fn command(&mut self, command: Command) -> Option<Effect> {
+        match self.mode() {
+            Mode::Browse => self.browse(command),
+            Mode::Edit => {
+                match command {
+                    Command::Accept => self.accept_edit(),
+                    Command::Cancel => self.edit = None,
+                    Command::DeleteBack => {
+                        if let Some(edit) = &mut self.edit {
+                            edit.text.pop();
+                        }
+                        self.revalidate();
+                    }
+                    _ => {}
+                }
+                None
+            }
+            Mode::Help => {
+                if let Overlay::Help { scroll } = &mut self.overlay {
+                    match command {
+                        Command::ToggleHelp => self.overlay = Overlay::None,
+                        Command::ListDown => *scroll = (*scroll + 1).min(60),
+                        Command::ListUp => *scroll = scroll.saturating_sub(1),
+                        _ => {}
+                    }
+                }
+                None
+            }
+            Mode::Pick => self.pick(command),
+            Mode::Confirm => self.confirm(command),
+        }
+    }
+
+    fn browse(&mut self, command: Command) -> Option<Effect> {
+        self.status = None;
+        match command {
+            Command::NextPane => self.focus = self.focus.next(),
+            Command::PrevPane => self.focus = self.focus.prev(),
+            Command::NextField | Command::PrevField => {
+                let count = self.pane_fields(self.focus).len();
+                let row = &mut self.selected[self.focus.index()];
+                *row = if command == Command::NextField {
+                    (*row + 1).min(count.saturating_sub(1))
+                } else {
+                    row.saturating_sub(1)
+                };
+            }
+            Command::BeginEdit => return self.begin_edit(),
+            Command::NudgeUp => self.nudge(1.0),
+            Command::NudgeDown => self.nudge(-1.0),
+            Command::Undo => match self.undo.pop() {
+                Some(previous) => {
+                    let current = std::mem::replace(&mut self.doc, previous);
+                    self.redo.push(current);
+                    self.resolve();
+                }
+                None => self.set_status(Level::Info, "nothing to undo"),
+            },
+            Command::Redo => match self.redo.pop() {
+                Some(next) => {
+                    let current = std::mem::replace(&mut self.doc, next);
+                    self.undo.push(current);
+                    self.resolve();
+                }
+                None => self.set_status(Level::Info, "nothing to redo"),
+            },
+            Command::EditTargetSpeed => {
+                let value = fields::target_speed(&self.doc.boat);
+                self.edit = Some(EditBuffer {
+                    target: EditTarget::TargetSpeed,
+                    text: units::format(value, units::Kind::Speed, self.units),
+                    problem: None,
+                });
+            }
+            Command::ToggleUnits => {
+                self.units = match self.units {
+                    UnitSystem::Metric => UnitSystem::Imperial,
+                    UnitSystem::Imperial => UnitSystem::Metric,
+                };
+            }
+            Command::NextChart => self.chart = self.chart.next(),
+            Command::PrevChart => self.chart = self.chart.prev(),
+            Command::NextVariant | Command::PrevVariant => {
+                let count = fields::variant_count(&self.doc.boat);
+                if count > 1 {
+                    let mut next = self.doc.clone();
+                    let active = fields::active_variant(&next.boat);
+                    let index = if command == Command::NextVariant {
+                        (active + 1) % count
+                    } else {
+                        (active + count - 1) % count
+                    };
+                    fields::set_active_variant(&mut next.boat, index);
+                    self.commit(next);
+                }
+            }
+            Command::AddVariant | Command::DuplicateVariant => {
+                let mut next = self.doc.clone();
+                let label = fields::duplicate_active_variant(
+                    &mut next.boat,
+                    command == Command::AddVariant,
+                );
+                self.commit(next);
+                self.set_status(Level::Info, format!("added variant {label}"));
+            }
+            Command::RemoveVariant => {
+                let mut next = self.doc.clone();
+                match fields::remove_active_variant(&mut next.boat) {
+                    Ok(label) => {
+                        self.commit(next);
+                        self.set_status(Level::Info, format!("removed variant {label}"));
+                    }
+                    Err(why) => self.set_status(Level::Error, why),
+                }
+            }
+            Command::ApplyRecommendation => match self.solution.recommended_pitch() {
+                Some(pitch) => {
+                    let mut next = self.doc.clone();
+                    let label = fields::add_variant_with_pitch(&mut next.boat, pitch, self.units);
+                    self.commit(next);
+                    self.set_status(
+                        Level::Info,
+                        format!("added variant {label} with the recommended pitch"),
+                    );
+                }
+                None => self.set_status(
+                    Level::Error,
+                    "no pitch recommendation for the active variant",
+                ),
+            },
+            Command::Save => {
+                if !self.savable {
+                    self.set_status(
+                        Level::Error,
+                        "the embedded demo is read-only: run `tidewright init` to copy it into a store",
+                    );
+                    return None;
+                }
+                return Some(Effect::Save {
+                    boat: Box::new(self.doc.boat.clone()),
+                    overwrite: false,
+                });
+            }
+            Command::OpenBoat => {
+                if self.dirty() {
+                    self.overlay = Overlay::Confirm(Question::OpenUnsaved);
+                    return None;
+                }
+                return Some(Effect::ListBoats);
+            }
+            Command::SwitchEngine => return Some(Effect::ListEngines),
+            Command::ToggleHelp => self.overlay = Overlay::Help { scroll: 0 },
+            Command::Quit => {
+                if self.dirty() {
+                    self.overlay = Overlay::Confirm(Question::QuitUnsaved);
+                    return None;
+                }
+                return Some(Effect::Quit);
+            }
+            _ => {}
+        }
+        None
+    }
+
+    fn pick(&mut self, command: Command) -> Option<Effect> {
+        let Overlay::Pick {
+            kind,
+            entries,
+            highlighted,
+        } = &mut self.overlay
+        else {
+            return None;
+        };
+        match command {
+            Command::ListDown => {
+                *highlighted = (*highlighted + 1).min(entries.len().saturating_sub(1))
+            }
+            Command::ListUp => *highlighted = highlighted.saturating_sub(1),
+            Command::Cancel => self.overlay = Overlay::None,
+            Command::Accept => {
+                let name = entries.get(*highlighted).cloned();
+                let kind = *kind;
+                self.overlay = Overlay::None;
+                return name.map(|name| match kind {
+                    PickKind::Boat => Effect::OpenBoat(name),
+                    PickKind::Engine => Effect::LoadEngine(name),
+                });
+            }
+            _ => {}
+        }
+        None
+    }
+
+    fn confirm(&mut self, command: Command) -> Option<Effect> {
+        let Overlay::Confirm(question) = self.overlay else {
+            return None;
+        };
+        self.overlay = Overlay::None;
+        match (question, command) {
+            (Question::QuitUnsaved, Command::Yes) => Some(Effect::Quit),
+            (Question::OverwriteChanged, Command::Yes) => Some(Effect::Save {
+                boat: Box::new(self.doc.boat.clone()),
+                overwrite: true,
+            }),
+            (Question::OverwriteChanged, _) => {
+                self.set_status(
+                    Level::Error,
+                    "not saved: the file on disk was left as it is",
+                );
+                None
+            }
+            (Question::OpenUnsaved, Command::Yes) => Some(Effect::ListBoats),
+            _ => None,
+        }
+    }
+
+    fn begin_edit(&mut self) -> Option<Effect> {
+        let field = self.selected_field()?;
+        match fields::value(field, &self.doc.boat) {
+            FieldValue::Number { value, kind } => {
+                self.edit = Some(EditBuffer {
+                    target: EditTarget::Field(field),
+                    text: fields::format_number(value, kind, self.units),
+                    problem: None,
+                });
+            }
+            FieldValue::Choice { .. } => {
+                let mut next = self.doc.clone();
+                match fields::next_choice(field, &mut next.boat) {
+                    Ok(()) => self.commit(next),
+                    Err(why) => self.set_status(Level::Error, why),
+                }
+            }
+            // The engine sheet comes from the store: the loop lists what there is.
+            FieldValue::Engine(_) => return Some(Effect::ListEngines),
+            FieldValue::Text(text) => {
+                self.edit = Some(EditBuffer {
+                    target: EditTarget::Field(field),
+                    text,
+                    problem: None,
+                });
+            }
+            FieldValue::ReadOnly(_) => {
+                let estimated = fields::kind_of(field).is_some();
+                if estimated {
+                    self.edit = Some(EditBuffer {
+                        target: EditTarget::Field(field),
+                        text: String::new(),
+                        problem: None,
+                    });
+                    self.revalidate();
+                } else {
+                    self.set_status(
+                        Level::Info,
+                        format!("{} is not edited here", fields::label(field)),
+                    );
+                }
+            }
+        }
+        None
+    }
+
+    /// Parses the edit buffer and records why it is not valid.
+    fn revalidate(&mut self) {
+        let Some(edit) = &self.edit else { return };
+        let problem = match edit.target {
+            EditTarget::TargetSpeed => fields::parse_target_speed(&edit.text).err(),
+            EditTarget::Field(field) => {
+                let mut probe = self.doc.clone();
+                fields::set_from_text(field, &mut probe.boat, &edit.text).err()
+            }
+        };
+        if let Some(edit) = &mut self.edit {
+            edit.problem = problem;
+        }
+    }
+
+    fn accept_edit(&mut self) {
+        self.revalidate();
+        let Some(edit) = self.edit.clone() else {
+            return;
+        };
+        if edit.problem.is_some() {
+            return; // Shown with its reason; never applied.
+        }
+        let mut next = self.doc.clone();
+        let result = match edit.target {
+            EditTarget::TargetSpeed => fields::parse_target_speed(&edit.text)
+                .map(|speed| fields::set_target_speed(&mut next.boat, speed)),
+            EditTarget::Field(field) => fields::set_from_text(field, &mut next.boat, &edit.text),
+        };
+        match result {
+            Ok(()) => {
+                self.edit = None;
+                self.commit(next);
+            }
+            Err(why) => {
+                if let Some(e) = &mut self.edit {
+                    e.problem = Some(why);
+                }
+            }
+        }
+    }
+
+    fn nudge(&mut self, direction: f64) {
+        let Some(field) = self.selected_field() else {
+            return;
+        };
+        let mut next = self.doc.clone();
+        match fields::nudge(field, &mut next.boat, direction, self.units) {
+            Ok(()) => self.commit(next),
+            Err(why) => self.set_status(Level::Error, why),
+        }
+    }
+
+    /// Makes `next` the document, keeping the old one for undo, and re-solves.
+    fn commit(&mut self, next: Document) {
+        if next == self.doc {
+            return;
+        }
+        let previous = std::mem::replace(&mut self.doc, next);
+        self.undo.push(previous);
+        if self.undo.len() > UNDO_LIMIT {
+            self.undo.remove(0);
+        }
+        self.redo.clear();
+        self.resolve();
+    }
+
+    fn resolve(&mut self) {
+        self.solution = Solution::solve(&self.doc.boat, &self.doc.engine);
+        let count = self.pane_fields(self.focus).len();
+        let row = &mut self.selected[self.focus.index()];
+        *row = (*row).min(count.saturating_sub(1));
+    }
+}

@@ -1,0 +1,353 @@
+//! The one key table: key → [`Command`] per [`Mode`]; it also writes the help overlay, the
+//! footer hints and `docs/keys.md`, so the three can never disagree with what the keys do.
+
+use crossterm::event::{KeyCode, KeyEvent, KeyEventKind, KeyModifiers};
+
+/// What the keyboard is talking to at the moment.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash)]
+pub enum Mode {
+    /// Moving between panes and fields, nudging, switching charts.
+    Browse,
+    /// Typing a new value into the selected field.
+    Edit,
+    /// The help overlay is open.
+    Help,
+    /// Choosing a boat or an engine sheet from the store.
+    Pick,
+    /// Asking a yes/no question (quit with unsaved changes, overwrite a changed file).
+    Confirm,
+}
+
+impl Mode {
+    /// Heading used for this mode in the help overlay and docs/keys.md.
+    pub fn heading(self) -> &'static str {
+        match self {
+            Mode::Browse => "Moving and editing",
+            Mode::Edit => "Typing a value",
+            Mode::Help => "Help overlay",
+            Mode::Pick => "Choosing a boat or engine sheet",
+            Mode::Confirm => "Questions",
+        }
+    }
+
+    /// Every mode, in the order the help lists them.
+    pub const ALL: [Mode; 5] = [
+        Mode::Browse,
+        Mode::Edit,
+        Mode::Pick,
+        Mode::Confirm,
+        Mode::Help,
+    ];
+}
+
+/// What a key asks for; the app turns it into an [`super::app::Action`].
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Command {
+    /// Focus the pane to the right.
+    NextPane,
+    /// Focus the pane to the left.
+    PrevPane,
+    /// Select the field below.
+    NextField,
+    /// Select the field above.
+    PrevField,
+    /// Start typing a value for the selected field (or cycle a choice).
+    BeginEdit,
+    /// Increase the selected value by its step.
+    NudgeUp,
+    /// Decrease the selected value by its step.
+    NudgeDown,
+    /// Undo the last change.
+    Undo,
+    /// Redo the last undone change.
+    Redo,
+    /// Type a new target speed.
+    EditTargetSpeed,
+    /// Toggle metric / imperial display.
+    ToggleUnits,
+    /// Show the next chart.
+    NextChart,
+    /// Show the previous chart.
+    PrevChart,
+    /// Make the next screw variant the active one.
+    NextVariant,
+    /// Make the previous screw variant the active one.
+    PrevVariant,
+    /// Add a new screw variant (copy of the active one with a new label).
+    AddVariant,
+    /// Duplicate the active screw variant.
+    DuplicateVariant,
+    /// Remove the active screw variant (never the last one).
+    RemoveVariant,
+    /// Add the recommended pitch as a new variant.
+    ApplyRecommendation,
+    /// Save the boat through the store.
+    Save,
+    /// Open another boat from the store.
+    OpenBoat,
+    /// Switch the engine sheet from the store.
+    SwitchEngine,
+    /// Open or close the help overlay.
+    ToggleHelp,
+    /// Quit (asks first when there are unsaved changes).
+    Quit,
+    /// Apply the typed value, choose the highlighted entry.
+    Accept,
+    /// Leave the typing, the list or the question without changing anything.
+    Cancel,
+    /// Delete the character before the cursor.
+    DeleteBack,
+    /// Answer yes.
+    Yes,
+    /// Answer no.
+    No,
+    /// Move the highlight down a list.
+    ListDown,
+    /// Move the highlight up a list.
+    ListUp,
+}
+
+/// A key as written in the table: a code with modifiers, and how it is shown to the user.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub struct Key {
+    /// The key code.
+    pub code: KeyCode,
+    /// Modifiers that must be held (only Ctrl is distinguished; Shift is in the character).
+    pub ctrl: bool,
+    /// How the key is written in help, footer and docs.
+    pub label: &'static str,
+}
+
+const fn ch(c: char, label: &'static str) -> Key {
+    Key {
+        code: KeyCode::Char(c),
+        ctrl: false,
+        label,
+    }
+}
+const fn ctrl(c: char, label: &'static str) -> Key {
+    Key {
+        code: KeyCode::Char(c),
+        ctrl: true,
+        label,
+    }
+}
+const fn code(code: KeyCode, label: &'static str) -> Key {
+    Key {
+        code,
+        ctrl: false,
+        label,
+    }
+}
+
+/// One row of the key table.
+#[derive(Debug, Clone, Copy)]
+pub struct Binding {
+    /// The mode in which the keys apply.
+    pub mode: Mode,
+    /// The keys, first is the one shown in the footer.
+    pub keys: &'static [Key],
+    /// What they do.
+    pub command: Command,
+    /// A short word for the footer.
+    pub hint: &'static str,
+    /// A sentence for the help overlay and docs/keys.md.
+    pub help: &'static str,
+    /// Whether the footer shows it.
+    pub in_footer: bool,
+}
+
+const fn bind(
+    mode: Mode,
+    keys: &'static [Key],
+    command: Command,
+    hint: &'static str,
+    help: &'static str,
+    in_footer: bool,
+) -> Binding {
+    Binding {
+        mode,
+        keys,
+        command,
+        hint,
+        help,
+        in_footer,
+    }
+}
+
+use Command as C;
+use Mode as M;
+
+/// The key table. Typing printable characters in [`Mode::Edit`] is handled beside it: every
+/// character not bound here goes into the value being typed.
+#[rustfmt::skip]
+pub const BINDINGS: &[Binding] = &[
+    bind(M::Browse, &[code(KeyCode::Up, "↑"), ch('k', "k")], C::PrevField, "field", "select the field above", false),
+    bind(M::Browse, &[code(KeyCode::Down, "↓"), ch('j', "j")], C::NextField, "field", "select the field below", true),
+    bind(M::Browse, &[code(KeyCode::Right, "→"), ch('l', "l"), code(KeyCode::Tab, "Tab")], C::NextPane, "pane", "focus the next pane (Vessel → Powerplant → Screw)", true),
+    bind(M::Browse, &[code(KeyCode::Left, "←"), ch('h', "h"), code(KeyCode::BackTab, "Shift-Tab")], C::PrevPane, "pane", "focus the previous pane", false),
+    bind(M::Browse, &[code(KeyCode::Enter, "Enter")], C::BeginEdit, "edit", "type a value with its unit for the selected field (choices: next choice)", true),
+    bind(M::Browse, &[ch('+', "+"), ch('=', "=")], C::NudgeUp, "nudge", "increase the selected value by its step (pitch 0.1 in / 2 mm, diameter 0.5 in / 10 mm, gear 0.01 …)", true),
+    bind(M::Browse, &[ch('-', "-"), ch('_', "_")], C::NudgeDown, "", "decrease the selected value by its step", false),
+    bind(M::Browse, &[ch('u', "u"), ctrl('z', "Ctrl-z")], C::Undo, "undo", "undo the last change", true),
+    bind(M::Browse, &[ctrl('r', "Ctrl-r"), ch('U', "U")], C::Redo, "redo", "redo the last undone change", false),
+    bind(M::Browse, &[ch('t', "t")], C::EditTargetSpeed, "target", "type the target cruising speed", true),
+    bind(M::Browse, &[ch('m', "m")], C::ToggleUnits, "units", "toggle metric / imperial display (solved values are unchanged)", true),
+    bind(M::Browse, &[ch('c', "c")], C::NextChart, "chart", "next chart: power, speed, fuel, range", true),
+    bind(M::Browse, &[ch('C', "C")], C::PrevChart, "", "previous chart", false),
+    bind(M::Browse, &[ch(']', "]")], C::NextVariant, "variant", "make the next screw variant active", true),
+    bind(M::Browse, &[ch('[', "[")], C::PrevVariant, "", "make the previous screw variant active", false),
+    bind(M::Browse, &[ch('a', "a")], C::AddVariant, "", "add a screw variant (a copy of the active one, new label)", false),
+    bind(M::Browse, &[ch('d', "d")], C::DuplicateVariant, "", "duplicate the active screw variant", false),
+    bind(M::Browse, &[ch('x', "x")], C::RemoveVariant, "", "remove the active screw variant (the last one stays)", false),
+    bind(M::Browse, &[ch('p', "p")], C::ApplyRecommendation, "", "add the recommended pitch as a new screw variant", false),
+    bind(M::Browse, &[ch('s', "s"), ctrl('s', "Ctrl-s")], C::Save, "save", "save the boat through the store (atomic, keeps a backup)", true),
+    bind(M::Browse, &[ch('o', "o")], C::OpenBoat, "", "open another boat from the store", false),
+    bind(M::Browse, &[ch('e', "e")], C::SwitchEngine, "", "switch the engine sheet from the store", false),
+    bind(M::Browse, &[ch('?', "?"), code(KeyCode::F(1), "F1")], C::ToggleHelp, "help", "show every key", true),
+    bind(M::Browse, &[ch('q', "q"), ctrl('c', "Ctrl-c")], C::Quit, "quit", "quit (asks first when there are unsaved changes)", true),
+    bind(M::Edit, &[code(KeyCode::Enter, "Enter")], C::Accept, "apply", "apply the typed value (only when it is valid)", true),
+    bind(M::Edit, &[code(KeyCode::Esc, "Esc")], C::Cancel, "cancel", "leave the field unchanged", true),
+    bind(M::Edit, &[code(KeyCode::Backspace, "Backspace")], C::DeleteBack, "delete", "delete the last character", true),
+    bind(M::Pick, &[code(KeyCode::Down, "↓"), ch('j', "j")], C::ListDown, "down", "highlight the next entry", true),
+    bind(M::Pick, &[code(KeyCode::Up, "↑"), ch('k', "k")], C::ListUp, "up", "highlight the previous entry", true),
+    bind(M::Pick, &[code(KeyCode::Enter, "Enter")], C::Accept, "open", "open the highlighted entry", true),
+    bind(M::Pick, &[code(KeyCode::Esc, "Esc"), ch('q', "q")], C::Cancel, "cancel", "close the list", true),
+    bind(M::Confirm, &[ch('y', "y")], C::Yes, "yes", "yes", true),
+    bind(M::Confirm, &[ch('n', "n"), code(KeyCode::Esc, "Esc")], C::No, "no", "no", true),
+    bind(M::Help, &[ch('?', "?"), code(KeyCode::Esc, "Esc"), ch('q', "q"), code(KeyCode::F(1), "F1")], C::ToggleHelp, "close", "close the help", true),
+    bind(M::Help, &[code(KeyCode::Down, "↓"), ch('j', "j")], C::ListDown, "scroll", "scroll the help down", true),
+    bind(M::Help, &[code(KeyCode::Up, "↑"), ch('k', "k")], C::ListUp, "", "scroll the help up", false),
+];
+
+/// The command bound to `key` in `mode`, if any.
+pub fn lookup(mode: Mode, key: &KeyEvent) -> Option<Command> {
+    if key.kind == KeyEventKind::Release {
+        return None;
+    }
+    let ctrl_held = key.modifiers.contains(KeyModifiers::CONTROL);
+    BINDINGS
+        .iter()
+        .filter(|b| b.mode == mode)
+        .find(|b| {
+            b.keys
+                .iter()
+                .any(|k| k.code == key.code && k.ctrl == ctrl_held)
+        })
+        .map(|b| b.command)
+}
+
+/// The keys of `mode` shown in the footer, as "key hint" pairs.
+pub fn footer_hints(mode: Mode) -> Vec<(&'static str, &'static str)> {
+    BINDINGS
+        .iter()
+        .filter(|b| b.mode == mode && b.in_footer)
+        .map(|b| (b.keys[0].label, b.hint))
+        .collect()
+}
+
+/// The keys of a binding joined for display, e.g. "↑ / k".
+pub fn key_labels(binding: &Binding) -> String {
+    binding
+        .keys
+        .iter()
+        .map(|k| k.label)
+        .collect::<Vec<_>>()
+        .join(" / ")
+}
+
+/// The bindings of `mode`, in table order.
+pub fn bindings_for(mode: Mode) -> impl Iterator<Item = &'static Binding> {
+    BINDINGS.iter().filter(move |b| b.mode == mode)
+}
+
+/// docs/keys.md, generated from the table.
+pub fn markdown() -> String {
+    let mut out = String::from(
+        "# Keys of the terminal UI\n\n\
+         Generated from the key table in `src/tui/keys.rs` (a test checks that this file matches it).\n\
+         Everything is reachable from the keyboard; the footer shows the keys that apply now and `?`\n\
+         opens this list on screen.\n",
+    );
+    for mode in Mode::ALL {
+        out.push_str(&format!(
+            "\n## {}\n\n| Keys | What they do |\n| --- | --- |\n",
+            mode.heading()
+        ));
+        for b in bindings_for(mode) {
+            let keys = b
+                .keys
+                .iter()
+                .map(|k| format!("`{}`", k.label))
+                .collect::<Vec<_>>()
+                .join(", ");
+            out.push_str(&format!("| {keys} | {} |\n", b.help));
+        }
+        if mode == Mode::Edit {
+            out.push_str("| any other character | is typed into the value; the reason is shown while it is not valid |\n");
+        }
+    }
+    out
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn press(code: KeyCode, modifiers: KeyModifiers) -> KeyEvent {
+        KeyEvent::new(code, modifiers)
+    }
+
+    #[test]
+    fn no_key_is_bound_twice_in_one_mode() {
+        for mode in Mode::ALL {
+            let mut seen = Vec::new();
+            for b in bindings_for(mode) {
+                for k in b.keys {
+                    assert!(
+                        !seen.contains(&(k.code, k.ctrl)),
+                        "{} bound twice in {mode:?}",
+                        k.label
+                    );
+                    seen.push((k.code, k.ctrl));
+                }
+            }
+        }
+    }
+
+    #[test]
+    fn lookup_respects_mode_and_ctrl() {
+        let q = press(KeyCode::Char('q'), KeyModifiers::NONE);
+        assert_eq!(lookup(Mode::Browse, &q), Some(Command::Quit));
+        assert_eq!(lookup(Mode::Pick, &q), Some(Command::Cancel));
+        assert_eq!(lookup(Mode::Edit, &q), None, "q is typed while editing");
+        let ctrl_r = press(KeyCode::Char('r'), KeyModifiers::CONTROL);
+        assert_eq!(lookup(Mode::Browse, &ctrl_r), Some(Command::Redo));
+        let plain_r = press(KeyCode::Char('r'), KeyModifiers::NONE);
+        assert_eq!(lookup(Mode::Browse, &plain_r), None);
+    }
+
+    #[test]
+    fn every_mode_can_be_left() {
+        for mode in [Mode::Edit, Mode::Pick, Mode::Help] {
+            assert!(
+                bindings_for(mode).any(|b| b.keys.iter().any(|k| k.code == KeyCode::Esc)),
+                "{mode:?} has no Esc"
+            );
+        }
+    }
+
+    #[test]
+    fn markdown_lists_every_label() {
+        let md = markdown();
+        for b in BINDINGS {
+            for k in b.keys {
+                assert!(
+                    md.contains(&format!("`{}`", k.label)),
+                    "{} missing",
+                    k.label
+                );
+            }
+        }
+    }
+}

@@ -1,0 +1,886 @@
+//! Terminal UI: screens drawn to ratatui's TestBackend (insta snapshots plus explicit asserts
+//! on what carries meaning), the update function driven without a terminal, docs/keys.md
+//! against the key table, and the real binary driven in tmux.
+
+use crossterm::event::{KeyCode, KeyEvent, KeyModifiers};
+use ratatui::Terminal;
+use ratatui::backend::TestBackend;
+use tidewright::profile::{BoatDoc, Store};
+use tidewright::tui::app::{Action, App, EditTarget, Effect, Overlay};
+use tidewright::tui::chart::ChartKind;
+use tidewright::tui::fields::{FieldId, Pane};
+use tidewright::tui::keys::{self, Command, Mode};
+use tidewright::tui::render;
+use tidewright::units::UnitSystem;
+
+/// A store directory that does not exist, so the embedded demo fleet is used.
+fn demo_store() -> Store {
+    Store::at(std::env::temp_dir().join("tidewright-tui-tests-no-store-here"))
+}
+
+/// The demo trawler (imperial) with its "re-pitched 26x18" variant active.
+fn demo_app() -> App {
+    tidewright::tui::open_app(&demo_store(), Some("marram")).expect("the demo boat opens")
+}
+
+fn screen(app: &App, width: u16, height: u16) -> String {
+    let mut terminal = Terminal::new(TestBackend::new(width, height)).unwrap();
+    terminal.draw(|f| render::render(app, f)).unwrap();
+    let buf = terminal.backend().buffer().clone();
+    (0..height)
+        .map(|y| {
+            let row: String = (0..width)
+                .map(|x| buf[(x, y)].symbol().replace('\u{a0}', " "))
+                .collect();
+            row.trim_end().to_string()
+        })
+        .collect::<Vec<_>>()
+        .join("\n")
+}
+
+fn key(app: &mut App, code: KeyCode) -> Option<Effect> {
+    let event = KeyEvent::new(code, KeyModifiers::NONE);
+    let action = app.action_for_key(&event)?;
+    app.update(action)
+}
+
+fn keys(app: &mut App, text: &str) {
+    for c in text.chars() {
+        key(app, KeyCode::Char(c));
+    }
+}
+
+fn active_pitch(app: &App) -> f64 {
+    app.doc.boat.variants[app.doc.boat.active_variant]
+        .pitch
+        .value
+}
+
+fn cruise_rpm(app: &App) -> f64 {
+    app.solution
+        .active()
+        .unwrap()
+        .cruise
+        .as_ref()
+        .expect("target speed solved")
+        .point
+        .engine_rpm
+}
+
+/// Selects `field` in the Screw pane with j presses from the top.
+fn select_screw_field(app: &mut App, field: FieldId) {
+    while app.focus != Pane::Screw {
+        key(app, KeyCode::Tab);
+    }
+    for _ in 0..10 {
+        key(app, KeyCode::Char('k'));
+    }
+    while app.selected_field() != Some(field) {
+        key(app, KeyCode::Char('j'));
+    }
+}
+
+// ---- update function, no terminal ----
+
+#[test]
+fn key_sequence_changes_pitch_and_readout_rpm_moves_the_right_way_and_undo_restores() {
+    let mut app = demo_app();
+    let pitch0 = active_pitch(&app);
+    let rpm0 = cruise_rpm(&app);
+    select_screw_field(&mut app, FieldId::Pitch);
+    keys(&mut app, "+++++"); // five nudges of 0.1 in (imperial boat)
+    let pitch1 = active_pitch(&app);
+    assert!(
+        (pitch1 - (pitch0 + 5.0 * 0.1 * 0.0254)).abs() < 1e-9,
+        "pitch {pitch0} → {pitch1}"
+    );
+    // More pitch: each turn moves the boat further, so the same speed needs fewer rpm.
+    let rpm1 = cruise_rpm(&app);
+    assert!(rpm1 < rpm0, "rpm at target speed went {rpm0} → {rpm1}");
+    assert!(app.dirty());
+    keys(&mut app, "uuuuu");
+    assert_eq!(active_pitch(&app), pitch0);
+    assert_eq!(cruise_rpm(&app), rpm0);
+    assert!(!app.dirty());
+    // Redo brings the change back.
+    key(&mut app, KeyCode::Char('U'));
+    assert!(active_pitch(&app) > pitch0);
+}
+
+#[test]
+fn less_pitch_needs_more_rpm_in_metric_steps() {
+    let mut app = demo_app();
+    keys(&mut app, "m");
+    let pitch0 = active_pitch(&app);
+    let rpm0 = cruise_rpm(&app);
+    select_screw_field(&mut app, FieldId::Pitch);
+    keys(&mut app, "--"); // two nudges of 2 mm in metric display
+    assert!((active_pitch(&app) - (pitch0 - 0.004)).abs() < 1e-6);
+    assert!(cruise_rpm(&app) > rpm0);
+}
+
+#[test]
+fn unit_toggle_changes_display_not_solution() {
+    let mut app = demo_app();
+    let solved_before = app.solution.clone();
+    let doc_before = app.doc.clone();
+    let imperial = screen(&app, 120, 40);
+    assert!(imperial.contains("18.0 in"), "{imperial}");
+    assert!(imperial.contains(" kn"));
+    keys(&mut app, "m");
+    assert_eq!(app.units, UnitSystem::Metric);
+    let metric = screen(&app, 120, 40);
+    assert!(
+        metric.contains("457 mm") || metric.contains("457.2 mm"),
+        "{metric}"
+    );
+    assert!(!metric.contains("18.0 in"));
+    assert!(metric.contains(" kW"), "{metric}");
+    assert_eq!(app.solution, solved_before, "solved values must not change");
+    assert_eq!(app.doc, doc_before);
+    assert!(!app.dirty(), "a display toggle is not an edit");
+}
+
+#[test]
+fn typed_value_is_validated_and_invalid_input_never_applied() {
+    let mut app = demo_app();
+    let pitch0 = active_pitch(&app);
+    select_screw_field(&mut app, FieldId::Pitch);
+    key(&mut app, KeyCode::Enter);
+    assert_eq!(app.mode(), Mode::Edit);
+    for _ in 0..20 {
+        key(&mut app, KeyCode::Backspace);
+    }
+    keys(&mut app, "19 furlongs");
+    let problem = app
+        .edit
+        .as_ref()
+        .unwrap()
+        .problem
+        .clone()
+        .expect("a reason is shown");
+    assert!(problem.contains("furlongs"), "{problem}");
+    key(&mut app, KeyCode::Enter);
+    assert_eq!(
+        app.mode(),
+        Mode::Edit,
+        "Enter does not apply an invalid value"
+    );
+    assert_eq!(active_pitch(&app), pitch0);
+    key(&mut app, KeyCode::Esc);
+    assert_eq!(active_pitch(&app), pitch0);
+    assert!(!app.dirty());
+
+    // A negative pitch parses but the profile's validation refuses it, with its reason.
+    key(&mut app, KeyCode::Enter);
+    for _ in 0..20 {
+        key(&mut app, KeyCode::Backspace);
+    }
+    keys(&mut app, "-3 in");
+    assert!(
+        app.edit
+            .as_ref()
+            .unwrap()
+            .problem
+            .as_deref()
+            .unwrap_or("")
+            .contains("positive")
+    );
+    key(&mut app, KeyCode::Esc);
+
+    // A valid value with its unit applies.
+    key(&mut app, KeyCode::Enter);
+    for _ in 0..20 {
+        key(&mut app, KeyCode::Backspace);
+    }
+    keys(&mut app, "480 mm");
+    assert_eq!(app.edit.as_ref().unwrap().problem, None);
+    key(&mut app, KeyCode::Enter);
+    assert_eq!(app.mode(), Mode::Browse);
+    assert!((active_pitch(&app) - 0.480).abs() < 1e-12);
+}
+
+#[test]
+fn target_speed_is_typed_from_the_readout() {
+    let mut app = demo_app();
+    let rpm0 = cruise_rpm(&app);
+    key(&mut app, KeyCode::Char('t'));
+    assert_eq!(app.edit.as_ref().unwrap().target, EditTarget::TargetSpeed);
+    for _ in 0..20 {
+        key(&mut app, KeyCode::Backspace);
+    }
+    keys(&mut app, "6 kn");
+    key(&mut app, KeyCode::Enter);
+    assert!((app.doc.boat.trip.target_speed.value - 6.0 * 1852.0 / 3600.0).abs() < 1e-12);
+    assert!(cruise_rpm(&app) < rpm0, "a slower target needs fewer rpm");
+}
+
+#[test]
+fn variants_can_be_added_duplicated_chosen_and_removed() {
+    let mut app = demo_app();
+    let count = app.doc.boat.variants.len();
+    keys(&mut app, "d");
+    assert_eq!(app.doc.boat.variants.len(), count + 1);
+    assert_eq!(app.doc.boat.active_variant, count);
+    assert_eq!(
+        app.solution.solved().unwrap().variants.len(),
+        count + 1,
+        "every variant re-solved"
+    );
+    keys(&mut app, "a");
+    assert_eq!(app.doc.boat.variants.len(), count + 2);
+    keys(&mut app, "]");
+    assert_eq!(
+        app.doc.boat.active_variant, 0,
+        "] wraps to the first variant"
+    );
+    keys(&mut app, "xxxxx");
+    assert_eq!(app.doc.boat.variants.len(), 1, "the last variant stays");
+    assert!(
+        app.status
+            .as_ref()
+            .unwrap()
+            .text
+            .contains("last screw variant")
+    );
+}
+
+#[test]
+fn recommended_pitch_is_added_as_a_variant() {
+    let mut app = demo_app();
+    let recommended = app
+        .solution
+        .recommended_pitch()
+        .expect("the demo variant gets a recommendation");
+    let count = app.doc.boat.variants.len();
+    keys(&mut app, "p");
+    assert_eq!(app.doc.boat.variants.len(), count + 1);
+    assert_eq!(active_pitch(&app), recommended);
+    // At the recommended pitch the screw absorbs rated power at rated rpm (the default target).
+    let absorbed = app
+        .solution
+        .active()
+        .unwrap()
+        .matched
+        .as_ref()
+        .unwrap()
+        .absorbed_fraction_at_rated;
+    assert!((absorbed - 1.0).abs() < 0.01, "absorbed {absorbed}");
+}
+
+#[test]
+fn quitting_with_unsaved_changes_asks_first() {
+    let mut app = demo_app();
+    assert_eq!(
+        key(&mut app, KeyCode::Char('q')),
+        Some(Effect::Quit),
+        "nothing to lose: quits"
+    );
+    select_screw_field(&mut app, FieldId::Pitch);
+    keys(&mut app, "+");
+    assert_eq!(key(&mut app, KeyCode::Char('q')), None);
+    assert!(matches!(app.overlay, Overlay::Confirm(_)));
+    assert_eq!(key(&mut app, KeyCode::Char('n')), None);
+    assert_eq!(app.overlay, Overlay::None);
+    key(&mut app, KeyCode::Char('q'));
+    assert_eq!(key(&mut app, KeyCode::Char('y')), Some(Effect::Quit));
+}
+
+#[test]
+fn the_demo_is_read_only_and_a_store_boat_saves_through_an_effect() {
+    let mut app = demo_app();
+    assert_eq!(key(&mut app, KeyCode::Char('s')), None);
+    assert!(app.status.as_ref().unwrap().text.contains("read-only"));
+    app.savable = true;
+    match key(&mut app, KeyCode::Char('s')) {
+        Some(Effect::Save {
+            overwrite: false, ..
+        }) => {}
+        other => panic!("expected a save effect, got {other:?}"),
+    }
+    app.update(Action::SaveConflict);
+    assert!(matches!(app.overlay, Overlay::Confirm(_)));
+    match key(&mut app, KeyCode::Char('y')) {
+        Some(Effect::Save {
+            overwrite: true, ..
+        }) => {}
+        other => panic!("expected an overwrite, got {other:?}"),
+    }
+    app.update(Action::Saved("here".into()));
+    assert!(!app.dirty());
+    app.update(Action::FileChanged);
+    assert!(app.changed_on_disk);
+    assert!(screen(&app, 80, 24).contains("file changed on disk"));
+}
+
+#[test]
+fn engine_sheet_switches_from_the_store_list() {
+    let mut app = demo_app();
+    assert_eq!(key(&mut app, KeyCode::Char('e')), Some(Effect::ListEngines));
+    let store = demo_store();
+    app.update(Action::EngineList(store.list_engines().unwrap()));
+    assert_eq!(app.mode(), Mode::Pick);
+    let Overlay::Pick { entries, .. } = &app.overlay else {
+        panic!()
+    };
+    let other = entries
+        .iter()
+        .position(|e| *e != app.doc.boat.engine)
+        .unwrap();
+    for _ in 0..other {
+        key(&mut app, KeyCode::Down);
+    }
+    let Some(Effect::LoadEngine(name)) = key(&mut app, KeyCode::Enter) else {
+        panic!("no load")
+    };
+    let loaded = store.load_engine(&name).unwrap();
+    app.update(Action::EngineLoaded(Box::new(loaded.doc), name.clone()));
+    assert_eq!(app.doc.boat.engine, name);
+    assert!(app.dirty());
+    assert!(screen(&app, 120, 40).contains(&name));
+}
+
+// ---- screens ----
+
+fn assert_common(text: &str) {
+    assert!(text.contains("tidewright"));
+    assert!(text.contains("marram"));
+    assert!(text.contains("At 7.0 kn:"), "readout missing:\n{text}");
+    assert!(text.contains("rpm ·"));
+    assert!(text.contains("load "));
+    assert!(text.contains("range "));
+    assert!(text.contains("margin at rated"));
+    assert!(
+        text.contains("MATCHED") || text.contains("OVER-PROPPED") || text.contains("UNDER-PROPPED")
+    );
+    assert!(text.contains("Estimates only"), "caution missing:\n{text}");
+    assert!(text.contains("naval architect"), "caution cut:\n{text}");
+    assert!(
+        text.contains("? help") && text.contains("q quit"),
+        "footer:\n{text}"
+    );
+}
+
+#[test]
+fn screw_pane_at_80x24() {
+    let app = demo_app();
+    let text = screen(&app, 80, 24);
+    assert_common(&text);
+    for label in [
+        "Screw",
+        "Blades",
+        "Diameter",
+        "26.0 in",
+        "Pitch",
+        "18.0 in",
+        "Area ratio",
+        "Recommended pitch",
+    ] {
+        assert!(text.contains(label), "{label} missing:\n{text}");
+    }
+    insta::assert_snapshot!("screw_80x24", text);
+}
+
+#[test]
+fn vessel_and_powerplant_panes_at_80x24() {
+    let mut app = demo_app();
+    key(&mut app, KeyCode::Tab); // Screw → Vessel
+    assert_eq!(app.focus, Pane::Vessel);
+    let vessel = screen(&app, 80, 24);
+    assert_common(&vessel);
+    for label in [
+        "Vessel",
+        "Displacement",
+        "31300 lb",
+        "Waterline length",
+        "38.00 ft",
+        "Draft aft",
+    ] {
+        assert!(vessel.contains(label), "{label} missing:\n{vessel}");
+    }
+    // Hull values the user left out are shown as estimates, with the marker.
+    for _ in 0..6 {
+        key(&mut app, KeyCode::Char('j'));
+    }
+    assert_eq!(app.selected_field(), Some(FieldId::WettedSurface));
+    let wetted = screen(&app, 80, 24);
+    assert!(wetted.contains("ft²~"), "{wetted}");
+    assert!(wetted.contains("~ estimated"), "{wetted}");
+    insta::assert_snapshot!("vessel_80x24", vessel);
+
+    key(&mut app, KeyCode::Char('l'));
+    assert_eq!(app.focus, Pane::Powerplant);
+    let power = screen(&app, 80, 24);
+    for label in [
+        "Powerplant",
+        "Engine sheet",
+        "quellan-qd90",
+        "Rated rpm",
+        "2600 rpm",
+        "Gear ratio",
+        "2.50",
+    ] {
+        assert!(power.contains(label), "{label} missing:\n{power}");
+    }
+    insta::assert_snapshot!("powerplant_80x24", power);
+}
+
+#[test]
+fn all_panes_and_each_chart_at_120x40() {
+    let mut app = demo_app();
+    let expect = [
+        (
+            ChartKind::PowerVsRpm,
+            vec![
+                "Power vs engine rpm",
+                "engine rpm",
+                "full load",
+                "rated 2600 rpm",
+                "hp",
+            ],
+        ),
+        (
+            ChartKind::SpeedVsRpm,
+            vec!["Speed vs engine rpm", "kn", "no sea-trial log"],
+        ),
+        (ChartKind::FuelVsRpm, vec!["Fuel vs engine rpm", "US gal/h"]),
+        (
+            ChartKind::RangeVsSpeed,
+            vec!["Range vs speed", "speed kn", "nm"],
+        ),
+    ];
+    for (kind, words) in expect {
+        assert_eq!(app.chart, kind);
+        let text = screen(&app, 120, 40);
+        assert_common(&text);
+        for pane in ["Vessel", "Powerplant", "Screw"] {
+            assert!(text.contains(pane), "{pane} pane missing");
+        }
+        for word in words {
+            assert!(text.contains(word), "{word} missing from {kind:?}:\n{text}");
+        }
+        // The legend names every variant, with its glyph, so no colour is needed.
+        for (label, glyph) in [
+            ("old 26x21", "•"),
+            ("re-pitched 26x18", "▄"),
+            ("flat 26x15", "▖"),
+        ] {
+            assert!(
+                text.contains(&format!("{glyph} {label}")),
+                "legend lacks {label}:\n{text}"
+            );
+        }
+        assert!(
+            text.chars().any(|c| ('\u{2801}'..='\u{28FF}').contains(&c)),
+            "no braille curve"
+        );
+        insta::assert_snapshot!(format!("chart_{kind:?}_120x40"), text);
+        key(&mut app, KeyCode::Char('c'));
+    }
+    assert_eq!(
+        app.chart,
+        ChartKind::PowerVsRpm,
+        "c cycles through the four charts"
+    );
+}
+
+#[test]
+fn sea_trial_points_are_on_the_speed_chart_when_the_boat_has_a_log() {
+    let store = demo_store();
+    let with_log = store
+        .list_boats()
+        .unwrap()
+        .into_iter()
+        .find(|name| {
+            store
+                .load_boat(name)
+                .unwrap()
+                .doc
+                .trial
+                .is_some_and(|t| !t.runs.is_empty())
+        })
+        .expect("a demo boat with a trial log");
+    let mut app = tidewright::tui::open_app(&store, Some(&with_log)).unwrap();
+    app.chart = ChartKind::SpeedVsRpm;
+    let text = screen(&app, 120, 40);
+    assert!(text.contains("▄ sea trial"), "{text}");
+    assert!(!text.contains("no sea-trial log"));
+}
+
+#[test]
+fn help_overlay_lists_every_key() {
+    let mut app = demo_app();
+    key(&mut app, KeyCode::Char('?'));
+    assert_eq!(app.mode(), Mode::Help);
+    let text = screen(&app, 120, 40);
+    for b in keys::BINDINGS {
+        assert!(
+            text.contains(b.keys[0].label),
+            "{} missing from help:\n{text}",
+            b.keys[0].label
+        );
+    }
+    assert!(text.contains("Markers"));
+    insta::assert_snapshot!("help_120x40", text);
+    let small = screen(&app, 80, 24);
+    assert!(small.contains("Moving and editing"), "{small}");
+    assert!(small.contains("select the field above"), "{small}");
+    insta::assert_snapshot!("help_80x24", small);
+    // At 80×24 the list scrolls: the later sections come into view.
+    for _ in 0..30 {
+        key(&mut app, KeyCode::Char('j'));
+    }
+    let scrolled = screen(&app, 80, 24);
+    assert!(
+        scrolled.contains("Typing a value") && scrolled.contains("Markers"),
+        "{scrolled}"
+    );
+    key(&mut app, KeyCode::Esc);
+    assert_eq!(app.mode(), Mode::Browse);
+}
+
+#[test]
+fn invalid_input_state_at_80x24() {
+    let mut app = demo_app();
+    select_screw_field(&mut app, FieldId::Pitch);
+    key(&mut app, KeyCode::Enter);
+    for _ in 0..20 {
+        key(&mut app, KeyCode::Backspace);
+    }
+    keys(&mut app, "18 furlongs");
+    let text = screen(&app, 80, 24);
+    assert!(text.contains("18 furlongs▏"), "{text}");
+    assert!(text.contains("✗ unknown unit"), "{text}");
+    assert!(
+        text.contains("Enter apply") && text.contains("Esc cancel"),
+        "edit footer:\n{text}"
+    );
+    insta::assert_snapshot!("invalid_input_80x24", text);
+}
+
+#[test]
+fn too_small_terminal_gets_a_message() {
+    let app = demo_app();
+    let text = screen(&app, 40, 10);
+    assert!(text.contains("needs 80×24 or more"), "{text}");
+    assert!(text.contains("This terminal is 40×10"), "{text}");
+    insta::assert_snapshot!("too_small_40x10", text);
+    for (w, h) in [(1, 1), (79, 24), (80, 23), (0, 0), (200, 5)] {
+        screen(&app, w, h);
+    }
+    // Every overlay at the smallest supported size draws without panicking.
+    let mut app = demo_app();
+    for step in ["?", "\u{1b}", "o", "e"] {
+        if step == "\u{1b}" {
+            key(&mut app, KeyCode::Esc);
+        } else {
+            keys(&mut app, step);
+        }
+        screen(&app, 80, 24);
+    }
+}
+
+#[test]
+fn no_colour_theme_draws_without_colours() {
+    let app = demo_app();
+    let mut terminal = Terminal::new(TestBackend::new(120, 40)).unwrap();
+    terminal.draw(|f| render::render(&app, f)).unwrap();
+    let buf = terminal.backend().buffer();
+    let coloured = buf
+        .content()
+        .iter()
+        .filter(|c| c.fg != ratatui::style::Color::Reset)
+        .count();
+    assert_eq!(
+        coloured, 0,
+        "the plain (NO_COLOR) theme must not colour any cell"
+    );
+}
+
+#[test]
+fn docs_keys_md_matches_the_key_table() {
+    let path = concat!(env!("CARGO_MANIFEST_DIR"), "/docs/keys.md");
+    let generated = keys::markdown();
+    if std::env::var_os("TIDEWRIGHT_WRITE_KEYS").is_some() {
+        std::fs::write(path, &generated).unwrap();
+    }
+    let on_disk = std::fs::read_to_string(path).expect("docs/keys.md exists");
+    for b in keys::BINDINGS {
+        for k in b.keys {
+            assert!(
+                on_disk.contains(&format!("`{}`", k.label)),
+                "docs/keys.md lacks {}",
+                k.label
+            );
+        }
+    }
+    assert_eq!(
+        on_disk, generated,
+        "docs/keys.md is stale: run with TIDEWRIGHT_WRITE_KEYS=1"
+    );
+}
+
+#[test]
+fn every_browse_command_is_reachable_by_a_key() {
+    for command in [
+        Command::NextPane,
+        Command::PrevPane,
+        Command::NextField,
+        Command::PrevField,
+        Command::BeginEdit,
+        Command::NudgeUp,
+        Command::NudgeDown,
+        Command::Undo,
+        Command::Redo,
+        Command::EditTargetSpeed,
+        Command::ToggleUnits,
+        Command::NextChart,
+        Command::NextVariant,
+        Command::AddVariant,
+        Command::DuplicateVariant,
+        Command::RemoveVariant,
+        Command::ApplyRecommendation,
+        Command::Save,
+        Command::OpenBoat,
+        Command::SwitchEngine,
+        Command::ToggleHelp,
+        Command::Quit,
+    ] {
+        assert!(
+            keys::bindings_for(Mode::Browse).any(|b| b.command == command),
+            "{command:?} has no key"
+        );
+    }
+}
+
+// ---- the real binary in tmux ----
+
+/// Runs tmux on a server of its own for `session` (socket named after it), so tests neither
+/// race each other starting a server nor touch the user's sessions.
+fn tmux_on(session: &str, args: &[&str]) -> std::process::Output {
+    std::process::Command::new("tmux")
+        .args(["-L", session])
+        .args(args)
+        .output()
+        .expect("tmux runs")
+}
+
+fn capture(session: &str) -> String {
+    String::from_utf8_lossy(&tmux_on(session, &["capture-pane", "-p", "-t", session]).stdout)
+        .into_owned()
+}
+
+/// Whether this build's command line does not open the terminal UI yet (the CLI is built in
+/// another part of the project): it has no `open` command, or says the UI is not built.
+fn cli_lacks_the_ui(pane: &str) -> bool {
+    let help = std::process::Command::new(env!("CARGO_BIN_EXE_tidewright"))
+        .arg("--help")
+        .output()
+        .map(|o| String::from_utf8_lossy(&o.stdout).into_owned())
+        .unwrap_or_default();
+    pane.contains("not built yet") || !help.lines().any(|l| l.trim_start().starts_with("open"))
+}
+
+/// Ends the session's tmux server when dropped, also when the test fails.
+struct KillServer(String);
+
+impl Drop for KillServer {
+    fn drop(&mut self) {
+        let _ = tmux_on(&self.0, &["kill-server"]);
+    }
+}
+
+/// Polls the pane until `pred` holds, for at most `seconds`.
+fn wait_for(session: &str, seconds: f64, pred: impl Fn(&str) -> bool) -> Result<String, String> {
+    let start = std::time::Instant::now();
+    loop {
+        let text = capture(session);
+        if pred(&text) {
+            return Ok(text);
+        }
+        if start.elapsed().as_secs_f64() > seconds {
+            return Err(text);
+        }
+        std::thread::sleep(std::time::Duration::from_millis(30));
+    }
+}
+
+#[test]
+fn tmux_open_change_pitch_save_quit() {
+    if std::process::Command::new("tmux")
+        .arg("-V")
+        .output()
+        .is_err()
+    {
+        eprintln!("skipped: tmux is not installed (.ci/run installs it)");
+        return;
+    }
+    let bin = env!("CARGO_BIN_EXE_tidewright");
+    let store = tempfile::tempdir().unwrap();
+    for sub in ["boats", "engines"] {
+        let from = std::path::Path::new(env!("CARGO_MANIFEST_DIR"))
+            .join("profiles")
+            .join(sub);
+        std::fs::create_dir_all(store.path().join(sub)).unwrap();
+        for entry in std::fs::read_dir(from).unwrap() {
+            let entry = entry.unwrap();
+            std::fs::copy(entry.path(), store.path().join(sub).join(entry.file_name())).unwrap();
+        }
+    }
+    let boat_file = store.path().join("boats/marram.toml");
+    let before =
+        BoatDoc::from_toml(&std::fs::read_to_string(&boat_file).unwrap(), "before").unwrap();
+    let pitch0 = before.variants[before.active_variant].pitch.value;
+
+    let session = format!("tidewright-test-{}", std::process::id());
+    let command = format!(
+        "{bin} --profiles '{}' open marram; sleep 30",
+        store.path().display()
+    );
+    let started = tmux_on(
+        &session,
+        &[
+            "new-session",
+            "-d",
+            "-s",
+            &session,
+            "-x",
+            "100",
+            "-y",
+            "30",
+            &command,
+        ],
+    );
+    assert!(
+        started.status.success(),
+        "tmux: {}",
+        String::from_utf8_lossy(&started.stderr)
+    );
+    let _kill = KillServer(session.clone());
+
+    let opened = wait_for(&session, 5.0, |t| {
+        t.contains("Screw") && t.contains("At 7.0 kn")
+    });
+    let text = match opened {
+        Ok(text) => text,
+        Err(text) if cli_lacks_the_ui(&text) => {
+            eprintln!("skipped: this build's CLI does not open the terminal UI yet:\n{text}");
+            return;
+        }
+        Err(text) => panic!("the UI did not come up:\n{text}"),
+    };
+    assert!(text.contains("marram"));
+    // Screw pane has the keyboard: down to Pitch, three nudges of 0.1 in, save, quit.
+    for k in ["j", "j", "j", "+", "+", "+"] {
+        tmux_on(&session, &["send-keys", "-t", &session, k]);
+    }
+    wait_for(&session, 3.0, |t| {
+        t.contains("18.3 in") && t.contains("unsaved")
+    })
+    .expect("pitch nudged");
+    tmux_on(&session, &["send-keys", "-t", &session, "s"]);
+    wait_for(&session, 3.0, |t| t.contains("saved ")).expect("saved");
+    tmux_on(&session, &["send-keys", "-t", &session, "q"]);
+    // The UI leaves the alternate screen: the boat's panes are gone from the pane.
+    wait_for(&session, 3.0, |t| !t.contains("At 7.0 kn")).expect("quit and terminal restored");
+
+    let saved_text = std::fs::read_to_string(&boat_file).unwrap();
+    let saved = BoatDoc::from_toml(&saved_text, "saved").expect("saved file loads");
+    assert!(
+        saved.validate().is_empty(),
+        "saved file validates: {:?}",
+        saved.validate()
+    );
+    let pitch1 = saved.variants[saved.active_variant].pitch.value;
+    assert!(
+        (pitch1 - (pitch0 + 0.3 * 0.0254)).abs() < 1e-9,
+        "saved pitch {pitch1}, was {pitch0}"
+    );
+    assert!(
+        store.path().join("boats/marram.toml.bak").exists(),
+        "the previous version is kept"
+    );
+}
+
+#[test]
+fn tmux_sigterm_and_sighup_restore_the_terminal() {
+    if std::process::Command::new("tmux")
+        .arg("-V")
+        .output()
+        .is_err()
+    {
+        eprintln!("skipped: tmux is not installed (.ci/run installs it)");
+        return;
+    }
+    let bin = env!("CARGO_BIN_EXE_tidewright");
+    for signal in ["TERM", "HUP"] {
+        let session = format!("tidewright-sig-{signal}-{}", std::process::id());
+        let store = std::env::temp_dir().join("tidewright-tui-tests-no-store-here");
+        // After the program ends, the shell prints whether the terminal is back in cooked
+        // mode (stty shows "icanon", not "-icanon").
+        let command = format!(
+            "{bin} --profiles '{}' open marram; echo EXIT=$?; stty -a | grep -o -- '-\\?icanon' | head -1; sleep 30",
+            store.display()
+        );
+        let started = tmux_on(
+            &session,
+            &[
+                "new-session",
+                "-d",
+                "-s",
+                &session,
+                "-x",
+                "100",
+                "-y",
+                "30",
+                &command,
+            ],
+        );
+        assert!(
+            started.status.success(),
+            "tmux: {}",
+            String::from_utf8_lossy(&started.stderr)
+        );
+        let _kill = KillServer(session.clone());
+        match wait_for(&session, 5.0, |t| t.contains("At 7.0 kn")) {
+            Ok(_) => {}
+            Err(text) if cli_lacks_the_ui(&text) => {
+                eprintln!("skipped: this build's CLI does not open the terminal UI yet");
+                return;
+            }
+            Err(text) => panic!("UI did not come up:\n{text}"),
+        }
+        let pid_out = tmux_on(
+            &session,
+            &["list-panes", "-t", &session, "-F", "#{pane_pid}"],
+        );
+        let shell_pid = String::from_utf8_lossy(&pid_out.stdout).trim().to_string();
+        let child = std::process::Command::new("pgrep")
+            .args(["-P", &shell_pid])
+            .output()
+            .unwrap();
+        let pid = String::from_utf8_lossy(&child.stdout)
+            .lines()
+            .next()
+            .unwrap_or("")
+            .trim()
+            .to_string();
+        assert!(!pid.is_empty(), "found the program's pid");
+        std::process::Command::new("kill")
+            .args([&format!("-{signal}"), &pid])
+            .status()
+            .unwrap();
+        let text = wait_for(&session, 3.0, |t| {
+            t.contains("EXIT=") && t.contains("icanon")
+        })
+        .expect("the program left");
+        assert!(
+            text.contains("icanon") && !text.contains("-icanon"),
+            "terminal left in raw mode after SIG{signal}:\n{text}"
+        );
+        assert!(
+            !text.contains("At 7.0 kn"),
+            "alternate screen not left:\n{text}"
+        );
+    }
+}
