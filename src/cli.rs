@@ -5,6 +5,7 @@
 //! does physics of its own.
 
 mod boat;
+mod conditions;
 mod design;
 mod openwater;
 mod store;
@@ -113,6 +114,9 @@ pub enum Command {
     Sweep(SweepArgs),
     /// Compare the sea-trial log with the prediction and fit a resistance correction.
     Trial(DesignArgs),
+    /// What-if: light, half and full load, fouled hull and a seaway side by side, with the
+    /// uncertainty band over displacement and wake.
+    Conditions(ConditionsArgs),
     /// Write a Markdown report with SVG charts for the owner and the propeller shop.
     Export(ExportArgs),
 }
@@ -208,6 +212,13 @@ pub struct DesignArgs {
     /// Only this screw variant (its label).
     #[arg(long, value_name = "LABEL")]
     pub variant: Option<String>,
+    /// Also fit a constant wake fraction (kept only when it beats the resistance factor alone).
+    #[arg(long)]
+    pub fit_wake: bool,
+    /// Save the fitted correction in the boat's [calibration] (the previous file is kept as
+    /// NAME.toml.bak); every later prediction applies it.
+    #[arg(long)]
+    pub save: bool,
     /// Output format.
     #[arg(long, value_enum, default_value_t = PlainFormat::Text)]
     pub format: PlainFormat,
@@ -273,6 +284,51 @@ pub struct SweepArgs {
     /// Ranking criterion.
     #[arg(long, value_enum, default_value_t = RankBy::Fuel)]
     pub rank: RankBy,
+    /// Output format.
+    #[arg(long, value_enum, default_value_t = PlainFormat::Text)]
+    pub format: PlainFormat,
+}
+
+/// Arguments of `conditions`.
+#[derive(Debug, Args)]
+pub struct ConditionsArgs {
+    /// A boat name in the profile store, or a path to a boat file.
+    pub boat: String,
+    /// The screw variant (default: the boat's active variant).
+    #[arg(long, value_name = "LABEL")]
+    pub variant: Option<String>,
+    /// Added friction of the fouled-hull case, % of friction resistance.
+    #[arg(
+        long,
+        value_name = "PERCENT",
+        default_value_t = 30.0,
+        allow_hyphen_values = true
+    )]
+    pub fouled: f64,
+    /// Sea-state margin of the seaway case, % of total resistance.
+    #[arg(
+        long,
+        value_name = "PERCENT",
+        default_value_t = 30.0,
+        allow_hyphen_values = true
+    )]
+    pub sea_margin: f64,
+    /// Uncertainty band: displacement spread either side, %.
+    #[arg(
+        long,
+        value_name = "PERCENT",
+        default_value_t = 10.0,
+        allow_hyphen_values = true
+    )]
+    pub spread: f64,
+    /// Uncertainty band: wake-fraction shift either side (a fraction such as 0.05).
+    #[arg(
+        long,
+        value_name = "W",
+        default_value_t = 0.05,
+        allow_hyphen_values = true
+    )]
+    pub wake_shift: f64,
     /// Output format.
     #[arg(long, value_enum, default_value_t = PlainFormat::Text)]
     pub format: PlainFormat,
@@ -396,6 +452,7 @@ pub fn run(cli: Cli, out: &mut dyn Write) -> anyhow::Result<()> {
         Some(Command::Pitch(args)) => design::pitch(&ctx, &args, out),
         Some(Command::Sweep(args)) => design::sweep(&ctx, &args, out),
         Some(Command::Trial(args)) => design::trial(&ctx, &args, out),
+        Some(Command::Conditions(args)) => conditions::run(&ctx, &args, out),
         Some(Command::Export(args)) => boat::export(&ctx, &args, out),
     }
 }

@@ -5,6 +5,7 @@
 //! values or the unit in the field's name (`speed_kn`, `brake_kw`, `fuel_lph`).
 
 pub mod boat;
+pub mod checks;
 pub mod export;
 pub mod json;
 pub mod openwater;

@@ -59,7 +59,9 @@ pub fn report(ctx: &Context, args: &ReportArgs, out: &mut dyn Write) -> anyhow::
         step,
         &loaded.warnings,
     )
-    .map_err(|e| UsageError(e.to_string()))?;
+    .map_err(|e| UsageError(e.to_string()))?
+    .with_calibration(loaded.applied_calibration())
+    .with_checks(&loaded.vessel, &loaded.check_inputs());
     let text = match args.format {
         ReportFormat::Text => report.to_text(loaded.units),
         ReportFormat::Csv => report.to_csv(loaded.units),
@@ -77,6 +79,7 @@ struct CruiseJson<'a> {
     variant: &'a str,
     #[serde(flatten)]
     point: PointJson,
+    calibration: Option<crate::report::checks::AppliedCalibration>,
     caution: &'static str,
 }
 
@@ -133,6 +136,7 @@ pub fn cruise(ctx: &Context, args: &CruiseArgs, out: &mut dyn Write) -> anyhow::
                 line.push_str(" — past the engine's full-load curve: not reachable");
             }
             writeln!(out, "{line}")?;
+            writeln!(out, "{}", loaded.calibration_line())?;
             writeln!(out, "Caution: {CAUTION}")?;
         }
         PlainFormat::Json => {
@@ -140,6 +144,7 @@ pub fn cruise(ctx: &Context, args: &CruiseArgs, out: &mut dyn Write) -> anyhow::
                 boat: &vessel.name,
                 variant: &vessel.variants[index].label,
                 point: json_point,
+                calibration: loaded.applied_calibration(),
                 caution: CAUTION,
             };
             out.write_all(json::to_string(&doc)?.as_bytes())?;
@@ -194,9 +199,26 @@ fn design_sections(loaded: &LoadedBoat, d: &Display) -> Vec<Section> {
             body: format!("Not available: {e:#}"),
         }),
     }
+    let what_if = super::conditions::what_if(
+        loaded,
+        active,
+        &super::conditions::WhatIfSettings::default(),
+    );
+    sections.push(Section {
+        title: "What-if conditions".into(),
+        body: match what_if {
+            Ok(w) => w.to_markdown(d),
+            Err(e) => format!("Not available: {e:#}"),
+        },
+    });
     if !vessel.trial.is_empty() {
-        let body = match design::calibration(loaded, active) {
-            Ok(cal) => format!("```text\n{}```\n", design::trial_text(&cal, d)),
+        let body = match design::calibration(loaded, active, false) {
+            Ok(cal) => format!(
+                "{}.\n\n{}.\n\n```text\n{}```\n",
+                loaded.calibration_line(),
+                design::comparison_text(loaded, design::rms_with_saved(loaded, active, &cal), d),
+                design::trial_text(&cal, d)
+            ),
             Err(e) => format!("Not available: {e:#}"),
         };
         sections.push(Section {
@@ -211,7 +233,9 @@ fn design_sections(loaded: &LoadedBoat, d: &Display) -> Vec<Section> {
 pub fn export(ctx: &Context, args: &ExportArgs, out: &mut dyn Write) -> anyhow::Result<()> {
     let loaded = load_boat(ctx, &args.boat)?;
     let vessel = &loaded.vessel;
-    let report = BoatReport::build(vessel, None, None, &loaded.warnings)?;
+    let report = BoatReport::build(vessel, None, None, &loaded.warnings)?
+        .with_calibration(loaded.applied_calibration())
+        .with_checks(vessel, &loaded.check_inputs());
     let engine = &vessel.engine;
     let fine_step = ((engine.rated_rpm - engine.idle_rpm) / CHART_STEPS).max(1.0);
     let curves = BoatReport::build(vessel, None, Some(fine_step), &[])?;

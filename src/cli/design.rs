@@ -9,11 +9,17 @@ use super::store::{LoadedBoat, load_boat};
 use super::{
     Context, DesignArgs, PitchArgs, PlainFormat, RankBy, SweepArgs, SweepOver, UsageError,
 };
+use crate::profile::store::Saved;
+use crate::profile::store::save_boat_file;
+use crate::profile::{CalibrationDoc, Origin};
 use crate::propulsion::solver::design::{
     ApertureLimit, PitchOptions, PitchRecommendation, PitchTarget, RankCriterion, SweepOptions,
     SweepParameter, SweepResult, recommend_pitch, sweep as run_sweep,
 };
-use crate::propulsion::solver::trial::{Calibration, CalibrationOptions, calibrate};
+use crate::propulsion::solver::matching::point_at_engine_rpm;
+use crate::propulsion::solver::trial::{
+    Calibration, CalibrationFit, CalibrationOptions, calibrate,
+};
 use crate::report::table::{Column, Table};
 use crate::report::{CAUTION, Display, INCH_M, KNOT_MPS, json};
 use crate::units::Kind;
@@ -209,11 +215,13 @@ pub fn pitch(ctx: &Context, args: &PitchArgs, out: &mut dyn Write) -> anyhow::Re
             #[derive(Serialize)]
             struct Doc {
                 boat: String,
+                calibration: Option<crate::report::checks::AppliedCalibration>,
                 variants: Vec<PitchJson>,
                 caution: &'static str,
             }
             let doc = Doc {
                 boat: loaded.vessel.name.clone(),
+                calibration: loaded.applied_calibration(),
                 variants: recs.iter().map(PitchJson::from).collect(),
                 caution: CAUTION,
             };
@@ -222,6 +230,7 @@ pub fn pitch(ctx: &Context, args: &PitchArgs, out: &mut dyn Write) -> anyhow::Re
         PlainFormat::Text => {
             let d = Display::new(loaded.units);
             writeln!(out, "{}: pitch recommendation", loaded.vessel.name)?;
+            writeln!(out, "{}", loaded.calibration_line())?;
             for r in &recs {
                 writeln!(out)?;
                 out.write_all(pitch_text(r, &d).as_bytes())?;
@@ -406,6 +415,7 @@ pub fn sweep(ctx: &Context, args: &SweepArgs, out: &mut dyn Write) -> anyhow::Re
                 criterion: &'static str,
                 target: String,
                 target_speed_kn: f64,
+                calibration: Option<crate::report::checks::AppliedCalibration>,
                 candidates: Vec<CandidateJson>,
                 caution: &'static str,
             }
@@ -417,6 +427,7 @@ pub fn sweep(ctx: &Context, args: &SweepArgs, out: &mut dyn Write) -> anyhow::Re
                 criterion: result.criterion,
                 target: result.target.describe(),
                 target_speed_kn: result.target_speed / KNOT_MPS,
+                calibration: loaded.applied_calibration(),
                 candidates: result
                     .candidates
                     .iter()
@@ -447,6 +458,7 @@ pub fn sweep(ctx: &Context, args: &SweepArgs, out: &mut dyn Write) -> anyhow::Re
         }
         PlainFormat::Text => {
             let d = Display::new(loaded.units);
+            writeln!(out, "{}", loaded.calibration_line())?;
             out.write_all(sweep_text(&result, label, &d).as_bytes())?;
             writeln!(out, "\nCaution: {CAUTION}")?;
         }
@@ -454,8 +466,13 @@ pub fn sweep(ctx: &Context, args: &SweepArgs, out: &mut dyn Write) -> anyhow::Re
     Ok(())
 }
 
-/// The calibration of the boat's active (or chosen) variant against its trial log.
-pub fn calibration(loaded: &LoadedBoat, index: usize) -> anyhow::Result<Calibration> {
+/// The calibration of variant `index` against the boat's trial log, fitted to the
+/// uncalibrated model (a saved correction is left out, so refitting never compounds it).
+pub fn calibration(
+    loaded: &LoadedBoat,
+    index: usize,
+    fit_wake: bool,
+) -> anyhow::Result<Calibration> {
     let vessel = &loaded.vessel;
     if vessel.trial.is_empty() {
         anyhow::bail!(
@@ -463,12 +480,59 @@ pub fn calibration(loaded: &LoadedBoat, index: usize) -> anyhow::Result<Calibrat
             vessel.name
         );
     }
-    calibrate(
-        &vessel.system(index),
-        &vessel.trial,
-        &CalibrationOptions::default(),
-    )
-    .with_context(|| format!("sea-trial calibration of {}", vessel.name))
+    let plain = loaded.uncalibrated_vessel()?;
+    let options = CalibrationOptions {
+        fit: if fit_wake {
+            CalibrationFit::ResistanceFactorAndWake
+        } else {
+            CalibrationFit::ResistanceFactor
+        },
+        ..CalibrationOptions::default()
+    };
+    calibrate(&plain.system(index), &plain.trial, &options)
+        .with_context(|| format!("sea-trial calibration of {}", vessel.name))
+}
+
+/// The RMS speed error (m/s) of the boat as loaded — with its saved correction — at the
+/// trial's rpm groups, or `None` when the boat has no saved correction or nothing solved.
+pub fn rms_with_saved(loaded: &LoadedBoat, index: usize, cal: &Calibration) -> Option<f64> {
+    loaded.doc.calibration.as_ref()?;
+    let system = loaded.vessel.system(index);
+    let errors: Vec<f64> = cal
+        .points
+        .iter()
+        .filter_map(|p| {
+            point_at_engine_rpm(&system, p.engine_rpm)
+                .ok()
+                .map(|at| at.speed - p.measured_speed)
+        })
+        .filter(|e| e.is_finite())
+        .collect();
+    if errors.is_empty() {
+        return None;
+    }
+    Some((errors.iter().map(|e| e * e).sum::<f64>() / errors.len() as f64).sqrt())
+}
+
+/// What the fit is compared with, in words.
+pub fn comparison_text(loaded: &LoadedBoat, rms_saved: Option<f64>, d: &Display) -> String {
+    match (&loaded.doc.calibration, rms_saved) {
+        (None, _) => {
+            "compared with the uncalibrated model (the boat has no saved calibration)".into()
+        }
+        (Some(c), rms) => format!(
+            "compared with the uncalibrated model, not with the saved calibration (resistance ×{:.3}{}), so a new fit replaces it and never compounds it{}",
+            c.resistance_factor,
+            c.wake_fraction
+                .map(|w| format!(", wake fraction {w:.3}"))
+                .unwrap_or_default(),
+            rms.map(|r| format!(
+                "; with the saved calibration the RMS error is {}",
+                d.quantity(r, Kind::Speed)
+            ))
+            .unwrap_or_default()
+        ),
+    }
 }
 
 /// The calibration as text.
@@ -495,7 +559,7 @@ pub fn trial_text(cal: &Calibration, d: &Display) -> String {
     }
     let mut out = table.to_text("  ");
     out.push_str(&format!(
-        "  RMS error {} before, {} after; resistance factor {:.3} (was {:.3})",
+        "  RMS error {} before, {} after; resistance factor {:.3} (uncalibrated model {:.3})",
         d.quantity(cal.rms_before, Kind::Speed),
         d.quantity(cal.rms_after, Kind::Speed),
         cal.resistance_factor,
@@ -511,6 +575,77 @@ pub fn trial_text(cal: &Calibration, d: &Display) -> String {
     out
 }
 
+/// Days since 1970-01-01 as a proleptic Gregorian (year, month, day): H. Hinnant's
+/// `civil_from_days` ("chrono-Compatible Low-Level Date Algorithms", 2013).
+pub fn civil_from_days(days: i64) -> (i64, u32, u32) {
+    let z = days + 719_468;
+    let era = z.div_euclid(146_097);
+    let doe = z.rem_euclid(146_097);
+    let yoe = (doe - doe / 1460 + doe / 36_524 - doe / 146_096) / 365;
+    let doy = doe - (365 * yoe + yoe / 4 - yoe / 100);
+    let mp = (5 * doy + 2) / 153;
+    let day = (doy - (153 * mp + 2) / 5 + 1) as u32;
+    let month = if mp < 10 { mp + 3 } else { mp - 9 } as u32;
+    let year = yoe + era * 400 + i64::from(month <= 2);
+    (year, month, day)
+}
+
+/// Today's date (UTC) from the system clock as YYYY-MM-DD, if the clock is after 1970.
+fn today_iso() -> Option<String> {
+    let secs = std::time::SystemTime::now()
+        .duration_since(std::time::UNIX_EPOCH)
+        .ok()?
+        .as_secs();
+    let (y, m, d) = civil_from_days((secs / 86_400) as i64);
+    Some(format!("{y:04}-{m:02}-{d:02}"))
+}
+
+/// The `[calibration]` written by `trial --save`.
+fn calibration_doc(loaded: &LoadedBoat, index: usize, cal: &Calibration) -> CalibrationDoc {
+    let rpms = cal.points.iter().map(|p| p.engine_rpm);
+    let (low, high) = rpms.fold((f64::INFINITY, f64::NEG_INFINITY), |(lo, hi), r| {
+        (lo.min(r), hi.max(r))
+    });
+    let fitted = if cal.wake_fraction.is_some() {
+        "resistance factor and wake fraction"
+    } else {
+        "resistance factor"
+    };
+    let on = today_iso().map(|d| format!(" on {d}")).unwrap_or_default();
+    // Four decimals are far finer than a trial can resolve and keep the file readable.
+    let round = |v: f64| (v * 1e4).round() / 1e4;
+    CalibrationDoc {
+        resistance_factor: round(cal.resistance_factor),
+        wake_fraction: cal.wake_fraction.map(round),
+        trial_date: loaded.doc.trial.as_ref().and_then(|t| t.date.clone()),
+        note: Some(format!(
+            "{fitted} fitted{on} by `tidewright trial --save` to {} rpm groups from {low:.0} to {high:.0} rpm, screw {}; RMS error {:.3} kn before, {:.3} kn after",
+            cal.points.len(),
+            loaded.vessel.variants[index].label,
+            cal.rms_before / KNOT_MPS,
+            cal.rms_after / KNOT_MPS
+        )),
+    }
+}
+
+/// Saves `cal` into the boat's file through the store's atomic save.
+fn save_calibration(loaded: &LoadedBoat, index: usize, cal: &Calibration) -> anyhow::Result<Saved> {
+    let Origin::File { path, stamp } = &loaded.origin else {
+        anyhow::bail!(
+            "boat {:?} comes from the built-in demo fleet, which is read-only: run `tidewright init` first to copy it into a profile store, then save the calibration there",
+            loaded.profile_name
+        );
+    };
+    let mut doc = loaded.doc.clone();
+    doc.calibration = Some(calibration_doc(loaded, index, cal));
+    save_boat_file(path, &doc, Some(stamp), false).with_context(|| {
+        format!(
+            "cannot save the calibration of boat {:?}",
+            loaded.profile_name
+        )
+    })
+}
+
 /// `trial BOAT`.
 pub fn trial(ctx: &Context, args: &DesignArgs, out: &mut dyn Write) -> anyhow::Result<()> {
     let loaded = load_boat(ctx, &args.boat)?;
@@ -521,7 +656,22 @@ pub fn trial(ctx: &Context, args: &DesignArgs, out: &mut dyn Write) -> anyhow::R
             .active_variant
             .min(loaded.vessel.variants.len() - 1),
     };
-    let cal = calibration(&loaded, index)?;
+    let cal = calibration(&loaded, index, args.fit_wake)?;
+    if !(cal.rms_before.is_finite()
+        && cal.rms_after.is_finite()
+        && cal.resistance_factor.is_finite())
+    {
+        anyhow::bail!(
+            "the sea-trial calibration of {} gave a value that is not a finite number",
+            loaded.vessel.name
+        );
+    }
+    let rms_saved = rms_with_saved(&loaded, index, &cal);
+    let saved = if args.save {
+        Some(save_calibration(&loaded, index, &cal)?)
+    } else {
+        None
+    };
     let label = &loaded.vessel.variants[index].label;
     match args.format {
         PlainFormat::Json => {
@@ -536,35 +686,42 @@ pub fn trial(ctx: &Context, args: &DesignArgs, out: &mut dyn Write) -> anyhow::R
                 current_kn: Option<f64>,
             }
             #[derive(Serialize)]
+            struct SavedJson {
+                path: String,
+                backup: Option<String>,
+            }
+            #[derive(Serialize)]
             struct Doc<'a> {
                 boat: &'a str,
                 variant: &'a str,
+                compared_with: &'static str,
                 rms_before_kn: f64,
                 rms_after_kn: f64,
                 resistance_factor_before: f64,
                 resistance_factor: f64,
                 wake_fraction: Option<f64>,
+                saved_calibration: Option<crate::report::checks::AppliedCalibration>,
+                rms_with_saved_kn: Option<f64>,
+                saved: Option<SavedJson>,
                 points: Vec<PointJson>,
                 warnings: Vec<String>,
             }
             let kn = |v: Option<f64>| finite_or_none(v.map(|v| v / KNOT_MPS));
-            if !(cal.rms_before.is_finite()
-                && cal.rms_after.is_finite()
-                && cal.resistance_factor.is_finite())
-            {
-                anyhow::bail!(
-                    "the sea-trial calibration of {} gave a value that is not a finite number",
-                    loaded.vessel.name
-                );
-            }
             let doc = Doc {
                 boat: &loaded.vessel.name,
                 variant: label,
+                compared_with: "uncalibrated model",
                 rms_before_kn: cal.rms_before / KNOT_MPS,
                 rms_after_kn: cal.rms_after / KNOT_MPS,
                 resistance_factor_before: cal.resistance_factor_before,
                 resistance_factor: cal.resistance_factor,
                 wake_fraction: finite_or_none(cal.wake_fraction),
+                saved_calibration: loaded.applied_calibration(),
+                rms_with_saved_kn: kn(rms_saved),
+                saved: saved.as_ref().map(|s| SavedJson {
+                    path: s.path.display().to_string(),
+                    backup: s.backup.as_ref().map(|b| b.display().to_string()),
+                }),
                 points: cal
                     .points
                     .iter()
@@ -589,8 +746,42 @@ pub fn trial(ctx: &Context, args: &DesignArgs, out: &mut dyn Write) -> anyhow::R
                 "{}: sea trial against the prediction (screw {label})",
                 loaded.vessel.name
             )?;
+            writeln!(out, "  {}", comparison_text(&loaded, rms_saved, &d))?;
             out.write_all(trial_text(&cal, &d).as_bytes())?;
+            match &saved {
+                Some(s) => {
+                    writeln!(out, "Saved the correction in {}", s.path.display())?;
+                    if let Some(b) = &s.backup {
+                        writeln!(out, "  previous version kept as {}", b.display())?;
+                    }
+                    writeln!(
+                        out,
+                        "  every later report, cruise, pitch, sweep, conditions and export applies it"
+                    )?;
+                }
+                None => writeln!(
+                    out,
+                    "Not saved: `tidewright trial {} --save` writes it into the boat's [calibration]",
+                    args.boat
+                )?,
+            }
         }
     }
     Ok(())
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn civil_dates_from_day_counts() {
+        // Day numbers checked against the Unix epoch and the Gregorian calendar: 1970-01-01 is
+        // day 0, 2000-03-01 day 11 017 (after a century leap day), 2024-02-29 day 19 782.
+        assert_eq!(civil_from_days(0), (1970, 1, 1));
+        assert_eq!(civil_from_days(11_017), (2000, 3, 1));
+        assert_eq!(civil_from_days(11_016), (2000, 2, 29));
+        assert_eq!(civil_from_days(19_782), (2024, 2, 29));
+        assert_eq!(civil_from_days(-1), (1969, 12, 31));
+    }
 }

@@ -7,8 +7,9 @@ use anyhow::Context as _;
 
 use super::{CheckArgs, Context, InvalidFiles, ListArgs, PlainFormat};
 use crate::profile::store::{load_boat_file, load_engine_file};
-use crate::profile::{BoatDoc, Origin, Store};
+use crate::profile::{BoatDoc, EngineDoc, Origin, Store};
 use crate::propulsion::solver::Vessel;
+use crate::report::checks::{AppliedCalibration, CheckInputs};
 use crate::units::{Kind, UnitSystem};
 
 /// A boat loaded from the store (or a path, or the demo fleet), ready to solve.
@@ -22,6 +23,55 @@ pub struct LoadedBoat {
     pub warnings: Vec<String>,
     /// The unit system to show it in: `--units`, else the one its file is written in.
     pub units: UnitSystem,
+    /// The boat's engine sheet as loaded (to rebuild the vessel without its calibration).
+    pub engine_doc: EngineDoc,
+    /// The boat's profile name (its file's stem).
+    pub profile_name: String,
+    /// Where the boat came from (the demo fleet, or a file with its stamp at load).
+    pub origin: Origin,
+}
+
+impl LoadedBoat {
+    /// The vessel without the saved sea-trial correction, so that a new fit compares against
+    /// the plain model and never compounds an earlier one.
+    pub fn uncalibrated_vessel(&self) -> anyhow::Result<Vessel> {
+        let mut doc = self.doc.clone();
+        doc.calibration = None;
+        doc.to_default_vessel(&self.engine_doc).with_context(|| {
+            format!(
+                "cannot build boat {:?} without its calibration",
+                self.doc.name
+            )
+        })
+    }
+
+    /// The saved sea-trial correction as the reports show it.
+    pub fn applied_calibration(&self) -> Option<AppliedCalibration> {
+        self.doc.calibration.as_ref().map(|c| AppliedCalibration {
+            resistance_factor: c.resistance_factor,
+            wake_fraction: c.wake_fraction,
+            trial_date: c.trial_date.clone(),
+            note: c.note.clone(),
+        })
+    }
+
+    /// "calibration applied: …" or "calibration: none …".
+    pub fn calibration_line(&self) -> String {
+        match self.applied_calibration() {
+            Some(c) => c.line(),
+            None => "calibration: none (uncalibrated model)".into(),
+        }
+    }
+
+    /// The installation values the cavitation and shaft checks need.
+    pub fn check_inputs(&self) -> CheckInputs {
+        let inst = &self.doc.installation;
+        CheckInputs {
+            shaft_immersion: inst.shaft_immersion.as_ref().map(|q| q.value),
+            shaft_diameter: inst.shaft_diameter.as_ref().map(|q| q.value),
+            shaft_material: inst.shaft_material.clone(),
+        }
+    }
 }
 
 /// The store the global options point at.
@@ -54,6 +104,9 @@ pub fn load_boat(ctx: &Context, boat: &str) -> anyhow::Result<LoadedBoat> {
         doc: loaded.doc,
         warnings,
         units,
+        engine_doc: engine.doc,
+        profile_name: loaded.name,
+        origin: loaded.origin,
     })
 }
 

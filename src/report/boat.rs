@@ -2,6 +2,7 @@
 
 use serde::Serialize;
 
+use super::checks::{AppliedCalibration, CavitationJson, CheckInputs, DesignChecks, ShaftJson};
 use super::json::finite;
 use super::table::{Column, Table};
 use super::{CAUTION, Display, KNOT_MPS, LITRE_M3, NAUTICAL_MILE_M, percent};
@@ -9,6 +10,7 @@ use crate::propulsion::engine::Duty;
 use crate::propulsion::screw::ScrewGeometry;
 use crate::propulsion::solver::cruise::{cruise_at_rpm, cruise_at_speed};
 use crate::propulsion::solver::matching::match_engine;
+use crate::propulsion::solver::shaft::duty_note;
 use crate::propulsion::solver::{CruisePoint, MatchResult, Trip, Verdict, Vessel};
 use crate::units::{Kind, UnitSystem};
 
@@ -72,6 +74,8 @@ pub struct VariantReport {
     pub matching: Result<MatchResult, String>,
     /// The cruise point at the trip's target speed, or why it failed.
     pub target: Result<CruisePoint, String>,
+    /// The engine sheet's duty rating beside the load at the target speed, if solved.
+    pub duty: Option<String>,
 }
 
 /// The report of one boat, in SI.
@@ -87,6 +91,10 @@ pub struct BoatReport {
     pub variants: Vec<VariantReport>,
     /// Warnings from every model involved, without duplicates.
     pub warnings: Vec<String>,
+    /// The sea-trial correction applied to every prediction, if the boat has one.
+    pub calibration: Option<AppliedCalibration>,
+    /// Cavitation, blade loading and shaft checks, when asked for.
+    pub checks: Option<DesignChecks>,
 }
 
 /// A round rpm step giving about ten rows between idle and rated.
@@ -209,12 +217,17 @@ impl BoatReport {
             let target = cruise_at_speed(&system, &vessel.trip, vessel.trip.target_speed)
                 .map_err(|e| e.to_string())
                 .and_then(checked);
+            let duty = target
+                .as_ref()
+                .ok()
+                .map(|c| duty_note(engine, c.point.engine_rpm, c.point.brake_power));
             variants.push(VariantReport {
                 label: v.label.clone(),
                 geometry: *v.screw.geometry(),
                 rows,
                 matching,
                 target,
+                duty,
             });
         }
         Ok(Self {
@@ -230,7 +243,87 @@ impl BoatReport {
             trip: vessel.trip,
             variants,
             warnings,
+            calibration: None,
+            checks: None,
         })
+    }
+
+    /// The report with the sea-trial correction it was solved with, shown wherever it is.
+    pub fn with_calibration(mut self, calibration: Option<AppliedCalibration>) -> Self {
+        self.calibration = calibration;
+        self
+    }
+
+    /// The report with the cavitation, blade-loading and shaft checks; a check past its
+    /// limit is added to the warnings.
+    pub fn with_checks(mut self, vessel: &Vessel, inputs: &CheckInputs) -> Self {
+        let checks = DesignChecks::build(vessel, &self.variants, inputs);
+        for w in checks.warnings() {
+            if !self.warnings.contains(&w) {
+                self.warnings.push(w);
+            }
+        }
+        self.checks = Some(checks);
+        self
+    }
+
+    /// The text lines of one variant's checks: duty, cavitation table and its legend.
+    fn variant_check_text(&self, v: &VariantReport, d: &Display) -> String {
+        let mut out = String::new();
+        if let Some(duty) = &v.duty {
+            out.push_str(&format!("  Engine duty at the target speed: {duty}\n"));
+        }
+        if let Some(checks) = &self.checks {
+            match &checks.cavitation {
+                Err(reason) => out.push_str(&format!("  Cavitation check {reason}\n")),
+                Ok(_) => {
+                    if let Some(table) = checks.cavitation_table(&v.label, d) {
+                        out.push_str("  Cavitation and blade loading:\n");
+                        out.push_str(&table.to_text("    "));
+                        out.push_str(&format!("    {}\n", checks.cavitation_legend(&v.geometry)));
+                    }
+                }
+            }
+        }
+        out
+    }
+
+    /// The Markdown of one variant's checks.
+    fn variant_check_markdown(&self, v: &VariantReport, d: &Display) -> String {
+        let mut out = String::new();
+        if let Some(duty) = &v.duty {
+            out.push_str(&format!("\n- Engine duty at the target speed: {duty}\n"));
+        }
+        if let Some(checks) = &self.checks {
+            match &checks.cavitation {
+                Err(reason) => out.push_str(&format!("\nCavitation check {reason}.\n")),
+                Ok(_) => {
+                    if let Some(table) = checks.cavitation_table(&v.label, d) {
+                        out.push_str("\n**Cavitation and blade loading**\n\n");
+                        out.push_str(&table.to_markdown());
+                        out.push_str(&format!("\n{}.\n", checks.cavitation_legend(&v.geometry)));
+                    }
+                }
+            }
+        }
+        out
+    }
+
+    /// The cavitation and duty of one variant for the printable report.
+    pub fn variant_checks_markdown(&self, label: &str, d: &Display) -> String {
+        self.variants
+            .iter()
+            .find(|v| v.label == label)
+            .map(|v| self.variant_check_markdown(v, d))
+            .unwrap_or_default()
+    }
+
+    /// The shaft lines, if the checks were made.
+    pub fn shaft_lines(&self, d: &Display) -> Vec<String> {
+        self.checks
+            .as_ref()
+            .map(|c| c.shaft_lines(d))
+            .unwrap_or_default()
     }
 
     /// The aligned text report.
@@ -240,6 +333,7 @@ impl BoatReport {
         out.push_str(&format!("{}\n", self.boat));
         out.push_str(&format!("{}\n", self.engine_line(&d)));
         out.push_str(&format!("{}\n", self.trip_line(&d)));
+        out.push_str(&format!("{}\n", self.calibration_line()));
         for v in &self.variants {
             out.push('\n');
             out.push_str(&format!(
@@ -253,6 +347,14 @@ impl BoatReport {
                 "  {}\n",
                 target_line(v, &d, self.trip.target_speed, &self.engine)
             ));
+            out.push_str(&self.variant_check_text(v, &d));
+        }
+        let shaft = self.shaft_lines(&d);
+        if !shaft.is_empty() {
+            out.push('\n');
+            for line in shaft {
+                out.push_str(&format!("{line}\n"));
+            }
         }
         out.push('\n');
         if !self.warnings.is_empty() {
@@ -270,9 +372,10 @@ impl BoatReport {
         let d = Display::new(system);
         let mut out = format!("# {}\n\n", super::table::md_cell(&self.boat));
         out.push_str(&format!(
-            "- {}\n- {}\n",
+            "- {}\n- {}\n- {}\n",
             self.engine_line(&d),
-            self.trip_line(&d)
+            self.trip_line(&d),
+            self.calibration_line()
         ));
         for v in &self.variants {
             out.push_str(&format!(
@@ -289,6 +392,14 @@ impl BoatReport {
                 "- {}\n",
                 target_line(v, &d, self.trip.target_speed, &self.engine)
             ));
+            out.push_str(&self.variant_check_markdown(v, &d));
+        }
+        let shaft = self.shaft_lines(&d);
+        if !shaft.is_empty() {
+            out.push_str("\n## Shaft\n\n");
+            for line in shaft {
+                out.push_str(&format!("- {}\n", line.trim_start()));
+            }
         }
         if !self.warnings.is_empty() {
             out.push_str("\n## Warnings\n\n");
@@ -324,6 +435,7 @@ impl BoatReport {
                     rows: vec![],
                     matching: Err(String::new()),
                     target: Err(String::new()),
+                    duty: None,
                 },
                 &d,
                 true,
@@ -377,11 +489,35 @@ impl BoatReport {
                         match_error: v.matching.as_ref().err().cloned(),
                         cruise: v.target.as_ref().ok().map(PointJson::from),
                         cruise_error: v.target.as_ref().err().cloned(),
+                        duty_note: v.duty.clone(),
+                        cavitation: self
+                            .checks
+                            .as_ref()
+                            .map(|c| c.cavitation_json(&v.label))
+                            .unwrap_or_default(),
                     }
                 })
                 .collect(),
+            calibration: self.calibration.clone(),
+            cavitation_skipped: self
+                .checks
+                .as_ref()
+                .and_then(|c| c.cavitation.as_ref().err().cloned()),
+            shaft: self.checks.as_ref().and_then(DesignChecks::shaft_json),
+            shaft_error: self
+                .checks
+                .as_ref()
+                .and_then(|c| c.shaft.as_ref().err().cloned()),
             warnings: self.warnings.clone(),
             caution: CAUTION,
+        }
+    }
+
+    /// "calibration applied: …", or that none is applied.
+    pub fn calibration_line(&self) -> String {
+        match &self.calibration {
+            Some(c) => c.line(),
+            None => "calibration: none (uncalibrated model; `tidewright trial BOAT --save` fits one from a sea-trial log)".into(),
         }
     }
 
@@ -565,7 +701,7 @@ pub fn target_line(
             let mut line = format!("At {at}: {}", cruise_summary(c, d));
             if c.beyond_full_load {
                 line.push_str(" — past the engine's full-load curve: not reachable");
-            } else if engine.duty == Some(Duty::Intermittent) {
+            } else if v.duty.is_none() && engine.duty == Some(Duty::Intermittent) {
                 line.push_str(" (engine rated for intermittent duty)");
             }
             line
@@ -602,6 +738,14 @@ pub struct BoatJson {
     pub target_speed_kn: f64,
     /// The variants.
     pub variants: Vec<VariantJson>,
+    /// The sea-trial correction applied, or null.
+    pub calibration: Option<AppliedCalibration>,
+    /// Why the cavitation check was skipped, or null.
+    pub cavitation_skipped: Option<String>,
+    /// The shaft check, or null.
+    pub shaft: Option<ShaftJson>,
+    /// Why the shaft was not checked, or null.
+    pub shaft_error: Option<String>,
     /// Warnings.
     pub warnings: Vec<String>,
     /// The caution.
@@ -647,6 +791,10 @@ pub struct VariantJson {
     pub cruise: Option<PointJson>,
     /// Why the cruise point was not solved, if not.
     pub cruise_error: Option<String>,
+    /// The engine's duty rating beside the load at the target speed.
+    pub duty_note: Option<String>,
+    /// Cavitation and blade loading at the target speed and at top speed.
+    pub cavitation: Vec<CavitationJson>,
 }
 
 /// One operating point in JSON.

@@ -203,6 +203,7 @@ pub fn export(
         super::percent(vessel.trip.usable_fraction, 0),
         super::percent(vessel.trip.reserve_fraction, 0)
     ));
+    md.push_str(&format!("- {}\n", report.calibration_line()));
 
     md.push_str("\n## Screws and match\n\n");
     for v in &report.variants {
@@ -217,6 +218,15 @@ pub fn export(
             target_line(v, &d, report.trip.target_speed, &report.engine)
         ));
         md.push_str(&operating_table(v, &d, false).to_markdown());
+        md.push_str(&report.variant_checks_markdown(&v.label, &d));
+        md.push('\n');
+    }
+    let shaft = report.shaft_lines(&d);
+    if !shaft.is_empty() {
+        md.push_str("## Shaft\n\n");
+        for line in shaft {
+            md.push_str(&format!("- {}\n", line.trim_start()));
+        }
         md.push('\n');
     }
     for section in sections {

@@ -58,6 +58,7 @@ fn help_lists_every_command_and_exits_zero() {
         "pitch",
         "sweep",
         "trial",
+        "conditions",
         "export",
     ] {
         assert!(
@@ -75,6 +76,7 @@ fn help_lists_every_command_and_exits_zero() {
         "pitch",
         "sweep",
         "trial",
+        "conditions",
         "export",
     ] {
         tidewright()

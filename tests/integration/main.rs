@@ -5,6 +5,7 @@
 mod support;
 
 mod cli;
+mod cli_design;
 mod design;
 mod hull;
 mod profiles;

@@ -1,0 +1,435 @@
+//! Integration tests: the design side of the CLI — sea-trial calibration saved with the boat,
+//! what-if conditions, cavitation and shaft checks in `report` and `export`. Each runs the real
+//! binary against a temporary profile store (or a missing one, for the embedded demo).
+
+use assert_cmd::Command;
+use predicates::prelude::*;
+use serde_json::Value;
+
+fn tidewright() -> Command {
+    let mut cmd = Command::cargo_bin("tidewright").expect("binary built");
+    cmd.env_remove("TIDEWRIGHT_PROFILES").env("NO_COLOR", "1");
+    cmd
+}
+
+fn run_json(args: &[&str]) -> Value {
+    let assert = tidewright().args(args).assert().success();
+    let out = &assert.get_output().stdout;
+    serde_json::from_slice(out)
+        .unwrap_or_else(|e| panic!("not JSON ({e}): {}", String::from_utf8_lossy(out)))
+}
+
+fn run_text(args: &[&str]) -> String {
+    let assert = tidewright().args(args).assert().success();
+    String::from_utf8_lossy(&assert.get_output().stdout).into_owned()
+}
+
+/// A profile store made by `init` in a temporary directory.
+fn initialised_store() -> (tempfile::TempDir, String) {
+    let dir = tempfile::tempdir().unwrap();
+    let root = dir.path().join("store").display().to_string();
+    tidewright()
+        .args(["--profiles", &root, "init"])
+        .assert()
+        .success();
+    (dir, root)
+}
+
+/// A `--profiles` directory that does not exist, so the embedded demo fleet is used.
+fn demo_store() -> (tempfile::TempDir, String) {
+    let dir = tempfile::tempdir().unwrap();
+    let missing = dir.path().join("no-store").display().to_string();
+    (dir, missing)
+}
+
+fn top_speed_kn(report: &Value) -> f64 {
+    report["variants"][0]["match"]["top_speed_kn"]
+        .as_f64()
+        .expect("top speed")
+}
+
+#[test]
+fn trial_save_writes_the_calibration_and_every_later_report_applies_it() {
+    let (_dir, store) = initialised_store();
+    let boat_file = std::path::Path::new(&store).join("boats/pintle.toml");
+    let original = std::fs::read_to_string(&boat_file).unwrap();
+    let before = run_json(&["--profiles", &store, "report", "pintle", "--format", "json"]);
+    assert!(before["calibration"].is_null());
+
+    let fit = run_json(&[
+        "--profiles",
+        &store,
+        "trial",
+        "pintle",
+        "--save",
+        "--format",
+        "json",
+    ]);
+    let factor = fit["resistance_factor"].as_f64().unwrap();
+    assert!(
+        fit["saved"]["path"]
+            .as_str()
+            .unwrap()
+            .ends_with("pintle.toml")
+    );
+
+    // The file holds the correction, still validates, and the previous version is kept.
+    let saved = std::fs::read_to_string(&boat_file).unwrap();
+    assert!(saved.contains("[calibration]"), "{saved}");
+    assert!(saved.contains("resistance_factor"));
+    assert!(saved.contains("trial_date = \"2024-05-18\""));
+    let backup = std::fs::read_to_string(boat_file.with_file_name("pintle.toml.bak")).unwrap();
+    assert_eq!(backup, original);
+    tidewright()
+        .args(["--profiles", &store, "check"])
+        .arg(&boat_file)
+        .assert()
+        .success()
+        .stdout(predicate::str::contains(": ok"));
+
+    // Every later prediction applies it and says so.
+    let after = run_json(&["--profiles", &store, "report", "pintle", "--format", "json"]);
+    let applied = after["calibration"]["resistance_factor"].as_f64().unwrap();
+    assert!((applied - factor).abs() < 1e-4, "{applied} vs {factor}");
+    // More resistance (factor > 1) slows the boat at full throttle.
+    assert!(factor > 1.0);
+    assert!(
+        top_speed_kn(&after) < top_speed_kn(&before) - 0.05,
+        "{} → {}",
+        top_speed_kn(&before),
+        top_speed_kn(&after)
+    );
+    let text = run_text(&["--profiles", &store, "report", "pintle"]);
+    assert!(text.contains("calibration applied: resistance ×"), "{text}");
+    let md = run_text(&["--profiles", &store, "report", "pintle", "--format", "md"]);
+    assert!(md.contains("calibration applied"));
+    for command in ["cruise", "pitch", "sweep"] {
+        let mut args = vec!["--profiles", store.as_str(), command, "pintle"];
+        if command == "cruise" {
+            args.extend(["--speed", "6kn"]);
+        }
+        if command == "sweep" {
+            args.extend(["--over", "blades", "--values", "3"]);
+        }
+        let out = run_text(&args);
+        assert!(out.contains("calibration applied"), "{command}: {out}");
+        args.extend(["--format", "json"]);
+        let doc = run_json(&args);
+        assert!(
+            doc["calibration"]["resistance_factor"].is_f64(),
+            "{command}: {doc}"
+        );
+    }
+
+    // Refitting compares with the uncalibrated model: the same factor, not a compounded one.
+    let again = run_json(&["--profiles", &store, "trial", "pintle", "--format", "json"]);
+    assert_eq!(again["compared_with"], "uncalibrated model");
+    assert!((again["resistance_factor"].as_f64().unwrap() - factor).abs() < 1e-9);
+    assert!(
+        (again["rms_before_kn"].as_f64().unwrap() - fit["rms_before_kn"].as_f64().unwrap()).abs()
+            < 1e-12
+    );
+    assert!(
+        again["rms_with_saved_kn"].as_f64().unwrap() < again["rms_before_kn"].as_f64().unwrap()
+    );
+    let text = run_text(&["--profiles", &store, "trial", "pintle"]);
+    assert!(text.contains("not with the saved calibration"), "{text}");
+}
+
+#[test]
+fn trial_save_on_the_demo_fleet_asks_for_init() {
+    let (_dir, store) = demo_store();
+    tidewright()
+        .args(["--profiles", &store, "trial", "pintle", "--save"])
+        .assert()
+        .code(1)
+        .stderr(predicate::str::contains("tidewright init"));
+}
+
+#[test]
+fn trial_json_has_the_fit_and_two_way_averaged_points() {
+    let (_dir, store) = demo_store();
+    let doc = run_json(&["--profiles", &store, "trial", "pintle", "--format", "json"]);
+    for field in ["rms_before_kn", "rms_after_kn", "resistance_factor"] {
+        assert!(doc[field].is_f64(), "{field} missing: {doc}");
+    }
+    let points = doc["points"].as_array().unwrap();
+    assert_eq!(points.len(), 3);
+    // The log's 1500 rpm pair: 6.2 kn out, 5.6 kn back. A steady current adds to one run and
+    // subtracts from the other, so the mean of the pair is the speed through the water and
+    // half the difference the current (the two-run case of the mean of means, ITTC
+    // Recommended Procedure 7.5-04-01-01.1, speed/power trials).
+    let p = &points[0];
+    assert_eq!(p["engine_rpm"].as_f64().unwrap(), 1500.0);
+    assert!((p["measured_kn"].as_f64().unwrap() - 5.9).abs() < 1e-9);
+    assert!((p["current_kn"].as_f64().unwrap().abs() - 0.3).abs() < 1e-9);
+    assert_eq!(p["two_way"], true);
+    // The RMS the command reports is the RMS of the per-point differences it lists.
+    let rms = |key: &str| {
+        let sum: f64 = points
+            .iter()
+            .map(|p| (p[key].as_f64().unwrap() - p["measured_kn"].as_f64().unwrap()).powi(2))
+            .sum();
+        (sum / points.len() as f64).sqrt()
+    };
+    assert!((rms("predicted_kn") - doc["rms_before_kn"].as_f64().unwrap()).abs() < 1e-9);
+    assert!((rms("calibrated_kn") - doc["rms_after_kn"].as_f64().unwrap()).abs() < 1e-9);
+    assert!(doc["saved"].is_null());
+}
+
+#[test]
+fn conditions_heavier_boat_needs_more_power_and_turns_fewer_rpm() {
+    let (_dir, store) = demo_store();
+    let doc = run_json(&[
+        "--profiles",
+        &store,
+        "conditions",
+        "marram",
+        "--variant",
+        "old 26x21",
+        "--format",
+        "json",
+    ]);
+    let conditions = doc["conditions"].as_array().unwrap();
+    let by_label = |label: &str| {
+        conditions
+            .iter()
+            .find(|c| c["label"] == label)
+            .unwrap_or_else(|| panic!("no condition {label}: {doc}"))
+    };
+    let (light, half, full) = (
+        by_label("light"),
+        by_label("half load"),
+        by_label("full load"),
+    );
+    let f = |c: &Value, k: &str| c[k].as_f64().unwrap_or_else(|| panic!("{k} in {c}"));
+    assert!(f(light, "displacement_kg") < f(half, "displacement_kg"));
+    assert!(f(half, "displacement_kg") < f(full, "displacement_kg"));
+    // More weight: more power at the same (target) speed …
+    assert!(f(light, "cruise_kw") < f(half, "cruise_kw"));
+    assert!(f(half, "cruise_kw") < f(full, "cruise_kw"));
+    // … so the over-propped screw reaches fewer rpm at full throttle, and wants less pitch.
+    assert!(f(light, "full_throttle_rpm") > f(full, "full_throttle_rpm"));
+    assert!(f(light, "recommended_pitch_m") > f(full, "recommended_pitch_m"));
+    // Fouling and a seaway add resistance too.
+    for c in conditions.iter().filter(|c| {
+        let l = c["label"].as_str().unwrap();
+        l.starts_with("fouled") || l.starts_with("seaway")
+    }) {
+        assert!(f(c, "cruise_kw") > f(&conditions[0], "cruise_kw"), "{c}");
+    }
+    // Each pitch says which condition it was made for.
+    assert!(
+        full["pitch_condition"]
+            .as_str()
+            .unwrap()
+            .starts_with("full load")
+    );
+    let band = &doc["band"];
+    let (lo, mid, hi) = (
+        band["pitch_low_m"].as_f64().unwrap(),
+        band["pitch_nominal_m"].as_f64().unwrap(),
+        band["pitch_high_m"].as_f64().unwrap(),
+    );
+    assert!(lo < mid && mid < hi, "{lo} {mid} {hi}");
+    assert_eq!(band["displacement_spread"].as_f64().unwrap(), 0.10);
+    for p in band["points"].as_array().unwrap() {
+        let (l, n, h) = (f(p, "low_kw"), f(p, "power_kw"), f(p, "high_kw"));
+        assert!(l <= n && n <= h, "{p}");
+    }
+    assert!(doc["caution"].as_str().unwrap().contains("surveyor"));
+
+    // A wider band gives a wider pitch range.
+    let wide = run_json(&[
+        "--profiles",
+        &store,
+        "conditions",
+        "marram",
+        "--variant",
+        "old 26x21",
+        "--spread",
+        "20",
+        "--wake-shift",
+        "0.1",
+        "--format",
+        "json",
+    ]);
+    let wide_span = wide["band"]["pitch_high_m"].as_f64().unwrap()
+        - wide["band"]["pitch_low_m"].as_f64().unwrap();
+    assert!(wide_span > hi - lo);
+
+    let text = run_text(&["--profiles", &store, "conditions", "pintle"]);
+    for needle in [
+        "light",
+        "full load",
+        "fouled hull",
+        "seaway",
+        "Uncertainty band",
+        "Caution",
+    ] {
+        assert!(text.contains(needle), "{needle} missing:\n{text}");
+    }
+    tidewright()
+        .args([
+            "--profiles",
+            &store,
+            "conditions",
+            "pintle",
+            "--spread",
+            "-5",
+        ])
+        .assert()
+        .code(2)
+        .stderr(predicate::str::contains("--spread"));
+}
+
+#[test]
+fn report_checks_cavitation_against_keller_and_the_shaft_against_the_torsion_formula() {
+    let (_dir, store) = demo_store();
+    let doc = run_json(&["--profiles", &store, "report", "pintle", "--format", "json"]);
+    let v = &doc["variants"][0];
+    let rows = v["cavitation"].as_array().unwrap();
+    assert_eq!(rows.len(), 2);
+    assert_eq!(rows[0]["at"], "target_speed");
+    assert_eq!(rows[1]["at"], "top_speed");
+    let cruise = &v["cruise"];
+    let target = &rows[0];
+    assert!(
+        (target["engine_rpm"].as_f64().unwrap() - cruise["engine_rpm"].as_f64().unwrap()).abs()
+            < 1e-6
+    );
+
+    // Keller: AE/A0 min = (1.3 + 0.3·Z)·T / ((p0 − pv)·D²) + K (Principles of Naval
+    // Architecture vol. II, 1988), K = 0.2 single screw (from memory). Pintle: Z = 3,
+    // D = 0.45 m, shaft 0.7 m down in sea water at 12 °C: ρ ≈ 1026.6 kg/m³ (ITTC
+    // 7.5-02-01-03 sea-water table, from memory), pv ≈ 1.40 kPa (saturation pressure of
+    // water at 12 °C, 1.4028 kPa, IAPWS-95 tables), patm 101 325 Pa (ISO 2533), g = 9.80665.
+    let thrust = cruise["thrust_n"].as_f64().unwrap();
+    let p0_minus_pv = 101_325.0 + 1026.6 * 9.80665 * 0.7 - 1_400.0;
+    let keller = (1.3 + 0.3 * 3.0) * thrust / (p0_minus_pv * 0.45 * 0.45) + 0.2;
+    assert_close!(
+        target["keller_min_area_ratio"].as_f64().unwrap(),
+        keller,
+        0.005
+    );
+    // 1 psi = 6.894 757 kPa (NIST SP 811 B.8).
+    for row in rows {
+        assert_close!(
+            row["blade_loading_kpa"].as_f64().unwrap(),
+            row["blade_loading_psi"].as_f64().unwrap() * 6.894_757,
+            1e-9
+        );
+    }
+    // Tip speed π·n·D with the screw rpm of the cruise point.
+    let tip = std::f64::consts::PI * cruise["prop_rpm"].as_f64().unwrap() / 60.0 * 0.45;
+    assert_close!(target["tip_speed_mps"].as_f64().unwrap(), tip, 1e-9);
+    assert_eq!(
+        target["keller_passed"].as_bool().unwrap(),
+        0.5 >= target["keller_min_area_ratio"].as_f64().unwrap()
+    );
+
+    // Shaft: d = (321 000 · SHP · SF / (St · rpm))^(1/3) in inches (D. Gerr, Boat Mechanical
+    // Systems Handbook; Westlawn Masthead no. 18: SF 3 for an average yacht). The engine's
+    // largest torque is at 2000 rpm with 29.5 kW (its sheet); 2:1 gear at 97 %; bronze
+    // shafting St = 20 000 psi (shaft-material table published with the formula).
+    let shaft = &doc["shaft"];
+    let shp: f64 = 29.5 / 0.745_699_872 * 0.97;
+    let d_in = (321_000.0 * shp * 3.0 / (20_000.0 * 1000.0)).cbrt();
+    assert_close!(
+        shaft["min_diameter_m"].as_f64().unwrap(),
+        d_in * 0.0254,
+        0.001
+    );
+    assert_eq!(shaft["existing_is_enough"], false);
+    assert!(doc["cavitation_skipped"].is_null());
+    assert!(
+        v["duty_note"].as_str().unwrap().contains("intermittent"),
+        "{v}"
+    );
+
+    // The text report warns where a screw is past a limit and where the shaft is too small.
+    let text = run_text(&["--profiles", &store, "report", "pintle"]);
+    let warnings = text.split("Warnings:").nth(1).expect("warnings");
+    assert!(warnings.contains("Keller's minimum"), "{warnings}");
+    assert!(warnings.contains("existing shaft"), "{warnings}");
+    assert!(text.contains("Cavitation and blade loading"));
+    assert!(text.contains("psi") && text.contains("kPa"));
+}
+
+#[test]
+fn cavitation_is_skipped_with_its_reason_without_shaft_immersion() {
+    let (_dir, store) = initialised_store();
+    let boat_file = std::path::Path::new(&store).join("boats/pintle.toml");
+    let text = std::fs::read_to_string(&boat_file).unwrap();
+    let edited: String = text
+        .lines()
+        .filter(|l| !l.starts_with("shaft_immersion"))
+        .map(|l| format!("{l}\n"))
+        .collect();
+    assert_ne!(edited, text);
+    std::fs::write(&boat_file, edited).unwrap();
+    let doc = run_json(&["--profiles", &store, "report", "pintle", "--format", "json"]);
+    assert!(
+        doc["cavitation_skipped"]
+            .as_str()
+            .unwrap()
+            .contains("installation.shaft_immersion")
+    );
+    assert!(
+        doc["variants"][0]["cavitation"]
+            .as_array()
+            .unwrap()
+            .is_empty()
+    );
+    let out = run_text(&["--profiles", &store, "report", "pintle"]);
+    assert!(out.contains("Cavitation check skipped"), "{out}");
+}
+
+#[test]
+fn export_holds_cavitation_shaft_what_if_and_calibration() {
+    let (dir, store) = initialised_store();
+    tidewright()
+        .args(["--profiles", &store, "trial", "pintle", "--save"])
+        .assert()
+        .success();
+    let out = dir.path().join("export");
+    tidewright()
+        .args(["--profiles", &store, "export", "pintle", "--out"])
+        .arg(&out)
+        .assert()
+        .success();
+    let md = std::fs::read_to_string(out.join("report.md")).unwrap();
+    for needle in [
+        "Cavitation and blade loading",
+        "Keller",
+        "## Shaft",
+        "## What-if conditions",
+        "Uncertainty band",
+        "made for",
+        "calibration applied: resistance ×",
+        "Engine duty at the target speed",
+    ] {
+        assert!(md.contains(needle), "{needle} missing from the report");
+    }
+    assert!(!md.contains("NaN"));
+}
+
+#[test]
+fn pitch_json_names_its_condition_and_calibration() {
+    let (_dir, store) = demo_store();
+    let doc = run_json(&["--profiles", &store, "pitch", "pintle", "--format", "json"]);
+    assert!(doc["calibration"].is_null());
+    let v = &doc["variants"][0];
+    for field in [
+        "label",
+        "current_pitch_m",
+        "recommended_pitch_m",
+        "change_m",
+        "within_repitch_limit",
+        "rpm_per_inch",
+        "condition",
+    ] {
+        assert!(!v[field].is_null(), "{field} missing in {v}");
+    }
+    assert!(v["condition"].as_str().unwrap().contains("displacement"));
+}
