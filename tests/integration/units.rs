@@ -574,7 +574,7 @@ fn display_conversion_and_labels_agree_with_format() {
 }
 
 proptest! {
-    #![proptest_config(ProptestConfig::with_cases(400))]
+    #![proptest_config(crate::robustness::cases(400))]
 
     // format_for_file must read back within 1e-9 relative for any magnitude and kind.
     #[test]

@@ -129,7 +129,9 @@ proptest! {
     fn a_random_value_for_a_quantity_loads_or_fails_at_that_line(
         which in 0usize..3,
         line_pick in any::<prop::sample::Index>(),
-        value in prop_oneof!["\\PC{0,16}".prop_map(|t| format!("\"{t}\"")), any::<f64>().prop_map(|v| v.to_string())],
+        // No quote or backslash inside: those end or escape the TOML string itself, and then
+        // the parser rightly reports the damage where the string ends, not on this line.
+        value in prop_oneof!["[^\"\\\\\\p{C}]{0,16}".prop_map(|t| format!("\"{t}\"")), any::<f64>().prop_map(|v| v.to_string())],
     ) {
         let boats = &demo::BOATS;
         let source = boats[which % boats.len()].1;
