@@ -2,7 +2,6 @@
 
 use super::HullForm;
 use super::friction::{ittc1957_friction_coefficient, reynolds_number};
-use super::holtrop::{Edition, HoltropCoefficients};
 use crate::propulsion::water::WaterProperties;
 
 /// Interaction coefficients at one speed (all dimensionless).
@@ -124,7 +123,7 @@ pub fn holtrop_single_screw(
     let cm = hull.midship_coefficient.value;
     let lcb = hull.lcb_percent();
     let cstern = input.stern_coefficient;
-    let coefficients = HoltropCoefficients::new(hull, Edition::Revised1984);
+    let coefficients = hull.holtrop_coefficients();
 
     let rn = reynolds_number(speed, l, water.kinematic_viscosity);
     let cf = ittc1957_friction_coefficient(rn);

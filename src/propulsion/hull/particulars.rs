@@ -1,6 +1,7 @@
 //! Hull particulars as given by the user, and the resolved hull form with estimates flagged.
 
 use super::HullError;
+use super::holtrop::{Edition, HoltropCoefficients};
 use crate::propulsion::{Resolved, STANDARD_GRAVITY, Warning};
 
 /// Hull particulars as the user knows them; `None` means "estimate it". All SI.
@@ -65,6 +66,10 @@ pub struct HullForm {
     pub transom_area: Resolved,
     /// Warnings raised while resolving (values outside usual ranges).
     pub warnings: Vec<Warning>,
+    /// The speed-independent Holtrop (1984) coefficients, computed once by `resolve` because
+    /// every resistance and wake evaluation needs them.
+    #[serde(skip)]
+    holtrop: Option<HoltropCoefficients>,
 }
 
 /// Estimate of Cm from Cb: Cm = 1/(1 + (1 − Cb)^3.5) (HSVA, in Schneekluth & Bertram 1998).
@@ -182,6 +187,7 @@ impl HullInput {
             half_entrance_angle_deg: Resolved::given(0.0),
             transom_area: Resolved::given(0.0),
             warnings: Vec::new(),
+            holtrop: None,
         };
 
         form.wetted_surface = match self.wetted_surface {
@@ -200,11 +206,18 @@ impl HullInput {
             None => Resolved::estimated(0.0, TRANSOM_ASSUMPTION),
         };
         form.warnings = form.unusual_values();
+        form.holtrop = Some(HoltropCoefficients::new(&form, Edition::Revised1984));
         Ok(form)
     }
 }
 
 impl HullForm {
+    /// The speed-independent coefficients of Holtrop (1984) for this hull (cached by `resolve`).
+    pub fn holtrop_coefficients(&self) -> HoltropCoefficients {
+        self.holtrop
+            .unwrap_or_else(|| HoltropCoefficients::new(self, Edition::Revised1984))
+    }
+
     /// LCB in percent of L forward of ½L, the unit of Holtrop's formulas (%).
     pub fn lcb_percent(&self) -> f64 {
         100.0 * self.lcb_fraction.value

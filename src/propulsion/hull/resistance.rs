@@ -1,7 +1,7 @@
 //! The resistance model of a boat: a method, air drag and margins, evaluated at any speed.
 
 use super::friction::{ittc1957_friction_coefficient, reynolds_number};
-use super::holtrop::{self, Edition, HoltropCoefficients};
+use super::holtrop::{self, Edition};
 use super::{HullError, HullForm};
 use crate::propulsion::Warning;
 use crate::propulsion::water::WaterProperties;
@@ -191,7 +191,7 @@ impl ResistanceModel {
         if speed == 0.0 {
             let form_factor = match self.method {
                 ResistanceMethod::HoltropMennen => {
-                    HoltropCoefficients::new(&self.hull, HOLTROP_EDITION).form_factor
+                    self.hull.holtrop_coefficients().form_factor
                 }
                 ResistanceMethod::Table(_) => 1.0,
             };
@@ -202,7 +202,7 @@ impl ResistanceModel {
         }
         let mut parts = match &self.method {
             ResistanceMethod::HoltropMennen => {
-                let r = HoltropCoefficients::new(&self.hull, HOLTROP_EDITION)
+                let r = self.hull.holtrop_coefficients()
                     .at_speed(speed, &self.water);
                 ResistanceComponents {
                     friction: r.friction,
