@@ -15,6 +15,7 @@ pub mod keys;
 pub mod render;
 pub mod solve;
 pub mod theme;
+pub mod views;
 
 use crate::profile::store::save_boat_file;
 use crate::profile::{FileStamp, Loaded, Origin, ProfileError, Store};

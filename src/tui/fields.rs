@@ -800,6 +800,9 @@ pub fn pane_notes(pane: Pane, app: &App) -> Vec<String> {
     if let Some(line) = app.solution.recommendation_line(app.units) {
         notes.push(line);
     }
+    if let Some(solved) = app.solution.solved() {
+        notes.push(super::views::screw_pane_check_line(&solved.checks));
+    }
     notes
 }
 

@@ -94,6 +94,14 @@ pub fn draw(app: &App, area: Rect, buf: &mut Buffer) {
             highlighted,
         } => draw_picker(app, *kind, entries, *highlighted, area, buf),
         Overlay::Confirm(question) => draw_question(app, question.text(), area, buf),
+        Overlay::View { kind, scroll } => {
+            // Over the panes, chart and readout; the header, status and footer stay in view.
+            let cover = Rect {
+                height: main.height + readout.height,
+                ..main
+            };
+            super::views::draw_view(app, *kind, *scroll, cover, buf);
+        }
     }
 }
 
@@ -130,6 +138,12 @@ fn draw_header(app: &App, area: Rect, buf: &mut Buffer) {
     }
     if app.changed_on_disk {
         spans.push(Span::styled(" ⚠ file changed on disk", app.theme.error));
+    }
+    if let Some(cal) = &app.doc.boat.calibration {
+        spans.push(Span::styled(
+            format!(" · calibrated ×{:.3}", cal.resistance_factor),
+            app.theme.accent,
+        ));
     }
     let units = match app.units {
         UnitSystem::Metric => "metric",
@@ -286,6 +300,26 @@ pub fn chart_view(app: &App) -> ChartView {
             shape: SeriesShape::Line,
             style: reference.add_modifier(Modifier::DIM),
         });
+        if let (true, Some(Ok(band))) = (app.band_shown, &app.band) {
+            let low: Vec<(f64, f64)> = band
+                .points
+                .iter()
+                .filter_map(|p| Some((p.engine_rpm, p.low_power?)))
+                .collect();
+            let high: Vec<(f64, f64)> = band
+                .points
+                .iter()
+                .filter_map(|p| Some((p.engine_rpm, p.high_power?)))
+                .collect();
+            for (name, points) in [(Some("⠤ band ±10 % ∇, ±0.05 w".to_string()), low), (None, high)] {
+                view.series.push(Series {
+                    name,
+                    points: convert(&points, None, Kind::Power, system),
+                    shape: SeriesShape::Line,
+                    style: app.theme.dim,
+                });
+            }
+        }
     }
     let mut meetings = Vec::new();
     for (index, variant) in solved.variants.iter().enumerate() {
@@ -405,7 +439,10 @@ pub fn readout_lines(app: &App) -> Vec<Line<'static>> {
             let figures = [
                 format!("{:.0} rpm", p.engine_rpm),
                 units::format(p.brake_power, Kind::Power, system),
-                format!("load {:.0} %", p.load_fraction * 100.0),
+                match app.solution.solved().and_then(|s| s.checks.duty.as_ref()) {
+                    Some(duty) => duty.replace("% load; ", "% load, "),
+                    None => format!("load {:.0} %", p.load_fraction * 100.0),
+                },
                 units::format(p.fuel_volume_flow, Kind::FuelRate, system),
                 units::format(c.fuel_per_distance, Kind::FuelPerDistance, system),
                 format!(
