@@ -36,11 +36,11 @@ impl Mode {
     /// Every mode, in the order the help lists them.
     pub const ALL: [Mode; 6] = [
         Mode::Browse,
-        Mode::View,
         Mode::Edit,
         Mode::Pick,
         Mode::Confirm,
         Mode::Help,
+        Mode::View,
     ];
 }
 

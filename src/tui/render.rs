@@ -439,8 +439,13 @@ pub fn readout_lines(app: &App) -> Vec<Line<'static>> {
             let figures = [
                 format!("{:.0} rpm", p.engine_rpm),
                 units::format(p.brake_power, Kind::Power, system),
-                match app.solution.solved().and_then(|s| s.checks.duty.as_ref()) {
-                    Some(duty) => duty.replace("% load; ", "% load, "),
+                match app
+                    .solution
+                    .solved()
+                    .and_then(|s| s.checks.duty.as_ref())
+                    .and_then(|d| d.split_once("; "))
+                {
+                    Some((_, duty)) => format!("load {:.0} % ({duty})", p.load_fraction * 100.0),
                     None => format!("load {:.0} %", p.load_fraction * 100.0),
                 },
                 units::format(p.fuel_volume_flow, Kind::FuelRate, system),
@@ -621,7 +626,7 @@ fn draw_help(app: &App, scroll: u16, area: Rect, buf: &mut Buffer) {
         .title(" Keys — ? or Esc closes, j/k scroll ");
     let inner = block.inner(rect);
     block.render(rect, buf);
-    let others = [Mode::Edit, Mode::Pick, Mode::Confirm, Mode::Help];
+    let others = [Mode::Edit, Mode::Pick, Mode::Confirm, Mode::Help, Mode::View];
     if inner.width >= 110 {
         let [left, right] =
             Layout::horizontal([Constraint::Percentage(55), Constraint::Percentage(45)])

@@ -63,6 +63,8 @@ pub struct Solved {
     pub recommendation: Result<PitchRecommendation, String>,
     /// The loading condition the recommendation was made for, as a short phrase.
     pub recommendation_condition: String,
+    /// The load case the recommendation was made for ("light", "half", "full").
+    pub recommendation_load: String,
     /// Cavitation, shaft and duty checks of the active variant.
     pub checks: Checks,
 }
@@ -113,6 +115,7 @@ impl Solution {
             let mut solved = solve_vessel(vessel);
             solved.checks = Checks::of(&solved, boat);
             solved.recommendation_condition = condition_phrase(boat, &solved);
+            solved.recommendation_load = boat.load.default.to_string();
             solved
         });
         Self { result }
@@ -158,10 +161,10 @@ impl Solution {
             None => "",
         };
         Some(format!(
-            "Recommended pitch {} ({sign}{}, {limit}) for {}; p adds it",
+            "Recommended pitch {} ({sign}{}, {limit}) for {} load; p adds it",
             units::format(pitch, Kind::ScrewLength, system),
             units::format(change.abs(), Kind::ScrewLength, system),
-            self.solved()?.recommendation_condition,
+            self.solved()?.recommendation_load,
         ))
     }
 }
@@ -192,6 +195,7 @@ pub fn solve_vessel(vessel: Vessel) -> Solved {
         trial,
         recommendation,
         recommendation_condition: String::new(),
+        recommendation_load: String::new(),
         checks: Checks {
             cavitation: Vec::new(),
             shaft_immersion: None,

@@ -572,37 +572,35 @@ pub fn screw_pane_check_line(checks: &Checks) -> String {
         if let Ok(r) = report {
             let mut what = Vec::new();
             if !r.keller_area_ratio.passed {
-                what.push(format!(
-                    "Keller AE/A0 {:.2}<{:.2}",
-                    r.keller_area_ratio.value, r.keller_area_ratio.limit
-                ));
+                what.push("Keller");
             }
             if !r.thrust_loading.passed {
-                what.push("Burrill 5 %".to_string());
+                what.push("Burrill");
             }
             if !r.blade_loading.passed {
-                what.push(format!(
-                    "loading {:.1} psi",
-                    r.blade_loading.value / PASCALS_PER_PSI
-                ));
+                what.push("loading");
             }
             if !what.is_empty() {
-                failed.push(format!("{} at {}", what.join(", "), point.name()));
+                let at = match point {
+                    CheckPoint::Target => "target",
+                    CheckPoint::Top => "top",
+                };
+                failed.push(format!("{} at {at}", what.join("+")));
             }
         }
     }
     let mut text = if failed.is_empty() {
         let checked = checks.cavitation.iter().filter(|(_, r)| r.is_ok()).count();
         if checked == 0 {
-            "Cavitation not checked (w details)".to_string()
+            "Cavitation not checked (w)".to_string()
         } else {
-            "Cavitation ok at target and top (Keller, Burrill, loading); w details".to_string()
+            "Cavitation ok at target and top (w)".to_string()
         }
     } else {
-        format!("⚠ Cavitation: {} (w details)", failed.join("; "))
+        format!("⚠ Cavitation past limit: {} (w)", failed.join(", "))
     };
     if checks.shaft_too_small() {
-        text.push_str(" ⚠ shaft below minimum");
+        text.push_str(" ⚠ shaft too small");
     }
     text
 }

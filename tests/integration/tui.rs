@@ -527,14 +527,14 @@ fn help_overlay_lists_every_key() {
     assert!(small.contains("select the field above"), "{small}");
     insta::assert_snapshot!("help_80x24", small);
     // At 80×24 the list scrolls: the later sections come into view.
-    for _ in 0..30 {
+    let mut scrolled = String::new();
+    for _ in 0..60 {
         key(&mut app, KeyCode::Char('j'));
+        scrolled.push_str(&screen(&app, 80, 24));
     }
-    let scrolled = screen(&app, 80, 24);
-    assert!(
-        scrolled.contains("Typing a value") && scrolled.contains("Markers"),
-        "{scrolled}"
-    );
+    for later in ["Typing a value", "Design views", "apply the fitted correction", "Markers"] {
+        assert!(scrolled.contains(later), "{later} never scrolled into view");
+    }
     key(&mut app, KeyCode::Esc);
     assert_eq!(app.mode(), Mode::Browse);
 }
@@ -796,7 +796,10 @@ fn calibration_view_without_a_log_says_so() {
 #[test]
 fn what_if_view_heavier_loads_turn_fewer_rpm_and_show_the_band_and_checks() {
     use tidewright::tui::analysis::ViewData;
-    let mut app = pintle_app();
+    let mut app = demo_app();
+    // The over-propped "old 26x21": its full-throttle rpm is below the governor in every load.
+    keys(&mut app, "[");
+    assert_eq!(app.doc.boat.variants[app.doc.boat.active_variant].label, "old 26x21");
     keys(&mut app, "w");
     let Some(ViewData::WhatIf(view)) = &app.view else {
         panic!("what-if not solved")
@@ -813,6 +816,15 @@ fn what_if_view_heavier_loads_turn_fewer_rpm_and_show_the_band_and_checks() {
     assert!(rpm("light") > rpm("half load"), "light vs half");
     assert!(rpm("half load") > rpm("full load"), "half vs full");
     assert!(rpm("fouled") < rpm("as given"), "fouled turns fewer rpm");
+    let power = |label: &str| {
+        outcomes
+            .iter()
+            .find(|o| o.condition.label == label)
+            .and_then(|o| o.cruise_power)
+            .unwrap_or_else(|| panic!("{label} cruise solved"))
+    };
+    assert!(power("full load") > power("light"), "heavier needs more power at the same speed");
+    assert!(power("sea state") > power("as given"));
     let band = app.band.as_ref().expect("band solved").as_ref().expect("band ok");
     let (low, high) = (band.pitch_low.unwrap(), band.pitch_high.unwrap());
     assert!(low < high, "the band gives a pitch range");
@@ -842,6 +854,7 @@ fn what_if_view_heavier_loads_turn_fewer_rpm_and_show_the_band_and_checks() {
             "Shaft:",
             "duty",
             "made for half load",
+            "OVER",
             "naval architect",
         ] {
             assert!(text.contains(want), "{want} missing at {size:?}:\n{text}");
