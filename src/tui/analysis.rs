@@ -248,13 +248,8 @@ fn sweep_view(over: SweepOver, boat: &BoatDoc, engine: &EngineDoc) -> SweepView 
         _ => None,
     };
     let result = parameter.and_then(|p| {
-        sweep(
-            &vessel,
-            vessel.active_variant,
-            &p,
-            &SweepOptions::default(),
-        )
-        .map_err(|e| e.to_string())
+        sweep(&vessel, vessel.active_variant, &p, &SweepOptions::default())
+            .map_err(|e| e.to_string())
     });
     SweepView {
         over,
@@ -323,12 +318,8 @@ pub fn conditions(boat: &BoatDoc, vessel: &Vessel) -> Vec<Condition> {
 fn what_if_view(boat: &BoatDoc, engine: &EngineDoc) -> WhatIfView {
     let label = active_label(boat);
     let outcomes = super::fields::build_vessel(boat, engine).and_then(|vessel| {
-        compare_conditions(
-            &vessel,
-            vessel.active_variant,
-            &conditions(boat, &vessel),
-        )
-        .map_err(|e| e.to_string())
+        compare_conditions(&vessel, vessel.active_variant, &conditions(boat, &vessel))
+            .map_err(|e| e.to_string())
     });
     WhatIfView { label, outcomes }
 }
@@ -357,22 +348,64 @@ mod tests {
     }
 
     #[test]
-    fn timing() {
-        for name in ["marram", "pintle", "sorrel"] {
-            let app = demo(name);
-            for kind in ViewKind::ALL {
-                for over in SweepOver::ALL {
-                    let t = std::time::Instant::now();
-                    let _ = ViewData::compute(kind, over, &app.doc.boat, &app.doc.engine);
-                    eprintln!("{name} {kind:?} {over:?} {:?}", t.elapsed());
-                    if kind != ViewKind::Sweep {
-                        break;
-                    }
-                }
-            }
-            let t = std::time::Instant::now();
-            let _ = crate::tui::solve::Solution::solve(&app.doc.boat, &app.doc.engine);
-            eprintln!("{name} solve {:?}", t.elapsed());
+    fn diameter_sweep_reaches_the_profiles_largest_screw() {
+        let app = demo("pintle");
+        let vessel = crate::tui::fields::build_vessel(&app.doc.boat, &app.doc.engine).unwrap();
+        let Ok(SweepParameter::Diameter { aperture, .. }) =
+            sweep_parameter(SweepOver::Diameter, &app.doc.boat, &vessel)
+        else {
+            panic!("a diameter sweep")
+        };
+        // pintle: max_screw_diameter = 500 mm with 60 mm tip clearance.
+        assert!((aperture.max_diameter() - 0.5).abs() < 1e-12);
+        let mut boat = app.doc.boat.clone();
+        boat.installation.max_screw_diameter = None;
+        let err = sweep_parameter(SweepOver::Diameter, &boat, &vessel).unwrap_err();
+        assert!(err.contains("max_screw_diameter"), "{err}");
+    }
+
+    #[test]
+    fn what_if_conditions_are_the_files_loads_then_fouled_and_sea_state() {
+        let app = demo("pintle");
+        let vessel = crate::tui::fields::build_vessel(&app.doc.boat, &app.doc.engine).unwrap();
+        let list = conditions(&app.doc.boat, &vessel);
+        let labels: Vec<&str> = list.iter().map(|c| c.label.as_str()).collect();
+        assert_eq!(
+            labels,
+            ["light", "half load", "full load", "fouled", "sea state"]
+        );
+        // pintle's light load is 4.2 t in sea water.
+        let light = list[0].displacement_volume.unwrap();
+        assert!((light * vessel.resistance.water.density - 4200.0).abs() < 1e-6);
+        assert!((list[3].fouling.unwrap() - (0.1 + FOULED_EXTRA)).abs() < 1e-12);
+        assert!((list[4].service_margin.unwrap() - (0.15 + SEA_STATE_EXTRA)).abs() < 1e-12);
+    }
+
+    #[test]
+    fn a_correction_is_offered_only_when_the_fit_improves() {
+        let app = demo("pintle");
+        let ViewData::Calibration(view) = ViewData::compute(
+            ViewKind::Calibration,
+            SweepOver::Diameter,
+            &app.doc.boat,
+            &app.doc.engine,
+        ) else {
+            panic!("calibration view")
+        };
+        let correction = view.correction().expect("pintle's fit improves");
+        assert_eq!(correction.trial_date.as_deref(), Some("2024-05-18"));
+        let mut worse = view.clone();
+        if let Ok(cal) = &mut worse.result {
+            cal.rms_after = cal.rms_before;
         }
+        assert!(worse.correction().is_none());
+    }
+
+    #[test]
+    fn views_cycle_both_ways() {
+        for kind in ViewKind::ALL {
+            assert_eq!(kind.next().prev(), kind);
+        }
+        assert_eq!(SweepOver::AreaRatio.next(), SweepOver::Diameter);
     }
 }

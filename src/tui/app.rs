@@ -460,9 +460,8 @@ impl App {
     /// Re-solves the open view and the uncertainty band, when they are wanted.
     fn refresh_analysis(&mut self) {
         let kind = self.view_kind();
-        self.view = kind.map(|kind| {
-            ViewData::compute(kind, self.sweep_over, &self.doc.boat, &self.doc.engine)
-        });
+        self.view = kind
+            .map(|kind| ViewData::compute(kind, self.sweep_over, &self.doc.boat, &self.doc.engine));
         let band_wanted = self.band_shown || kind == Some(ViewKind::WhatIf);
         self.band = band_wanted.then(|| analysis::band(&self.doc.boat, &self.doc.engine));
     }
@@ -488,7 +487,10 @@ impl App {
                     self.sweep_over = self.sweep_over.next();
                     self.refresh_analysis();
                 } else {
-                    self.set_status(Level::Info, "n switches the swept parameter in the sweep view");
+                    self.set_status(
+                        Level::Info,
+                        "n switches the swept parameter in the sweep view",
+                    );
                 }
             }
             Command::ApplyCalibration => self.apply_calibration(),
@@ -512,7 +514,9 @@ impl App {
         let Some(correction) = view.correction() else {
             let why = match &view.result {
                 Err(why) => why.clone(),
-                Ok(_) => "the fit does not improve on the model, so there is nothing to apply".into(),
+                Ok(_) => {
+                    "the fit does not improve on the model, so there is nothing to apply".into()
+                }
             };
             self.set_status(Level::Error, format!("no correction applied: {why}"));
             return;
@@ -521,13 +525,18 @@ impl App {
         let mut next = self.doc.clone();
         next.boat.calibration = Some(correction);
         if next == self.doc {
-            self.set_status(Level::Info, format!("calibration ×{factor:.3} is already applied"));
+            self.set_status(
+                Level::Info,
+                format!("calibration ×{factor:.3} is already applied"),
+            );
             return;
         }
         self.commit(next);
         self.set_status(
             Level::Info,
-            format!("calibration ×{factor:.3} applied to every prediction (unsaved: s saves, u undoes)"),
+            format!(
+                "calibration ×{factor:.3} applied to every prediction (unsaved: s saves, u undoes)"
+            ),
         );
     }
 

@@ -60,9 +60,9 @@ pub fn draw(app: &App, area: Rect, buf: &mut Buffer) {
     if area.width >= WIDE && area.height >= TALL {
         // Screw and Powerplant fit whole; the Vessel pane, the longest, scrolls with the selection.
         let rects = Layout::vertical([
-            Constraint::Min(8),
+            Constraint::Min(7),
             Constraint::Length(12),
-            Constraint::Length(12),
+            Constraint::Length(13),
         ])
         .split(left);
         for (pane, rect) in Pane::ALL.iter().zip(rects.iter()) {
@@ -311,7 +311,10 @@ pub fn chart_view(app: &App) -> ChartView {
                 .iter()
                 .filter_map(|p| Some((p.engine_rpm, p.high_power?)))
                 .collect();
-            for (name, points) in [(Some("⠤ band ±10 % ∇, ±0.05 w".to_string()), low), (None, high)] {
+            for (name, points) in [
+                (Some("⠤ band ±10 % ∇, ±0.05 w".to_string()), low),
+                (None, high),
+            ] {
                 view.series.push(Series {
                     name,
                     points: convert(&points, None, Kind::Power, system),
@@ -626,7 +629,13 @@ fn draw_help(app: &App, scroll: u16, area: Rect, buf: &mut Buffer) {
         .title(" Keys — ? or Esc closes, j/k scroll ");
     let inner = block.inner(rect);
     block.render(rect, buf);
-    let others = [Mode::Edit, Mode::Pick, Mode::Confirm, Mode::Help, Mode::View];
+    let others = [
+        Mode::Edit,
+        Mode::Pick,
+        Mode::Confirm,
+        Mode::Help,
+        Mode::View,
+    ];
     if inner.width >= 110 {
         let [left, right] =
             Layout::horizontal([Constraint::Percentage(55), Constraint::Percentage(45)])

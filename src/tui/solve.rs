@@ -9,14 +9,14 @@ use crate::propulsion::screw::cavitation::{
     SMALL_CRAFT_BLADE_LOADING_LIMIT, check_cavitation,
 };
 use crate::propulsion::solver::OperatingPoint;
-use crate::propulsion::solver::shaft::{
-    ShaftCheck, ShaftMaterial, YACHT_SAFETY_FACTOR, check_shaft, duty_note,
-};
-use crate::propulsion::water::STANDARD_ATMOSPHERE;
 use crate::propulsion::solver::cruise::cruise_at_speed;
 use crate::propulsion::solver::design::{PitchOptions, PitchRecommendation, recommend_pitch};
 use crate::propulsion::solver::matching::match_engine;
+use crate::propulsion::solver::shaft::{
+    ShaftCheck, ShaftMaterial, YACHT_SAFETY_FACTOR, check_shaft, duty_note,
+};
 use crate::propulsion::solver::{CruisePoint, MatchResult, PropellerCurve, Trip, Vessel};
+use crate::propulsion::water::STANDARD_ATMOSPHERE;
 use crate::units::{self, Kind, UnitSystem};
 
 /// Speeds solved per propeller curve (enough for a smooth braille line at 120 columns).
@@ -61,10 +61,10 @@ pub struct Solved {
     /// The pitch recommendation for the active variant (default target: rated power at rated
     /// rpm with the service margin), or why there is none.
     pub recommendation: Result<PitchRecommendation, String>,
-    /// The loading condition the recommendation was made for, as a short phrase.
-    pub recommendation_condition: String,
     /// The load case the recommendation was made for ("light", "half", "full").
     pub recommendation_load: String,
+    /// The displacement mass of that load case, kg.
+    pub recommendation_mass: Option<f64>,
     /// Cavitation, shaft and duty checks of the active variant.
     pub checks: Checks,
 }
@@ -114,8 +114,11 @@ impl Solution {
         let result = super::fields::build_vessel(boat, engine).map(|vessel| {
             let mut solved = solve_vessel(vessel);
             solved.checks = Checks::of(&solved, boat);
-            solved.recommendation_condition = condition_phrase(boat, &solved);
             solved.recommendation_load = boat.load.default.to_string();
+            solved.recommendation_mass = boat
+                .load
+                .case(boat.load.default)
+                .map(|c| c.displacement.value);
             solved
         });
         Self { result }
@@ -139,6 +142,27 @@ impl Solution {
             .as_ref()
             .ok()?
             .recommended_pitch
+    }
+
+    /// The loading condition the recommendation was made for in a few words, in `system`'s
+    /// units, e.g. "half load 4.60 t, margin 15 %, fouling 10 %, calibrated ×1.114".
+    pub fn recommendation_condition(&self, system: UnitSystem) -> Option<String> {
+        let solved = self.solved()?;
+        let margins = solved.vessel.resistance.margins;
+        let mass = solved
+            .recommendation_mass
+            .map(|m| format!(" {}", units::format(m, Kind::Mass, system)))
+            .unwrap_or_default();
+        let mut text = format!(
+            "{} load{mass}, margin {:.0} %, fouling {:.0} %",
+            solved.recommendation_load,
+            margins.service * 100.0,
+            margins.fouling * 100.0
+        );
+        if (margins.resistance_factor - 1.0).abs() > 1e-9 {
+            text.push_str(&format!(", calibrated ×{:.3}", margins.resistance_factor));
+        }
+        Some(text)
     }
 
     /// The recommendation line of the Screw pane, in `system`'s units.
@@ -194,8 +218,8 @@ pub fn solve_vessel(vessel: Vessel) -> Solved {
         envelope,
         trial,
         recommendation,
-        recommendation_condition: String::new(),
         recommendation_load: String::new(),
+        recommendation_mass: None,
         checks: Checks {
             cavitation: Vec::new(),
             shaft_immersion: None,
@@ -204,7 +228,7 @@ pub fn solve_vessel(vessel: Vessel) -> Solved {
         },
         vessel,
     };
-    solved.recommendation_condition = solved
+    solved.recommendation_load = solved
         .recommendation
         .as_ref()
         .map(|r| r.condition.label.clone())
@@ -257,27 +281,6 @@ fn solve_variant(vessel: &Vessel, index: usize) -> VariantSolution {
         }
     }
     solution
-}
-
-/// The recommendation's loading condition in a few words: load case, displacement, margins
-/// and any sea-trial factor, e.g. "half load 4.6 t, margin 15 %, fouling 10 %".
-fn condition_phrase(boat: &BoatDoc, solved: &Solved) -> String {
-    let margins = solved.vessel.resistance.margins;
-    let load = boat
-        .load
-        .case(boat.load.default)
-        .map(|c| format!(" {:.1} t", c.displacement.value / 1000.0))
-        .unwrap_or_default();
-    let mut text = format!(
-        "{} load{load}, margin {:.0} %, fouling {:.0} %",
-        boat.load.default,
-        margins.service * 100.0,
-        margins.fouling * 100.0
-    );
-    if (margins.resistance_factor - 1.0).abs() > 1e-9 {
-        text.push_str(&format!(", calibrated ×{:.3}", margins.resistance_factor));
-    }
-    text
 }
 
 /// The material the boat file names, matched to the built-in table ("stainless-316" matches
@@ -394,9 +397,8 @@ impl Checks {
 
     /// Whether the boat's shaft is smaller than the minimum.
     pub fn shaft_too_small(&self) -> bool {
-        self.shaft.as_ref().is_ok_and(|s| {
-            s.existing_diameter
-                .is_some_and(|d| d < s.min_diameter)
-        })
+        self.shaft
+            .as_ref()
+            .is_ok_and(|s| s.existing_diameter.is_some_and(|d| d < s.min_diameter))
     }
 }

@@ -204,7 +204,12 @@ fn candidate_line(app: &App, over: SweepOver, c: &SweepCandidate) -> Line<'stati
         number(c.top_speed, Kind::Speed, system, 1),
         eta(c.open_water_efficiency_at_target),
         eta(c.open_water_efficiency_at_top),
-        number(c.fuel_per_distance_at_target, Kind::FuelPerDistance, system, 3),
+        number(
+            c.fuel_per_distance_at_target,
+            Kind::FuelPerDistance,
+            system,
+            3
+        ),
     );
     if c.rank == 1 && c.pitch.is_some() {
         Line::styled(format!("{text}  ◀ best"), app.theme.accent)
@@ -341,11 +346,8 @@ fn what_if_lines(
                 text.push_str(&format!(" ({} cases unsolved)", band.unsolved_cases));
             }
             lines.push(Line::styled(text, app.theme.accent));
-            if let Some(solved) = app.solution.solved() {
-                lines.push(Line::styled(
-                    format!("made for {}", solved.recommendation_condition),
-                    app.theme.dim,
-                ));
+            if let Some(condition) = app.solution.recommendation_condition(system) {
+                lines.push(Line::styled(format!("made for {condition}"), app.theme.dim));
             }
             lines.push(Line::styled(
                 "b draws the band on the power chart",
@@ -560,7 +562,9 @@ pub fn check_lines(app: &App, checks: &Checks) -> Vec<Line<'static>> {
         Err(why) => Line::styled(format!("Shaft not checked: {why}"), app.theme.warning),
     });
     if let Some(duty) = &checks.duty {
-        lines.push(Line::raw(format!("Engine duty at the target speed: {duty}")));
+        lines.push(Line::raw(format!(
+            "Engine duty at the target speed: {duty}"
+        )));
     }
     lines
 }
@@ -597,7 +601,7 @@ pub fn screw_pane_check_line(checks: &Checks) -> String {
             "Cavitation ok at target and top (w)".to_string()
         }
     } else {
-        format!("⚠ Cavitation past limit: {} (w)", failed.join(", "))
+        format!("⚠ Cavitation: {} (w)", failed.join(", "))
     };
     if checks.shaft_too_small() {
         text.push_str(" ⚠ shaft too small");

@@ -532,7 +532,12 @@ fn help_overlay_lists_every_key() {
         key(&mut app, KeyCode::Char('j'));
         scrolled.push_str(&screen(&app, 80, 24));
     }
-    for later in ["Typing a value", "Design views", "apply the fitted correction", "Markers"] {
+    for later in [
+        "Typing a value",
+        "Design views",
+        "apply the fitted correction",
+        "Markers",
+    ] {
         assert!(scrolled.contains(later), "{later} never scrolled into view");
     }
     key(&mut app, KeyCode::Esc);
@@ -724,7 +729,10 @@ fn sweep_view_ranks_diameters_up_to_the_aperture_and_switches_parameter() {
     keys(&mut app, "nn");
     assert!(screen(&app, 80, 24).contains("area ratio AE/A0 for"));
     key(&mut app, KeyCode::Tab);
-    assert_eq!(app.view.as_ref().map(|v| v.kind()), Some(ViewKind::Calibration));
+    assert_eq!(
+        app.view.as_ref().map(|v| v.kind()),
+        Some(ViewKind::Calibration)
+    );
     key(&mut app, KeyCode::Esc);
     assert_eq!(app.mode(), Mode::Browse);
     assert!(app.view.is_none());
@@ -747,14 +755,20 @@ fn calibration_view_on_pintle_lowers_the_rms_and_applying_it_is_undoable() {
         cal.rms_before,
         cal.rms_after
     );
-    assert!(cal.points.iter().all(|p| p.two_way), "every rpm run both ways");
+    assert!(
+        cal.points.iter().all(|p| p.two_way),
+        "every rpm run both ways"
+    );
     let factor = cal.resistance_factor;
     for size in [(80, 24), (120, 40)] {
         let text = screen(&app, size.0, size.1);
         assert!(text.contains("RMS error: before"), "{text}");
         assert!(text.contains(&format!("×{factor:.3}")), "{text}");
         assert!(text.contains("two-way"), "{text}");
-        assert!(text.contains("measured") && text.contains("calibrated"), "{text}");
+        assert!(
+            text.contains("measured") && text.contains("calibrated"),
+            "{text}"
+        );
         if size == (120, 40) {
             insta::assert_snapshot!("calibration_120x40", text);
         } else {
@@ -762,22 +776,37 @@ fn calibration_view_on_pintle_lowers_the_rms_and_applying_it_is_undoable() {
         }
     }
     keys(&mut app, "a");
-    let applied = app.doc.boat.calibration.as_ref().expect("correction applied");
+    let applied = app
+        .doc
+        .boat
+        .calibration
+        .as_ref()
+        .expect("correction applied");
     assert!((applied.resistance_factor - factor).abs() < 1e-12);
     assert!(app.dirty(), "applying marks the boat unsaved");
     let after = top_speed(&app);
     // A factor above 1 adds resistance: the same engine reaches a lower top speed.
-    assert!(factor > 1.0, "pintle's log is slower than the model: {factor}");
+    assert!(
+        factor > 1.0,
+        "pintle's log is slower than the model: {factor}"
+    );
     assert!(after < before, "top speed {before} → {after}");
     let text = screen(&app, 80, 24);
     assert!(text.contains(&format!("calibrated ×{factor:.3}")), "{text}");
     assert!(text.contains("unsaved"), "{text}");
     key(&mut app, KeyCode::Esc);
     let text = screen(&app, 120, 40);
-    assert!(text.contains(&format!("calibrated ×{factor:.3}")), "header:\n{text}");
+    assert!(
+        text.contains(&format!("calibrated ×{factor:.3}")),
+        "header:\n{text}"
+    );
     keys(&mut app, "u");
     assert!(app.doc.boat.calibration.is_none());
-    assert_eq!(top_speed(&app), before, "undo restores the solved top speed");
+    assert_eq!(
+        top_speed(&app),
+        before,
+        "undo restores the solved top speed"
+    );
     assert!(!app.dirty());
 }
 
@@ -799,7 +828,10 @@ fn what_if_view_heavier_loads_turn_fewer_rpm_and_show_the_band_and_checks() {
     let mut app = demo_app();
     // The over-propped "old 26x21": its full-throttle rpm is below the governor in every load.
     keys(&mut app, "[");
-    assert_eq!(app.doc.boat.variants[app.doc.boat.active_variant].label, "old 26x21");
+    assert_eq!(
+        app.doc.boat.variants[app.doc.boat.active_variant].label,
+        "old 26x21"
+    );
     keys(&mut app, "w");
     let Some(ViewData::WhatIf(view)) = &app.view else {
         panic!("what-if not solved")
@@ -823,9 +855,17 @@ fn what_if_view_heavier_loads_turn_fewer_rpm_and_show_the_band_and_checks() {
             .and_then(|o| o.cruise_power)
             .unwrap_or_else(|| panic!("{label} cruise solved"))
     };
-    assert!(power("full load") > power("light"), "heavier needs more power at the same speed");
+    assert!(
+        power("full load") > power("light"),
+        "heavier needs more power at the same speed"
+    );
     assert!(power("sea state") > power("as given"));
-    let band = app.band.as_ref().expect("band solved").as_ref().expect("band ok");
+    let band = app
+        .band
+        .as_ref()
+        .expect("band solved")
+        .as_ref()
+        .expect("band ok");
     let (low, high) = (band.pitch_low.unwrap(), band.pitch_high.unwrap());
     assert!(low < high, "the band gives a pitch range");
     for size in [(80, 24), (120, 40)] {
@@ -872,7 +912,10 @@ fn what_if_view_heavier_loads_turn_fewer_rpm_and_show_the_band_and_checks() {
 fn band_is_drawn_on_the_power_chart_and_the_screw_pane_names_the_condition() {
     let mut app = pintle_app();
     let text = screen(&app, 120, 40);
-    assert!(text.contains("for half load"), "recommendation condition:\n{text}");
+    assert!(
+        text.contains("for half load"),
+        "recommendation condition:\n{text}"
+    );
     assert!(text.contains("Cavitation"), "cavitation line:\n{text}");
     assert!(!text.contains("band ±10 %"));
     keys(&mut app, "b");
