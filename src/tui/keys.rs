@@ -361,7 +361,10 @@ mod tests {
         let ctrl_r = press(KeyCode::Char('r'), KeyModifiers::CONTROL);
         assert_eq!(lookup(Mode::Browse, &ctrl_r), Some(Command::Redo));
         let plain_r = press(KeyCode::Char('r'), KeyModifiers::NONE);
-        assert_eq!(lookup(Mode::Browse, &plain_r), Some(Command::OpenCalibration));
+        assert_eq!(
+            lookup(Mode::Browse, &plain_r),
+            Some(Command::OpenCalibration)
+        );
         let plain_z = press(KeyCode::Char('z'), KeyModifiers::NONE);
         assert_eq!(lookup(Mode::Browse, &plain_z), None, "only Ctrl-z undoes");
     }

@@ -542,7 +542,11 @@ pub fn check_lines(app: &App, checks: &Checks) -> Vec<Line<'static>> {
                     format!(
                         "boat's shaft {} {}",
                         units::format(d, Kind::ScrewLength, system),
-                        mark(d >= s.min_diameter)
+                        if d >= s.min_diameter {
+                            "ok"
+                        } else {
+                            "⚠ SMALLER THAN THE MINIMUM"
+                        }
                     )
                 },
             );
