@@ -6,6 +6,7 @@
 //! [`solve`]); I/O comes back as an [`app::Effect`] that the thin loop here carries out; and
 //! [`render::render`] draws a pure function of the state.
 
+pub mod analysis;
 pub mod app;
 pub mod chart;
 pub mod field_list;
@@ -14,6 +15,7 @@ pub mod keys;
 pub mod render;
 pub mod solve;
 pub mod theme;
+pub mod views;
 
 use crate::profile::store::save_boat_file;
 use crate::profile::{FileStamp, Loaded, Origin, ProfileError, Store};

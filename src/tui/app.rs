@@ -4,12 +4,14 @@
 //! vessel and re-solves every variant at once (see [`super::solve`]); anything that touches
 //! files comes back as an [`Effect`] for the event loop to carry out.
 
+use super::analysis::{self, SweepOver, ViewData, ViewKind};
 use super::chart::ChartKind;
 use super::fields::{self, FieldId, FieldValue, Pane};
 use super::keys::{self, Command, Mode};
 use super::solve::Solution;
 use super::theme::Theme;
 use crate::profile::{BoatDoc, EngineDoc};
+use crate::propulsion::solver::conditions::UncertaintyBand;
 use crate::units::{self, UnitSystem};
 use crossterm::event::{KeyCode, KeyEvent, KeyEventKind, KeyModifiers};
 
@@ -132,6 +134,13 @@ pub enum Overlay {
     },
     /// A y/n question.
     Confirm(Question),
+    /// A design view over the panes and charts; its results are in [`App::view`].
+    View {
+        /// Which view.
+        kind: ViewKind,
+        /// Lines scrolled past.
+        scroll: u16,
+    },
 }
 
 /// What is being typed into.
@@ -216,6 +225,14 @@ pub struct App {
     pub theme: Theme,
     /// Set when the boat's file changed on disk since it was opened or saved.
     pub changed_on_disk: bool,
+    /// The parameter the sweep view sweeps.
+    pub sweep_over: SweepOver,
+    /// The open design view's results, solved when it opened and after each edit since.
+    pub view: Option<ViewData>,
+    /// Whether the power chart shows the uncertainty band.
+    pub band_shown: bool,
+    /// The uncertainty band, kept while the power chart shows it or the what-if view is open.
+    pub band: Option<Result<UncertaintyBand, String>>,
 }
 
 impl App {
@@ -243,6 +260,10 @@ impl App {
             status: None,
             theme,
             changed_on_disk: false,
+            sweep_over: SweepOver::default(),
+            view: None,
+            band_shown: false,
+            band: None,
         }
     }
 
@@ -257,6 +278,7 @@ impl App {
             (Overlay::Help { .. }, _) => Mode::Help,
             (Overlay::Pick { .. }, _) => Mode::Pick,
             (Overlay::Confirm(_), _) => Mode::Confirm,
+            (Overlay::View { .. }, _) => Mode::View,
             (Overlay::None, Some(_)) => Mode::Edit,
             (Overlay::None, None) => Mode::Browse,
         }
@@ -318,9 +340,13 @@ impl App {
             Action::BoatOpened(opened) => {
                 let opened = *opened;
                 let (units, theme, chart) = (self.units, self.theme.clone(), self.chart);
+                let (band_shown, sweep_over) = (self.band_shown, self.sweep_over);
                 let name = opened.name.clone();
                 *self = App::new(opened, units, theme);
                 self.chart = chart;
+                self.band_shown = band_shown;
+                self.sweep_over = sweep_over;
+                self.refresh_analysis();
                 self.set_status(Level::Info, format!("opened {name}"));
                 None
             }
@@ -413,7 +439,148 @@ impl App {
             }
             Mode::Pick => self.pick(command),
             Mode::Confirm => self.confirm(command),
+            Mode::View => self.in_view(command),
         }
+    }
+
+    /// The open view's kind, if a view is open.
+    pub fn view_kind(&self) -> Option<ViewKind> {
+        match self.overlay {
+            Overlay::View { kind, .. } => Some(kind),
+            _ => None,
+        }
+    }
+
+    /// Opens view `kind` and solves it.
+    fn open_view(&mut self, kind: ViewKind) {
+        self.overlay = Overlay::View { kind, scroll: 0 };
+        self.refresh_analysis();
+    }
+
+    /// Re-solves the open view and the uncertainty band, when they are wanted.
+    fn refresh_analysis(&mut self) {
+        let kind = self.view_kind();
+        self.view = kind
+            .map(|kind| ViewData::compute(kind, self.sweep_over, &self.doc.boat, &self.doc.engine));
+        let band_wanted = self.band_shown || kind == Some(ViewKind::WhatIf);
+        self.band = band_wanted.then(|| analysis::band(&self.doc.boat, &self.doc.engine));
+    }
+
+    fn in_view(&mut self, command: Command) -> Option<Effect> {
+        self.status = None;
+        let Overlay::View { kind, scroll } = &mut self.overlay else {
+            return None;
+        };
+        let kind = *kind;
+        match command {
+            Command::CloseView => {
+                self.overlay = Overlay::None;
+                self.view = None;
+                self.refresh_analysis();
+            }
+            Command::NextView => self.open_view(kind.next()),
+            Command::PrevView => self.open_view(kind.prev()),
+            Command::ListDown => *scroll = (*scroll + 1).min(80),
+            Command::ListUp => *scroll = scroll.saturating_sub(1),
+            Command::NextSweepParameter => {
+                if kind == ViewKind::Sweep {
+                    self.sweep_over = self.sweep_over.next();
+                    self.refresh_analysis();
+                } else {
+                    self.set_status(
+                        Level::Info,
+                        "n switches the swept parameter in the sweep view",
+                    );
+                }
+            }
+            Command::ApplyCalibration => self.apply_calibration(),
+            Command::Undo => self.undo(),
+            Command::Redo => self.redo(),
+            Command::ToggleUnits => self.toggle_units(),
+            Command::Save => return self.save(),
+            _ => {}
+        }
+        None
+    }
+
+    fn apply_calibration(&mut self) {
+        let Some(ViewData::Calibration(view)) = &self.view else {
+            self.set_status(
+                Level::Info,
+                "a applies the fitted correction in the sea-trial view (Tab to it)",
+            );
+            return;
+        };
+        let Some(correction) = view.correction() else {
+            let why = match &view.result {
+                Err(why) => why.clone(),
+                Ok(_) => {
+                    "the fit does not improve on the model, so there is nothing to apply".into()
+                }
+            };
+            self.set_status(Level::Error, format!("no correction applied: {why}"));
+            return;
+        };
+        let factor = correction.resistance_factor;
+        let mut next = self.doc.clone();
+        next.boat.calibration = Some(correction);
+        if next == self.doc {
+            self.set_status(
+                Level::Info,
+                format!("calibration ×{factor:.3} is already applied"),
+            );
+            return;
+        }
+        self.commit(next);
+        self.set_status(
+            Level::Info,
+            format!(
+                "calibration ×{factor:.3} applied to every prediction (unsaved: s saves, u undoes)"
+            ),
+        );
+    }
+
+    fn undo(&mut self) {
+        match self.undo.pop() {
+            Some(previous) => {
+                let current = std::mem::replace(&mut self.doc, previous);
+                self.redo.push(current);
+                self.resolve();
+            }
+            None => self.set_status(Level::Info, "nothing to undo"),
+        }
+    }
+
+    fn redo(&mut self) {
+        match self.redo.pop() {
+            Some(next) => {
+                let current = std::mem::replace(&mut self.doc, next);
+                self.undo.push(current);
+                self.resolve();
+            }
+            None => self.set_status(Level::Info, "nothing to redo"),
+        }
+    }
+
+    fn toggle_units(&mut self) {
+        self.units = match self.units {
+            UnitSystem::Metric => UnitSystem::Imperial,
+            UnitSystem::Imperial => UnitSystem::Metric,
+        };
+    }
+
+    fn save(&mut self) -> Option<Effect> {
+        if !self.savable {
+            self.set_status(
+                Level::Error,
+                "the embedded demo is read-only: run `tidewright init` to copy it into a store",
+            );
+            return None;
+        }
+        Some(Effect::Save {
+            boat: Box::new(self.doc.boat.clone()),
+            overwrite: false,
+        })
     }
 
     fn browse(&mut self, command: Command) -> Option<Effect> {
@@ -433,22 +600,8 @@ impl App {
             Command::BeginEdit => return self.begin_edit(),
             Command::NudgeUp => self.nudge(1.0),
             Command::NudgeDown => self.nudge(-1.0),
-            Command::Undo => match self.undo.pop() {
-                Some(previous) => {
-                    let current = std::mem::replace(&mut self.doc, previous);
-                    self.redo.push(current);
-                    self.resolve();
-                }
-                None => self.set_status(Level::Info, "nothing to undo"),
-            },
-            Command::Redo => match self.redo.pop() {
-                Some(next) => {
-                    let current = std::mem::replace(&mut self.doc, next);
-                    self.undo.push(current);
-                    self.resolve();
-                }
-                None => self.set_status(Level::Info, "nothing to redo"),
-            },
+            Command::Undo => self.undo(),
+            Command::Redo => self.redo(),
             Command::EditTargetSpeed => {
                 let value = fields::target_speed(&self.doc.boat);
                 self.edit = Some(EditBuffer {
@@ -457,12 +610,7 @@ impl App {
                     problem: None,
                 });
             }
-            Command::ToggleUnits => {
-                self.units = match self.units {
-                    UnitSystem::Metric => UnitSystem::Imperial,
-                    UnitSystem::Imperial => UnitSystem::Metric,
-                };
-            }
+            Command::ToggleUnits => self.toggle_units(),
             Command::NextChart => self.chart = self.chart.next(),
             Command::PrevChart => self.chart = self.chart.prev(),
             Command::NextVariant | Command::PrevVariant => {
@@ -513,18 +661,22 @@ impl App {
                     "no pitch recommendation for the active variant",
                 ),
             },
-            Command::Save => {
-                if !self.savable {
+            Command::Save => return self.save(),
+            Command::OpenSweep => self.open_view(ViewKind::Sweep),
+            Command::OpenCalibration => self.open_view(ViewKind::Calibration),
+            Command::OpenWhatIf => self.open_view(ViewKind::WhatIf),
+            Command::ToggleBand => {
+                self.band_shown = !self.band_shown;
+                self.refresh_analysis();
+                if self.band_shown {
+                    if self.chart != ChartKind::PowerVsRpm {
+                        self.chart = ChartKind::PowerVsRpm;
+                    }
                     self.set_status(
-                        Level::Error,
-                        "the embedded demo is read-only: run `tidewright init` to copy it into a store",
+                        Level::Info,
+                        "power chart: band over displacement ±10 % and wake ±0.05 shown (b hides it)",
                     );
-                    return None;
                 }
-                return Some(Effect::Save {
-                    boat: Box::new(self.doc.boat.clone()),
-                    overwrite: false,
-                });
             }
             Command::OpenBoat => {
                 if self.dirty() {
@@ -714,6 +866,7 @@ impl App {
 
     fn resolve(&mut self) {
         self.solution = Solution::solve(&self.doc.boat, &self.doc.engine);
+        self.refresh_analysis();
         let count = self.pane_fields(self.focus).len();
         let row = &mut self.selected[self.focus.index()];
         *row = (*row).min(count.saturating_sub(1));

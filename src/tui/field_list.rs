@@ -113,8 +113,9 @@ impl Widget for FieldList<'_> {
             .iter()
             .map(|l| wrapped_height(l, inner.width))
             .sum();
-        // The notes give way to the list when space is short, keeping at least two rows.
-        let extra = notes_height.min(inner.height.saturating_sub(reason_height + 2));
+        // The notes give way to the list when space is short, keeping at least six rows.
+        let min_rows = (self.rows.len() as u16).clamp(1, 6);
+        let extra = notes_height.min(inner.height.saturating_sub(reason_height + min_rows));
         let list_height = inner.height.saturating_sub(reason_height + extra) as usize;
 
         let first = if self.selected >= list_height {

@@ -796,10 +796,15 @@ pub fn pane_notes(pane: Pane, app: &App) -> Vec<String> {
             format!("{} {}{active}", variant_glyph(i).symbol(), v.label).replace(' ', "\u{a0}")
         })
         .collect();
-    let mut notes = vec![format!("Variants: {}", variants.join("  "))];
+    // Most important first: the notes are cut from the bottom when the pane is short.
+    let mut notes = Vec::new();
     if let Some(line) = app.solution.recommendation_line(app.units) {
         notes.push(line);
     }
+    if let Some(solved) = app.solution.solved() {
+        notes.push(super::views::screw_pane_check_line(&solved.checks));
+    }
+    notes.push(format!("Variants: {}", variants.join("  ")));
     notes
 }
 

@@ -16,6 +16,8 @@ pub enum Mode {
     Pick,
     /// Asking a yes/no question (quit with unsaved changes, overwrite a changed file).
     Confirm,
+    /// A design view is open: sweep, sea-trial calibration or what-if.
+    View,
 }
 
 impl Mode {
@@ -27,16 +29,18 @@ impl Mode {
             Mode::Help => "Help overlay",
             Mode::Pick => "Choosing a boat or engine sheet",
             Mode::Confirm => "Questions",
+            Mode::View => "Design views (sweep, sea trial, what-if)",
         }
     }
 
     /// Every mode, in the order the help lists them.
-    pub const ALL: [Mode; 5] = [
+    pub const ALL: [Mode; 6] = [
         Mode::Browse,
         Mode::Edit,
         Mode::Pick,
         Mode::Confirm,
         Mode::Help,
+        Mode::View,
     ];
 }
 
@@ -81,6 +85,24 @@ pub enum Command {
     RemoveVariant,
     /// Add the recommended pitch as a new variant.
     ApplyRecommendation,
+    /// Open the sweep view for the active variant.
+    OpenSweep,
+    /// Open the sea-trial calibration view.
+    OpenCalibration,
+    /// Open the what-if conditions view.
+    OpenWhatIf,
+    /// Show or hide the uncertainty band on the power chart.
+    ToggleBand,
+    /// Show the next design view.
+    NextView,
+    /// Show the previous design view.
+    PrevView,
+    /// Sweep the next parameter (diameter, gear ratio, blade count, area ratio).
+    NextSweepParameter,
+    /// Apply the fitted sea-trial correction to the boat.
+    ApplyCalibration,
+    /// Close the design view.
+    CloseView,
     /// Save the boat through the store.
     Save,
     /// Open another boat from the store.
@@ -201,11 +223,26 @@ pub const BINDINGS: &[Binding] = &[
     bind(M::Browse, &[ch('d', "d")], C::DuplicateVariant, "", "duplicate the active screw variant", false),
     bind(M::Browse, &[ch('x', "x")], C::RemoveVariant, "", "remove the active screw variant (the last one stays)", false),
     bind(M::Browse, &[ch('p', "p")], C::ApplyRecommendation, "", "add the recommended pitch as a new screw variant", false),
+    bind(M::Browse, &[ch('v', "v")], C::OpenSweep, "sweep", "open the sweep view: diameter, gear, blades or area, each with its matching pitch, ranked", true),
+    bind(M::Browse, &[ch('r', "r")], C::OpenCalibration, "", "open the sea-trial view: measured vs predicted speed, fitted resistance factor", false),
+    bind(M::Browse, &[ch('w', "w")], C::OpenWhatIf, "", "open the what-if view: loads, fouling, sea state, uncertainty band, cavitation, shaft", false),
+    bind(M::Browse, &[ch('b', "b")], C::ToggleBand, "", "show or hide the uncertainty band (displacement ±10 %, wake ±0.05) on the power chart", false),
     bind(M::Browse, &[ch('s', "s"), ctrl('s', "Ctrl-s")], C::Save, "save", "save the boat through the store (atomic, keeps a backup)", true),
     bind(M::Browse, &[ch('o', "o")], C::OpenBoat, "", "open another boat from the store", false),
     bind(M::Browse, &[ch('e', "e")], C::SwitchEngine, "", "switch the engine sheet from the store", false),
     bind(M::Browse, &[ch('?', "?"), code(KeyCode::F(1), "F1")], C::ToggleHelp, "help", "show every key", true),
     bind(M::Browse, &[ch('q', "q"), ctrl('c', "Ctrl-c")], C::Quit, "quit", "quit (asks first when there are unsaved changes)", true),
+    bind(M::View, &[code(KeyCode::Tab, "Tab"), code(KeyCode::Right, "→"), ch('l', "l")], C::NextView, "view", "next view: sweep → sea trial → what-if", true),
+    bind(M::View, &[code(KeyCode::BackTab, "Shift-Tab"), code(KeyCode::Left, "←"), ch('h', "h")], C::PrevView, "", "previous view", false),
+    bind(M::View, &[ch('n', "n")], C::NextSweepParameter, "parameter", "sweep view: sweep the next parameter (diameter, gear ratio, blade count, area ratio)", true),
+    bind(M::View, &[ch('a', "a")], C::ApplyCalibration, "apply fit", "sea-trial view: apply the fitted correction to the boat (unsaved until s; u undoes)", true),
+    bind(M::View, &[ch('u', "u"), ctrl('z', "Ctrl-z")], C::Undo, "undo", "undo the last change", true),
+    bind(M::View, &[ctrl('r', "Ctrl-r"), ch('U', "U")], C::Redo, "", "redo the last undone change", false),
+    bind(M::View, &[ch('m', "m")], C::ToggleUnits, "", "toggle metric / imperial display", false),
+    bind(M::View, &[ch('s', "s"), ctrl('s', "Ctrl-s")], C::Save, "", "save the boat through the store", false),
+    bind(M::View, &[code(KeyCode::Down, "↓"), ch('j', "j")], C::ListDown, "scroll", "scroll the view down", true),
+    bind(M::View, &[code(KeyCode::Up, "↑"), ch('k', "k")], C::ListUp, "", "scroll the view up", false),
+    bind(M::View, &[code(KeyCode::Esc, "Esc"), ch('q', "q")], C::CloseView, "close", "close the view", true),
     bind(M::Edit, &[code(KeyCode::Enter, "Enter")], C::Accept, "apply", "apply the typed value (only when it is valid)", true),
     bind(M::Edit, &[code(KeyCode::Esc, "Esc")], C::Cancel, "cancel", "leave the field unchanged", true),
     bind(M::Edit, &[code(KeyCode::Backspace, "Backspace")], C::DeleteBack, "delete", "delete the last character", true),
@@ -324,12 +361,17 @@ mod tests {
         let ctrl_r = press(KeyCode::Char('r'), KeyModifiers::CONTROL);
         assert_eq!(lookup(Mode::Browse, &ctrl_r), Some(Command::Redo));
         let plain_r = press(KeyCode::Char('r'), KeyModifiers::NONE);
-        assert_eq!(lookup(Mode::Browse, &plain_r), None);
+        assert_eq!(
+            lookup(Mode::Browse, &plain_r),
+            Some(Command::OpenCalibration)
+        );
+        let plain_z = press(KeyCode::Char('z'), KeyModifiers::NONE);
+        assert_eq!(lookup(Mode::Browse, &plain_z), None, "only Ctrl-z undoes");
     }
 
     #[test]
     fn every_mode_can_be_left() {
-        for mode in [Mode::Edit, Mode::Pick, Mode::Help] {
+        for mode in [Mode::Edit, Mode::Pick, Mode::Help, Mode::View] {
             assert!(
                 bindings_for(mode).any(|b| b.keys.iter().any(|k| k.code == KeyCode::Esc)),
                 "{mode:?} has no Esc"

@@ -60,9 +60,9 @@ pub fn draw(app: &App, area: Rect, buf: &mut Buffer) {
     if area.width >= WIDE && area.height >= TALL {
         // Screw and Powerplant fit whole; the Vessel pane, the longest, scrolls with the selection.
         let rects = Layout::vertical([
-            Constraint::Min(8),
+            Constraint::Min(7),
             Constraint::Length(12),
-            Constraint::Length(12),
+            Constraint::Length(13),
         ])
         .split(left);
         for (pane, rect) in Pane::ALL.iter().zip(rects.iter()) {
@@ -94,6 +94,14 @@ pub fn draw(app: &App, area: Rect, buf: &mut Buffer) {
             highlighted,
         } => draw_picker(app, *kind, entries, *highlighted, area, buf),
         Overlay::Confirm(question) => draw_question(app, question.text(), area, buf),
+        Overlay::View { kind, scroll } => {
+            // Over the panes, chart and readout; the header, status and footer stay in view.
+            let cover = Rect {
+                height: main.height + readout.height,
+                ..main
+            };
+            super::views::draw_view(app, *kind, *scroll, cover, buf);
+        }
     }
 }
 
@@ -130,6 +138,12 @@ fn draw_header(app: &App, area: Rect, buf: &mut Buffer) {
     }
     if app.changed_on_disk {
         spans.push(Span::styled(" ⚠ file changed on disk", app.theme.error));
+    }
+    if let Some(cal) = &app.doc.boat.calibration {
+        spans.push(Span::styled(
+            format!(" · calibrated ×{:.3}", cal.resistance_factor),
+            app.theme.accent,
+        ));
     }
     let units = match app.units {
         UnitSystem::Metric => "metric",
@@ -286,6 +300,29 @@ pub fn chart_view(app: &App) -> ChartView {
             shape: SeriesShape::Line,
             style: reference.add_modifier(Modifier::DIM),
         });
+        if let (true, Some(Ok(band))) = (app.band_shown, &app.band) {
+            let low: Vec<(f64, f64)> = band
+                .points
+                .iter()
+                .filter_map(|p| Some((p.engine_rpm, p.low_power?)))
+                .collect();
+            let high: Vec<(f64, f64)> = band
+                .points
+                .iter()
+                .filter_map(|p| Some((p.engine_rpm, p.high_power?)))
+                .collect();
+            for (name, points) in [
+                (Some("⠤ band ±10 % ∇, ±0.05 w".to_string()), low),
+                (None, high),
+            ] {
+                view.series.push(Series {
+                    name,
+                    points: convert(&points, None, Kind::Power, system),
+                    shape: SeriesShape::Line,
+                    style: app.theme.dim,
+                });
+            }
+        }
     }
     let mut meetings = Vec::new();
     for (index, variant) in solved.variants.iter().enumerate() {
@@ -405,7 +442,15 @@ pub fn readout_lines(app: &App) -> Vec<Line<'static>> {
             let figures = [
                 format!("{:.0} rpm", p.engine_rpm),
                 units::format(p.brake_power, Kind::Power, system),
-                format!("load {:.0} %", p.load_fraction * 100.0),
+                match app
+                    .solution
+                    .solved()
+                    .and_then(|s| s.checks.duty.as_ref())
+                    .and_then(|d| d.split_once("; "))
+                {
+                    Some((_, duty)) => format!("load {:.0} % ({duty})", p.load_fraction * 100.0),
+                    None => format!("load {:.0} %", p.load_fraction * 100.0),
+                },
                 units::format(p.fuel_volume_flow, Kind::FuelRate, system),
                 units::format(c.fuel_per_distance, Kind::FuelPerDistance, system),
                 format!(
@@ -584,7 +629,13 @@ fn draw_help(app: &App, scroll: u16, area: Rect, buf: &mut Buffer) {
         .title(" Keys — ? or Esc closes, j/k scroll ");
     let inner = block.inner(rect);
     block.render(rect, buf);
-    let others = [Mode::Edit, Mode::Pick, Mode::Confirm, Mode::Help];
+    let others = [
+        Mode::Edit,
+        Mode::Pick,
+        Mode::Confirm,
+        Mode::Help,
+        Mode::View,
+    ];
     if inner.width >= 110 {
         let [left, right] =
             Layout::horizontal([Constraint::Percentage(55), Constraint::Percentage(45)])

@@ -4,10 +4,19 @@
 
 use crate::profile::{BoatDoc, EngineDoc};
 use crate::propulsion::Warning;
+use crate::propulsion::screw::cavitation::{
+    CavitationInput, CavitationReport, KELLER_CONSTANT_SINGLE_SCREW,
+    SMALL_CRAFT_BLADE_LOADING_LIMIT, check_cavitation,
+};
+use crate::propulsion::solver::OperatingPoint;
 use crate::propulsion::solver::cruise::cruise_at_speed;
 use crate::propulsion::solver::design::{PitchOptions, PitchRecommendation, recommend_pitch};
 use crate::propulsion::solver::matching::match_engine;
+use crate::propulsion::solver::shaft::{
+    ShaftCheck, ShaftMaterial, YACHT_SAFETY_FACTOR, check_shaft, duty_note,
+};
 use crate::propulsion::solver::{CruisePoint, MatchResult, PropellerCurve, Trip, Vessel};
+use crate::propulsion::water::STANDARD_ATMOSPHERE;
 use crate::units::{self, Kind, UnitSystem};
 
 /// Speeds solved per propeller curve (enough for a smooth braille line at 120 columns).
@@ -52,6 +61,44 @@ pub struct Solved {
     /// The pitch recommendation for the active variant (default target: rated power at rated
     /// rpm with the service margin), or why there is none.
     pub recommendation: Result<PitchRecommendation, String>,
+    /// The load case the recommendation was made for ("light", "half", "full").
+    pub recommendation_load: String,
+    /// The displacement mass of that load case, kg.
+    pub recommendation_mass: Option<f64>,
+    /// Cavitation, shaft and duty checks of the active variant.
+    pub checks: Checks,
+}
+
+/// Where a cavitation check was made.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum CheckPoint {
+    /// At the trip's target speed.
+    Target,
+    /// At full throttle (the meeting point).
+    Top,
+}
+
+impl CheckPoint {
+    /// The point's name as shown.
+    pub fn name(self) -> &'static str {
+        match self {
+            CheckPoint::Target => "target speed",
+            CheckPoint::Top => "top speed",
+        }
+    }
+}
+
+/// The active variant's cavitation, shaft and engine-duty checks, solved with every edit.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Checks {
+    /// Cavitation and blade loading at the target speed and at top speed, or why not checked.
+    pub cavitation: Vec<(CheckPoint, Result<CavitationReport, String>)>,
+    /// Depth of the shaft centreline used, m, and whether it was estimated (not in the file).
+    pub shaft_immersion: Option<(f64, bool)>,
+    /// The shaft check against the boat's shaft, or why it could not be made.
+    pub shaft: Result<ShaftCheck, String>,
+    /// The engine sheet's duty note beside the load at the target speed.
+    pub duty: Option<String>,
 }
 
 /// The cached solution: solved, or why the document could not be built into a vessel.
@@ -64,7 +111,16 @@ pub struct Solution {
 impl Solution {
     /// Builds the vessel from `boat` and `engine` and solves every variant.
     pub fn solve(boat: &BoatDoc, engine: &EngineDoc) -> Self {
-        let result = super::fields::build_vessel(boat, engine).map(solve_vessel);
+        let result = super::fields::build_vessel(boat, engine).map(|vessel| {
+            let mut solved = solve_vessel(vessel);
+            solved.checks = Checks::of(&solved, boat);
+            solved.recommendation_load = boat.load.default.to_string();
+            solved.recommendation_mass = boat
+                .load
+                .case(boat.load.default)
+                .map(|c| c.displacement.value);
+            solved
+        });
         Self { result }
     }
 
@@ -88,6 +144,27 @@ impl Solution {
             .recommended_pitch
     }
 
+    /// The loading condition the recommendation was made for in a few words, in `system`'s
+    /// units, e.g. "half load 4.60 t, margin 15 %, fouling 10 %, calibrated ×1.114".
+    pub fn recommendation_condition(&self, system: UnitSystem) -> Option<String> {
+        let solved = self.solved()?;
+        let margins = solved.vessel.resistance.margins;
+        let mass = solved
+            .recommendation_mass
+            .map(|m| format!(" {}", units::format(m, Kind::Mass, system)))
+            .unwrap_or_default();
+        let mut text = format!(
+            "{} load{mass}, margin {:.0} %, fouling {:.0} %",
+            solved.recommendation_load,
+            margins.service * 100.0,
+            margins.fouling * 100.0
+        );
+        if (margins.resistance_factor - 1.0).abs() > 1e-9 {
+            text.push_str(&format!(", calibrated ×{:.3}", margins.resistance_factor));
+        }
+        Some(text)
+    }
+
     /// The recommendation line of the Screw pane, in `system`'s units.
     pub fn recommendation_line(&self, system: UnitSystem) -> Option<String> {
         let rec = match &self.solved()?.recommendation {
@@ -108,9 +185,10 @@ impl Solution {
             None => "",
         };
         Some(format!(
-            "Recommended pitch {} ({sign}{}, {limit}); p adds it",
+            "Recommended pitch {} ({sign}{}, {limit}) for {} load; p adds it",
             units::format(pitch, Kind::ScrewLength, system),
             units::format(change.abs(), Kind::ScrewLength, system),
+            self.solved()?.recommendation_load,
         ))
     }
 }
@@ -134,14 +212,28 @@ pub fn solve_vessel(vessel: Vessel) -> Solved {
         .collect();
     let recommendation = recommend_pitch(&vessel, vessel.active_variant, &PitchOptions::default())
         .map_err(|e| e.to_string());
-    Solved {
+    let mut solved = Solved {
         variants,
         warnings,
         envelope,
         trial,
         recommendation,
+        recommendation_load: String::new(),
+        recommendation_mass: None,
+        checks: Checks {
+            cavitation: Vec::new(),
+            shaft_immersion: None,
+            shaft: Err("no boat file to read the shaft from".into()),
+            duty: None,
+        },
         vessel,
-    }
+    };
+    solved.recommendation_load = solved
+        .recommendation
+        .as_ref()
+        .map(|r| r.condition.label.clone())
+        .unwrap_or_default();
+    solved
 }
 
 fn solve_variant(vessel: &Vessel, index: usize) -> VariantSolution {
@@ -189,4 +281,124 @@ fn solve_variant(vessel: &Vessel, index: usize) -> VariantSolution {
         }
     }
     solution
+}
+
+/// The material the boat file names, matched to the built-in table ("stainless-316" matches
+/// "stainless 316", "bronze" matches "bronze (naval-brass shafting)").
+pub fn shaft_material(name: &str) -> Option<ShaftMaterial> {
+    let wanted = name.trim().replace(['-', '_'], " ").to_lowercase();
+    if wanted.is_empty() {
+        return None;
+    }
+    ShaftMaterial::standard()
+        .into_iter()
+        .find(|m| m.name.to_lowercase() == wanted)
+        .or_else(|| {
+            ShaftMaterial::standard()
+                .into_iter()
+                .find(|m| m.name.to_lowercase().starts_with(&wanted))
+        })
+}
+
+impl Checks {
+    /// The checks of the active variant of `solved`, with the installation data of `boat`.
+    pub fn of(solved: &Solved, boat: &BoatDoc) -> Self {
+        let vessel = &solved.vessel;
+        let index = vessel.active_variant;
+        let geometry = *vessel.variants[index].screw.geometry();
+        let installation = &boat.installation;
+        // Without an immersion in the file, the shaft centre is taken one radius above the
+        // aft draft (the tip at the keel line) — a rough guess, shown as estimated.
+        let shaft_immersion = match &installation.shaft_immersion {
+            Some(q) => Some((q.value, false)),
+            None => {
+                let guess = boat.hull.draft_aft.value - 0.5 * geometry.diameter;
+                (guess > 0.0).then_some((guess, true))
+            }
+        };
+        let water = &vessel.resistance.water;
+        let check = |point: &OperatingPoint| -> Result<CavitationReport, String> {
+            let (immersion, _) = shaft_immersion.ok_or_else(|| {
+                "installation.shaft_immersion is not given and the aft draft is less than the screw's radius".to_string()
+            })?;
+            check_cavitation(&CavitationInput {
+                geometry,
+                thrust: point.thrust,
+                advance_speed: point.advance_speed,
+                shaft_speed_rps: point.screw_rps,
+                shaft_immersion: immersion,
+                water_density: water.density,
+                vapour_pressure: water.vapour_pressure,
+                atmospheric_pressure: STANDARD_ATMOSPHERE,
+                keller_constant: KELLER_CONSTANT_SINGLE_SCREW,
+                blade_loading_limit: SMALL_CRAFT_BLADE_LOADING_LIMIT,
+                tip_speed_limit: None,
+            })
+            .map_err(|e| e.to_string())
+        };
+        let mut cavitation = Vec::new();
+        let mut duty = None;
+        if let Some(active) = solved.variants.get(index) {
+            cavitation.push((
+                CheckPoint::Target,
+                active.cruise.as_ref().map_err(Clone::clone).and_then(|c| {
+                    duty = Some(duty_note(
+                        &vessel.engine,
+                        c.point.engine_rpm,
+                        c.point.brake_power,
+                    ));
+                    check(&c.point)
+                }),
+            ));
+            cavitation.push((
+                CheckPoint::Top,
+                active
+                    .matched
+                    .as_ref()
+                    .map_err(Clone::clone)
+                    .and_then(|m| check(&m.top_point)),
+            ));
+        }
+        let shaft = match installation.shaft_material.as_deref() {
+            None => Err("the boat file names no installation.shaft_material".to_string()),
+            Some(name) => match shaft_material(name) {
+                None => Err(format!(
+                    "installation.shaft_material {name:?} is not one of: {}",
+                    ShaftMaterial::standard()
+                        .iter()
+                        .map(|m| m.name.clone())
+                        .collect::<Vec<_>>()
+                        .join(", ")
+                )),
+                Some(material) => check_shaft(
+                    &vessel.engine,
+                    &vessel.installation,
+                    &material,
+                    YACHT_SAFETY_FACTOR,
+                    installation.shaft_diameter.as_ref().map(|q| q.value),
+                )
+                .map_err(|e| e.to_string()),
+            },
+        };
+        Self {
+            cavitation,
+            shaft_immersion,
+            shaft,
+            duty,
+        }
+    }
+
+    /// Whether any cavitation or loading check failed at either point.
+    pub fn cavitation_failed(&self) -> bool {
+        self.cavitation
+            .iter()
+            .any(|(_, r)| r.as_ref().is_ok_and(|r| !r.all_passed()))
+    }
+
+    /// Whether the boat's shaft is smaller than the minimum.
+    pub fn shaft_too_small(&self) -> bool {
+        self.shaft
+            .as_ref()
+            .is_ok_and(|s| s.existing_diameter.is_some_and(|d| d < s.min_diameter))
+    }
 }

@@ -527,14 +527,19 @@ fn help_overlay_lists_every_key() {
     assert!(small.contains("select the field above"), "{small}");
     insta::assert_snapshot!("help_80x24", small);
     // At 80×24 the list scrolls: the later sections come into view.
-    for _ in 0..30 {
+    let mut scrolled = String::new();
+    for _ in 0..60 {
         key(&mut app, KeyCode::Char('j'));
+        scrolled.push_str(&screen(&app, 80, 24));
     }
-    let scrolled = screen(&app, 80, 24);
-    assert!(
-        scrolled.contains("Typing a value") && scrolled.contains("Markers"),
-        "{scrolled}"
-    );
+    for later in [
+        "Typing a value",
+        "Design views",
+        "apply the fitted correction",
+        "Markers",
+    ] {
+        assert!(scrolled.contains(later), "{later} never scrolled into view");
+    }
     key(&mut app, KeyCode::Esc);
     assert_eq!(app.mode(), Mode::Browse);
 }
@@ -640,6 +645,10 @@ fn every_browse_command_is_reachable_by_a_key() {
         Command::DuplicateVariant,
         Command::RemoveVariant,
         Command::ApplyRecommendation,
+        Command::OpenSweep,
+        Command::OpenCalibration,
+        Command::OpenWhatIf,
+        Command::ToggleBand,
         Command::Save,
         Command::OpenBoat,
         Command::SwitchEngine,
@@ -650,6 +659,292 @@ fn every_browse_command_is_reachable_by_a_key() {
             keys::bindings_for(Mode::Browse).any(|b| b.command == command),
             "{command:?} has no key"
         );
+    }
+}
+
+// ---- design views: sweep, sea trial, what-if ----
+
+fn pintle_app() -> App {
+    tidewright::tui::open_app(&demo_store(), Some("pintle")).expect("the demo workboat opens")
+}
+
+fn top_speed(app: &App) -> f64 {
+    app.solution
+        .active()
+        .unwrap()
+        .matched
+        .as_ref()
+        .expect("matched")
+        .top_speed
+}
+
+#[test]
+fn sweep_view_ranks_diameters_up_to_the_aperture_and_switches_parameter() {
+    use tidewright::tui::analysis::{SweepOver, ViewData, ViewKind};
+    let mut app = demo_app();
+    keys(&mut app, "v");
+    assert_eq!(app.mode(), Mode::View);
+    let Some(ViewData::Sweep(view)) = &app.view else {
+        panic!("sweep not solved when the view opened")
+    };
+    assert_eq!(view.over, SweepOver::Diameter);
+    let result = view.result.as_ref().expect("diameter sweep solved");
+    // marram: installation.max_screw_diameter = 28 in is the largest candidate.
+    let largest = result
+        .candidates
+        .iter()
+        .map(|c| c.value)
+        .fold(0.0, f64::max);
+    assert!((largest - 28.0 * 0.0254).abs() < 1e-6, "largest {largest}");
+    let best = result
+        .candidates
+        .iter()
+        .find(|c| c.rank == 1)
+        .expect("a first");
+    let best_pitch = best.pitch.expect("best candidate has a pitch");
+    for size in [(80, 24), (120, 40)] {
+        let text = screen(&app, size.0, size.1);
+        assert!(text.contains("Ranked by"), "{text}");
+        assert!(text.contains("least fuel per distance"), "{text}");
+        assert!(text.contains("◀ best"), "{text}");
+        assert!(text.contains("[Sweep]"), "{text}");
+        // The best candidate's pitch, as drawn (inches, one decimal).
+        assert!(
+            text.contains(&format!("{:.1}", best_pitch / 0.0254)),
+            "pitch {best_pitch} missing:\n{text}"
+        );
+        if size == (120, 40) {
+            insta::assert_snapshot!("sweep_120x40", text);
+        } else {
+            insta::assert_snapshot!("sweep_80x24", text);
+        }
+    }
+    keys(&mut app, "n");
+    assert_eq!(app.sweep_over, SweepOver::GearRatio);
+    let Some(ViewData::Sweep(view)) = &app.view else {
+        panic!()
+    };
+    assert_eq!(view.over, SweepOver::GearRatio);
+    assert!(screen(&app, 80, 24).contains("gear ratio for"));
+    keys(&mut app, "nn");
+    assert!(screen(&app, 80, 24).contains("area ratio AE/A0 for"));
+    key(&mut app, KeyCode::Tab);
+    assert_eq!(
+        app.view.as_ref().map(|v| v.kind()),
+        Some(ViewKind::Calibration)
+    );
+    key(&mut app, KeyCode::Esc);
+    assert_eq!(app.mode(), Mode::Browse);
+    assert!(app.view.is_none());
+}
+
+#[test]
+fn calibration_view_on_pintle_lowers_the_rms_and_applying_it_is_undoable() {
+    use tidewright::tui::analysis::ViewData;
+    let mut app = pintle_app();
+    assert!(app.doc.boat.calibration.is_none());
+    let before = top_speed(&app);
+    keys(&mut app, "r");
+    let Some(ViewData::Calibration(view)) = &app.view else {
+        panic!("calibration not solved")
+    };
+    let cal = view.result.as_ref().expect("pintle has a log");
+    assert!(
+        cal.rms_before > cal.rms_after,
+        "RMS before {} after {}",
+        cal.rms_before,
+        cal.rms_after
+    );
+    assert!(
+        cal.points.iter().all(|p| p.two_way),
+        "every rpm run both ways"
+    );
+    let factor = cal.resistance_factor;
+    for size in [(80, 24), (120, 40)] {
+        let text = screen(&app, size.0, size.1);
+        assert!(text.contains("RMS error: before"), "{text}");
+        assert!(text.contains(&format!("×{factor:.3}")), "{text}");
+        assert!(text.contains("two-way"), "{text}");
+        assert!(
+            text.contains("measured") && text.contains("calibrated"),
+            "{text}"
+        );
+        if size == (120, 40) {
+            insta::assert_snapshot!("calibration_120x40", text);
+        } else {
+            insta::assert_snapshot!("calibration_80x24", text);
+        }
+    }
+    keys(&mut app, "a");
+    let applied = app
+        .doc
+        .boat
+        .calibration
+        .as_ref()
+        .expect("correction applied");
+    assert!((applied.resistance_factor - factor).abs() < 1e-12);
+    assert!(app.dirty(), "applying marks the boat unsaved");
+    let after = top_speed(&app);
+    // A factor above 1 adds resistance: the same engine reaches a lower top speed.
+    assert!(
+        factor > 1.0,
+        "pintle's log is slower than the model: {factor}"
+    );
+    assert!(after < before, "top speed {before} → {after}");
+    let text = screen(&app, 80, 24);
+    assert!(text.contains(&format!("calibrated ×{factor:.3}")), "{text}");
+    assert!(text.contains("unsaved"), "{text}");
+    key(&mut app, KeyCode::Esc);
+    let text = screen(&app, 120, 40);
+    assert!(
+        text.contains(&format!("calibrated ×{factor:.3}")),
+        "header:\n{text}"
+    );
+    keys(&mut app, "u");
+    assert!(app.doc.boat.calibration.is_none());
+    assert_eq!(
+        top_speed(&app),
+        before,
+        "undo restores the solved top speed"
+    );
+    assert!(!app.dirty());
+}
+
+#[test]
+fn calibration_view_without_a_log_says_so() {
+    let mut app = demo_app();
+    assert!(app.doc.boat.trial.is_none(), "marram has no trial log");
+    keys(&mut app, "r");
+    let text = screen(&app, 80, 24);
+    assert!(text.contains("no sea-trial log"), "{text}");
+    keys(&mut app, "a");
+    assert!(app.doc.boat.calibration.is_none());
+    assert!(!app.dirty());
+}
+
+#[test]
+fn what_if_view_heavier_loads_turn_fewer_rpm_and_show_the_band_and_checks() {
+    use tidewright::tui::analysis::ViewData;
+    let mut app = demo_app();
+    // The over-propped "old 26x21": its full-throttle rpm is below the governor in every load.
+    keys(&mut app, "[");
+    assert_eq!(
+        app.doc.boat.variants[app.doc.boat.active_variant].label,
+        "old 26x21"
+    );
+    keys(&mut app, "w");
+    let Some(ViewData::WhatIf(view)) = &app.view else {
+        panic!("what-if not solved")
+    };
+    let outcomes = view.outcomes.as_ref().expect("conditions solved");
+    let rpm = |label: &str| {
+        outcomes
+            .iter()
+            .find(|o| o.condition.label == label)
+            .and_then(|o| o.full_throttle_rpm)
+            .unwrap_or_else(|| panic!("{label} solved"))
+    };
+    // Heavier → more power at the same speed → fewer rpm at full load (issue 5's check).
+    assert!(rpm("light") > rpm("half load"), "light vs half");
+    assert!(rpm("half load") > rpm("full load"), "half vs full");
+    assert!(rpm("fouled") < rpm("as given"), "fouled turns fewer rpm");
+    let power = |label: &str| {
+        outcomes
+            .iter()
+            .find(|o| o.condition.label == label)
+            .and_then(|o| o.cruise_power)
+            .unwrap_or_else(|| panic!("{label} cruise solved"))
+    };
+    assert!(
+        power("full load") > power("light"),
+        "heavier needs more power at the same speed"
+    );
+    assert!(power("sea state") > power("as given"));
+    let band = app
+        .band
+        .as_ref()
+        .expect("band solved")
+        .as_ref()
+        .expect("band ok");
+    let (low, high) = (band.pitch_low.unwrap(), band.pitch_high.unwrap());
+    assert!(low < high, "the band gives a pitch range");
+    for size in [(80, 24), (120, 40)] {
+        let mut text = screen(&app, size.0, size.1);
+        // Scroll down to see the rest at 80×24.
+        for _ in 0..30 {
+            keys(&mut app, "j");
+            text.push_str(&screen(&app, size.0, size.1));
+        }
+        for _ in 0..30 {
+            keys(&mut app, "k");
+        }
+        for want in [
+            "light",
+            "half load",
+            "full load",
+            "fouled",
+            "sea state",
+            "full-thr. rpm",
+            "cruise rpm",
+            "with range",
+            "Keller AE/A0",
+            "Burrill",
+            "psi",
+            "kPa",
+            "Shaft:",
+            "duty",
+            "made for half load",
+            "OVER",
+            "naval architect",
+        ] {
+            assert!(text.contains(want), "{want} missing at {size:?}:\n{text}");
+        }
+        let first = screen(&app, size.0, size.1);
+        if size == (120, 40) {
+            insta::assert_snapshot!("what_if_120x40", first);
+        } else {
+            insta::assert_snapshot!("what_if_80x24", first);
+        }
+    }
+}
+
+#[test]
+fn band_is_drawn_on_the_power_chart_and_the_screw_pane_names_the_condition() {
+    let mut app = pintle_app();
+    let text = screen(&app, 120, 40);
+    assert!(
+        text.contains("for half load"),
+        "recommendation condition:\n{text}"
+    );
+    assert!(text.contains("Cavitation"), "cavitation line:\n{text}");
+    assert!(!text.contains("band ±10 %"));
+    keys(&mut app, "b");
+    assert!(app.band_shown);
+    let view = render::chart_view(&app);
+    let band: Vec<_> = view
+        .series
+        .iter()
+        .filter(|s| s.style == app.theme.dim && s.points.len() >= 2)
+        .collect();
+    assert!(band.len() >= 2, "low and high band series");
+    let text = screen(&app, 120, 40);
+    assert!(text.contains("band ±10 %"), "{text}");
+    keys(&mut app, "b");
+    assert!(app.band.is_none(), "hidden band is not kept");
+}
+
+#[test]
+fn every_view_draws_at_small_sizes_without_panicking() {
+    let mut app = pintle_app();
+    keys(&mut app, "v");
+    for _ in 0..3 {
+        for _ in 0..4 {
+            for (w, h) in [(80, 24), (79, 23), (100, 30), (1, 1)] {
+                screen(&app, w, h);
+            }
+            keys(&mut app, "n");
+        }
+        key(&mut app, KeyCode::Tab);
     }
 }
 
