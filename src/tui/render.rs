@@ -573,8 +573,9 @@ fn centred(area: Rect, width: u16, height: u16) -> Rect {
 /// Width of the key column in the help overlay.
 const HELP_KEY_WIDTH: usize = 18;
 
-/// The help overlay's lines for the modes given: every binding, the help cut to `width`.
+/// The help overlay's lines for the modes given: every binding, its help wrapped to `width`.
 fn help_lines(app: &App, modes: &[Mode], width: usize) -> Vec<Line<'static>> {
+    let help_width = width.saturating_sub(HELP_KEY_WIDTH + 1).max(1);
     let mut lines = Vec::new();
     for mode in modes {
         lines.push(Line::styled(
@@ -583,20 +584,46 @@ fn help_lines(app: &App, modes: &[Mode], width: usize) -> Vec<Line<'static>> {
         ));
         for b in keys::bindings_for(*mode) {
             let keys = keys::key_labels(b);
-            let help_width = width.saturating_sub(HELP_KEY_WIDTH + 1);
-            let mut help: String = b.help.chars().take(help_width).collect();
-            if b.help.chars().count() > help_width && help_width > 1 {
-                help.pop();
-                help.push('…');
+            for (index, part) in wrap_words(b.help, help_width).into_iter().enumerate() {
+                let key_column = if index == 0 { keys.as_str() } else { "" };
+                lines.push(Line::from(vec![
+                    Span::styled(
+                        format!("{key_column:<HELP_KEY_WIDTH$} "),
+                        Style::default().add_modifier(Modifier::BOLD),
+                    ),
+                    Span::raw(part),
+                ]));
             }
-            lines.push(Line::from(vec![
-                Span::styled(
-                    format!("{keys:<HELP_KEY_WIDTH$} "),
-                    Style::default().add_modifier(Modifier::BOLD),
-                ),
-                Span::raw(help),
-            ]));
         }
+    }
+    lines
+}
+
+/// `text` broken at spaces into lines of at most `width` characters (a longer word is split).
+fn wrap_words(text: &str, width: usize) -> Vec<String> {
+    let mut lines = Vec::new();
+    let mut current = String::new();
+    for word in text.split_whitespace() {
+        let mut word: Vec<char> = word.chars().collect();
+        while word.len() > width {
+            if !current.is_empty() {
+                lines.push(std::mem::take(&mut current));
+            }
+            lines.push(word.drain(..width).collect());
+        }
+        let word: String = word.into_iter().collect();
+        let needed =
+            current.chars().count() + usize::from(!current.is_empty()) + word.chars().count();
+        if needed > width && !current.is_empty() {
+            lines.push(std::mem::take(&mut current));
+        }
+        if !current.is_empty() {
+            current.push(' ');
+        }
+        current.push_str(&word);
+    }
+    if !current.is_empty() || lines.is_empty() {
+        lines.push(current);
     }
     lines
 }
@@ -719,4 +746,19 @@ fn draw_question(app: &App, question: &str, area: Rect, buf: &mut Buffer) {
     ])
     .wrap(Wrap { trim: true })
     .render(inner, buf);
+}
+
+#[cfg(test)]
+mod tests {
+    use super::wrap_words;
+
+    #[test]
+    fn help_text_wraps_at_spaces_and_keeps_every_word() {
+        let text = "type a value with its unit for the selected field";
+        let lines = wrap_words(text, 20);
+        assert!(lines.iter().all(|l| l.chars().count() <= 20), "{lines:?}");
+        assert_eq!(lines.join(" "), text);
+        assert_eq!(wrap_words("abcdefghij", 4), ["abcd", "efgh", "ij"]);
+        assert_eq!(wrap_words("", 10), [""]);
+    }
 }

@@ -190,9 +190,7 @@ impl ResistanceModel {
         }
         if speed == 0.0 {
             let form_factor = match self.method {
-                ResistanceMethod::HoltropMennen => {
-                    self.hull.holtrop_coefficients().form_factor
-                }
+                ResistanceMethod::HoltropMennen => self.hull.holtrop_coefficients().form_factor,
                 ResistanceMethod::Table(_) => 1.0,
             };
             return Ok(ResistanceComponents {
@@ -202,7 +200,9 @@ impl ResistanceModel {
         }
         let mut parts = match &self.method {
             ResistanceMethod::HoltropMennen => {
-                let r = self.hull.holtrop_coefficients()
+                let r = self
+                    .hull
+                    .holtrop_coefficients()
                     .at_speed(speed, &self.water);
                 ResistanceComponents {
                     friction: r.friction,
