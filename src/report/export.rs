@@ -27,6 +27,13 @@ pub struct Section {
 /// Name of the Markdown file in the export.
 pub const REPORT_FILE: &str = "report.md";
 
+/// The look (colour, dash) of the engine envelope in every chart.
+const ENGINE_LOOK: usize = 0;
+/// The look of the first screw variant; the next ones follow, the same in every chart.
+const VARIANT_LOOK: usize = 1;
+/// The look of measured or special points (full-throttle points, sea-trial runs).
+const MARKER_LOOK: usize = 5;
+
 /// The charts of the export, in display units: power, speed, fuel rate and range.
 pub fn charts(vessel: &Vessel, curves: &BoatReport, system: UnitSystem) -> Vec<(String, Chart)> {
     let d = Display::new(system);
@@ -45,10 +52,12 @@ pub fn charts(vessel: &Vessel, curves: &BoatReport, system: UnitSystem) -> Vec<(
             curves
                 .variants
                 .iter()
-                .map(|v| Series {
+                .enumerate()
+                .map(|(index, v)| Series {
                     name: format!("screw {}", v.label),
                     points: solved(v).iter().map(f).collect(),
                     style: SeriesStyle::Line,
+                    look: VARIANT_LOOK + index,
                 })
                 .collect()
         };
@@ -63,6 +72,7 @@ pub fn charts(vessel: &Vessel, curves: &BoatReport, system: UnitSystem) -> Vec<(
             .map(|&(rpm, w)| (rpm, d.scaled(w, Kind::Power)))
             .collect(),
         style: SeriesStyle::Line,
+        look: ENGINE_LOOK,
     }];
     power.extend(per_variant(&|c| {
         (
@@ -86,6 +96,7 @@ pub fn charts(vessel: &Vessel, curves: &BoatReport, system: UnitSystem) -> Vec<(
             name: "full-throttle point".into(),
             points: meeting,
             style: SeriesStyle::Markers,
+            look: MARKER_LOOK,
         });
     }
 
@@ -99,6 +110,7 @@ pub fn charts(vessel: &Vessel, curves: &BoatReport, system: UnitSystem) -> Vec<(
                 .map(|r| (r.engine_rpm, d.scaled(r.speed_over_ground, Kind::Speed)))
                 .collect(),
             style: SeriesStyle::Markers,
+            look: MARKER_LOOK,
         });
     }
     let fuel = per_variant(&|c| {

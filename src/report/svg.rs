@@ -22,6 +22,8 @@ pub struct Series {
     pub points: Vec<(f64, f64)>,
     /// Line or markers.
     pub style: SeriesStyle,
+    /// Which colour and dash pattern to use, so one variant looks the same in every chart.
+    pub look: usize,
 }
 
 /// A line chart: a title, labelled axes and its series.
@@ -264,7 +266,8 @@ impl Chart {
         );
 
         // Curves and markers.
-        for (i, (series, points)) in self.series.iter().zip(&data).enumerate() {
+        for (series, points) in self.series.iter().zip(&data) {
+            let i = series.look;
             let colour = COLOURS[i % COLOURS.len()];
             let _ = writeln!(
                 svg,
@@ -309,8 +312,9 @@ impl Chart {
         // Legend: a sample of each line style beside its name.
         let legend_x = LEFT + plot_w + 16.0;
         let _ = writeln!(svg, r#"<g class="legend">"#);
-        for (i, series) in self.series.iter().enumerate() {
-            let y = TOP + 10.0 + 20.0 * i as f64;
+        for (row, series) in self.series.iter().enumerate() {
+            let i = series.look;
+            let y = TOP + 10.0 + 20.0 * row as f64;
             let colour = COLOURS[i % COLOURS.len()];
             match series.style {
                 SeriesStyle::Line => {
@@ -380,19 +384,33 @@ mod tests {
                     name: "engine full load".into(),
                     points: vec![(800.0, 20.0), (2600.0, 80.0)],
                     style: SeriesStyle::Line,
+                    look: 0,
                 },
                 Series {
                     name: "variant \"A\"".into(),
                     points: vec![(900.0, 3.0), (2500.0, f64::NAN), (2400.0, 70.0)],
                     style: SeriesStyle::Line,
+                    look: 1,
                 },
                 Series {
                     name: "trial".into(),
                     points: vec![(1500.0, 30.0)],
                     style: SeriesStyle::Markers,
+                    look: 2,
                 },
             ],
         }
+    }
+
+    #[test]
+    fn a_series_keeps_its_look_whatever_its_position() {
+        let mut c = chart();
+        c.series.remove(0);
+        let svg = c.to_svg();
+        // The variant was second in `chart()`; without the engine line it is first, but keeps
+        // look 1, so it is drawn in the second colour with the second dash pattern.
+        assert!(svg.contains(COLOURS[1]) && svg.contains(DASHES[1]));
+        assert!(!svg.contains(COLOURS[0]));
     }
 
     #[test]
