@@ -2,6 +2,7 @@
 //!
 //! The TUI and CLI both call these functions; neither does physics of its own.
 
+pub mod checks;
 pub mod conditions;
 pub mod cruise;
 pub mod curve;

@@ -10,14 +10,14 @@ use super::table::{Column, Table};
 use super::{Display, INCH_M, KNOT_MPS};
 use crate::propulsion::screw::ScrewGeometry;
 use crate::propulsion::screw::cavitation::{
-    CavitationInput, CavitationReport, KELLER_CONSTANT_SINGLE_SCREW, PASCALS_PER_PSI,
-    SMALL_CRAFT_BLADE_LOADING_LIMIT, check_cavitation,
+    CavitationReport, KELLER_CONSTANT_SINGLE_SCREW, PASCALS_PER_PSI,
+    SMALL_CRAFT_BLADE_LOADING_LIMIT,
 };
+use crate::propulsion::solver::checks::cavitation_at_point;
 use crate::propulsion::solver::shaft::{
     ShaftCheck, ShaftMaterial, YACHT_SAFETY_FACTOR, check_shaft,
 };
 use crate::propulsion::solver::{OperatingPoint, Vessel};
-use crate::propulsion::water::STANDARD_ATMOSPHERE;
 use crate::units::{Kind, UnitSystem};
 
 /// Material assumed for the shaft check when the boat file names none.
@@ -127,40 +127,9 @@ pub struct DesignChecks {
     pub shaft_note: Option<String>,
 }
 
-/// The built-in shaft material the file's name means: an exact or unique leading match of the
-/// generic names, ignoring case, `-` and `_` ("stainless-316", "bronze").
+/// The built-in shaft material the file's name means, or why none does (naming the field).
 pub fn shaft_material(name: &str) -> Result<ShaftMaterial, String> {
-    let normal = |s: &str| {
-        s.to_ascii_lowercase()
-            .replace(['-', '_'], " ")
-            .split_whitespace()
-            .collect::<Vec<_>>()
-            .join(" ")
-    };
-    let wanted = normal(name);
-    let all = ShaftMaterial::standard();
-    if let Some(m) = all.iter().find(|m| normal(&m.name) == wanted) {
-        return Ok(m.clone());
-    }
-    let leading: Vec<&ShaftMaterial> = all
-        .iter()
-        .filter(|m| {
-            let n = normal(&m.name);
-            !wanted.is_empty()
-                && n.starts_with(&wanted)
-                && n[wanted.len()..].starts_with([' ', '('])
-        })
-        .collect();
-    match leading.as_slice() {
-        [one] => Ok((*one).clone()),
-        _ => Err(format!(
-            "installation.shaft_material {name:?} is not a known material; expected one of: {}",
-            all.iter()
-                .map(|m| m.name.as_str())
-                .collect::<Vec<_>>()
-                .join(", ")
-        )),
-    }
+    ShaftMaterial::by_name(name).map_err(|e| format!("installation.shaft_material: {e}"))
 }
 
 fn check_point(
@@ -169,35 +138,8 @@ fn check_point(
     point: &OperatingPoint,
     immersion: f64,
 ) -> Result<CavitationReport, String> {
-    let water = &vessel.resistance.water;
-    let input = CavitationInput {
-        geometry,
-        thrust: point.thrust,
-        advance_speed: point.advance_speed,
-        shaft_speed_rps: point.screw_rps,
-        shaft_immersion: immersion,
-        water_density: water.density,
-        vapour_pressure: water.vapour_pressure,
-        atmospheric_pressure: STANDARD_ATMOSPHERE,
-        // A boat profile describes one screw behind the hull.
-        keller_constant: KELLER_CONSTANT_SINGLE_SCREW,
-        blade_loading_limit: SMALL_CRAFT_BLADE_LOADING_LIMIT,
-        tip_speed_limit: None,
-    };
-    let report = check_cavitation(&input).map_err(|e| e.to_string())?;
-    let numbers = [
-        report.keller_area_ratio.limit,
-        report.cavitation_number,
-        report.thrust_loading.value,
-        report.thrust_loading.limit,
-        report.blade_loading.value,
-        report.tip_speed,
-    ];
-    if numbers.iter().all(|v| v.is_finite()) {
-        Ok(report)
-    } else {
-        Err("a cavitation figure is not a finite number".into())
-    }
+    cavitation_at_point(geometry, point, &vessel.resistance.water, immersion)
+        .map_err(|e| e.to_string())
 }
 
 impl DesignChecks {

@@ -4,11 +4,9 @@
 
 use crate::profile::{BoatDoc, EngineDoc};
 use crate::propulsion::Warning;
-use crate::propulsion::screw::cavitation::{
-    CavitationInput, CavitationReport, KELLER_CONSTANT_SINGLE_SCREW,
-    SMALL_CRAFT_BLADE_LOADING_LIMIT, check_cavitation,
-};
+use crate::propulsion::screw::cavitation::CavitationReport;
 use crate::propulsion::solver::OperatingPoint;
+use crate::propulsion::solver::checks::cavitation_at_point;
 use crate::propulsion::solver::cruise::cruise_at_speed;
 use crate::propulsion::solver::design::{PitchOptions, PitchRecommendation, recommend_pitch};
 use crate::propulsion::solver::matching::match_engine;
@@ -16,7 +14,6 @@ use crate::propulsion::solver::shaft::{
     ShaftCheck, ShaftMaterial, YACHT_SAFETY_FACTOR, check_shaft, duty_note,
 };
 use crate::propulsion::solver::{CruisePoint, MatchResult, PropellerCurve, Trip, Vessel};
-use crate::propulsion::water::STANDARD_ATMOSPHERE;
 use crate::units::{self, Kind, UnitSystem};
 
 /// Speeds solved per propeller curve (enough for a smooth braille line at 120 columns).
@@ -93,8 +90,8 @@ impl CheckPoint {
 pub struct Checks {
     /// Cavitation and blade loading at the target speed and at top speed, or why not checked.
     pub cavitation: Vec<(CheckPoint, Result<CavitationReport, String>)>,
-    /// Depth of the shaft centreline used, m, and whether it was estimated (not in the file).
-    pub shaft_immersion: Option<(f64, bool)>,
+    /// Depth of the shaft centreline below the waterline from the boat file, m.
+    pub shaft_immersion: Option<f64>,
     /// The shaft check against the boat's shaft, or why it could not be made.
     pub shaft: Result<ShaftCheck, String>,
     /// The engine sheet's duty note beside the load at the target speed.
@@ -283,23 +280,6 @@ fn solve_variant(vessel: &Vessel, index: usize) -> VariantSolution {
     solution
 }
 
-/// The material the boat file names, matched to the built-in table ("stainless-316" matches
-/// "stainless 316", "bronze" matches "bronze (naval-brass shafting)").
-pub fn shaft_material(name: &str) -> Option<ShaftMaterial> {
-    let wanted = name.trim().replace(['-', '_'], " ").to_lowercase();
-    if wanted.is_empty() {
-        return None;
-    }
-    ShaftMaterial::standard()
-        .into_iter()
-        .find(|m| m.name.to_lowercase() == wanted)
-        .or_else(|| {
-            ShaftMaterial::standard()
-                .into_iter()
-                .find(|m| m.name.to_lowercase().starts_with(&wanted))
-        })
-}
-
 impl Checks {
     /// The checks of the active variant of `solved`, with the installation data of `boat`.
     pub fn of(solved: &Solved, boat: &BoatDoc) -> Self {
@@ -307,34 +287,16 @@ impl Checks {
         let index = vessel.active_variant;
         let geometry = *vessel.variants[index].screw.geometry();
         let installation = &boat.installation;
-        // Without an immersion in the file, the shaft centre is taken one radius above the
-        // aft draft (the tip at the keel line) — a rough guess, shown as estimated.
-        let shaft_immersion = match &installation.shaft_immersion {
-            Some(q) => Some((q.value, false)),
-            None => {
-                let guess = boat.hull.draft_aft.value - 0.5 * geometry.diameter;
-                (guess > 0.0).then_some((guess, true))
-            }
-        };
+        let shaft_immersion = installation.shaft_immersion.as_ref().map(|q| q.value);
         let water = &vessel.resistance.water;
+        // Without an immersion the static pressure at the screw is unknown: the check is not
+        // made rather than guessed, as in the headless report.
         let check = |point: &OperatingPoint| -> Result<CavitationReport, String> {
-            let (immersion, _) = shaft_immersion.ok_or_else(|| {
-                "installation.shaft_immersion is not given and the aft draft is less than the screw's radius".to_string()
+            let immersion = shaft_immersion.ok_or_else(|| {
+                "the boat file gives no installation.shaft_immersion (depth of the shaft centreline)"
+                    .to_string()
             })?;
-            check_cavitation(&CavitationInput {
-                geometry,
-                thrust: point.thrust,
-                advance_speed: point.advance_speed,
-                shaft_speed_rps: point.screw_rps,
-                shaft_immersion: immersion,
-                water_density: water.density,
-                vapour_pressure: water.vapour_pressure,
-                atmospheric_pressure: STANDARD_ATMOSPHERE,
-                keller_constant: KELLER_CONSTANT_SINGLE_SCREW,
-                blade_loading_limit: SMALL_CRAFT_BLADE_LOADING_LIMIT,
-                tip_speed_limit: None,
-            })
-            .map_err(|e| e.to_string())
+            cavitation_at_point(geometry, point, water, immersion).map_err(|e| e.to_string())
         };
         let mut cavitation = Vec::new();
         let mut duty = None;
@@ -361,24 +323,17 @@ impl Checks {
         }
         let shaft = match installation.shaft_material.as_deref() {
             None => Err("the boat file names no installation.shaft_material".to_string()),
-            Some(name) => match shaft_material(name) {
-                None => Err(format!(
-                    "installation.shaft_material {name:?} is not one of: {}",
-                    ShaftMaterial::standard()
-                        .iter()
-                        .map(|m| m.name.clone())
-                        .collect::<Vec<_>>()
-                        .join(", ")
-                )),
-                Some(material) => check_shaft(
-                    &vessel.engine,
-                    &vessel.installation,
-                    &material,
-                    YACHT_SAFETY_FACTOR,
-                    installation.shaft_diameter.as_ref().map(|q| q.value),
-                )
-                .map_err(|e| e.to_string()),
-            },
+            Some(name) => ShaftMaterial::by_name(name)
+                .and_then(|material| {
+                    check_shaft(
+                        &vessel.engine,
+                        &vessel.installation,
+                        &material,
+                        YACHT_SAFETY_FACTOR,
+                        installation.shaft_diameter.as_ref().map(|q| q.value),
+                    )
+                })
+                .map_err(|e| format!("installation.shaft_material: {e}")),
         };
         Self {
             cavitation,

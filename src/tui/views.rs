@@ -520,16 +520,11 @@ pub fn check_lines(app: &App, checks: &Checks) -> Vec<Line<'static>> {
             )),
         }
     }
-    if let Some((depth, estimated)) = checks.shaft_immersion {
+    if let Some(depth) = checks.shaft_immersion {
         lines.push(Line::styled(
             format!(
-                "shaft immersion {}{}",
-                units::format(depth, Kind::Length, system),
-                if estimated {
-                    " (estimated: aft draft less the screw's radius)"
-                } else {
-                    ""
-                }
+                "shaft immersion {}",
+                units::format(depth, Kind::Length, system)
             ),
             app.theme.dim,
         ));

@@ -33,6 +33,14 @@ pub enum ShaftError {
     /// The engine sheet gives no torque (no full-load point above 0 rpm).
     #[error("the engine's full-load curve has no point above 0 rpm to take the torque from")]
     NoTorque,
+    /// A material name that matches no built-in material, or more than one.
+    #[error("shaft material {name:?} is not a known material; expected one of: {known}")]
+    UnknownMaterial {
+        /// The name given.
+        name: String,
+        /// The built-in names, comma-separated.
+        known: String,
+    },
 }
 
 /// A shaft material with its torsional (shear) yield strength.
@@ -92,11 +100,41 @@ impl ShaftMaterial {
         ]
     }
 
-    /// A built-in material by its generic name (case-insensitive).
-    pub fn by_name(name: &str) -> Option<ShaftMaterial> {
-        Self::standard()
-            .into_iter()
-            .find(|m| m.name.eq_ignore_ascii_case(name))
+    /// The built-in material a name means: an exact or unique leading match of the generic
+    /// names, ignoring case, `-` and `_` ("stainless-316", "bronze").
+    pub fn by_name(name: &str) -> Result<ShaftMaterial, ShaftError> {
+        let normal = |s: &str| {
+            s.to_ascii_lowercase()
+                .replace(['-', '_'], " ")
+                .split_whitespace()
+                .collect::<Vec<_>>()
+                .join(" ")
+        };
+        let wanted = normal(name);
+        let all = Self::standard();
+        if let Some(m) = all.iter().find(|m| normal(&m.name) == wanted) {
+            return Ok(m.clone());
+        }
+        let leading: Vec<&ShaftMaterial> = all
+            .iter()
+            .filter(|m| {
+                let n = normal(&m.name);
+                !wanted.is_empty()
+                    && n.starts_with(&wanted)
+                    && n[wanted.len()..].starts_with([' ', '('])
+            })
+            .collect();
+        match leading.as_slice() {
+            [one] => Ok((*one).clone()),
+            _ => Err(ShaftError::UnknownMaterial {
+                name: name.to_string(),
+                known: all
+                    .iter()
+                    .map(|m| m.name.as_str())
+                    .collect::<Vec<_>>()
+                    .join(", "),
+            }),
+        }
     }
 }
 
@@ -283,7 +321,29 @@ mod tests {
 
     #[test]
     fn standard_materials_are_found_by_name() {
-        assert!(ShaftMaterial::by_name("Duplex Stainless").is_some());
-        assert!(ShaftMaterial::by_name("unobtainium").is_none());
+        assert!(ShaftMaterial::by_name("Duplex Stainless").is_ok());
+        assert!(ShaftMaterial::by_name("unobtainium").is_err());
+        // Names as profiles write them: case, `-` and `_` do not matter; a unique start is enough.
+        assert_eq!(
+            ShaftMaterial::by_name("stainless-316").unwrap().name,
+            "stainless 316"
+        );
+        assert_eq!(
+            ShaftMaterial::by_name("Bronze").unwrap().name,
+            "bronze (naval-brass shafting)"
+        );
+        assert_eq!(
+            ShaftMaterial::by_name("nickel_copper alloy K-500")
+                .unwrap()
+                .name,
+            "nickel-copper alloy K-500"
+        );
+        // "stainless" alone could be 304 or 316: refused, naming the choices.
+        let err = ShaftMaterial::by_name("stainless").unwrap_err().to_string();
+        assert!(
+            err.contains("stainless 304") && err.contains("stainless 316"),
+            "{err}"
+        );
+        assert!(ShaftMaterial::by_name("").is_err());
     }
 }

@@ -1,0 +1,100 @@
+//! The screw's cavitation and blade-loading checks at a solved operating point.
+
+use super::OperatingPoint;
+use crate::propulsion::screw::ScrewGeometry;
+use crate::propulsion::screw::cavitation::{
+    CavitationError, CavitationInput, CavitationReport, KELLER_CONSTANT_SINGLE_SCREW,
+    SMALL_CRAFT_BLADE_LOADING_LIMIT, check_cavitation,
+};
+use crate::propulsion::water::{STANDARD_ATMOSPHERE, WaterProperties};
+
+/// Keller, Burrill, blade loading and tip speed of a single screw behind the hull at `point`,
+/// with the shaft centreline `shaft_immersion` m below the waterline, in standard atmosphere.
+///
+/// One boat has one screw behind its hull, hence Keller's single-screw constant; the blade
+/// loading limit is the small-craft figure of about 10 psi (common practice).
+pub fn cavitation_at_point(
+    geometry: ScrewGeometry,
+    point: &OperatingPoint,
+    water: &WaterProperties,
+    shaft_immersion: f64,
+) -> Result<CavitationReport, CavitationError> {
+    let report = check_cavitation(&CavitationInput {
+        geometry,
+        thrust: point.thrust,
+        advance_speed: point.advance_speed,
+        shaft_speed_rps: point.screw_rps,
+        shaft_immersion,
+        water_density: water.density,
+        vapour_pressure: water.vapour_pressure,
+        atmospheric_pressure: STANDARD_ATMOSPHERE,
+        keller_constant: KELLER_CONSTANT_SINGLE_SCREW,
+        blade_loading_limit: SMALL_CRAFT_BLADE_LOADING_LIMIT,
+        tip_speed_limit: None,
+    })?;
+    let figures = [
+        ("Keller minimum area ratio", report.keller_area_ratio.limit),
+        ("cavitation number", report.cavitation_number),
+        ("thrust loading coefficient", report.thrust_loading.value),
+        ("Burrill limit", report.thrust_loading.limit),
+        ("blade loading", report.blade_loading.value),
+        ("tip speed", report.tip_speed),
+    ];
+    match figures.iter().find(|(_, value)| !value.is_finite()) {
+        None => Ok(report),
+        Some(&(field, value)) => Err(CavitationError::BadInput {
+            field,
+            value,
+            expected: "a finite result (check the operating point's thrust and speeds)",
+        }),
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::propulsion::water::{WaterKind, water_properties};
+
+    fn point(thrust: f64) -> OperatingPoint {
+        OperatingPoint {
+            speed: 3.6,
+            resistance: 0.8 * thrust,
+            thrust,
+            wake_fraction: 0.2,
+            thrust_deduction: 0.2,
+            relative_rotative_efficiency: 1.0,
+            advance_speed: 2.88,
+            advance_ratio: 0.48,
+            thrust_coefficient: 0.15,
+            torque_coefficient: 0.02,
+            open_water_efficiency: 0.57,
+            reynolds: 0.0,
+            screw_rps: 10.0,
+            engine_rpm: 1500.0,
+            torque: 500.0,
+            effective_power: 0.0,
+            delivered_power: 0.0,
+            brake_power: 0.0,
+            load_fraction: 0.3,
+            fuel_mass_flow: 0.0,
+            fuel_volume_flow: 0.0,
+        }
+    }
+
+    #[test]
+    fn more_thrust_needs_more_blade_area_by_keller() {
+        let geometry = ScrewGeometry {
+            blades: 3,
+            diameter: 0.6,
+            pitch: 0.42,
+            area_ratio: 0.5,
+        };
+        let water = water_properties(WaterKind::Sea, 15.0).unwrap();
+        let light = cavitation_at_point(geometry, &point(3000.0), &water, 0.8).unwrap();
+        let heavy = cavitation_at_point(geometry, &point(12000.0), &water, 0.8).unwrap();
+        assert!(heavy.keller_area_ratio.limit > light.keller_area_ratio.limit);
+        assert!(heavy.blade_loading.value > 3.9 * light.blade_loading.value);
+        // Tip speed π·n·D does not depend on thrust.
+        assert!((light.tip_speed - std::f64::consts::PI * 10.0 * 0.6).abs() < 1e-9);
+    }
+}
