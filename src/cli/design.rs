@@ -13,8 +13,9 @@ use crate::profile::store::Saved;
 use crate::profile::store::save_boat_file;
 use crate::profile::{CalibrationDoc, Origin};
 use crate::propulsion::solver::design::{
-    ApertureLimit, PitchOptions, PitchRecommendation, PitchTarget, RankCriterion, SweepOptions,
-    SweepParameter, SweepResult, recommend_pitch, sweep as run_sweep,
+    PitchOptions, PitchRecommendation, PitchTarget, RankCriterion, SweepOptions, SweepParameter,
+    SweepResult, USUAL_AREA_RATIOS, USUAL_BLADE_COUNTS, gear_ratios_around, recommend_pitch,
+    sweep as run_sweep,
 };
 use crate::propulsion::solver::matching::point_at_engine_rpm;
 use crate::propulsion::solver::trial::{
@@ -23,9 +24,6 @@ use crate::propulsion::solver::trial::{
 use crate::report::table::{Column, Table};
 use crate::report::{CAUTION, Display, INCH_M, KNOT_MPS, json};
 use crate::units::Kind;
-
-/// Diameters tried by a diameter sweep.
-const DIAMETER_STEPS: usize = 6;
 
 /// The variants asked for: one by label, or all.
 pub fn variant_indices(loaded: &LoadedBoat, label: Option<&str>) -> anyhow::Result<Vec<usize>> {
@@ -273,35 +271,20 @@ fn sweep_parameter(
                     vessel.name
                 )
             })?;
-            // The profile's `max_screw_diameter` is the largest screw the aperture takes with
-            // the tip clearance kept; the design module wants the aperture disc and the
-            // clearance as a fraction of that screw, which gives back exactly this diameter.
-            let largest = aperture;
             let clearance = inst.tip_clearance.as_ref().map_or(0.0, |q| q.value);
-            if !(clearance.is_finite() && clearance >= 0.0 && clearance < 0.5 * largest) {
-                anyhow::bail!(
-                    "installation.tip_clearance of {:?} must be at least 0 and less than half of max_screw_diameter",
-                    vessel.name
-                );
-            }
             let current = vessel.variants[index].screw.geometry().diameter;
-            SweepParameter::Diameter {
-                min_diameter: (0.8 * current).min(0.8 * largest),
-                aperture: ApertureLimit {
-                    aperture_diameter: largest + 2.0 * clearance,
-                    tip_clearance_fraction: clearance / largest,
-                },
-                count: DIAMETER_STEPS,
-            }
+            SweepParameter::diameters_up_to(current, aperture, clearance).with_context(|| {
+                format!(
+                    "installation.max_screw_diameter and tip_clearance of {:?}",
+                    vessel.name
+                )
+            })?
         }
         SweepOver::Gear => {
-            let g = vessel.installation.gear_ratio;
-            SweepParameter::GearRatio(values(
-                &[g - 0.5, g - 0.25, g, g + 0.25, g + 0.5].map(|x: f64| x.max(1.0)),
-            )?)
+            SweepParameter::GearRatio(values(&gear_ratios_around(vessel.installation.gear_ratio))?)
         }
         SweepOver::Blades => {
-            let list = values(&[3.0, 4.0, 5.0])?;
+            let list = values(&USUAL_BLADE_COUNTS.map(f64::from))?;
             if list.iter().any(|b| b.fract() != 0.0) {
                 return Err(
                     UsageError("--values: blade counts must be whole numbers".into()).into(),
@@ -309,7 +292,7 @@ fn sweep_parameter(
             }
             SweepParameter::Blades(list.into_iter().map(|b| b as u32).collect())
         }
-        SweepOver::Area => SweepParameter::AreaRatio(values(&[0.40, 0.55, 0.70, 0.85])?),
+        SweepOver::Area => SweepParameter::AreaRatio(values(&USUAL_AREA_RATIOS)?),
     })
 }
 

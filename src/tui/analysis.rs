@@ -9,12 +9,11 @@ use crate::propulsion::solver::conditions::{
     uncertainty_band,
 };
 use crate::propulsion::solver::design::{
-    ApertureLimit, PitchOptions, SweepOptions, SweepParameter, SweepResult, sweep,
+    PitchOptions, SweepOptions, SweepParameter, SweepResult, USUAL_AREA_RATIOS, USUAL_BLADE_COUNTS,
+    gear_ratios_around, sweep,
 };
 use crate::propulsion::solver::trial::{Calibration, CalibrationOptions, calibrate};
 
-/// Diameters tried by a diameter sweep.
-const DIAMETER_STEPS: usize = 6;
 /// Fouling added for the "fouled" what-if, as a fraction of friction (from memory: a season's
 /// growth on an unpainted bottom adds tens of percent to friction).
 pub const FOULED_EXTRA: f64 = 0.30;
@@ -189,43 +188,19 @@ pub fn sweep_parameter(
     Ok(match over {
         SweepOver::Diameter => {
             let inst = &boat.installation;
-            // The profile's `max_screw_diameter` is the largest screw the aperture takes with
-            // the tip clearance kept; the design core wants the aperture disc and the clearance
-            // as a fraction of that screw, which gives back exactly this diameter.
             let largest = inst.max_screw_diameter.as_ref().map(|q| q.value).ok_or(
                 "the boat file gives no installation.max_screw_diameter, so the aperture limit of a diameter sweep is unknown",
             )?;
             let clearance = inst.tip_clearance.as_ref().map_or(0.0, |q| q.value);
-            if !(largest.is_finite() && largest > 0.0) {
-                return Err("installation.max_screw_diameter must be a positive length".into());
-            }
-            if !(clearance.is_finite() && clearance >= 0.0 && clearance < 0.5 * largest) {
-                return Err(
-                    "installation.tip_clearance must be at least 0 and less than half of max_screw_diameter"
-                        .into(),
-                );
-            }
             let current = vessel.variants[index].screw.geometry().diameter;
-            SweepParameter::Diameter {
-                min_diameter: (0.8 * current).min(0.8 * largest),
-                aperture: ApertureLimit {
-                    aperture_diameter: largest + 2.0 * clearance,
-                    tip_clearance_fraction: clearance / largest,
-                },
-                count: DIAMETER_STEPS,
-            }
+            SweepParameter::diameters_up_to(current, largest, clearance)
+                .map_err(|e| format!("installation.max_screw_diameter / tip_clearance: {e}"))?
         }
         SweepOver::GearRatio => {
-            let g = vessel.installation.gear_ratio;
-            let mut ratios: Vec<f64> = [g - 0.5, g - 0.25, g, g + 0.25, g + 0.5]
-                .iter()
-                .map(|r| r.max(1.0))
-                .collect();
-            ratios.dedup_by(|a, b| (*a - *b).abs() < 1e-9);
-            SweepParameter::GearRatio(ratios)
+            SweepParameter::GearRatio(gear_ratios_around(vessel.installation.gear_ratio))
         }
-        SweepOver::Blades => SweepParameter::Blades(vec![2, 3, 4, 5]),
-        SweepOver::AreaRatio => SweepParameter::AreaRatio(vec![0.40, 0.55, 0.70, 0.85]),
+        SweepOver::Blades => SweepParameter::Blades(USUAL_BLADE_COUNTS.to_vec()),
+        SweepOver::AreaRatio => SweepParameter::AreaRatio(USUAL_AREA_RATIOS.to_vec()),
     })
 }
 

@@ -664,6 +664,25 @@ impl ApertureLimit {
     }
 }
 
+/// The usual gear sweep: the boat's ratio and ±0.25, ±0.5 around it (never below 1:1).
+pub fn gear_ratios_around(gear_ratio: f64) -> Vec<f64> {
+    let mut ratios: Vec<f64> = [-0.5, -0.25, 0.0, 0.25, 0.5]
+        .iter()
+        .map(|step| (gear_ratio + step).max(1.0))
+        .collect();
+    ratios.dedup_by(|a, b| (*a - *b).abs() < 1e-9);
+    ratios
+}
+
+/// The usual blade-count sweep (inside the B-series range Z 2–7).
+pub const USUAL_BLADE_COUNTS: [u32; 4] = [2, 3, 4, 5];
+
+/// The usual expanded-area-ratio sweep (inside the B-series range 0.30–1.05).
+pub const USUAL_AREA_RATIOS: [f64; 4] = [0.40, 0.55, 0.70, 0.85];
+
+/// How many diameters the usual diameter sweep tries.
+pub const DIAMETER_SWEEP_STEPS: usize = 6;
+
 /// What a sweep varies, with its candidate values.
 #[derive(Debug, Clone, PartialEq, serde::Serialize)]
 #[serde(tag = "parameter", rename_all = "snake_case")]
@@ -687,6 +706,40 @@ pub enum SweepParameter {
 }
 
 impl SweepParameter {
+    /// The usual diameter sweep: `DIAMETER_SWEEP_STEPS` diameters from 80 % of the current
+    /// screw (or of the largest, if smaller) up to `largest`, the largest screw the aperture
+    /// takes with `tip_clearance` (m) kept between blade tip and hull, all in m.
+    pub fn diameters_up_to(
+        current: f64,
+        largest: f64,
+        tip_clearance: f64,
+    ) -> Result<Self, DesignError> {
+        if !(largest.is_finite() && largest > 0.0) {
+            return Err(DesignError::BadInput {
+                field: "largest screw diameter",
+                value: largest,
+                expected: "a positive length",
+            });
+        }
+        if !(tip_clearance.is_finite() && tip_clearance >= 0.0 && tip_clearance < 0.5 * largest) {
+            return Err(DesignError::BadInput {
+                field: "tip clearance",
+                value: tip_clearance,
+                expected: "at least 0 and less than half of the largest screw diameter",
+            });
+        }
+        // The aperture disc and the clearance as a fraction of the largest screw give back
+        // exactly `largest` as the aperture's limit.
+        Ok(SweepParameter::Diameter {
+            min_diameter: (0.8 * current).min(0.8 * largest),
+            aperture: ApertureLimit {
+                aperture_diameter: largest + 2.0 * tip_clearance,
+                tip_clearance_fraction: tip_clearance / largest,
+            },
+            count: DIAMETER_SWEEP_STEPS,
+        })
+    }
+
     /// The parameter's name for the user.
     pub fn name(&self) -> &'static str {
         match self {
@@ -1049,6 +1102,24 @@ fn rank_candidates(candidates: &mut [SweepCandidate], criterion: RankCriterion) 
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn usual_diameter_sweep_ends_at_the_largest_screw() {
+        let SweepParameter::Diameter {
+            min_diameter,
+            aperture,
+            count,
+        } = SweepParameter::diameters_up_to(0.66, 0.71, 0.09).unwrap()
+        else {
+            panic!("a diameter sweep");
+        };
+        assert!((aperture.max_diameter() - 0.71).abs() < 1e-12);
+        assert!((min_diameter - 0.8 * 0.66).abs() < 1e-12);
+        assert_eq!(count, DIAMETER_SWEEP_STEPS);
+        assert!(SweepParameter::diameters_up_to(0.66, 0.71, 0.4).is_err());
+        assert!(SweepParameter::diameters_up_to(0.66, -0.71, 0.0).is_err());
+        assert_eq!(gear_ratios_around(1.2), vec![1.0, 1.2, 1.45, 1.7]);
+    }
 
     #[test]
     fn aperture_limit_leaves_the_clearance_on_both_sides() {
