@@ -97,7 +97,7 @@ fn open_water_efficiency_of_a_published_worked_example() {
 
 #[test]
 fn vapour_pressure_at_15_c_near_the_cavitation_notes() {
-    // Source: lecture notes "Unit 8", §8.1 "The Basics of Cavitation" (course and author not
+    // Source: course notes "Unit 8", §8.1 "The Basics of Cavitation" (course and author not
     // named on the page), read at https://scribd.com/document/470544070/cavitation-notes :
     // water around the screw taken at 15 °C, vapour pressure 1.704 kN/m² at that temperature.
     // Our IAPWS-IF97 saturation line gives 1705.7 Pa, 0.10 % above the printed figure — more
