@@ -59,6 +59,32 @@ pub enum Kind {
     Time,
 }
 
+impl Kind {
+    /// Every kind, in the order of the enum.
+    pub const ALL: [Kind; 20] = [
+        Kind::Length,
+        Kind::ScrewLength,
+        Kind::Distance,
+        Kind::FuelPerDistance,
+        Kind::Mass,
+        Kind::Power,
+        Kind::Speed,
+        Kind::Volume,
+        Kind::Area,
+        Kind::Fraction,
+        Kind::FuelRate,
+        Kind::SpecificFuel,
+        Kind::Rotation,
+        Kind::Temperature,
+        Kind::Density,
+        Kind::Force,
+        Kind::Angle,
+        Kind::Torque,
+        Kind::Pressure,
+        Kind::Time,
+    ];
+}
+
 /// The unit system used for display.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Default, serde::Serialize, serde::Deserialize)]
 #[serde(rename_all = "lowercase")]
@@ -519,32 +545,9 @@ fn unknown_inches(text: &str, start: usize, end: usize) -> UnitError {
 mod tests {
     use super::*;
 
-    const ALL_KINDS: [Kind; 20] = [
-        Kind::Length,
-        Kind::ScrewLength,
-        Kind::Distance,
-        Kind::FuelPerDistance,
-        Kind::Mass,
-        Kind::Power,
-        Kind::Speed,
-        Kind::Volume,
-        Kind::Area,
-        Kind::Fraction,
-        Kind::FuelRate,
-        Kind::SpecificFuel,
-        Kind::Rotation,
-        Kind::Temperature,
-        Kind::Density,
-        Kind::Force,
-        Kind::Angle,
-        Kind::Torque,
-        Kind::Pressure,
-        Kind::Time,
-    ];
-
     #[test]
     fn every_listed_spelling_parses_to_its_unit() {
-        for kind in ALL_KINDS {
+        for kind in Kind::ALL {
             for unit in info(kind).units {
                 for alias in unit.aliases {
                     let got = parse(&format!("2 {alias}"), kind);
@@ -557,7 +560,7 @@ mod tests {
 
     #[test]
     fn every_unit_named_in_the_error_hint_is_accepted() {
-        for kind in ALL_KINDS {
+        for kind in Kind::ALL {
             let listed = accepted_units(kind);
             let units_only = listed.split(" (or").next().unwrap_or(listed);
             for entry in units_only.split(", ") {
@@ -575,7 +578,7 @@ mod tests {
 
     #[test]
     fn display_labels_parse_back_to_the_display_scale() {
-        for kind in ALL_KINDS {
+        for kind in Kind::ALL {
             for system in [UnitSystem::Metric, UnitSystem::Imperial] {
                 let unit = info(kind).display(system);
                 let got = parse(&format!("2 {}", unit.label), kind);
@@ -591,7 +594,7 @@ mod tests {
 
     #[test]
     fn spellings_are_unambiguous_within_a_kind() {
-        for kind in ALL_KINDS {
+        for kind in Kind::ALL {
             let units = info(kind).units;
             for (index, unit) in units.iter().enumerate() {
                 for alias in unit.aliases {

@@ -8,36 +8,12 @@
 use libfuzzer_sys::fuzz_target;
 use tidewright::units::{Kind, UnitError, parse};
 
-/// Every kind the parser knows.
-const ALL_KINDS: [Kind; 20] = [
-    Kind::Length,
-    Kind::ScrewLength,
-    Kind::Distance,
-    Kind::FuelPerDistance,
-    Kind::Mass,
-    Kind::Power,
-    Kind::Speed,
-    Kind::Volume,
-    Kind::Area,
-    Kind::Fraction,
-    Kind::FuelRate,
-    Kind::SpecificFuel,
-    Kind::Rotation,
-    Kind::Temperature,
-    Kind::Density,
-    Kind::Force,
-    Kind::Angle,
-    Kind::Torque,
-    Kind::Pressure,
-    Kind::Time,
-];
-
 fuzz_target!(|data: &[u8]| {
     let Ok(text) = std::str::from_utf8(data) else {
         return;
     };
     let length = text.chars().count();
-    for kind in ALL_KINDS {
+    for kind in Kind::ALL {
         match parse(text, kind) {
             Ok(value) => assert!(value.is_finite(), "{text:?} as {kind:?} gave {value}"),
             Err(

@@ -7,29 +7,6 @@ use tidewright::units::{
     unit_label,
 };
 
-const ALL_KINDS: [Kind; 20] = [
-    Kind::Length,
-    Kind::ScrewLength,
-    Kind::Distance,
-    Kind::FuelPerDistance,
-    Kind::Mass,
-    Kind::Power,
-    Kind::Speed,
-    Kind::Volume,
-    Kind::Area,
-    Kind::Fraction,
-    Kind::FuelRate,
-    Kind::SpecificFuel,
-    Kind::Rotation,
-    Kind::Temperature,
-    Kind::Density,
-    Kind::Force,
-    Kind::Angle,
-    Kind::Torque,
-    Kind::Pressure,
-    Kind::Time,
-];
-
 const SYSTEMS: [UnitSystem; 2] = [UnitSystem::Metric, UnitSystem::Imperial];
 
 fn ok(text: &str, kind: Kind) -> f64 {
@@ -365,7 +342,7 @@ fn compound_is_only_for_lengths_and_only_feet_then_inches() {
 
 #[test]
 fn missing_unit_is_an_error_except_for_fractions() {
-    for kind in ALL_KINDS {
+    for kind in Kind::ALL {
         let result = parse("12", kind);
         if kind == Kind::Fraction {
             assert_eq!(result, Ok(12.0));
@@ -532,7 +509,7 @@ fn formats_with_display_units_and_precision() {
 
 #[test]
 fn formatting_never_shows_nan_or_infinity() {
-    for kind in ALL_KINDS {
+    for kind in Kind::ALL {
         for system in SYSTEMS {
             for value in [f64::NAN, f64::INFINITY, f64::NEG_INFINITY] {
                 assert_eq!(format(value, kind, system), "—");
@@ -562,7 +539,7 @@ fn formatting_never_shows_nan_or_infinity() {
 
 #[test]
 fn display_conversion_and_labels_agree_with_format() {
-    for kind in ALL_KINDS {
+    for kind in Kind::ALL {
         for system in SYSTEMS {
             let value = ok(&format!("3.7 {}", unit_label(kind, system)), kind);
             assert_close!(to_display(value, kind, system), 3.7, 1e-12);
@@ -584,7 +561,7 @@ proptest! {
         kind_index in 0usize..20,
         imperial in any::<bool>(),
     ) {
-        let kind = ALL_KINDS[kind_index];
+        let kind = Kind::ALL[kind_index];
         let system = if imperial { UnitSystem::Imperial } else { UnitSystem::Metric };
         let value = mantissa * 10f64.powi(exponent);
         let written = format_for_file(value, kind, system);
@@ -597,7 +574,7 @@ proptest! {
     // No input text makes the parser panic.
     #[test]
     fn parser_never_panics(text in "\\PC{0,24}", kind_index in 0usize..20) {
-        if let Ok(value) = parse(&text, ALL_KINDS[kind_index]) {
+        if let Ok(value) = parse(&text, Kind::ALL[kind_index]) {
             prop_assert!(value.is_finite());
         }
     }

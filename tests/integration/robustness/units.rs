@@ -4,30 +4,6 @@
 use proptest::prelude::*;
 use tidewright::units::{Kind, UnitError, parse};
 
-/// Every kind the parser knows.
-const ALL_KINDS: [Kind; 20] = [
-    Kind::Length,
-    Kind::ScrewLength,
-    Kind::Distance,
-    Kind::FuelPerDistance,
-    Kind::Mass,
-    Kind::Power,
-    Kind::Speed,
-    Kind::Volume,
-    Kind::Area,
-    Kind::Fraction,
-    Kind::FuelRate,
-    Kind::SpecificFuel,
-    Kind::Rotation,
-    Kind::Temperature,
-    Kind::Density,
-    Kind::Force,
-    Kind::Angle,
-    Kind::Torque,
-    Kind::Pressure,
-    Kind::Time,
-];
-
 /// Pieces that look like the start, middle or end of a real quantity, so that random joins
 /// reach deep into the parser (compound lengths, exponents, unit spellings, stray symbols).
 const PIECES: [&str; 40] = [
@@ -124,7 +100,7 @@ proptest! {
     // Any printable text, every kind.
     #[test]
     fn any_text_parses_or_fails_with_a_position(text in "\\PC{0,32}") {
-        for kind in ALL_KINDS {
+        for kind in Kind::ALL {
             check(&text, kind)?;
         }
     }
@@ -132,7 +108,7 @@ proptest! {
     // Any bytes that happen to be valid UTF-8, including control characters and odd spaces.
     #[test]
     fn any_string_parses_or_fails_with_a_position(text in any::<String>()) {
-        for kind in ALL_KINDS {
+        for kind in Kind::ALL {
             check(&text, kind)?;
         }
     }
@@ -143,7 +119,7 @@ proptest! {
         pieces in proptest::collection::vec(0usize..PIECES.len(), 0..8),
     ) {
         let text: String = pieces.iter().map(|&i| PIECES[i]).collect();
-        for kind in ALL_KINDS {
+        for kind in Kind::ALL {
             check(&text, kind)?;
         }
     }
@@ -154,7 +130,7 @@ proptest! {
     fn a_wrong_unit_is_refused_where_it_stands(value in 0.0f64..1e6, spaces in 0usize..3) {
         let number = format!("{value}");
         let text = format!("{number}{}zorp", " ".repeat(spaces));
-        for kind in ALL_KINDS {
+        for kind in Kind::ALL {
             match parse(&text, kind) {
                 Err(UnitError::UnknownUnit { position, .. }) => {
                     prop_assert_eq!(position, number.len() + spaces);
@@ -167,7 +143,7 @@ proptest! {
 
 #[test]
 fn huge_and_odd_numbers_are_errors_not_infinities() {
-    for kind in ALL_KINDS {
+    for kind in Kind::ALL {
         for text in [
             "1e309 m",
             "1e309",
