@@ -491,11 +491,18 @@ pub fn readout_lines(app: &App) -> Vec<Line<'static>> {
                     Verdict::Matched => theme.accent.add_modifier(Modifier::BOLD),
                     _ => theme.warning.add_modifier(Modifier::BOLD),
                 };
+                // A governed engine reaches rated rpm; its headroom is how far past rated the
+                // screw would let it run free before absorbing full power.
+                let rated_rpm = m.meeting_rpm - m.rpm_margin;
+                let margin = match (m.governed, m.free_running_rpm) {
+                    (true, Some(free)) => format!("{:+.0} rpm (light)", free - rated_rpm),
+                    (true, None) => "light, beyond the curve".to_string(),
+                    (false, _) => format!("{:+.0} rpm", m.rpm_margin),
+                };
                 Line::from(vec![
                     Span::raw(format!(
-                        "{}: margin at rated {:+.0} rpm · absorbs {:.0} % at rated · top {} · ",
+                        "{}: margin at rated {margin} · absorbs {:.0} % at rated · top {} · ",
                         variant.label,
-                        m.rpm_margin,
                         m.absorbed_fraction_at_rated * 100.0,
                         units::format(m.top_speed, Kind::Speed, system)
                     )),

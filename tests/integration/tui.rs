@@ -350,6 +350,14 @@ fn assert_common(text: &str) {
     assert!(text.contains("load "));
     assert!(text.contains("range "));
     assert!(text.contains("margin at rated"));
+    // The demo's active screw is matched and governed at rated rpm: its headroom is the
+    // free-running rpm past rated, not a bare +0.
+    if text.contains("MATCHED") {
+        assert!(
+            text.contains("rpm (light)"),
+            "light-running margin missing:\n{text}"
+        );
+    }
     assert!(
         text.contains("MATCHED") || text.contains("OVER-PROPPED") || text.contains("UNDER-PROPPED")
     );
