@@ -26,20 +26,21 @@ fn variant_index(loaded: &LoadedBoat, label: Option<&str>) -> anyhow::Result<usi
         None => Ok(vessel
             .active_variant
             .min(vessel.variants.len().saturating_sub(1))),
-        Some(label) => vessel
-            .variants
-            .iter()
-            .position(|v| v.label == label)
-            .ok_or_else(|| {
-                let known: Vec<&str> = vessel.variants.iter().map(|v| v.label.as_str()).collect();
-                UsageError(format!(
-                    "--variant: boat {:?} has no screw variant {label:?}; its variants are: {}",
-                    vessel.name,
-                    known.join(", ")
-                ))
-                .into()
-            }),
+        Some(label) => labelled_variant(loaded, label),
     }
+}
+
+/// The index of the variant `--variant LABEL` names, or a usage error listing the labels.
+pub(crate) fn labelled_variant(loaded: &LoadedBoat, label: &str) -> anyhow::Result<usize> {
+    let vessel = &loaded.vessel;
+    vessel.variant_by_label(label).ok_or_else(|| {
+        UsageError(format!(
+            "--variant: boat {:?} has no screw variant {label:?}; its variants are: {}",
+            vessel.name,
+            vessel.variant_labels()
+        ))
+        .into()
+    })
 }
 
 /// `report BOAT`.

@@ -27,23 +27,9 @@ use crate::units::Kind;
 
 /// The variants asked for: one by label, or all.
 pub fn variant_indices(loaded: &LoadedBoat, label: Option<&str>) -> anyhow::Result<Vec<usize>> {
-    let vessel = &loaded.vessel;
     match label {
-        None => Ok((0..vessel.variants.len()).collect()),
-        Some(label) => vessel
-            .variants
-            .iter()
-            .position(|v| v.label == label)
-            .map(|i| vec![i])
-            .ok_or_else(|| {
-                let known: Vec<&str> = vessel.variants.iter().map(|v| v.label.as_str()).collect();
-                UsageError(format!(
-                    "--variant: boat {:?} has no screw variant {label:?}; its variants are: {}",
-                    vessel.name,
-                    known.join(", ")
-                ))
-                .into()
-            }),
+        None => Ok((0..loaded.vessel.variants.len()).collect()),
+        Some(label) => Ok(vec![super::boat::labelled_variant(loaded, label)?]),
     }
 }
 

@@ -561,19 +561,12 @@ fn variant_indices(vessel: &Vessel, label: Option<&str>) -> Result<Vec<usize>, R
     match label {
         None => Ok((0..vessel.variants.len()).collect()),
         Some(label) => vessel
-            .variants
-            .iter()
-            .position(|v| v.label == label)
+            .variant_by_label(label)
             .map(|i| vec![i])
             .ok_or_else(|| ReportError::UnknownVariant {
                 boat: vessel.name.clone(),
                 label: label.to_string(),
-                known: vessel
-                    .variants
-                    .iter()
-                    .map(|v| v.label.as_str())
-                    .collect::<Vec<_>>()
-                    .join(", "),
+                known: vessel.variant_labels(),
             }),
     }
 }

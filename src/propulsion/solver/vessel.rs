@@ -46,6 +46,20 @@ pub struct Vessel {
 }
 
 impl Vessel {
+    /// The index of the variant labelled `label`, if there is one.
+    pub fn variant_by_label(&self, label: &str) -> Option<usize> {
+        self.variants.iter().position(|v| v.label == label)
+    }
+
+    /// The variants' labels, comma-separated, for messages naming the choices.
+    pub fn variant_labels(&self) -> String {
+        self.variants
+            .iter()
+            .map(|v| v.label.as_str())
+            .collect::<Vec<_>>()
+            .join(", ")
+    }
+
     /// The propulsion system of variant `index` (clamped to the last variant).
     pub fn system(&self, index: usize) -> System<'_> {
         let variant = &self.variants[index.min(self.variants.len().saturating_sub(1))];
