@@ -232,12 +232,20 @@ pub struct PitchArgs {
     /// Only this screw variant (its label).
     #[arg(long, value_name = "LABEL")]
     pub variant: Option<String>,
-    /// Target: absorb this percentage of rated power at rated rpm (default 100).
+    /// Target: absorb this percentage of rated power at rated rpm instead (above 100 overloads
+    /// the engine and is warned about).
     #[arg(long, value_name = "PERCENT", conflicts_with = "light_running")]
     pub absorb: Option<f64>,
-    /// Target: meet the full-load curve this many rpm above rated (a light-running screw).
+    /// Target: meet the full-load curve this many rpm above rated (a light-running screw;
+    /// default: the boat's [match] light_running, 2 % of rated rpm; 0 asks for exactly rated rpm).
     #[arg(long, value_name = "RPM", allow_hyphen_values = true)]
     pub light_running: Option<f64>,
+    /// Largest re-pitch, a length with its unit (default: the boat's, else 2in).
+    #[arg(long, value_name = "LENGTH")]
+    pub repitch_limit: Option<String>,
+    /// Also limit the re-pitch to this percentage of the current pitch (the smaller applies).
+    #[arg(long, value_name = "PERCENT")]
+    pub repitch_fraction: Option<f64>,
     /// Output format.
     #[arg(long, value_enum, default_value_t = PlainFormat::Text)]
     pub format: PlainFormat,

@@ -13,14 +13,15 @@ use crate::profile::store::Saved;
 use crate::profile::store::save_boat_file;
 use crate::profile::{CalibrationDoc, Origin};
 use crate::propulsion::solver::design::{
-    PitchOptions, PitchRecommendation, PitchTarget, RankCriterion, SweepOptions, SweepParameter,
-    SweepResult, USUAL_AREA_RATIOS, USUAL_BLADE_COUNTS, gear_ratios_around, recommend_pitch,
-    sweep as run_sweep,
+    MatchSummary, PitchCure, PitchOptions, PitchRecommendation, PitchTarget, RankCriterion,
+    RepitchLimit, SweepOptions, SweepParameter, SweepResult, USUAL_AREA_RATIOS, USUAL_BLADE_COUNTS,
+    gear_ratios_around, recommend_pitch, sweep as run_sweep,
 };
 use crate::propulsion::solver::matching::point_at_engine_rpm;
 use crate::propulsion::solver::trial::{
     Calibration, CalibrationFit, CalibrationOptions, calibrate,
 };
+use crate::report::boat::{margin_words, signed_rpm, verdict_words};
 use crate::report::table::{Column, Table};
 use crate::report::{CAUTION, Display, INCH_M, KNOT_MPS, json};
 use crate::units::Kind;
@@ -52,6 +53,12 @@ struct PitchJson {
     target_rpm: f64,
     target_kw: f64,
     absorbed_kw: Option<f64>,
+    /// The current screw's match.
+    #[serde(rename = "match")]
+    current: Option<MatchSummaryJson>,
+    /// The match at the recommended pitch.
+    recommended_match: Option<MatchSummaryJson>,
+    cure: Option<CureJson>,
     condition: String,
     search: String,
     warnings: Vec<String>,
@@ -72,9 +79,56 @@ impl From<&PitchRecommendation> for PitchJson {
             target_rpm: r.target_point.engine_rpm,
             target_kw: r.target_point.brake_power / 1e3,
             absorbed_kw: finite_or_none(r.absorbed_power.map(|w| w / 1e3)),
+            current: r.current.as_ref().map(MatchSummaryJson::from),
+            recommended_match: r.at_recommended.as_ref().map(MatchSummaryJson::from),
+            cure: r.cure.as_ref().map(CureJson::from),
             condition: r.condition.describe(),
             search: stop_text(&r.stop),
             warnings: r.warnings.iter().map(ToString::to_string).collect(),
+        }
+    }
+}
+
+/// A match's verdict and margin in JSON (the same fields as the report's `match`).
+#[derive(Debug, Serialize)]
+struct MatchSummaryJson {
+    pitch_m: f64,
+    meeting_rpm: f64,
+    verdict: crate::propulsion::solver::Verdict,
+    rpm_margin: f64,
+    rpm_margin_is_lower_bound: bool,
+    absorbed_pct_at_rated: f64,
+}
+
+impl From<&MatchSummary> for MatchSummaryJson {
+    fn from(m: &MatchSummary) -> Self {
+        Self {
+            pitch_m: m.pitch,
+            meeting_rpm: m.meeting_rpm,
+            verdict: m.verdict,
+            rpm_margin: m.rpm_margin,
+            rpm_margin_is_lower_bound: m.margin_is_lower_bound,
+            absorbed_pct_at_rated: m.absorbed_fraction_at_rated * 100.0,
+        }
+    }
+}
+
+/// The slope's cure of the current screw in JSON.
+#[derive(Debug, Serialize)]
+struct CureJson {
+    target_rpm_margin: f64,
+    rpm_to_cure: f64,
+    change_m: f64,
+    check: Option<MatchSummaryJson>,
+}
+
+impl From<&PitchCure> for CureJson {
+    fn from(c: &PitchCure) -> Self {
+        Self {
+            target_rpm_margin: c.target_margin,
+            rpm_to_cure: c.rpm_to_cure,
+            change_m: c.change,
+            check: c.check.as_ref().map(MatchSummaryJson::from),
         }
     }
 }
@@ -88,37 +142,59 @@ fn stop_text(stop: &crate::propulsion::solver::design::SearchStop) -> String {
     }
 }
 
-/// The pitch options of the command line.
-pub fn pitch_options(args: &PitchArgs) -> anyhow::Result<PitchOptions> {
+/// The pitch options of the command line for `loaded`; a `--light-running` of 0 or more also
+/// becomes the boat's light-running margin, so the verdict's band follows the target asked for.
+pub fn pitch_options(args: &PitchArgs, loaded: &mut LoadedBoat) -> anyhow::Result<PitchOptions> {
+    let rated_rpm = loaded.vessel.engine.rated_rpm;
     let target = match (args.light_running, args.absorb) {
+        (Some(rpm), _) if !rpm.is_finite() => {
+            return Err(
+                UsageError("--light-running: expected an rpm margin such as 50".into()).into(),
+            );
+        }
+        (Some(rpm), _) if rpm >= 0.0 && rpm < 0.2 * rated_rpm => {
+            loaded.vessel.match_criteria.light_running = rpm / rated_rpm;
+            PitchTarget::Headroom
+        }
         (Some(rpm), _) => PitchTarget::LightRunning { rpm_margin: rpm },
-        (None, Some(pct)) => PitchTarget::RatedPower {
-            fraction: pct / 100.0,
-        },
-        (None, None) => PitchTarget::default(),
+        (None, Some(pct)) => {
+            let fraction = pct / 100.0;
+            // Reject what the search would refuse, as a usage error naming the option.
+            if !(fraction.is_finite() && fraction > 0.0 && fraction <= 1.5) {
+                return Err(UsageError(format!(
+                    "--absorb: expected a percentage of rated power above 0 and at most 150, got {pct}"
+                ))
+                .into());
+            }
+            PitchTarget::RatedPower { fraction }
+        }
+        (None, None) => PitchTarget::Headroom,
     };
-    let options = PitchOptions {
+    let mut repitch: RepitchLimit = loaded.vessel.repitch;
+    if let Some(text) = &args.repitch_limit {
+        repitch.length = crate::units::parse(text, Kind::ScrewLength)
+            .ok()
+            .filter(|v| v.is_finite() && (0.0..=0.3).contains(v))
+            .ok_or_else(|| {
+                UsageError(format!(
+                    "--repitch-limit: expected a length with its unit from 0 to 12in (300mm), such as 2in, got {text:?}"
+                ))
+            })?;
+    }
+    if let Some(pct) = args.repitch_fraction {
+        if !(pct.is_finite() && pct > 0.0 && pct < 100.0) {
+            return Err(UsageError(format!(
+                "--repitch-fraction: expected a percentage of pitch above 0 and below 100, got {pct}"
+            ))
+            .into());
+        }
+        repitch.fraction = Some(pct / 100.0);
+    }
+    Ok(PitchOptions {
         target,
+        repitch: Some(repitch),
         ..PitchOptions::default()
-    };
-    // Reject what the search would refuse, as a usage error naming the option.
-    if let PitchTarget::RatedPower { fraction } = target
-        && !(fraction.is_finite() && fraction > 0.0 && fraction <= 1.5)
-    {
-        return Err(UsageError(format!(
-            "--absorb: expected a percentage of rated power above 0 and at most 150, got {}",
-            fraction * 100.0
-        ))
-        .into());
-    }
-    if let PitchTarget::LightRunning { rpm_margin } = target
-        && !rpm_margin.is_finite()
-    {
-        return Err(
-            UsageError("--light-running: expected an rpm margin such as 100".into()).into(),
-        );
-    }
-    Ok(options)
+    })
 }
 
 /// The pitch recommendations of the variants asked for, each with its reason when unsolved.
@@ -156,7 +232,7 @@ pub fn pitch_text(r: &PitchRecommendation, d: &Display) -> String {
     ));
     match (r.recommended_pitch, r.change) {
         (Some(p), Some(c)) if p.is_finite() && c.is_finite() => {
-            let sign = if c >= 0.0 { "+" } else { "−" };
+            let sign = if c >= -0.0005 { "+" } else { "−" };
             out.push_str(&format!(
                 "  recommended pitch {} (change {sign}{}), {}\n",
                 d.quantity(p, Kind::ScrewLength),
@@ -175,11 +251,48 @@ pub fn pitch_text(r: &PitchRecommendation, d: &Display) -> String {
         }
         _ => out.push_str(&format!("  no pitch recommended: {}\n", stop_text(&r.stop))),
     }
+    let rated_rpm = r.rated_rpm;
+    if let Some(m) = &r.current {
+        out.push_str(&format!(
+            "  current screw: {}\n",
+            summary_words(m, rated_rpm)
+        ));
+    }
+    if let Some(m) = &r.at_recommended {
+        out.push_str(&format!(
+            "  at the recommended pitch: {}\n",
+            summary_words(m, rated_rpm)
+        ));
+    }
     if let Some(slope) = finite_or_none(r.rpm_per_inch) {
         out.push_str(&format!(
-            "  full-throttle rpm changes by {slope:+.0} rpm per inch of pitch ({:+.0} rpm per 10 mm)\n",
-            slope * 0.010 / INCH_M
+            "  full-throttle rpm changes by {} per inch of added pitch ({} per 10 mm), on the load-limited side\n",
+            signed_rpm(slope),
+            signed_rpm(slope * 0.010 / INCH_M)
         ));
+    }
+    if let Some(c) = &r.cure
+        && c.rpm_to_cure.abs() >= 0.5
+    {
+        let what = if c.rpm_to_cure > 0.0 {
+            format!("{:.0} rpm shortfall", c.rpm_to_cure)
+        } else {
+            format!("{:.0} rpm excess", -c.rpm_to_cure)
+        };
+        let sign = if c.change >= -0.0005 { "+" } else { "−" };
+        let mut line = format!(
+            "  by that slope the current screw's {what} is cured by {sign}{} of pitch",
+            d.quantity(c.change.abs(), Kind::ScrewLength)
+        );
+        if let Some(check) = &c.check {
+            line.push_str(&format!(
+                "; solved at {}: {}",
+                d.quantity(check.pitch, Kind::ScrewLength),
+                summary_words(check, rated_rpm)
+            ));
+        }
+        out.push_str(&line);
+        out.push('\n');
     }
     for w in &r.warnings {
         out.push_str(&format!("  warning: {w}\n"));
@@ -188,11 +301,22 @@ pub fn pitch_text(r: &PitchRecommendation, d: &Display) -> String {
     out
 }
 
+/// "matched, margin +52 rpm (runs free 52 rpm past rated 2600 rpm), absorbs 97 % at rated rpm".
+fn summary_words(m: &MatchSummary, rated_rpm: f64) -> String {
+    format!(
+        "{}, margin {} ({}), absorbs {:.0} % of rated power at rated rpm",
+        verdict_words(m.verdict),
+        signed_rpm(m.rpm_margin),
+        margin_words(m.rpm_margin, m.margin_is_lower_bound, rated_rpm),
+        m.absorbed_fraction_at_rated * 100.0
+    )
+}
+
 /// `pitch BOAT`.
 pub fn pitch(ctx: &Context, args: &PitchArgs, out: &mut dyn Write) -> anyhow::Result<()> {
-    let loaded = load_boat(ctx, &args.boat)?;
+    let mut loaded = load_boat(ctx, &args.boat)?;
     let indices = variant_indices(&loaded, args.variant.as_deref())?;
-    let options = pitch_options(args)?;
+    let options = pitch_options(args, &mut loaded)?;
     let recs = recommendations(&loaded, &indices, &options)?;
     match args.format {
         PlainFormat::Json => {

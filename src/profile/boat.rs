@@ -11,6 +11,7 @@ use crate::propulsion::hull::{
 use crate::propulsion::screw::{
     BSeriesScrew, OpenWaterPoint, OpenWaterTable, ScrewGeometry, ScrewModel,
 };
+use crate::propulsion::solver::design::RepitchLimit;
 use crate::propulsion::solver::{
     Installation, MatchCriteria, RunDirection, TrialRun, Trip, Variant, Vessel,
 };
@@ -236,6 +237,44 @@ pub struct VariantDoc {
     pub open_water: Option<Vec<(f64, f64, f64)>>,
 }
 
+/// The `[match]` section: what "matched" means and how far a screw may be re-pitched.
+#[derive(Debug, Clone, PartialEq, Default)]
+pub struct MatchDoc {
+    /// Light-running margin a recommended pitch aims at, fraction of rated rpm.
+    pub light_running: Option<f64>,
+    /// Largest free-running margin still matched, fraction of rated rpm.
+    pub free_running_allowance: Option<f64>,
+    /// Largest re-pitch, m.
+    pub repitch_limit: Option<Quantity>,
+    /// Largest re-pitch as a fraction of the current pitch.
+    pub repitch_fraction: Option<f64>,
+}
+
+impl MatchDoc {
+    /// The core's verdict limits, defaults where not given.
+    pub fn criteria(&self) -> MatchCriteria {
+        let default = MatchCriteria::default();
+        MatchCriteria {
+            light_running: self.light_running.unwrap_or(default.light_running),
+            free_running_allowance: self
+                .free_running_allowance
+                .unwrap_or(default.free_running_allowance),
+            tolerance: default.tolerance,
+        }
+    }
+
+    /// The core's re-pitch limit, defaults where not given.
+    pub fn repitch(&self) -> RepitchLimit {
+        RepitchLimit {
+            length: self
+                .repitch_limit
+                .as_ref()
+                .map_or(RepitchLimit::default().length, |q| q.value),
+            fraction: self.repitch_fraction,
+        }
+    }
+}
+
 /// The planned trip.
 #[derive(Debug, Clone, PartialEq)]
 pub struct TripDoc {
@@ -317,13 +356,29 @@ pub struct BoatDoc {
     pub active_variant: usize,
     /// The trip.
     pub trip: TripDoc,
-    /// Verdict limits (the core's defaults when absent).
-    pub match_criteria: Option<MatchCriteria>,
+    /// Verdict limits, light-running margin and re-pitch limits (the core's defaults when absent).
+    pub match_criteria: Option<MatchDoc>,
     /// Sea-trial log.
     pub trial: Option<TrialDoc>,
     /// Saved sea-trial correction.
     pub calibration: Option<CalibrationDoc>,
 }
+
+/// Smallest screw diameter or pitch the loader accepts, m (2 in: smaller is a model, not a
+/// boat's screw).
+const MIN_SCREW_LENGTH: f64 = 0.05;
+
+/// Largest screw diameter the loader accepts, m (100 in: past any small-craft screw).
+const MAX_SCREW_DIAMETER: f64 = 2.54;
+
+/// Largest screw pitch the loader accepts, m (200 in).
+const MAX_SCREW_PITCH: f64 = 5.08;
+
+/// Smallest pitch ratio P/D the loader accepts (far below any working screw).
+const MIN_PITCH_RATIO: f64 = 0.3;
+
+/// Largest pitch ratio P/D the loader accepts (far above any working screw).
+const MAX_PITCH_RATIO: f64 = 2.0;
 
 // ---------------------------------------------------------------------------------------------
 // Raw file form: every value keeps its span for error messages.
@@ -509,8 +564,14 @@ struct RawTrip {
 #[derive(Debug, Deserialize, Serialize)]
 #[serde(deny_unknown_fields)]
 struct RawMatch {
-    over_above: Spanned<f64>,
-    under_below: Spanned<f64>,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    light_running: Option<Spanned<f64>>,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    free_running_allowance: Option<Spanned<f64>>,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    repitch_limit: Option<Spanned<String>>,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    repitch_fraction: Option<Spanned<f64>>,
 }
 
 #[derive(Debug, Deserialize, Serialize)]
@@ -769,10 +830,20 @@ impl BoatDoc {
             usable_fraction: r.num("trip.usable_fraction", &t.usable_fraction),
             reserve: r.num("trip.reserve", &t.reserve),
         };
-        let match_criteria = raw.match_criteria.as_ref().map(|m| MatchCriteria {
-            over_above: r.num("match.over_above", &m.over_above),
-            under_below: r.num("match.under_below", &m.under_below),
-        });
+        let match_criteria = match raw.match_criteria.as_ref() {
+            None => None,
+            Some(m) => Some(MatchDoc {
+                light_running: r.opt_num("match.light_running", &m.light_running),
+                free_running_allowance: r
+                    .opt_num("match.free_running_allowance", &m.free_running_allowance),
+                repitch_limit: r.opt_qty(
+                    "match.repitch_limit",
+                    &m.repitch_limit,
+                    Kind::ScrewLength,
+                )?,
+                repitch_fraction: r.opt_num("match.repitch_fraction", &m.repitch_fraction),
+            }),
+        };
         let trial = match &raw.trial {
             None => None,
             Some(tr) => {
@@ -949,9 +1020,11 @@ impl BoatDoc {
                 usable_fraction: out_num(self.trip.usable_fraction),
                 reserve: out_num(self.trip.reserve),
             },
-            match_criteria: self.match_criteria.map(|m| RawMatch {
-                over_above: out_num(m.over_above),
-                under_below: out_num(m.under_below),
+            match_criteria: self.match_criteria.as_ref().map(|m| RawMatch {
+                light_running: m.light_running.map(out_num),
+                free_running_allowance: m.free_running_allowance.map(out_num),
+                repitch_limit: oq(&m.repitch_limit, Kind::ScrewLength),
+                repitch_fraction: m.repitch_fraction.map(out_num),
             }),
             variant: self
                 .variants
@@ -1267,6 +1340,30 @@ impl BoatDoc {
             }
             v.positive(&format!("{key}.diameter"), &variant.diameter, "diameter");
             v.positive(&format!("{key}.pitch"), &variant.pitch, "pitch");
+            // What no small-craft screw can be; the B-series range is only warned about.
+            let (diameter, pitch) = (variant.diameter.value, variant.pitch.value);
+            if diameter > 0.0 && !(MIN_SCREW_LENGTH..=MAX_SCREW_DIAMETER).contains(&diameter) {
+                v.push(
+                    format!("{key}.diameter"),
+                    variant.diameter.shown(),
+                    "expected a screw diameter from 2 in (50 mm) to 100 in (2.5 m)",
+                );
+            } else if pitch > 0.0 && !(MIN_SCREW_LENGTH..=MAX_SCREW_PITCH).contains(&pitch) {
+                v.push(
+                    format!("{key}.pitch"),
+                    variant.pitch.shown(),
+                    "expected a screw pitch from 2 in (50 mm) to 200 in (5 m)",
+                );
+            } else if diameter > 0.0
+                && pitch > 0.0
+                && !(MIN_PITCH_RATIO..=MAX_PITCH_RATIO).contains(&(pitch / diameter))
+            {
+                v.push(
+                    format!("{key}.pitch"),
+                    format!("{} (P/D {:.2})", variant.pitch.shown(), pitch / diameter),
+                    "expected a pitch from 0.3 to 2.0 times the diameter (P/D 0.3–2.0; the B-series covers 0.5–1.4)",
+                );
+            }
             if !(variant.area_ratio > 0.0 && variant.area_ratio <= 1.5) {
                 v.push(
                     format!("{key}.area_ratio"),
@@ -1340,14 +1437,45 @@ impl BoatDoc {
             1.0,
             "a reserve fraction from 0 up to (not including) 1",
         );
-        if let Some(m) = self.match_criteria
-            && !(m.under_below > 0.0 && m.under_below < m.over_above && m.over_above <= 2.0)
-        {
-            v.push(
-                "match.under_below",
-                m.under_below.to_string(),
-                "expected 0 < under_below < over_above ≤ 2",
+        if let Some(m) = &self.match_criteria {
+            v.range(
+                "match.light_running",
+                m.light_running,
+                0.0,
+                0.2,
+                "a light-running margin from 0 to 0.2 of rated rpm (0.02 for 2 %)",
             );
+            v.range(
+                "match.free_running_allowance",
+                m.free_running_allowance,
+                0.0,
+                0.2,
+                "a free-running allowance from 0 to 0.2 of rated rpm (0.03 for 3 %)",
+            );
+            v.opt_not_negative("match.repitch_limit", &m.repitch_limit, "re-pitch limit");
+            if m.repitch_limit.as_ref().is_some_and(|q| q.value > 0.3) {
+                v.push(
+                    "match.repitch_limit",
+                    m.repitch_limit
+                        .as_ref()
+                        .map_or(String::new(), Quantity::shown),
+                    "expected a re-pitch limit of at most 300 mm (about 12 in)",
+                );
+            }
+            v.range_open(
+                "match.repitch_fraction",
+                m.repitch_fraction.unwrap_or(0.1),
+                0.0,
+                1.0,
+                "a re-pitch limit as a fraction of pitch above 0 and below 1 (0.1 for 10 %)",
+            );
+            if m.repitch_fraction == Some(0.0) {
+                v.push(
+                    "match.repitch_fraction",
+                    "0",
+                    "expected a re-pitch limit as a fraction of pitch above 0 and below 1 (0.1 for 10 %)",
+                );
+            }
         }
         if let Some(trial) = &self.trial {
             for (i, run) in trial.runs.iter().enumerate() {
@@ -1578,7 +1706,14 @@ impl BoatDoc {
             active_variant: self.active_variant,
             reynolds_correction: self.reynolds_correction,
             trip,
-            match_criteria: self.match_criteria.unwrap_or_default(),
+            match_criteria: self
+                .match_criteria
+                .as_ref()
+                .map_or_else(MatchCriteria::default, MatchDoc::criteria),
+            repitch: self
+                .match_criteria
+                .as_ref()
+                .map_or_else(RepitchLimit::default, MatchDoc::repitch),
             trial,
         })
     }

@@ -485,6 +485,7 @@ impl BoatReport {
                             absorbed_pct_at_rated: m.absorbed_fraction_at_rated * 100.0,
                             verdict: m.verdict,
                             rpm_margin: m.rpm_margin,
+                            rpm_margin_is_lower_bound: m.margin_is_lower_bound,
                         }),
                         match_error: v.matching.as_ref().err().cloned(),
                         cruise: v.target.as_ref().ok().map(PointJson::from),
@@ -658,25 +659,54 @@ pub fn verdict_words(verdict: Verdict) -> &'static str {
     }
 }
 
+/// The margin at full throttle in words, the same in every front end: "reaches rated 2600 rpm",
+/// "267 rpm short of rated 2600 rpm" or "runs free 52 rpm past rated 2600 rpm" (`rpm_margin`
+/// as in [`MatchResult::rpm_margin`]: negative a shortfall, positive headroom).
+pub fn margin_words(rpm_margin: f64, lower_bound: bool, rated_rpm: f64) -> String {
+    if lower_bound {
+        format!("runs free at least {rpm_margin:.0} rpm past rated {rated_rpm:.0} rpm")
+    } else if rpm_margin.abs() < 0.5 {
+        format!("reaches rated {rated_rpm:.0} rpm")
+    } else if rpm_margin < 0.0 {
+        format!("{:.0} rpm short of rated {rated_rpm:.0} rpm", -rpm_margin)
+    } else {
+        format!("runs free {rpm_margin:.0} rpm past rated {rated_rpm:.0} rpm")
+    }
+}
+
+/// The verdict and margin of a match, the same in every front end: "matched, margin +52 rpm
+/// (runs free 52 rpm past rated 2600 rpm)".
+pub fn verdict_and_margin(m: &MatchResult, rated_rpm: f64) -> String {
+    format!(
+        "{}, margin {} ({})",
+        verdict_words(m.verdict),
+        signed_rpm(m.rpm_margin),
+        margin_words(m.rpm_margin, m.margin_is_lower_bound, rated_rpm)
+    )
+}
+
+/// A signed rpm figure with a true minus sign and no "−0": "+52 rpm", "−267 rpm", "0 rpm".
+pub fn signed_rpm(rpm: f64) -> String {
+    let rounded = rpm.round();
+    if rounded == 0.0 {
+        "0 rpm".to_string()
+    } else if rounded > 0.0 {
+        format!("+{rounded:.0} rpm")
+    } else {
+        format!("−{:.0} rpm", -rounded)
+    }
+}
+
 /// "Match: over-propped — …" for one variant.
 pub fn match_line(v: &VariantReport, d: &Display, rated_rpm: f64) -> String {
     match &v.matching {
-        Ok(m) => {
-            let margin = if m.rpm_margin.abs() < 0.5 {
-                format!("reaches rated {rated_rpm:.0} rpm")
-            } else if m.rpm_margin < 0.0 {
-                format!("{:.0} rpm short of rated {rated_rpm:.0} rpm", -m.rpm_margin)
-            } else {
-                format!("{:.0} rpm above rated {rated_rpm:.0} rpm", m.rpm_margin)
-            };
-            format!(
-                "Match: {} — full throttle at {:.0} rpm ({margin}), top speed {}, the screw absorbs {} of rated power at rated rpm",
-                verdict_words(m.verdict),
-                m.meeting_rpm,
-                d.quantity(m.top_speed, Kind::Speed),
-                percent(m.absorbed_fraction_at_rated, 0)
-            )
-        }
+        Ok(m) => format!(
+            "Match: {} — full throttle at {:.0} rpm, top speed {}, the screw absorbs {} of rated power at rated rpm",
+            verdict_and_margin(m, rated_rpm),
+            m.meeting_rpm,
+            d.quantity(m.top_speed, Kind::Speed),
+            percent(m.absorbed_fraction_at_rated, 0)
+        ),
         Err(reason) => format!("Match: not found — {reason}"),
     }
 }
@@ -871,8 +901,11 @@ pub struct MatchJson {
     pub absorbed_pct_at_rated: f64,
     /// over / matched / under.
     pub verdict: Verdict,
-    /// Meeting rpm minus rated rpm.
+    /// The margin at full throttle, rpm: the rpm at which the screw absorbs full-load power
+    /// minus rated rpm (negative: shortfall, over-propped; positive: free-running headroom).
     pub rpm_margin: f64,
+    /// Whether `rpm_margin` is only a lower bound.
+    pub rpm_margin_is_lower_bound: bool,
 }
 
 #[cfg(test)]

@@ -6,6 +6,7 @@ use super::field_list::{FieldList, TypedValue};
 use super::fields::{self, Pane};
 use super::keys::{self, Mode};
 use crate::propulsion::solver::Verdict;
+use crate::report::boat::{margin_words, signed_rpm};
 use crate::units::{self, Kind, UnitSystem};
 use ratatui::Frame;
 use ratatui::buffer::Buffer;
@@ -491,18 +492,17 @@ pub fn readout_lines(app: &App) -> Vec<Line<'static>> {
                     Verdict::Matched => theme.accent.add_modifier(Modifier::BOLD),
                     _ => theme.warning.add_modifier(Modifier::BOLD),
                 };
-                // A governed engine reaches rated rpm; its headroom is how far past rated the
-                // screw would let it run free before absorbing full power.
-                let rated_rpm = m.meeting_rpm - m.rpm_margin;
-                let margin = match (m.governed, m.free_running_rpm) {
-                    (true, Some(free)) => format!("{:+.0} rpm (light)", free - rated_rpm),
-                    (true, None) => "light, beyond the curve".to_string(),
-                    (false, _) => format!("{:+.0} rpm", m.rpm_margin),
-                };
+                // One margin for every front end: the core's, in the report's words.
+                let rated_rpm = app
+                    .solution
+                    .solved()
+                    .map_or(m.meeting_rpm - m.rpm_margin, |s| s.vessel.engine.rated_rpm);
                 Line::from(vec![
                     Span::raw(format!(
-                        "{}: margin at rated {margin} · absorbs {:.0} % at rated · top {} · ",
+                        "{}: margin {} ({}) · absorbs {:.0} % at rated · top {} · ",
                         variant.label,
+                        signed_rpm(m.rpm_margin),
+                        margin_words(m.rpm_margin, m.margin_is_lower_bound, rated_rpm),
                         m.absorbed_fraction_at_rated * 100.0,
                         units::format(m.top_speed, Kind::Speed, system)
                     )),

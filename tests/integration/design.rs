@@ -16,8 +16,8 @@ use tidewright::propulsion::solver::conditions::{
     Condition, UncertaintyRanges, compare_conditions, recommend_pitch_under, uncertainty_band,
 };
 use tidewright::propulsion::solver::design::{
-    ApertureLimit, DesignError, INCH, PitchOptions, PitchTarget, RankCriterion, SearchStop,
-    SweepOptions, SweepParameter, recommend_pitch, sweep,
+    ApertureLimit, DesignError, INCH, PitchOptions, PitchTarget, RankCriterion, RepitchLimit,
+    SearchStop, SweepOptions, SweepParameter, recommend_pitch, sweep,
 };
 use tidewright::propulsion::solver::matching::{match_engine, point_at_engine_rpm};
 use tidewright::propulsion::solver::point::solve_point;
@@ -144,6 +144,7 @@ fn vessel_with(pitches: &[f64]) -> Vessel {
             reserve_fraction: 0.2,
         },
         match_criteria: MatchCriteria::default(),
+        repitch: RepitchLimit::default(),
         trial: Vec::new(),
     }
 }
@@ -174,7 +175,11 @@ fn meeting_rpm_with_pitch(vessel: &Vessel, pitch: f64) -> f64 {
 #[test]
 fn recommended_pitch_absorbs_rated_power_at_rated_rpm() {
     let boat = vessel();
-    let rec = recommend_pitch(&boat, 0, &PitchOptions::default()).unwrap();
+    let options = PitchOptions {
+        target: PitchTarget::RatedPower { fraction: 1.0 },
+        ..PitchOptions::default()
+    };
+    let rec = recommend_pitch(&boat, 0, &options).unwrap();
     assert_eq!(rec.stop, SearchStop::Converged, "{rec:?}");
     let pitch = rec.recommended_pitch.unwrap();
     // The check: the curve at the recommended pitch absorbs the target within 0.5 %.
@@ -343,7 +348,13 @@ fn gear_sweep_matches_every_candidate_and_ranks_by_fuel() {
         &boat,
         0,
         &SweepParameter::GearRatio(ratios),
-        &SweepOptions::default(),
+        &SweepOptions {
+            pitch: PitchOptions {
+                target: PitchTarget::RatedPower { fraction: 1.0 },
+                ..PitchOptions::default()
+            },
+            ..SweepOptions::default()
+        },
     )
     .unwrap();
     assert_eq!(

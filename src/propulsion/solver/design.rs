@@ -6,7 +6,7 @@
 //! B-series screw, because its polynomials are collapsed per geometry.
 
 use super::cruise::cruise_at_speed;
-use super::matching::{match_engine, point_at_engine_rpm};
+use super::matching::{MatchResult, Verdict, match_engine, point_at_engine_rpm};
 use super::point::PointFailure;
 use super::{Installation, RootOutcome, System, Vessel};
 use crate::propulsion::Warning;
@@ -18,6 +18,56 @@ pub const INCH: f64 = 0.0254;
 
 /// The usual re-pitch limit of ±2 in, m (common practice: beyond it the blades are weakened).
 pub const DEFAULT_REPITCH_LIMIT: f64 = 2.0 * INCH;
+
+/// How far a propeller shop may re-pitch a screw.
+#[derive(Debug, Clone, Copy, PartialEq, serde::Serialize)]
+pub struct RepitchLimit {
+    /// Largest change of pitch, m (common practice: ±2 in).
+    pub length: f64,
+    /// An optional further limit as a fraction of the current pitch (a 12 in screw cannot give
+    /// up as much as a 21 in one); the smaller of the two applies.
+    pub fraction: Option<f64>,
+}
+
+impl Default for RepitchLimit {
+    fn default() -> Self {
+        Self {
+            length: DEFAULT_REPITCH_LIMIT,
+            fraction: None,
+        }
+    }
+}
+
+impl RepitchLimit {
+    /// The limit for a screw of `current_pitch` (m): the smaller of the two limits, m.
+    pub fn for_pitch(&self, current_pitch: f64) -> f64 {
+        match self.fraction {
+            Some(fraction) => self.length.min(fraction * current_pitch),
+            None => self.length,
+        }
+    }
+
+    /// Checks the length is finite and at least 0 and the fraction above 0 and below 1.
+    pub fn check(&self) -> Result<(), DesignError> {
+        if !(self.length.is_finite() && self.length >= 0.0) {
+            return Err(DesignError::BadInput {
+                field: "re-pitch limit",
+                value: self.length,
+                expected: "a length of 0 m or more",
+            });
+        }
+        if let Some(fraction) = self.fraction
+            && !(fraction.is_finite() && fraction > 0.0 && fraction < 1.0)
+        {
+            return Err(DesignError::BadInput {
+                field: "re-pitch limit as a fraction of pitch",
+                value: fraction,
+                expected: "a fraction above 0 and below 1",
+            });
+        }
+        Ok(())
+    }
+}
 
 /// The caution shown beside every pitch recommendation.
 pub const PITCH_CAUTION: &str = "Estimate from published methods and the boat's inputs: confirm with the propeller shop \
@@ -62,6 +112,9 @@ pub enum DesignError {
 #[derive(Debug, Clone, Copy, PartialEq, serde::Serialize)]
 #[serde(tag = "kind", rename_all = "snake_case")]
 pub enum PitchTarget {
+    /// Meet the full-load curve at rated rpm plus the boat's own light-running margin
+    /// ([`super::MatchCriteria::light_running`], a fraction of rated rpm): the default.
+    Headroom,
     /// Absorb `fraction` of rated power at rated rpm (1.0 = 100 %), with the service margin
     /// already in the resistance model.
     RatedPower {
@@ -77,7 +130,7 @@ pub enum PitchTarget {
 
 impl Default for PitchTarget {
     fn default() -> Self {
-        PitchTarget::RatedPower { fraction: 1.0 }
+        PitchTarget::Headroom
     }
 }
 
@@ -86,6 +139,18 @@ impl PitchTarget {
     pub fn point(&self, vessel: &Vessel) -> Result<TargetPoint, DesignError> {
         let engine = &vessel.engine;
         let (engine_rpm, brake_power) = match *self {
+            PitchTarget::Headroom => {
+                let margin = vessel.match_criteria.light_running;
+                if !(margin.is_finite() && (0.0..0.5).contains(&margin)) {
+                    return Err(DesignError::BadInput {
+                        field: "light-running margin",
+                        value: margin,
+                        expected: "a fraction of rated rpm from 0 to below 0.5",
+                    });
+                }
+                let rpm = engine.rated_rpm * (1.0 + margin);
+                (rpm, engine.full_load_power_at(rpm))
+            }
             PitchTarget::RatedPower { fraction } => {
                 if !(fraction.is_finite() && fraction > 0.0 && fraction <= 1.5) {
                     return Err(DesignError::BadInput {
@@ -124,6 +189,10 @@ impl PitchTarget {
     /// A short description of the target, e.g. "100 % of rated power at rated rpm".
     pub fn describe(&self) -> String {
         match *self {
+            PitchTarget::Headroom => {
+                "meet the full-load curve at rated rpm plus the boat's light-running margin"
+                    .to_string()
+            }
             PitchTarget::RatedPower { fraction } => {
                 format!(
                     "absorb {:.0} % of rated power at rated rpm",
@@ -172,8 +241,8 @@ impl SearchStop {
 pub struct PitchOptions {
     /// The target to meet.
     pub target: PitchTarget,
-    /// Largest change from the current pitch a propeller shop can make, m (common practice 2 in).
-    pub repitch_limit: f64,
+    /// The re-pitch limit, if not the boat's own ([`Vessel::repitch`]).
+    pub repitch: Option<RepitchLimit>,
     /// Smallest pitch ratio P/D searched (B-series validity starts at 0.5).
     pub min_pitch_ratio: f64,
     /// Largest pitch ratio P/D searched (B-series validity ends at 1.4).
@@ -190,7 +259,7 @@ impl Default for PitchOptions {
     fn default() -> Self {
         Self {
             target: PitchTarget::default(),
-            repitch_limit: DEFAULT_REPITCH_LIMIT,
+            repitch: None,
             min_pitch_ratio: 0.5,
             max_pitch_ratio: 1.4,
             pitch_tolerance: 1e-5,
@@ -209,12 +278,8 @@ impl PitchOptions {
                 expected,
             })
         };
-        if !(self.repitch_limit.is_finite() && self.repitch_limit >= 0.0) {
-            return bad(
-                "re-pitch limit",
-                self.repitch_limit,
-                "a length of 0 m or more",
-            );
+        if let Some(limit) = self.repitch {
+            limit.check()?;
         }
         if !(self.min_pitch_ratio.is_finite() && self.min_pitch_ratio > 0.05) {
             return bad(
@@ -310,7 +375,10 @@ pub struct PitchRecommendation {
     /// The re-pitch limit used, m.
     pub repitch_limit: f64,
     /// Change of full-throttle engine rpm per inch of added pitch, rpm/in (negative: more pitch,
-    /// fewer rpm), evaluated at the recommended pitch (or the current one if unsolved).
+    /// fewer rpm): the slope on the load-limited side, measured between the recommended pitch
+    /// (or the current one if unsolved) + ½ in and + 1½ in on the rpm at which the screw
+    /// absorbs full-load power — the free-running rpm of a governed engine — so it never spans
+    /// the governor's pin.
     pub rpm_per_inch: Option<f64>,
     /// The same slope per 10 mm of added pitch, rpm per 10 mm.
     pub rpm_per_10mm: Option<f64>,
@@ -318,8 +386,17 @@ pub struct PitchRecommendation {
     pub target: PitchTarget,
     /// The engine rpm and brake power the curve must meet.
     pub target_point: TargetPoint,
+    /// The engine's rated rpm, rpm.
+    pub rated_rpm: f64,
     /// Brake power the propeller curve asks at the target rpm with the recommended pitch, W.
     pub absorbed_power: Option<f64>,
+    /// The match of the current screw (direct solve), if it could be solved.
+    pub current: Option<MatchSummary>,
+    /// The match at the recommended pitch (direct solve), if it could be solved.
+    pub at_recommended: Option<MatchSummary>,
+    /// The pitch change that cures the current screw's shortfall or excess by the slope, with
+    /// a direct solve at the pitch it suggests.
+    pub cure: Option<PitchCure>,
     /// The loading condition the recommendation was made for.
     pub condition: ConditionSummary,
     /// How the search stopped.
@@ -330,6 +407,50 @@ pub struct PitchRecommendation {
     pub caution: String,
     /// Warnings: re-pitch beyond the limit, pitch ratio outside the B-series range, …
     pub warnings: Vec<Warning>,
+}
+
+/// The verdict and margin of one screw, as the match gives them.
+#[derive(Debug, Clone, Copy, PartialEq, serde::Serialize)]
+pub struct MatchSummary {
+    /// The screw's pitch, m.
+    pub pitch: f64,
+    /// Full-throttle engine rpm, rpm.
+    pub meeting_rpm: f64,
+    /// The match's margin at full throttle, rpm (see [`MatchResult::rpm_margin`]).
+    pub rpm_margin: f64,
+    /// Whether the margin is only a lower bound.
+    pub margin_is_lower_bound: bool,
+    /// The verdict.
+    pub verdict: Verdict,
+    /// Brake power absorbed at rated rpm, fraction of rated power.
+    pub absorbed_fraction_at_rated: f64,
+}
+
+impl MatchSummary {
+    /// The summary of `result` for a screw of `pitch` (m).
+    pub fn of(result: &MatchResult, pitch: f64) -> Self {
+        Self {
+            pitch,
+            meeting_rpm: result.meeting_rpm,
+            rpm_margin: result.rpm_margin,
+            margin_is_lower_bound: result.margin_is_lower_bound,
+            verdict: result.verdict,
+            absorbed_fraction_at_rated: result.absorbed_fraction_at_rated,
+        }
+    }
+}
+
+/// The re-pitch that the rpm-per-inch slope gives for the current screw, checked by a solve.
+#[derive(Debug, Clone, Copy, PartialEq, serde::Serialize)]
+pub struct PitchCure {
+    /// The margin the recommendation reaches, rpm (the target's).
+    pub target_margin: f64,
+    /// Target margin minus the current screw's margin, rpm (positive: rpm to gain).
+    pub rpm_to_cure: f64,
+    /// Pitch change by the slope, m (negative: take pitch off).
+    pub change: f64,
+    /// The match solved directly at current pitch + `change`, if it could be solved.
+    pub check: Option<MatchSummary>,
 }
 
 /// The screw of variant `index` with only its geometry changed (B-series only).
@@ -522,38 +643,49 @@ pub fn matching_pitch(
     Ok((search.pitch, search.stop))
 }
 
-/// Full-throttle engine rpm with pitch `pitch`, rpm.
-fn meeting_rpm(
+/// The match with pitch `pitch` (m).
+fn match_at(
     vessel: &Vessel,
     base: ScrewGeometry,
     installation: Installation,
     pitch: f64,
-) -> Result<f64, DesignError> {
+) -> Result<MatchResult, DesignError> {
     let screw = rebuilt_screw(ScrewGeometry { pitch, ..base })?;
     let system = system_with(vessel, &screw, installation);
-    Ok(match_engine(&system, &vessel.match_criteria)?.meeting_rpm)
+    Ok(match_engine(&system, &vessel.match_criteria)?)
 }
 
-/// Full-throttle rpm change per metre of added pitch at `pitch`, by a central difference of
-/// ±½ in, rpm/m.
+/// The rpm at which the screw of pitch `pitch` absorbs the full-load power (the free-running
+/// rpm of a governed engine, the full-throttle rpm otherwise), rpm; `None` if not found.
+fn loaded_rpm(
+    vessel: &Vessel,
+    base: ScrewGeometry,
+    installation: Installation,
+    pitch: f64,
+) -> Option<f64> {
+    let m = match_at(vessel, base, installation, pitch).ok()?;
+    (!m.margin_is_lower_bound).then(|| m.rpm_margin + vessel.engine.rated_rpm)
+}
+
+/// Where the slope is measured: from this much added pitch …, m.
+pub const SLOPE_NEAR: f64 = 0.5 * INCH;
+
+/// … to this much added pitch, m (the load-limited side of a recommended pitch).
+pub const SLOPE_FAR: f64 = 1.5 * INCH;
+
+/// Full-throttle rpm change per metre of added pitch on the load-limited side of `pitch`:
+/// the secant of [`loaded_rpm`] between `pitch` + [`SLOPE_NEAR`] and + [`SLOPE_FAR`], rpm/m.
+/// The loaded rpm is smooth in pitch (no governor pin), so the secant never spans the pin.
 fn rpm_per_metre(
     vessel: &Vessel,
     base: ScrewGeometry,
     installation: Installation,
     pitch: f64,
 ) -> Option<f64> {
-    let h = 0.5 * INCH;
-    let up = meeting_rpm(vessel, base, installation, pitch + h).ok()?;
-    let down = meeting_rpm(
-        vessel,
-        base,
-        installation,
-        (pitch - h).max(0.1 * base.diameter),
-    )
-    .ok()?;
-    let span = pitch + h - (pitch - h).max(0.1 * base.diameter);
-    let slope = (up - down) / span;
-    slope.is_finite().then_some(slope)
+    let near = loaded_rpm(vessel, base, installation, pitch + SLOPE_NEAR)?;
+    let far = loaded_rpm(vessel, base, installation, pitch + SLOPE_FAR)?;
+    let slope = (far - near) / (SLOPE_FAR - SLOPE_NEAR);
+    (slope.is_finite() && slope < 0.0).then_some(slope)
 }
 
 /// Recommends the pitch of variant `index` of `vessel` for `options.target`, for the vessel's
@@ -583,10 +715,41 @@ pub fn recommend_pitch_for_condition(
     let base = bseries_geometry(vessel, index)?;
     let target_point = options.target.point(vessel)?;
     let search = search_pitch(vessel, base, vessel.installation, target_point, options);
+    let installation = vessel.installation;
     let slope_pitch = search.pitch.unwrap_or(base.pitch);
-    let slope = rpm_per_metre(vessel, base, vessel.installation, slope_pitch);
+    let slope = rpm_per_metre(vessel, base, installation, slope_pitch);
     let change = search.pitch.map(|p| p - base.pitch);
-    let within = change.map(|c| c.abs() <= options.repitch_limit + 1e-12);
+    let repitch = options.repitch.unwrap_or(vessel.repitch);
+    repitch.check()?;
+    let repitch_limit = repitch.for_pitch(base.pitch);
+    let within = change.map(|c| c.abs() <= repitch_limit + 1e-12);
+    let summary = |pitch: f64| {
+        match_at(vessel, base, installation, pitch)
+            .ok()
+            .map(|m| MatchSummary::of(&m, pitch))
+    };
+    let current = summary(base.pitch);
+    let at_recommended = search.pitch.and_then(summary);
+    let rated_rpm = vessel.engine.rated_rpm;
+    let target_margin = at_recommended
+        .filter(|m| !m.margin_is_lower_bound)
+        .map_or(target_point.engine_rpm - rated_rpm, |m| m.rpm_margin);
+    let cure = match (current, slope) {
+        (Some(now), Some(slope)) if !now.margin_is_lower_bound => {
+            let rpm_to_cure = target_margin - now.rpm_margin;
+            let change = rpm_to_cure / slope;
+            let check = (base.pitch + change > 0.0)
+                .then(|| summary(base.pitch + change))
+                .flatten();
+            Some(PitchCure {
+                target_margin,
+                rpm_to_cure,
+                change,
+                check,
+            })
+        }
+        _ => None,
+    };
 
     let mut warnings = Vec::new();
     if let (Some(c), Some(false)) = (change, within) {
@@ -596,7 +759,18 @@ pub fn recommend_pitch_for_condition(
                 "the change of {:+.1} mm ({:+.2} in) is beyond the re-pitch limit of ±{:.1} mm (common practice): a new screw is the answer",
                 c * 1000.0,
                 c / INCH,
-                options.repitch_limit * 1000.0
+                repitch_limit * 1000.0
+            ),
+        ));
+    }
+    if let PitchTarget::RatedPower { fraction } = options.target
+        && fraction > 1.0 + 1e-9
+    {
+        warnings.push(Warning::new(
+            "pitch recommendation",
+            format!(
+                "a target of {:.0} % of rated power at rated rpm overloads the engine: the screw would ask more than the engine's rating",
+                fraction * 100.0
             ),
         ));
     }
@@ -633,12 +807,16 @@ pub fn recommend_pitch_for_condition(
         recommended_pitch: search.pitch,
         change,
         within_repitch_limit: within,
-        repitch_limit: options.repitch_limit,
+        repitch_limit,
         rpm_per_inch: slope.map(|s| s * INCH),
         rpm_per_10mm: slope.map(|s| s * 0.010),
         target: options.target,
         target_point,
+        rated_rpm,
         absorbed_power: search.absorbed_power,
+        current,
+        at_recommended,
+        cure,
         condition,
         stop: search.stop,
         evaluations: search.evaluations,

@@ -5,60 +5,90 @@ use super::{RootOutcome, System, brent};
 use crate::propulsion::STANDARD_GRAVITY;
 
 /// Whether the screw lets the engine reach rated rpm with a little headroom.
+///
+/// One definition, in rpm at full throttle (see [`MatchResult::rpm_margin`]): over-propped
+/// when the engine cannot reach rated rpm, under-propped when it would run free past rated
+/// rpm plus the allowed light-running margin, matched between — each edge with
+/// [`MatchCriteria::tolerance`].
 #[derive(Debug, Clone, Copy, PartialEq, Eq, serde::Serialize)]
 #[serde(rename_all = "lowercase")]
 pub enum Verdict {
     /// The screw absorbs more than the engine gives at rated rpm: it cannot reach rated rpm.
     Over,
-    /// Rated rpm is reached with the headroom asked for.
+    /// Rated rpm is reached with no more than the allowed light-running margin.
     Matched,
-    /// The screw absorbs too little: the engine over-revs and power is wasted.
+    /// The screw absorbs too little: the engine would run free too far past rated rpm.
     Under,
 }
 
-/// Limits for the verdict, as fractions of rated power absorbed at rated rpm.
+/// The default light-running margin the pitch recommendation aims at, fraction of rated rpm
+/// (common practice: a clean boat in calm water should run free a little past rated rpm, about
+/// 2 %, so that fouling, load and a seaway still leave the engine at rated rpm).
+pub const DEFAULT_LIGHT_RUNNING: f64 = 0.02;
+
+/// The default largest free-running margin still "matched", fraction of rated rpm (common
+/// practice: rated rpm to about 3 % above it).
+pub const DEFAULT_FREE_RUNNING_ALLOWANCE: f64 = 0.03;
+
+/// The default tolerance at each edge of the verdict, fraction of rated rpm (0.2 %: about
+/// 5 rpm at 2600 rpm, below what a tachometer shows; keeps a screw pitched exactly to an edge
+/// off a knife-edge).
+pub const DEFAULT_VERDICT_TOLERANCE: f64 = 0.002;
+
+/// Limits for the verdict, as fractions of rated rpm.
 #[derive(Debug, Clone, Copy, PartialEq, serde::Serialize)]
 pub struct MatchCriteria {
-    /// Absorbed fraction above which the screw is over-propped (common practice: 1.0).
-    pub over_above: f64,
-    /// Absorbed fraction below which the screw is under-propped (common practice: 0.85).
-    pub under_below: f64,
+    /// The light-running margin a recommended pitch aims at: free-running rpm above rated,
+    /// fraction of rated rpm (common practice 0.02; 0 asks for exactly rated rpm).
+    pub light_running: f64,
+    /// Free-running rpm above rated beyond which the screw is under-propped, fraction of rated
+    /// rpm (common practice 0.03); the band is widened to `light_running` if that is larger.
+    pub free_running_allowance: f64,
+    /// Tolerance at each edge of the verdict, fraction of rated rpm.
+    pub tolerance: f64,
 }
 
 impl Default for MatchCriteria {
     fn default() -> Self {
         Self {
-            over_above: 1.0,
-            under_below: 0.85,
+            light_running: DEFAULT_LIGHT_RUNNING,
+            free_running_allowance: DEFAULT_FREE_RUNNING_ALLOWANCE,
+            tolerance: DEFAULT_VERDICT_TOLERANCE,
         }
     }
 }
 
 impl MatchCriteria {
-    /// Checks 0 < `under_below` ≤ `over_above`, both finite.
+    /// Checks each fraction is finite, at least 0 and below 0.5 (tolerance below 0.05).
     pub fn check(&self) -> Result<(), PointFailure> {
-        if !(self.under_below.is_finite() && self.under_below > 0.0) {
-            return Err(PointFailure::BadInput {
-                field: "under-propped limit",
-                value: self.under_below,
-                expected: "a positive fraction of rated power",
-            });
-        }
-        if !(self.over_above.is_finite() && self.over_above >= self.under_below) {
-            return Err(PointFailure::BadInput {
-                field: "over-propped limit",
-                value: self.over_above,
-                expected: "a fraction of rated power at least the under-propped limit",
-            });
+        for (field, value, limit) in [
+            ("light-running margin", self.light_running, 0.5),
+            ("free-running allowance", self.free_running_allowance, 0.5),
+            ("verdict tolerance", self.tolerance, 0.05),
+        ] {
+            if !(value.is_finite() && (0.0..limit).contains(&value)) {
+                return Err(PointFailure::BadInput {
+                    field,
+                    value,
+                    expected: "a fraction of rated rpm of 0 or more and well below 1",
+                });
+            }
         }
         Ok(())
     }
 
-    /// The verdict for a screw absorbing `absorbed_fraction` of rated power at rated rpm.
-    pub fn verdict(&self, absorbed_fraction: f64) -> Verdict {
-        if absorbed_fraction > self.over_above {
+    /// The largest margin still matched, fraction of rated rpm (before the tolerance).
+    pub fn upper_margin(&self) -> f64 {
+        self.free_running_allowance.max(self.light_running)
+    }
+
+    /// The verdict for a screw that lets the engine reach `rpm_margin` rpm past `rated_rpm`
+    /// at full throttle (negative: a shortfall).
+    pub fn verdict(&self, rpm_margin: f64, rated_rpm: f64) -> Verdict {
+        let tolerance = self.tolerance * rated_rpm;
+        if rpm_margin < -tolerance {
             Verdict::Over
-        } else if absorbed_fraction < self.under_below {
+        } else if rpm_margin > self.upper_margin() * rated_rpm + tolerance {
             Verdict::Under
         } else {
             Verdict::Matched
@@ -81,10 +111,17 @@ pub struct MatchResult {
     pub rated_point: OperatingPoint,
     /// Brake power absorbed at rated rpm as a fraction of rated power.
     pub absorbed_fraction_at_rated: f64,
-    /// The verdict.
+    /// The verdict, from `rpm_margin` (see [`MatchCriteria::verdict`]).
     pub verdict: Verdict,
-    /// Meeting rpm minus rated rpm: negative is a shortfall (over-propped), rpm.
+    /// The margin at full throttle, rpm: the rpm at which the screw absorbs the engine's
+    /// full-load power minus rated rpm. Negative is a shortfall (the engine cannot reach rated
+    /// rpm: over-propped); positive is headroom — for a governed engine, how far past rated
+    /// the screw would let it run free (`free_running_rpm` − rated). When the free-running
+    /// point lies past the largest speed considered, this is the lower bound `meeting_rpm` −
+    /// rated and `margin_is_lower_bound` is set.
     pub rpm_margin: f64,
+    /// Whether `rpm_margin` is only a lower bound (free-running point not found).
+    pub margin_is_lower_bound: bool,
     /// Whether the governor, not the screw, sets the wide-open-throttle rpm: the propeller
     /// curve stays below the full-load curve up to the curve's top rpm.
     pub governed: bool,
@@ -288,14 +325,24 @@ pub fn match_engine(
     } else {
         Some(top_point.engine_rpm)
     };
+    let rated_rpm = engine.rated_rpm;
+    let rpm_margin = free_running_rpm.unwrap_or(top_point.engine_rpm) - rated_rpm;
+    let margin_is_lower_bound = free_running_rpm.is_none();
+    let verdict = if margin_is_lower_bound {
+        // Never loaded to full power below the largest speed considered: far too light.
+        Verdict::Under
+    } else {
+        criteria.verdict(rpm_margin, rated_rpm)
+    };
     Ok(MatchResult {
         meeting_rpm: top_point.engine_rpm,
         top_speed: top_point.speed,
         top_point,
         rated_point,
         absorbed_fraction_at_rated: absorbed,
-        verdict: criteria.verdict(absorbed),
-        rpm_margin: top_point.engine_rpm - engine.rated_rpm,
+        verdict,
+        rpm_margin,
+        margin_is_lower_bound,
         governed,
         free_running_rpm,
     })
@@ -337,32 +384,36 @@ mod tests {
 
     #[test]
     fn verdict_follows_the_criteria() {
+        // common practice: matched from rated rpm to about +3 % free-running, with a small
+        // tolerance at each edge.
         let criteria = MatchCriteria::default();
-        assert_eq!(criteria.verdict(1.05), Verdict::Over);
-        assert_eq!(criteria.verdict(1.0), Verdict::Matched);
-        assert_eq!(criteria.verdict(0.9), Verdict::Matched);
-        assert_eq!(criteria.verdict(0.8), Verdict::Under);
-        let inverted = MatchCriteria {
-            over_above: 0.8,
-            under_below: 0.9,
+        let rated = 2600.0;
+        assert_eq!(criteria.verdict(-20.0, rated), Verdict::Over);
+        assert_eq!(criteria.verdict(-1e-6, rated), Verdict::Matched);
+        assert_eq!(criteria.verdict(0.0, rated), Verdict::Matched);
+        assert_eq!(criteria.verdict(52.0, rated), Verdict::Matched);
+        assert_eq!(criteria.verdict(80.0, rated), Verdict::Matched);
+        assert_eq!(criteria.verdict(90.0, rated), Verdict::Under);
+        let wide = MatchCriteria {
+            light_running: 0.05,
+            ..criteria
         };
-        assert!(
-            inverted
-                .check()
-                .unwrap_err()
-                .to_string()
-                .contains("over-propped limit")
-        );
+        assert_eq!(wide.verdict(130.0, rated), Verdict::Matched);
         let negative = MatchCriteria {
-            over_above: 1.0,
-            under_below: -0.1,
+            light_running: -0.1,
+            ..criteria
         };
         assert!(
             negative
                 .check()
                 .unwrap_err()
                 .to_string()
-                .contains("under-propped limit")
+                .contains("light-running margin")
         );
+        let nan = MatchCriteria {
+            tolerance: f64::NAN,
+            ..criteria
+        };
+        assert!(nan.check().is_err());
     }
 }

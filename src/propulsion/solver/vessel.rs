@@ -1,6 +1,7 @@
 //! A whole boat in SI form, ready to solve: resistance, interaction, gear, screws, engine, trip.
 
 use super::cruise::{CruisePoint, Trip, cruise_at_rpm, cruise_at_speed};
+use super::design::RepitchLimit;
 use super::matching::{MatchCriteria, MatchResult, match_engine};
 use super::point::PointFailure;
 use super::trial::TrialRun;
@@ -39,8 +40,10 @@ pub struct Vessel {
     pub reynolds_correction: bool,
     /// The planned trip.
     pub trip: Trip,
-    /// Verdict limits.
+    /// Verdict limits and the light-running margin a recommended pitch aims at.
     pub match_criteria: MatchCriteria,
+    /// How far the boat's screws may be re-pitched.
+    pub repitch: RepitchLimit,
     /// Sea-trial log, possibly empty.
     pub trial: Vec<TrialRun>,
 }

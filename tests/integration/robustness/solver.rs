@@ -412,15 +412,24 @@ proptest! {
                     prop_assert!(value.is_finite(), "{name} = {value}");
                 }
                 prop_assert!(found.meeting_rpm > 0.0 && found.top_speed > 0.0);
-                let absorbed = found.absorbed_fraction_at_rated;
-                let expected = if absorbed > criteria.over_above {
+                // One definition: the verdict follows the rpm margin (over-propped short of
+                // rated rpm, under-propped past rated + the allowance), with the tolerance.
+                let rated = system.engine.rated_rpm;
+                let margin = found.rpm_margin;
+                let expected = if found.margin_is_lower_bound {
+                    Verdict::Under
+                } else if margin < -criteria.tolerance * rated {
                     Verdict::Over
-                } else if absorbed < criteria.under_below {
+                } else if margin > (criteria.upper_margin() + criteria.tolerance) * rated {
                     Verdict::Under
                 } else {
                     Verdict::Matched
                 };
-                prop_assert_eq!(found.verdict, expected, "absorbed {}", absorbed);
+                // A screw absorbing more than rated power at rated rpm cannot reach rated rpm.
+                if found.absorbed_fraction_at_rated > 1.0 + 1e-6 {
+                    prop_assert!(margin < 0.0, "absorbs {} but margin {margin}", found.absorbed_fraction_at_rated);
+                }
+                prop_assert_eq!(found.verdict, expected, "margin {}", margin);
             }
             Err(failure) => prop_assert!(!failure.to_string().is_empty()),
         }
