@@ -76,6 +76,8 @@ pub struct VariantReport {
     pub target: Result<CruisePoint, String>,
     /// The engine sheet's duty rating beside the load at the target speed, if solved.
     pub duty: Option<String>,
+    /// Set when the screw is outside its model's validity range: its results are extrapolated.
+    pub extrapolated: bool,
 }
 
 /// The report of one boat, in SI.
@@ -228,6 +230,7 @@ impl BoatReport {
                 matching,
                 target,
                 duty,
+                extrapolated: !v.screw.warnings().is_empty(),
             });
         }
         Ok(Self {
@@ -436,6 +439,7 @@ impl BoatReport {
                     matching: Err(String::new()),
                     target: Err(String::new()),
                     duty: None,
+                    extrapolated: false,
                 },
                 &d,
                 true,
@@ -699,7 +703,7 @@ pub fn signed_rpm(rpm: f64) -> String {
 
 /// "Match: over-propped — …" for one variant.
 pub fn match_line(v: &VariantReport, d: &Display, rated_rpm: f64) -> String {
-    match &v.matching {
+    let line = match &v.matching {
         Ok(m) => format!(
             "Match: {} — full throttle at {:.0} rpm, top speed {}, the screw absorbs {} of rated power at rated rpm",
             verdict_and_margin(m, rated_rpm),
@@ -708,6 +712,11 @@ pub fn match_line(v: &VariantReport, d: &Display, rated_rpm: f64) -> String {
             percent(m.absorbed_fraction_at_rated, 0)
         ),
         Err(reason) => format!("Match: not found — {reason}"),
+    };
+    if v.extrapolated {
+        format!("{line} [extrapolated: screw outside its model's range, see warnings]")
+    } else {
+        line
     }
 }
 

@@ -207,6 +207,35 @@ const BAD_BOATS: &[(&str, &[&str])] = &[
             "invalid type: string \"three\", expected a whole number",
         ],
     ),
+    // issue 10: what no small-craft screw can be is refused at its position.
+    (
+        "pitch-ratio.toml",
+        &[
+            "pitch-ratio.toml:36:9:",
+            "variant[1].pitch: \"54 in\" (P/D 3.00)",
+            "expected a pitch from 0.3 to 2.0 times the diameter",
+        ],
+    ),
+    (
+        "pitch-huge.toml",
+        &[
+            "pitch-huge.toml:36:9:",
+            "variant[1].pitch: \"1e9 in\"",
+            "expected a screw pitch from 2 in (50 mm) to 200 in (5 m)",
+        ],
+    ),
+    (
+        "pitch-nan.toml",
+        &["pitch-nan.toml:36:10:", "variant[1].pitch: \"NaN in\""],
+    ),
+    (
+        "diameter-zero.toml",
+        &[
+            "diameter-zero.toml:35:12:",
+            "variant[1].diameter: \"0 in\"",
+            "expected a positive diameter",
+        ],
+    ),
     (
         "default-condition-missing.toml",
         &[
@@ -526,4 +555,23 @@ fn demo_screw_variants_get_their_intended_verdicts() {
             result.absorbed_fraction_at_rated
         );
     }
+}
+
+/// A screw inside the loader's physical range but outside the B-series range (P/D 1.5 against
+/// 0.5–1.4, Oosterveld & van Oossanen 1975) loads, is warned about and its results are marked.
+#[test]
+fn a_screw_outside_the_bseries_range_loads_with_a_warning_and_marked_results() {
+    use tidewright::report::boat::BoatReport;
+    let path = fixtures().join("valid/boats/pitch-ratio-1.5.toml");
+    let boat = store::load_boat_file(&path).expect("P/D 1.5 is physical");
+    let engine = store::load_engine_file(&fixtures().join("valid/engines/small.toml")).unwrap();
+    let vessel = boat.doc.to_default_vessel(&engine.doc).unwrap();
+    let report = BoatReport::build(&vessel, None, None, &[]).unwrap();
+    assert!(
+        report.warnings.iter().any(|w| w.contains("P/D = 1.500")),
+        "{:?}",
+        report.warnings
+    );
+    let text = report.to_text(tidewright::units::UnitSystem::Imperial);
+    assert!(text.contains("[extrapolated"), "{text}");
 }

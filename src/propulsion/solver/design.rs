@@ -109,11 +109,12 @@ pub enum DesignError {
 }
 
 /// What the propeller curve should meet at the recommended pitch.
-#[derive(Debug, Clone, Copy, PartialEq, serde::Serialize)]
+#[derive(Debug, Clone, Copy, PartialEq, Default, serde::Serialize)]
 #[serde(tag = "kind", rename_all = "snake_case")]
 pub enum PitchTarget {
     /// Meet the full-load curve at rated rpm plus the boat's own light-running margin
     /// ([`super::MatchCriteria::light_running`], a fraction of rated rpm): the default.
+    #[default]
     Headroom,
     /// Absorb `fraction` of rated power at rated rpm (1.0 = 100 %), with the service margin
     /// already in the resistance model.
@@ -126,12 +127,6 @@ pub enum PitchTarget {
         /// Engine rpm above rated at which the curves should meet, rpm.
         rpm_margin: f64,
     },
-}
-
-impl Default for PitchTarget {
-    fn default() -> Self {
-        PitchTarget::Headroom
-    }
 }
 
 impl PitchTarget {
@@ -664,7 +659,7 @@ fn loaded_rpm(
     pitch: f64,
 ) -> Option<f64> {
     let m = match_at(vessel, base, installation, pitch).ok()?;
-    (!m.margin_is_lower_bound).then(|| m.rpm_margin + vessel.engine.rated_rpm)
+    (!m.margin_is_lower_bound).then_some(m.rpm_margin + vessel.engine.rated_rpm)
 }
 
 /// Where the slope is measured: from this much added pitch …, m.
