@@ -10,10 +10,10 @@ pub mod selection;
 
 pub use interaction::{Interaction, InteractionMethod};
 pub use particulars::{HullForm, HullInput};
-pub use selection::{MethodChoice, choose_method};
 pub use resistance::{
     AirDrag, Margins, ResistanceComponents, ResistanceMethod, ResistanceModel, ResistanceTable,
 };
+pub use selection::{MethodChoice, choose_method};
 
 use thiserror::Error;
 

@@ -5,6 +5,7 @@
 //! and its application to small ships", Int. Shipbuilding Progress 18(207), 397–415, as
 //! transcribed in data/van-oortmerssen-1971.csv (see /work/shared/reference/van-oortmerssen-1971.md).
 
+use tidewright::propulsion::STANDARD_GRAVITY;
 use tidewright::propulsion::hull::interaction::ScrewAtStern;
 use tidewright::propulsion::hull::oortmerssen::{self, OortmerssenCoefficients};
 use tidewright::propulsion::hull::{
@@ -12,7 +13,6 @@ use tidewright::propulsion::hull::{
     choose_method,
 };
 use tidewright::propulsion::water::WaterProperties;
-use tidewright::propulsion::STANDARD_GRAVITY;
 
 /// Sea water at 15 °C as ITTC (2011) 7.5-02-01-03 tabulates it: ρ 1025.9 kg/m³, ν 1.1892e-6 m²/s.
 fn sea() -> WaterProperties {
@@ -75,8 +75,7 @@ fn c1_to_c4_match_a_hand_evaluation_of_the_polynomial() {
     let cwl = hull.half_entrance_angle_deg.value * l_b;
     let cm = 0.80;
     let hand_c1 = 1e-3
-        * (79.32134 - 0.09287 * lcb - 0.00209 * lcb * lcb - 246.45896 * cp
-            + 187.13664 * cp * cp
+        * (79.32134 - 0.09287 * lcb - 0.00209 * lcb * lcb - 246.45896 * cp + 187.13664 * cp * cp
             - 1.42893 * l_b
             + 0.11898 * l_b * l_b
             + 0.15727 * cwl
@@ -95,8 +94,7 @@ fn c1_to_c4_match_a_hand_evaluation_of_the_polynomial() {
             - 35.07602 * b_t * b_t
             - 128.72535 * cm);
     let hand_c3 = 1e-3
-        * (-908.44371 + 2.52704 * lcb - 0.35794 * lcb * lcb + 755.1866 * cp
-            - 48.93952 * cp * cp
+        * (-908.44371 + 2.52704 * lcb - 0.35794 * lcb * lcb + 755.1866 * cp - 48.93952 * cp * cp
             + 9.86873 * l_b
             - 0.77652 * l_b * l_b
             + 3.7902 * cwl
@@ -193,7 +191,11 @@ fn continuous_and_finite_over_the_froude_range() {
         let r = vo.resistance(speed_at(&hull, fn_l)).unwrap();
         assert!(r.total.is_finite() && r.total > 0.0, "Fn {fn_l}: {r:?}");
         if let Some(p) = previous {
-            assert!(r.total >= p * 0.97 && r.total <= p * 1.25, "Fn {fn_l}: {p} → {}", r.total);
+            assert!(
+                r.total >= p * 0.97 && r.total <= p * 1.25,
+                "Fn {fn_l}: {p} → {}",
+                r.total
+            );
         }
         previous = Some(r.total);
     }
@@ -201,7 +203,11 @@ fn continuous_and_finite_over_the_froude_range() {
     assert!(vo.resistance(0.001).unwrap().total.is_finite());
     // Past Fn 0.50 a warning names the method's limit.
     let fast = vo.warnings_at(speed_at(&hull, 0.55));
-    assert!(fast.iter().any(|w| w.source == oortmerssen::SOURCE && w.message.contains("0.5")), "{fast:?}");
+    assert!(
+        fast.iter()
+            .any(|w| w.source == oortmerssen::SOURCE && w.message.contains("0.5")),
+        "{fast:?}"
+    );
     assert!(vo.warnings_at(speed_at(&hull, 0.45)).is_empty());
     assert_eq!(vo.froude_range(), Some((0.0, 0.50)));
 }
@@ -215,7 +221,9 @@ fn hull_outside_the_sample_is_warned() {
     let vo = model(input.resolve().unwrap(), ResistanceMethod::VanOortmerssen);
     let warnings = vo.warnings();
     assert!(
-        warnings.iter().any(|w| w.source == oortmerssen::SOURCE && w.message.contains("L/B = 2.500")),
+        warnings
+            .iter()
+            .any(|w| w.source == oortmerssen::SOURCE && w.message.contains("L/B = 2.500")),
         "{warnings:?}"
     );
 }
@@ -244,7 +252,10 @@ fn propulsion_factors_lie_in_the_small_craft_band() {
         );
         assert!((0.10..=0.25).contains(&raw.thrust_deduction), "t {raw:?}");
         assert!((0.10..=0.30).contains(&raw.wake_fraction), "w {raw:?}");
-        assert!((0.95..=1.10).contains(&raw.relative_rotative_efficiency), "etaR {raw:?}");
+        assert!(
+            (0.95..=1.10).contains(&raw.relative_rotative_efficiency),
+            "etaR {raw:?}"
+        );
         let used = InteractionMethod::VanOortmerssen.at_speed(&hull, &sea(), &screw, v);
         assert_eq!(used, raw.clamped());
     }
@@ -271,7 +282,11 @@ fn default_method_fits_the_hull() {
     .unwrap();
     let choice = choose_method(&trawler);
     assert_eq!(choice.method, ResistanceMethod::VanOortmerssen);
-    assert!(choice.reason.contains("L/B 3.30 outside 3.9"), "{}", choice.reason);
+    assert!(
+        choice.reason.contains("L/B 3.30 outside 3.9"),
+        "{}",
+        choice.reason
+    );
     assert_eq!(choice.alternative, None);
 
     // A 30 m slender launch: L/B 7.5 is past van Oortmerssen's 6.2, inside Holtrop's ranges.
@@ -288,7 +303,11 @@ fn default_method_fits_the_hull() {
     .unwrap();
     let choice = choose_method(&slender);
     assert_eq!(choice.method, ResistanceMethod::HoltropMennen);
-    assert!(choice.reason.contains("L/B 7.50 outside 3–6.2"), "{}", choice.reason);
+    assert!(
+        choice.reason.contains("L/B 7.50 outside 3–6.2"),
+        "{}",
+        choice.reason
+    );
 
     // Inside both: the small-ship regression, with Holtrop-Mennen computed beside it.
     let both = choose_method(&both_ranges_hull());

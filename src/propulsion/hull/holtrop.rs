@@ -428,7 +428,8 @@ pub fn validity_warnings(hull: &HullForm, edition: Edition) -> Vec<Warning> {
 }
 
 /// The published ranges of the ships Holtrop & Mennen fitted: (name, min, max) of Cp, L/B, B/T.
-pub const RANGES: [(&str, f64, f64); 3] = [("Cp", 0.55, 0.85), ("L/B", 3.9, 9.5), ("B/T", 2.1, 4.0)];
+pub const RANGES: [(&str, f64, f64); 3] =
+    [("Cp", 0.55, 0.85), ("L/B", 3.9, 9.5), ("B/T", 2.1, 4.0)];
 
 /// The hull parameters outside [`RANGES`]: (name, value, min, max).
 pub fn outside_ranges(hull: &HullForm) -> Vec<(&'static str, f64, f64, f64)> {

@@ -134,6 +134,29 @@ impl InteractionMethod {
     }
 }
 
+/// A warning when Holtrop (1984) single-screw factors fall outside small-craft practice:
+/// t above 0.20 or a hull efficiency ηH = (1−t)/(1−w) below 1 (common practice for small
+/// craft: t 0.10–0.20, ηH ≥ 1).
+pub fn small_craft_warning(
+    method: &InteractionMethod,
+    values: &Interaction,
+) -> Option<crate::propulsion::Warning> {
+    let hull_efficiency = (1.0 - values.thrust_deduction) / (1.0 - values.wake_fraction);
+    (matches!(method, InteractionMethod::Holtrop1984SingleScrew)
+        && (values.thrust_deduction > 0.20 || hull_efficiency < 1.0))
+        .then(|| {
+            crate::propulsion::Warning::new(
+                "interaction",
+                format!(
+                    "Holtrop (1984) single-screw t = {:.3}, w = {:.3}, hull efficiency {hull_efficiency:.3}: unusual for small \
+                     craft (common practice t 0.10–0.20 with hull efficiency at least 1); its merchant-ship sample \
+                     may overstate t here; van Oortmerssen's factors or trial values may fit better",
+                    values.thrust_deduction, values.wake_fraction
+                ),
+            )
+        })
+}
+
 /// Holtrop (1984) single-screw wake, thrust deduction and ηR (unclamped).
 ///
 /// The wake depends on speed through the viscous coefficient CV = (1+k)·CF + CA, with 1+k the

@@ -321,7 +321,14 @@ pub fn propulsion_factors(hull: &HullForm, screw: &ScrewAtStern, speed: f64) -> 
     // The regression's data end at Fn 0.50; past it the factors are held at their Fn 0.50 value.
     let fn_l = hull.froude_number(speed).min(FROUDE_MAX);
     let x = factor_terms(hull, screw.diameter, fn_l);
-    let column = |j: usize| tables.factors.iter().zip(&x).map(|(row, xk)| row[j] * xk).sum();
+    let column = |j: usize| {
+        tables
+            .factors
+            .iter()
+            .zip(&x)
+            .map(|(row, xk)| row[j] * xk)
+            .sum()
+    };
     Interaction {
         thrust_deduction: column(0),
         wake_fraction: column(1),

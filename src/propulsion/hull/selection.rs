@@ -26,7 +26,11 @@ fn distance(outside: &[(&str, f64, f64, f64)]) -> f64 {
     outside
         .iter()
         .map(|&(_, value, min, max)| {
-            let excess = if value < min { min - value } else { value - max };
+            let excess = if value < min {
+                min - value
+            } else {
+                value - max
+            };
             excess.max(0.0) / (max - min)
         })
         .sum()
@@ -44,8 +48,9 @@ fn list(outside: &[(&str, f64, f64, f64)]) -> String {
 ///
 /// Van Oortmerssen (1971) when its sample's ranges hold the hull, Holtrop–Mennen when only
 /// its ranges do; inside both, the small-ship regression for a hull up to
-/// [`SMALL_SHIP_MAX_LENGTH`] and Holtrop–Mennen above; inside neither, the nearer one (the sum
-/// of the excesses over each range's width), the small-ship regression on a tie. When both or
+/// [`SMALL_SHIP_MAX_LENGTH`] and Holtrop–Mennen above; inside neither, the small-ship
+/// regression for a small craft, else the nearer one (the sum of the excesses over each
+/// range's width). When both or
 /// neither hold the hull, the other method is the `alternative`.
 pub fn choose_method(hull: &HullForm) -> MethodChoice {
     let vo_out = oortmerssen::outside_ranges(hull);
@@ -86,14 +91,20 @@ pub fn choose_method(hull: &HullForm) -> MethodChoice {
         },
         (false, false) => {
             let (d_vo, d_hm) = (distance(&vo_out), distance(&hm_out));
-            let pick_vo = d_vo < d_hm || (d_vo == d_hm && small);
+            // Small craft are what van Oortmerssen's sample holds; past it, the nearer method.
+            let pick_vo = small || d_vo < d_hm;
             let (method, alternative) = if pick_vo { (vo, hm) } else { (hm, vo) };
             MethodChoice {
                 reason: format!(
-                    "the hull lies outside both methods' ranges (van Oortmerssen: {}; Holtrop-Mennen: {}); {} is the nearer, both are extrapolations",
+                    "the hull lies outside both methods' ranges (van Oortmerssen: {}; Holtrop-Mennen: {}); {} is used ({}), both are extrapolations",
                     list(&vo_out),
                     list(&hm_out),
-                    method.name()
+                    method.name(),
+                    if small {
+                        "the small-ship regression for a small craft"
+                    } else {
+                        "the nearer"
+                    }
                 ),
                 method,
                 alternative: Some(alternative),

@@ -202,7 +202,10 @@ impl MethodSpread {
     /// The alternative's resistance at the target speed over the chosen method's, less 1
     /// (dimensionless; +0.2 = the alternative is 20 % higher).
     pub fn resistance_difference(&self) -> Option<f64> {
-        match (self.resistance_at_target, self.alternative_resistance_at_target) {
+        match (
+            self.resistance_at_target,
+            self.alternative_resistance_at_target,
+        ) {
             (Some(a), Some(b)) if a > 0.0 => Some(b / a - 1.0),
             _ => None,
         }
