@@ -6,7 +6,7 @@ use super::quantity::{Quantity, Reader, guess_system, out, out_num, out_text};
 use crate::propulsion::hull::interaction::ScrewAtStern;
 use crate::propulsion::hull::{
     AirDrag, HullError, HullInput, Interaction, InteractionMethod, Margins, ResistanceMethod,
-    ResistanceModel, ResistanceTable,
+    ResistanceModel, ResistanceTable, choose_method,
 };
 use crate::propulsion::screw::{
     BSeriesScrew, OpenWaterPoint, OpenWaterTable, ScrewGeometry, ScrewModel,
@@ -138,8 +138,12 @@ impl LoadDoc {
 /// The calm-water resistance method.
 #[derive(Debug, Clone, PartialEq)]
 pub enum ResistanceMethodDoc {
+    /// No method named: the core picks the one whose ranges hold the hull.
+    Auto,
     /// Holtrop & Mennen (1982) / Holtrop (1984).
     HoltropMennen,
+    /// Van Oortmerssen (1971), the small-ship regression.
+    VanOortmerssen,
     /// A user table of (speed m/s, total calm-water resistance N).
     Table(Vec<(Quantity, Quantity)>),
 }
@@ -180,8 +184,13 @@ pub struct WaterDoc {
 /// How wake fraction, thrust deduction and ηR are found.
 #[derive(Debug, Clone, Copy, PartialEq)]
 pub enum InteractionDoc {
+    /// No method named: the one paired with the resistance method (van Oortmerssen's factors
+    /// with van Oortmerssen, Holtrop 1984 otherwise).
+    Auto,
     /// Holtrop (1984) single-screw formulas.
     Holtrop1984,
+    /// Van Oortmerssen (1971) small-ship factors.
+    VanOortmerssen,
     /// Taylor's wake estimate.
     Taylor,
     /// The user's values: wake fraction, thrust deduction, relative rotative efficiency.
@@ -479,7 +488,8 @@ struct RawCase {
 #[derive(Debug, Deserialize, Serialize)]
 #[serde(deny_unknown_fields)]
 struct RawResistance {
-    method: Spanned<String>,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    method: Option<Spanned<String>>,
     #[serde(default, skip_serializing_if = "Option::is_none")]
     service_margin: Option<Spanned<f64>>,
     #[serde(default, skip_serializing_if = "Option::is_none")]
@@ -509,7 +519,8 @@ struct RawWater {
 #[derive(Debug, Deserialize, Serialize)]
 #[serde(deny_unknown_fields)]
 struct RawInteraction {
-    method: Spanned<String>,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    method: Option<Spanned<String>>,
     #[serde(default, skip_serializing_if = "Option::is_none")]
     wake_fraction: Option<Spanned<f64>>,
     #[serde(default, skip_serializing_if = "Option::is_none")]
@@ -614,8 +625,19 @@ const CONDITIONS: [(&str, LoadCondition); 3] = [
     ("full", LoadCondition::Full),
 ];
 const WATERS: [(&str, WaterKind); 2] = [("sea", WaterKind::Sea), ("fresh", WaterKind::Fresh)];
-const METHODS: [(&str, bool); 2] = [("holtrop-mennen", false), ("table", true)];
-const INTERACTIONS: [(&str, u8); 3] = [("holtrop-1984", 0), ("taylor", 1), ("user", 2)];
+const METHODS: [(&str, u8); 4] = [
+    ("auto", 0),
+    ("holtrop-mennen", 1),
+    ("van-oortmerssen", 2),
+    ("table", 3),
+];
+const INTERACTIONS: [(&str, u8); 5] = [
+    ("auto", 0),
+    ("holtrop-1984", 1),
+    ("taylor", 2),
+    ("van-oortmerssen", 3),
+    ("user", 4),
+];
 const ROTATIONS: [(&str, Rotation); 2] = [("right", Rotation::Right), ("left", Rotation::Left)];
 const DIRECTIONS: [(&str, RunDirection); 2] =
     [("out", RunDirection::Out), ("back", RunDirection::Back)];
@@ -671,18 +693,24 @@ impl BoatDoc {
         let load = read_load(&mut r, &raw.load)?;
         let resistance = match &raw.resistance {
             None => ResistanceDoc {
-                method: ResistanceMethodDoc::HoltropMennen,
+                method: ResistanceMethodDoc::Auto,
                 service_margin: 0.0,
                 fouling: 0.0,
             },
             Some(res) => {
-                let is_table = r.choice("resistance.method", &res.method, &METHODS)?;
-                let method = match (is_table, &res.table) {
-                    (false, _) => ResistanceMethodDoc::HoltropMennen,
-                    (true, Some(rows)) => {
+                let chosen = match &res.method {
+                    Some(m) => r.choice("resistance.method", m, &METHODS)?,
+                    None => 0,
+                };
+                let method_span = res.method.as_ref().map_or(0..0, |m| m.span());
+                let method = match (chosen, &res.table) {
+                    (0, _) => ResistanceMethodDoc::Auto,
+                    (1, _) => ResistanceMethodDoc::HoltropMennen,
+                    (2, _) => ResistanceMethodDoc::VanOortmerssen,
+                    (_, Some(rows)) => {
                         r.spans.insert(
                             "resistance.table".into(),
-                            rows.first().map_or(res.method.span(), |(s, _)| s.span()),
+                            rows.first().map_or(method_span.clone(), |(s, _)| s.span()),
                         );
                         let mut table = Vec::with_capacity(rows.len());
                         for (i, (speed, force)) in rows.iter().enumerate() {
@@ -694,10 +722,10 @@ impl BoatDoc {
                         }
                         ResistanceMethodDoc::Table(table)
                     }
-                    (true, None) => {
+                    (_, None) => {
                         return Err(r.error(
                             "resistance.table",
-                            res.method.span(),
+                            method_span,
                             Issue::new("resistance.table", "", "missing; expected `table = [[speed, resistance], …]` for method = \"table\""),
                         ));
                     }
@@ -729,10 +757,15 @@ impl BoatDoc {
             )?,
         };
         let interaction = match &raw.interaction {
-            None => InteractionDoc::Holtrop1984,
-            Some(i) => match r.choice("interaction.method", &i.method, &INTERACTIONS)? {
-                0 => InteractionDoc::Holtrop1984,
-                1 => InteractionDoc::Taylor,
+            None => InteractionDoc::Auto,
+            Some(i) => match match &i.method {
+                Some(m) => r.choice("interaction.method", m, &INTERACTIONS)?,
+                None => 0,
+            } {
+                0 => InteractionDoc::Auto,
+                1 => InteractionDoc::Holtrop1984,
+                2 => InteractionDoc::Taylor,
+                3 => InteractionDoc::VanOortmerssen,
                 _ => {
                     let mut need = |key: &str, v: &Option<Spanned<f64>>| {
                         let full = format!("interaction.{key}");
@@ -740,7 +773,7 @@ impl BoatDoc {
                             Some(v) => Ok(r.num(&full, v)),
                             None => Err(r.error(
                                 &full,
-                                i.method.span(),
+                                i.method.as_ref().map_or(0..0, |m| m.span()),
                                 Issue::new(
                                     full.clone(),
                                     "",
@@ -918,7 +951,9 @@ impl BoatDoc {
             })
         };
         let (method, table) = match &self.resistance.method {
+            ResistanceMethodDoc::Auto => ("auto", None),
             ResistanceMethodDoc::HoltropMennen => ("holtrop-mennen", None),
+            ResistanceMethodDoc::VanOortmerssen => ("van-oortmerssen", None),
             ResistanceMethodDoc::Table(rows) => (
                 "table",
                 Some(
@@ -928,29 +963,27 @@ impl BoatDoc {
                 ),
             ),
         };
+        let named = |name: &str| RawInteraction {
+            method: Some(out_text(name)),
+            wake_fraction: None,
+            thrust_deduction: None,
+            relative_rotative_efficiency: None,
+        };
         let interaction = match self.interaction {
-            InteractionDoc::Holtrop1984 => RawInteraction {
-                method: out_text("holtrop-1984"),
-                wake_fraction: None,
-                thrust_deduction: None,
-                relative_rotative_efficiency: None,
-            },
-            InteractionDoc::Taylor => RawInteraction {
-                method: out_text("taylor"),
-                wake_fraction: None,
-                thrust_deduction: None,
-                relative_rotative_efficiency: None,
-            },
+            InteractionDoc::Auto => None,
+            InteractionDoc::VanOortmerssen => Some(named("van-oortmerssen")),
+            InteractionDoc::Holtrop1984 => Some(named("holtrop-1984")),
+            InteractionDoc::Taylor => Some(named("taylor")),
             InteractionDoc::User {
                 wake_fraction,
                 thrust_deduction,
                 relative_rotative_efficiency,
-            } => RawInteraction {
-                method: out_text("user"),
+            } => Some(RawInteraction {
+                method: Some(out_text("user")),
                 wake_fraction: Some(out_num(wake_fraction)),
                 thrust_deduction: Some(out_num(thrust_deduction)),
                 relative_rotative_efficiency: Some(out_num(relative_rotative_efficiency)),
-            },
+            }),
         };
         let inst = &self.installation;
         let raw = RawBoat {
@@ -988,7 +1021,7 @@ impl BoatDoc {
                 full: case(&self.load.full),
             },
             resistance: Some(RawResistance {
-                method: out_text(method),
+                method: (method != "auto").then(|| out_text(method)),
                 service_margin: Some(out_num(self.resistance.service_margin)),
                 fouling: Some(out_num(self.resistance.fouling)),
                 table,
@@ -1003,7 +1036,7 @@ impl BoatDoc {
                 kind: out_text(name_of(&WATERS, self.water.kind)),
                 temperature: out(&self.water.temperature, Kind::Temperature, s),
             },
-            interaction: Some(interaction),
+            interaction,
             installation: RawInstallation {
                 gear_ratio: out_num(inst.gear_ratio),
                 shaft_efficiency: out_num(inst.shaft_efficiency),
@@ -1574,8 +1607,15 @@ impl BoatDoc {
         let hull = hull_input
             .resolve()
             .map_err(|e| invalid(hull_error_key(&e, condition), String::new(), e.to_string()))?;
+        // The core picks the method for a boat that names none, and says why.
+        let method_choice = matches!(self.resistance.method, ResistanceMethodDoc::Auto)
+            .then(|| choose_method(&hull));
         let method = match &self.resistance.method {
+            ResistanceMethodDoc::Auto => method_choice
+                .as_ref()
+                .map_or(ResistanceMethod::HoltropMennen, |c| c.method.clone()),
             ResistanceMethodDoc::HoltropMennen => ResistanceMethod::HoltropMennen,
+            ResistanceMethodDoc::VanOortmerssen => ResistanceMethod::VanOortmerssen,
             ResistanceMethodDoc::Table(rows) => ResistanceMethod::Table(ResistanceTable {
                 rows: rows.iter().map(|(v, r)| (v.value, r.value)).collect(),
             }),
@@ -1602,7 +1642,10 @@ impl BoatDoc {
                 resistance_factor: calibration.map_or(1.0, |c| c.resistance_factor),
             },
         };
+        let interaction_follows = matches!(self.interaction, InteractionDoc::Auto);
         let mut interaction = match self.interaction {
+            InteractionDoc::Auto => InteractionMethod::paired_with(&resistance.method),
+            InteractionDoc::VanOortmerssen => InteractionMethod::VanOortmerssen,
             InteractionDoc::Holtrop1984 => InteractionMethod::Holtrop1984SingleScrew,
             InteractionDoc::Taylor => InteractionMethod::Taylor,
             InteractionDoc::User {
@@ -1646,6 +1689,7 @@ impl BoatDoc {
                 screw,
             });
         }
+        let calibrated_wake = calibration.and_then(|c| c.wake_fraction).is_some();
         if let Some(wake_fraction) = calibration.and_then(|c| c.wake_fraction) {
             // A fitted wake replaces the estimate; t and ηR are frozen at the trial's mean speed
             // (the target speed without a log), as the calibration fit does.
@@ -1696,6 +1740,8 @@ impl BoatDoc {
             name: self.name.clone(),
             resistance,
             interaction,
+            method_choice,
+            interaction_follows_method: interaction_follows && !calibrated_wake,
             installation: Installation {
                 gear_ratio: self.installation.gear_ratio,
                 shaft_efficiency: self.installation.shaft_efficiency,

@@ -3,14 +3,17 @@
 pub mod friction;
 pub mod holtrop;
 pub mod interaction;
+pub mod oortmerssen;
 pub mod particulars;
 pub mod resistance;
+pub mod selection;
 
 pub use interaction::{Interaction, InteractionMethod};
 pub use particulars::{HullForm, HullInput};
 pub use resistance::{
     AirDrag, Margins, ResistanceComponents, ResistanceMethod, ResistanceModel, ResistanceTable,
 };
+pub use selection::{MethodChoice, choose_method};
 
 use thiserror::Error;
 
@@ -51,6 +54,9 @@ pub enum HullError {
     /// A resistance table has fewer than two rows or is not sorted by speed.
     #[error("resistance table: {0}")]
     BadTable(String),
+    /// A method's embedded coefficient table could not be parsed.
+    #[error("coefficient table damaged: {0}")]
+    BadCoefficients(String),
     /// The speed lies outside the user resistance table.
     #[error("speed {speed:.3} m/s is outside the resistance table ({min:.3}–{max:.3} m/s)")]
     OutsideTable {

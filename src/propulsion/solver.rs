@@ -18,7 +18,7 @@ pub use curve::PropellerCurve;
 pub use matching::{MatchCriteria, MatchResult, Verdict, match_engine, point_at_engine_rpm};
 pub use point::{Drive, OperatingPoint, PointFailure, solve_point};
 pub use trial::{RunDirection, TrialRun};
-pub use vessel::{OperatingRow, Variant, Vessel};
+pub use vessel::{MethodSpread, OperatingRow, Variant, Vessel};
 
 use crate::propulsion::engine::EngineSheet;
 use crate::propulsion::hull::interaction::ScrewAtStern;

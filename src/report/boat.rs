@@ -7,11 +7,12 @@ use super::json::finite;
 use super::table::{Column, Table};
 use super::{CAUTION, Display, KNOT_MPS, LITRE_M3, NAUTICAL_MILE_M, percent};
 use crate::propulsion::engine::Duty;
+use crate::propulsion::hull::interaction::small_craft_warning;
 use crate::propulsion::screw::ScrewGeometry;
 use crate::propulsion::solver::cruise::{cruise_at_rpm, cruise_at_speed};
 use crate::propulsion::solver::matching::match_engine;
 use crate::propulsion::solver::shaft::duty_note;
-use crate::propulsion::solver::{CruisePoint, MatchResult, Trip, Verdict, Vessel};
+use crate::propulsion::solver::{CruisePoint, MatchResult, MethodSpread, Trip, Verdict, Vessel};
 use crate::units::{Kind, UnitSystem};
 
 /// More rows than this in one operating table is a mistake in the step.
@@ -78,6 +79,61 @@ pub struct VariantReport {
     pub duty: Option<String>,
     /// Set when the screw is outside its model's validity range: its results are extrapolated.
     pub extrapolated: bool,
+    /// The chosen and the alternative resistance method side by side, when both run.
+    pub method_spread: Option<MethodSpread>,
+}
+
+/// Which resistance and interaction methods were used, and why.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct MethodSummary {
+    /// The resistance method used.
+    pub resistance: &'static str,
+    /// The interaction method used.
+    pub interaction: &'static str,
+    /// Why the core picked it when the boat names none; null when the boat names it.
+    pub reason: Option<String>,
+    /// The alternative method computed beside it, if any.
+    pub alternative: Option<&'static str>,
+}
+
+impl MethodSummary {
+    /// The methods of `vessel`.
+    pub fn of(vessel: &Vessel) -> Self {
+        let choice = vessel.method_choice.as_ref();
+        Self {
+            resistance: vessel.resistance.method.name(),
+            interaction: vessel.interaction.name(),
+            reason: choice.map(|c| c.reason.clone()),
+            alternative: choice.and_then(|c| c.alternative.as_ref().map(|m| m.name())),
+        }
+    }
+
+    /// "Resistance: … · interaction: … (chosen: reason)" for the text report and the TUI.
+    pub fn line(&self) -> String {
+        let why = match &self.reason {
+            Some(reason) => format!("chosen because {reason}"),
+            None => "named in the boat file".into(),
+        };
+        format!(
+            "Resistance: {} · interaction: {} ({why})",
+            self.resistance, self.interaction
+        )
+    }
+}
+
+/// "Method spread: …" comparing the two methods' top speed and target-speed resistance.
+pub fn method_spread_line(spread: &MethodSpread, d: &Display) -> String {
+    let speed = |v: Option<f64>| v.map_or("—".to_string(), |v| d.quantity(v, Kind::Speed));
+    let difference = spread
+        .resistance_difference()
+        .map_or("—".to_string(), |x| format!("{:+.0} %", x * 100.0));
+    format!(
+        "Method spread: {} top speed {} against {} by {}; resistance at the target speed {difference} (in the uncertainty band)",
+        spread.alternative,
+        speed(spread.alternative_top_speed),
+        speed(spread.top_speed),
+        spread.method,
+    )
 }
 
 /// The report of one boat, in SI.
@@ -97,6 +153,8 @@ pub struct BoatReport {
     pub calibration: Option<AppliedCalibration>,
     /// Cavitation, blade loading and shaft checks, when asked for.
     pub checks: Option<DesignChecks>,
+    /// The methods used and why.
+    pub methods: MethodSummary,
 }
 
 /// A round rpm step giving about ten rows between idle and rated.
@@ -204,6 +262,15 @@ impl BoatReport {
                 .iter()
                 .for_each(|w| add(format!("{}: {w}", v.label)));
             let system = vessel.system(index);
+            let factors = vessel.interaction.at_speed(
+                &vessel.resistance.hull,
+                &vessel.resistance.water,
+                &system.screw_at_stern(),
+                vessel.trip.target_speed,
+            );
+            if let Some(w) = small_craft_warning(&vessel.interaction, &factors) {
+                add(format!("{}: {w}", v.label));
+            }
             let rows = rpms
                 .iter()
                 .map(|&rpm| RpmRow {
@@ -231,6 +298,7 @@ impl BoatReport {
                 target,
                 duty,
                 extrapolated: !v.screw.warnings().is_empty(),
+                method_spread: vessel.method_spread(index),
             });
         }
         Ok(Self {
@@ -248,6 +316,7 @@ impl BoatReport {
             warnings,
             calibration: None,
             checks: None,
+            methods: MethodSummary::of(vessel),
         })
     }
 
@@ -337,6 +406,7 @@ impl BoatReport {
         out.push_str(&format!("{}\n", self.engine_line(&d)));
         out.push_str(&format!("{}\n", self.trip_line(&d)));
         out.push_str(&format!("{}\n", self.calibration_line()));
+        out.push_str(&format!("{}\n", self.methods.line()));
         for v in &self.variants {
             out.push('\n');
             out.push_str(&format!(
@@ -346,6 +416,9 @@ impl BoatReport {
             ));
             out.push_str(&operating_table(v, &d, false).to_text("  "));
             out.push_str(&format!("  {}\n", match_line(v, &d, self.engine.rated_rpm)));
+            if let Some(spread) = &v.method_spread {
+                out.push_str(&format!("  {}\n", method_spread_line(spread, &d)));
+            }
             out.push_str(&format!(
                 "  {}\n",
                 target_line(v, &d, self.trip.target_speed, &self.engine)
@@ -440,6 +513,7 @@ impl BoatReport {
                     target: Err(String::new()),
                     duty: None,
                     extrapolated: false,
+                    method_spread: None,
                 },
                 &d,
                 true,
@@ -495,6 +569,7 @@ impl BoatReport {
                         cruise: v.target.as_ref().ok().map(PointJson::from),
                         cruise_error: v.target.as_ref().err().cloned(),
                         duty_note: v.duty.clone(),
+                        method_spread: v.method_spread.clone(),
                         cavitation: self
                             .checks
                             .as_ref()
@@ -504,6 +579,7 @@ impl BoatReport {
                 })
                 .collect(),
             calibration: self.calibration.clone(),
+            methods: self.methods.clone(),
             cavitation_skipped: self
                 .checks
                 .as_ref()
@@ -772,6 +848,8 @@ pub struct BoatJson {
     pub variants: Vec<VariantJson>,
     /// The sea-trial correction applied, or null.
     pub calibration: Option<AppliedCalibration>,
+    /// The resistance and interaction methods used and why.
+    pub methods: MethodSummary,
     /// Why the cavitation check was skipped, or null.
     pub cavitation_skipped: Option<String>,
     /// The shaft check, or null.
@@ -825,6 +903,8 @@ pub struct VariantJson {
     pub cruise_error: Option<String>,
     /// The engine's duty rating beside the load at the target speed.
     pub duty_note: Option<String>,
+    /// Both resistance methods' top speed (m/s) and target-speed resistance (N), when both run.
+    pub method_spread: Option<MethodSpread>,
     /// Cavitation and blade loading at the target speed and at top speed.
     pub cavitation: Vec<CavitationJson>,
 }

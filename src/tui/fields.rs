@@ -400,13 +400,17 @@ pub fn value(field: FieldId, boat: &BoatDoc) -> FieldValue {
         F::HalfEntranceAngle => opt(&boat.hull.half_entrance_angle, Kind::Angle),
         F::TransomArea => opt(&boat.hull.transom_area, Kind::Area),
         F::ResistanceMethod => FieldValue::ReadOnly(match &boat.resistance.method {
+            ResistanceMethodDoc::Auto => "auto (fits the hull)".into(),
             ResistanceMethodDoc::HoltropMennen => "Holtrop–Mennen".into(),
+            ResistanceMethodDoc::VanOortmerssen => "van Oortmerssen".into(),
             ResistanceMethodDoc::Table(rows) => format!("table, {} rows", rows.len()),
         }),
         F::ServiceMargin => num(boat.resistance.service_margin, Kind::Fraction),
         F::Fouling => num(boat.resistance.fouling, Kind::Fraction),
         F::Interaction => FieldValue::Choice(
             match boat.interaction {
+                InteractionDoc::Auto => "auto (with the resistance method)",
+                InteractionDoc::VanOortmerssen => "van Oortmerssen",
                 InteractionDoc::Holtrop1984 => "Holtrop 1984",
                 InteractionDoc::Taylor => "Taylor",
                 InteractionDoc::User { .. } => "user values",
@@ -827,8 +831,10 @@ pub fn next_choice(field: FieldId, boat: &mut BoatDoc) -> Result<(), String> {
         }
         FieldId::Interaction => {
             boat.interaction = match boat.interaction {
+                InteractionDoc::Auto => InteractionDoc::Holtrop1984,
                 InteractionDoc::Holtrop1984 => InteractionDoc::Taylor,
-                _ => InteractionDoc::Holtrop1984,
+                InteractionDoc::Taylor => InteractionDoc::VanOortmerssen,
+                _ => InteractionDoc::Auto,
             }
         }
         FieldId::Water => {

@@ -121,6 +121,8 @@ fn vessel_with(pitches: &[f64]) -> Vessel {
             },
         },
         interaction: InteractionMethod::Holtrop1984SingleScrew,
+        method_choice: None,
+        interaction_follows_method: false,
         installation: Installation {
             gear_ratio: 2.5,
             shaft_efficiency: 0.98,

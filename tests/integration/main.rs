@@ -9,6 +9,7 @@ mod cli_design;
 mod design;
 mod hull;
 mod pitch;
+mod oortmerssen;
 mod profiles;
 mod published;
 mod robustness;

@@ -35,6 +35,11 @@ pub const LOW_SPEED_LIMIT_FN: f64 = 0.40;
 /// Froude number above which the 1984 high-speed wave formula is used alone.
 pub const HIGH_SPEED_LIMIT_FN: f64 = 0.55;
 
+/// Highest Froude number Holtrop & Mennen (1982) give for trawlers, coasters and tugs, the
+/// ship type nearest a small motorboat (their table of limitations: Cp 0.55–0.65, L/B 3.9–6.3,
+/// B/T 2.1–3.0; from memory).
+pub const SMALL_SHIP_FROUDE_MAX: f64 = 0.38;
+
 /// Speed-independent coefficients of the method for one hull (names as in the papers).
 #[derive(Debug, Clone, Copy, PartialEq, serde::Serialize)]
 pub struct HoltropCoefficients {
@@ -398,18 +403,10 @@ pub fn validity_warnings(hull: &HullForm, edition: Edition) -> Vec<Warning> {
             ),
         )
     };
-    let cp = hull.prismatic_coefficient;
-    if !(0.55..=0.85).contains(&cp) {
-        warnings.push(outside("Cp", cp, 0.55, 0.85));
+    for (what, value, min, max) in outside_ranges(hull) {
+        warnings.push(outside(what, value, min, max));
     }
     let l_b = hull.input.length_waterline / hull.input.beam_waterline;
-    if !(3.9..=9.5).contains(&l_b) {
-        warnings.push(outside("L/B", l_b, 3.9, 9.5));
-    }
-    let b_t = hull.input.beam_waterline / hull.draft_mean;
-    if !(2.1..=4.0).contains(&b_t) {
-        warnings.push(outside("B/T", b_t, 2.1, 4.0));
-    }
     let coefficients = HoltropCoefficients::new(hull, edition);
     if coefficients.m1 >= 0.0 {
         warnings.push(Warning::new(
@@ -428,6 +425,25 @@ pub fn validity_warnings(hull: &HullForm, edition: Edition) -> Vec<Warning> {
         ));
     }
     warnings
+}
+
+/// The published ranges of the ships Holtrop & Mennen fitted: (name, min, max) of Cp, L/B, B/T.
+pub const RANGES: [(&str, f64, f64); 3] =
+    [("Cp", 0.55, 0.85), ("L/B", 3.9, 9.5), ("B/T", 2.1, 4.0)];
+
+/// The hull parameters outside [`RANGES`]: (name, value, min, max).
+pub fn outside_ranges(hull: &HullForm) -> Vec<(&'static str, f64, f64, f64)> {
+    let values = [
+        hull.prismatic_coefficient,
+        hull.input.length_waterline / hull.input.beam_waterline,
+        hull.input.beam_waterline / hull.draft_mean,
+    ];
+    RANGES
+        .iter()
+        .zip(values)
+        .filter(|((_, min, max), value)| !(*min..=*max).contains(value))
+        .map(|(&(name, min, max), value)| (name, value, min, max))
+        .collect()
 }
 
 /// Highest Froude number of the data behind each edition (1982: 0.45; 1984: about 1.0; from memory).

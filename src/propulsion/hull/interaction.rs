@@ -20,8 +20,10 @@ pub struct Interaction {
 pub enum InteractionMethod {
     /// Holtrop (1984) single-screw formulas, speed dependent through CV.
     Holtrop1984SingleScrew,
-    /// Taylor's wake w = 0.5·Cb − 0.05 with t = 0.6·w·(1 + 0.67·w) and ηR = 1.0.
+    /// Taylor's wake w = 0.5·Cb − 0.05 with Taylor's t = k·w, k = 0.6, and ηR = 1.0.
     Taylor,
+    /// Van Oortmerssen (1971) small-ship regression of t, w and ηR on Cp, Fn, lcb, L/B, L/D.
+    VanOortmerssen,
     /// Values the user gives.
     User(Interaction),
 }
@@ -38,6 +40,9 @@ pub struct ScrewAtStern {
     /// Number of blades.
     pub blades: u32,
 }
+
+/// Taylor's k in t = k·w, the middle of 0.50–0.70 for a streamlined rudder (dimensionless).
+pub const TAYLOR_THRUST_DEDUCTION_RATIO: f64 = 0.6;
 
 /// Largest wake fraction returned; above it the regressions are far outside their data.
 pub const MAX_WAKE_FRACTION: f64 = 0.59;
@@ -69,6 +74,25 @@ impl Interaction {
 }
 
 impl InteractionMethod {
+    /// The interaction method that goes with a resistance method when the boat names none:
+    /// van Oortmerssen's own factors with van Oortmerssen, Holtrop (1984) otherwise.
+    pub fn paired_with(method: &super::ResistanceMethod) -> Self {
+        match method {
+            super::ResistanceMethod::VanOortmerssen => InteractionMethod::VanOortmerssen,
+            _ => InteractionMethod::Holtrop1984SingleScrew,
+        }
+    }
+
+    /// Short name of the method for display.
+    pub fn name(&self) -> &'static str {
+        match self {
+            InteractionMethod::Holtrop1984SingleScrew => "Holtrop (1984) single screw",
+            InteractionMethod::Taylor => "Taylor",
+            InteractionMethod::VanOortmerssen => "van Oortmerssen (1971)",
+            InteractionMethod::User(_) => "user values",
+        }
+    }
+
     /// The interaction coefficients at `speed` (m/s) for this hull, water and screw.
     ///
     /// Always finite and inside the ranges of [`Interaction::clamped`]; no allocation.
@@ -84,12 +108,19 @@ impl InteractionMethod {
                 holtrop_single_screw(hull, water, screw, speed)
             }
             InteractionMethod::Taylor => {
+                // Taylor (1933, "Speed and power of ships"), as given in Principles of Naval
+                // Architecture (SNAME 1988, vol. II): single-screw w = 0.50·Cb − 0.05 and
+                // t = k·w with k = 0.50–0.70 behind a streamlined rudder; k = 0.6 is the middle
+                // of that band (from memory). The earlier t = 0.6·w·(1 + 0.67·w) had no source.
                 let wake = 0.5 * hull.block_coefficient - 0.05;
                 Interaction {
                     wake_fraction: wake,
-                    thrust_deduction: 0.6 * wake * (1.0 + 0.67 * wake),
+                    thrust_deduction: TAYLOR_THRUST_DEDUCTION_RATIO * wake,
                     relative_rotative_efficiency: 1.0,
                 }
+            }
+            InteractionMethod::VanOortmerssen => {
+                super::oortmerssen::propulsion_factors(hull, screw, speed)
             }
             InteractionMethod::User(values) => *values,
         };
@@ -101,6 +132,29 @@ impl InteractionMethod {
         }
         .clamped()
     }
+}
+
+/// A warning when Holtrop (1984) single-screw factors fall outside small-craft practice:
+/// t above 0.20 or a hull efficiency ηH = (1−t)/(1−w) below 1 (common practice for small
+/// craft: t 0.10–0.20, ηH ≥ 1).
+pub fn small_craft_warning(
+    method: &InteractionMethod,
+    values: &Interaction,
+) -> Option<crate::propulsion::Warning> {
+    let hull_efficiency = (1.0 - values.thrust_deduction) / (1.0 - values.wake_fraction);
+    (matches!(method, InteractionMethod::Holtrop1984SingleScrew)
+        && (values.thrust_deduction > 0.20 || hull_efficiency < 1.0))
+        .then(|| {
+            crate::propulsion::Warning::new(
+                "interaction",
+                format!(
+                    "Holtrop (1984) single-screw t = {:.3}, w = {:.3}, hull efficiency {hull_efficiency:.3}: unusual for small \
+                     craft (common practice t 0.10–0.20 with hull efficiency at least 1); its merchant-ship sample \
+                     may overstate t here; van Oortmerssen's factors or trial values may fit better",
+                    values.thrust_deduction, values.wake_fraction
+                ),
+            )
+        })
 }
 
 /// Holtrop (1984) single-screw wake, thrust deduction and ηR (unclamped).

@@ -315,6 +315,14 @@ impl HullForm {
                 self.waterplane_coefficient.value
             ));
         }
+        if self.waterplane_coefficient.is_estimated() {
+            warn(format!(
+                "waterplane coefficient not given: estimated {:.3} by (1+2Cb)/3, the weakest input — it runs well below \
+                 the 0.70–0.78 usual for these hulls (common practice) and feeds the wetted-surface and entrance-angle \
+                 estimates and the sinkage between loads; give hull.waterplane_coefficient",
+                self.waterplane_coefficient.value
+            ));
+        }
         if self.lcb_fraction.is_estimated() {
             warn(
                 "LCB not given: assumed at ½L; form factor and entrance angle depend on it, give it if known"

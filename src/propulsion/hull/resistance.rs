@@ -2,6 +2,7 @@
 
 use super::friction::{ittc1957_friction_coefficient, reynolds_number};
 use super::holtrop::{self, Edition};
+use super::oortmerssen::{self, OortmerssenCoefficients};
 use super::{HullError, HullForm};
 use crate::propulsion::Warning;
 use crate::propulsion::water::WaterProperties;
@@ -43,6 +44,8 @@ pub struct ResistanceTable {
 pub enum ResistanceMethod {
     /// Holtrop & Mennen (1982) with Holtrop (1984) revisions.
     HoltropMennen,
+    /// Van Oortmerssen (1971), the small-ship regression.
+    VanOortmerssen,
     /// A user-supplied table, interpolated.
     Table(ResistanceTable),
 }
@@ -167,7 +170,22 @@ impl ResistanceMethod {
     pub fn name(&self) -> &'static str {
         match self {
             ResistanceMethod::HoltropMennen => "Holtrop-Mennen (1982/1984)",
+            ResistanceMethod::VanOortmerssen => "van Oortmerssen (1971)",
             ResistanceMethod::Table(_) => "resistance table",
+        }
+    }
+
+    /// The published Froude-number range of the method's data (dimensionless), `None` for a
+    /// table (its own speed range applies).
+    ///
+    /// Holtrop–Mennen: 0 to 0.38, the limit Holtrop & Mennen (1982, table of limitations)
+    /// give for trawlers, coasters and tugs, the ship type nearest a small motorboat (from
+    /// memory). Van Oortmerssen (1971): 0 to 0.50.
+    pub fn froude_range(&self) -> Option<(f64, f64)> {
+        match self {
+            ResistanceMethod::HoltropMennen => Some((0.0, holtrop::SMALL_SHIP_FROUDE_MAX)),
+            ResistanceMethod::VanOortmerssen => Some((0.0, oortmerssen::FROUDE_MAX)),
+            ResistanceMethod::Table(_) => None,
         }
     }
 }
@@ -176,6 +194,12 @@ impl ResistanceMethod {
 pub const HOLTROP_EDITION: Edition = Edition::Revised1984;
 
 impl ResistanceModel {
+    /// The published Froude-number range of this model's method (see
+    /// [`ResistanceMethod::froude_range`]), dimensionless.
+    pub fn froude_range(&self) -> Option<(f64, f64)> {
+        self.method.froude_range()
+    }
+
     /// Total resistance and its components at `speed` (m/s); 0 m/s gives all zeros.
     ///
     /// The components always sum to `total`: friction·form_factor + appendages + wave + bulb +
@@ -191,7 +215,7 @@ impl ResistanceModel {
         if speed == 0.0 {
             let form_factor = match self.method {
                 ResistanceMethod::HoltropMennen => self.hull.holtrop_coefficients().form_factor,
-                ResistanceMethod::Table(_) => 1.0,
+                ResistanceMethod::VanOortmerssen | ResistanceMethod::Table(_) => 1.0,
             };
             return Ok(ResistanceComponents {
                 form_factor,
@@ -211,6 +235,18 @@ impl ResistanceModel {
                     wave: r.wave,
                     bulb: r.bulb,
                     transom: r.transom,
+                    correlation: r.correlation,
+                    ..Default::default()
+                }
+            }
+            ResistanceMethod::VanOortmerssen => {
+                let coefficients = OortmerssenCoefficients::new(&self.hull)?;
+                let r = oortmerssen::at_speed(&self.hull, &coefficients, speed, &self.water);
+                ResistanceComponents {
+                    friction: r.friction,
+                    form_factor: 1.0,
+                    appendages: r.appendages,
+                    wave: r.residuary,
                     correlation: r.correlation,
                     ..Default::default()
                 }
@@ -266,6 +302,9 @@ impl ResistanceModel {
             ResistanceMethod::HoltropMennen => {
                 warnings.extend(holtrop::validity_warnings(&self.hull, HOLTROP_EDITION));
             }
+            ResistanceMethod::VanOortmerssen => {
+                warnings.extend(oortmerssen::validity_warnings(&self.hull));
+            }
             ResistanceMethod::Table(table) => {
                 if let Err(e) = table.validate() {
                     warnings.push(Warning::new(SOURCE, e.to_string()));
@@ -302,6 +341,9 @@ impl ResistanceModel {
             ResistanceMethod::HoltropMennen => {
                 let fn_l = self.hull.froude_number(speed);
                 warnings.extend(holtrop::froude_warning(fn_l, HOLTROP_EDITION));
+            }
+            ResistanceMethod::VanOortmerssen => {
+                warnings.extend(oortmerssen::froude_warning(self.hull.froude_number(speed)));
             }
             ResistanceMethod::Table(table) => match table.interpolate(speed) {
                 Err(e) => warnings.push(Warning::new(SOURCE, e.to_string())),

@@ -330,12 +330,15 @@ pub struct UncertaintyBand {
     pub pitch_high: Option<f64>,
     /// Number of band cases whose pitch search did not converge.
     pub unsolved_cases: usize,
+    /// The alternative resistance method whose cases the band includes, if any.
+    pub alternative_method: Option<&'static str>,
     /// Warnings, e.g. a shifted wake clamped at zero.
     pub warnings: Vec<Warning>,
 }
 
 /// The band of variant `index`'s propeller curve over displacement × (1 ± f) and wake ± s,
-/// with the pitch recommendation's range over the same nine cases.
+/// and, when the method choice computes an alternative resistance method, that method at the
+/// three displacements, with the pitch recommendation's range over the same cases.
 ///
 /// A wake estimated by a speed-dependent method is frozen at the target speed before it is
 /// shifted (`InteractionMethod::User` with the estimate's t and ηR); the unshifted cases keep
@@ -375,7 +378,7 @@ pub fn uncertainty_band(
     let mut warnings = Vec::new();
     let volume = vessel.resistance.hull.input.displacement_volume;
     let reference_speed = vessel.trip.target_speed;
-    let mut cases: Vec<Vessel> = Vec::with_capacity(9);
+    let mut cases: Vec<Vessel> = Vec::with_capacity(12);
     for factor in [
         1.0 - ranges.displacement_fraction,
         1.0,
@@ -408,6 +411,17 @@ pub fn uncertainty_band(
                 ..frozen
             });
             cases.push(shifted);
+        }
+    }
+    // The other resistance method, where the method choice computes one, at the three
+    // displacements: the spread between published methods is a real uncertainty.
+    if let Some(other) = vessel.with_alternative_method() {
+        for factor in [
+            1.0 - ranges.displacement_fraction,
+            1.0,
+            1.0 + ranges.displacement_fraction,
+        ] {
+            cases.push(Condition::displacement("band", volume * factor).apply(&other)?);
         }
     }
 
@@ -464,6 +478,9 @@ pub fn uncertainty_band(
         pitch_low: pitches.iter().copied().reduce(f64::min),
         pitch_high: pitches.iter().copied().reduce(f64::max),
         unsolved_cases,
+        alternative_method: vessel
+            .with_alternative_method()
+            .map(|v| v.resistance.method.name()),
         warnings,
     })
 }

@@ -7,7 +7,7 @@ use super::point::PointFailure;
 use super::trial::TrialRun;
 use super::{Installation, System};
 use crate::propulsion::engine::EngineSheet;
-use crate::propulsion::hull::{InteractionMethod, ResistanceModel};
+use crate::propulsion::hull::{InteractionMethod, MethodChoice, ResistanceModel};
 use crate::propulsion::screw::ScrewModel;
 
 /// One screw variant of a boat, as the user labelled it.
@@ -28,6 +28,11 @@ pub struct Vessel {
     pub resistance: ResistanceModel,
     /// How wake, thrust deduction and ηR are found.
     pub interaction: InteractionMethod,
+    /// Why the resistance method was picked, when the boat named none (`None`: named).
+    pub method_choice: Option<MethodChoice>,
+    /// Whether `interaction` goes with the resistance method (none named), so the alternative
+    /// method brings its own interaction too.
+    pub interaction_follows_method: bool,
     /// Gear and shaft line.
     pub installation: Installation,
     /// The engine sheet.
@@ -61,6 +66,19 @@ impl Vessel {
             .map(|v| v.label.as_str())
             .collect::<Vec<_>>()
             .join(", ")
+    }
+
+    /// The same boat under the alternative resistance method of its method choice (and that
+    /// method's interaction when the interaction follows the method), if there is one.
+    pub fn with_alternative_method(&self) -> Option<Vessel> {
+        let alternative = self.method_choice.as_ref()?.alternative.clone()?;
+        let mut other = self.clone();
+        if self.interaction_follows_method {
+            other.interaction = InteractionMethod::paired_with(&alternative);
+        }
+        other.resistance.method = alternative.clone();
+        other.method_choice = None;
+        Some(other)
     }
 
     /// The propulsion system of variant `index` (clamped to the last variant).
@@ -163,5 +181,63 @@ impl Vessel {
             cruise,
         });
         Ok(rows)
+    }
+}
+
+/// The two resistance methods side by side for one screw: the chosen one and its alternative.
+#[derive(Debug, Clone, PartialEq, serde::Serialize)]
+pub struct MethodSpread {
+    /// The method used for every figure.
+    pub method: &'static str,
+    /// The alternative computed beside it.
+    pub alternative: &'static str,
+    /// Calm resistance at the target speed by the chosen method, N (margins included).
+    pub resistance_at_target: Option<f64>,
+    /// The same by the alternative, N.
+    pub alternative_resistance_at_target: Option<f64>,
+    /// Top speed by the chosen method, m/s.
+    pub top_speed: Option<f64>,
+    /// Top speed by the alternative, m/s.
+    pub alternative_top_speed: Option<f64>,
+}
+
+impl MethodSpread {
+    /// The alternative's resistance at the target speed over the chosen method's, less 1
+    /// (dimensionless; +0.2 = the alternative is 20 % higher).
+    pub fn resistance_difference(&self) -> Option<f64> {
+        match (
+            self.resistance_at_target,
+            self.alternative_resistance_at_target,
+        ) {
+            (Some(a), Some(b)) if a > 0.0 => Some(b / a - 1.0),
+            _ => None,
+        }
+    }
+}
+
+impl Vessel {
+    /// Both methods' resistance at the target speed and top speed of variant `index`, when the
+    /// method choice computes an alternative; `None` otherwise.
+    pub fn method_spread(&self, index: usize) -> Option<MethodSpread> {
+        let other = self.with_alternative_method()?;
+        let resistance = |v: &Vessel| {
+            v.resistance
+                .resistance(v.trip.target_speed)
+                .ok()
+                .map(|r| r.total)
+        };
+        let top = |v: &Vessel| {
+            match_engine(&v.system(index), &v.match_criteria)
+                .ok()
+                .map(|m| m.top_speed)
+        };
+        Some(MethodSpread {
+            method: self.resistance.method.name(),
+            alternative: other.resistance.method.name(),
+            resistance_at_target: resistance(self),
+            alternative_resistance_at_target: resistance(&other),
+            top_speed: top(self),
+            alternative_top_speed: top(&other),
+        })
     }
 }
