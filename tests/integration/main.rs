@@ -8,6 +8,7 @@ mod cli;
 mod cli_design;
 mod design;
 mod hull;
+mod instruments;
 mod profiles;
 mod published;
 mod robustness;
