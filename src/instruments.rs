@@ -220,7 +220,10 @@ pub struct ImportedLog {
 
 impl ImportedLog {
     /// Finds the steady runs of the log (see [`runs::find_runs`]).
-    pub fn find_runs(&self, options: &runs::RunOptions) -> Result<runs::FoundRuns, runs::NoRunError> {
+    pub fn find_runs(
+        &self,
+        options: &runs::RunOptions,
+    ) -> Result<runs::FoundRuns, runs::NoRunError> {
         runs::find_runs(&self.samples, options, &self.summary)
     }
 }
@@ -282,7 +285,11 @@ pub fn detect_format(content: &[u8]) -> Option<LogFormat> {
 }
 
 /// Imports a log from its bytes: detects or takes the format, reads every line, counts the bad.
-pub fn import(content: &[u8], format: Option<LogFormat>, options: &ImportOptions) -> Result<ImportedLog, ImportError> {
+pub fn import(
+    content: &[u8],
+    format: Option<LogFormat>,
+    options: &ImportOptions,
+) -> Result<ImportedLog, ImportError> {
     let format = format
         .or(options.format)
         .or_else(|| detect_format(content))
@@ -351,9 +358,18 @@ mod tests {
     #[test]
     fn detection_by_content() {
         assert_eq!(detect_format(b"$GPRMC,x*00\n"), Some(LogFormat::Nmea));
-        assert_eq!(detect_format(b"\\c:1700000000*51\\$GPRMC\n"), Some(LogFormat::Nmea));
-        assert_eq!(detect_format(b"2023-11-14T22:13:20Z $GPRMC\n"), Some(LogFormat::Nmea));
-        assert_eq!(detect_format(b"time_s,rpm,sog_kn\n1,2,3\n"), Some(LogFormat::Csv));
+        assert_eq!(
+            detect_format(b"\\c:1700000000*51\\$GPRMC\n"),
+            Some(LogFormat::Nmea)
+        );
+        assert_eq!(
+            detect_format(b"2023-11-14T22:13:20Z $GPRMC\n"),
+            Some(LogFormat::Nmea)
+        );
+        assert_eq!(
+            detect_format(b"time_s,rpm,sog_kn\n1,2,3\n"),
+            Some(LogFormat::Csv)
+        );
         assert_eq!(detect_format(b"\n\n  \n"), None);
         assert_eq!(detect_format(b"\x00\x01\xff\xfe"), Some(LogFormat::Nmea));
     }

@@ -25,7 +25,9 @@
 //! Example: `time_s,rpm,sog_kn,cog_deg,stw_kn,fuel_lph`.
 
 use super::time::parse_iso8601;
-use super::{BadLine, ImportError, ImportedLog, LineSummary, LogFormat, METRES_PER_SECOND_PER_KNOT, Sample};
+use super::{
+    BadLine, ImportError, ImportedLog, LineSummary, LogFormat, METRES_PER_SECOND_PER_KNOT, Sample,
+};
 
 /// Litres in one US liquid gallon (NIST Handbook 44, Appendix C: 231 in³ = 3.785 411 784 L).
 pub const LITRES_PER_US_GALLON: f64 = 3.785_411_784;
@@ -113,10 +115,14 @@ fn conversion(quantity: Quantity, unit: &str) -> Option<Conversion> {
         },
         Quantity::Rpm => matches!(unit, "" | "rpm" | "1/min" | "min-1").then_some(Scale(1.0)),
         Quantity::Sog | Quantity::Stw => speed(unit),
-        Quantity::Cog | Quantity::Heading => matches!(unit, "" | "deg" | "degt" | "°" | "degrees").then_some(Scale(1.0)),
+        Quantity::Cog | Quantity::Heading => {
+            matches!(unit, "" | "deg" | "degt" | "°" | "degrees").then_some(Scale(1.0))
+        }
         Quantity::Fuel => match unit {
             "" | "l/h" | "lph" | "l_h" => Some(Scale(1e-3 / 3600.0)),
-            "gal/h" | "gph" | "usgal/h" | "gal_h" => Some(Scale(LITRES_PER_US_GALLON * 1e-3 / 3600.0)),
+            "gal/h" | "gph" | "usgal/h" | "gal_h" => {
+                Some(Scale(LITRES_PER_US_GALLON * 1e-3 / 3600.0))
+            }
             "m3/s" | "m³/s" => Some(Scale(1.0)),
             _ => None,
         },
@@ -137,20 +143,30 @@ fn split_column(column: &str) -> Option<(Quantity, String)> {
         if rest.is_empty() {
             Some((*quantity, String::new()))
         } else {
-            rest.strip_prefix('_').map(|unit| (*quantity, unit.to_owned()))
+            rest.strip_prefix('_')
+                .map(|unit| (*quantity, unit.to_owned()))
         }
     })
 }
 
 fn delimiter_of(header: &str) -> char {
-    [',', ';', '\t'].into_iter().find(|d| header.contains(*d)).unwrap_or(',')
+    [',', ';', '\t']
+        .into_iter()
+        .find(|d| header.contains(*d))
+        .unwrap_or(',')
 }
 
 /// Whether a line looks like a CSV header: two or more fields, each starting with a letter.
 pub fn looks_like_header(line: &str) -> bool {
     let delimiter = delimiter_of(line);
-    let fields: Vec<&str> = line.split(delimiter).map(|f| f.trim().trim_matches('"')).collect();
-    fields.len() >= 2 && fields.iter().all(|f| f.starts_with(|c: char| c.is_ascii_alphabetic()))
+    let fields: Vec<&str> = line
+        .split(delimiter)
+        .map(|f| f.trim().trim_matches('"'))
+        .collect();
+    fields.len() >= 2
+        && fields
+            .iter()
+            .all(|f| f.starts_with(|c: char| c.is_ascii_alphabetic()))
 }
 
 /// A column the import reads.
@@ -169,7 +185,9 @@ pub fn read_log(content: &[u8]) -> Result<ImportedLog, ImportError> {
     let mut columns: Vec<Column> = Vec::new();
     let names: Vec<&str> = header.split(delimiter).collect();
     for (index, name) in names.iter().enumerate() {
-        let Some((quantity, unit)) = split_column(name) else { continue };
+        let Some((quantity, unit)) = split_column(name) else {
+            continue;
+        };
         let conversion = conversion(quantity, &unit).ok_or_else(|| ImportError::UnknownUnit {
             column: name.trim().to_owned(),
             unit: unit.clone(),
@@ -182,14 +200,29 @@ pub fn read_log(content: &[u8]) -> Result<ImportedLog, ImportError> {
                 second: name.trim().to_owned(),
             });
         }
-        columns.push(Column { index, quantity, conversion });
+        columns.push(Column {
+            index,
+            quantity,
+            conversion,
+        });
     }
-    for (needed, quantity) in [("time", Quantity::Time), ("rpm", Quantity::Rpm), ("sog", Quantity::Sog)] {
+    for (needed, quantity) in [
+        ("time", Quantity::Time),
+        ("rpm", Quantity::Rpm),
+        ("sog", Quantity::Sog),
+    ] {
         if !columns.iter().any(|c| c.quantity == quantity) {
-            return Err(ImportError::MissingColumn { needed, example: EXAMPLE_HEADER });
+            return Err(ImportError::MissingColumn {
+                needed,
+                example: EXAMPLE_HEADER,
+            });
         }
     }
-    let mut summary = LineSummary { lines: 1, ignored: 1, ..LineSummary::default() };
+    let mut summary = LineSummary {
+        lines: 1,
+        ignored: 1,
+        ..LineSummary::default()
+    };
     let mut samples = Vec::new();
     let mut dated = false;
     for (number, line) in lines {
@@ -198,7 +231,10 @@ pub fn read_log(content: &[u8]) -> Result<ImportedLog, ImportError> {
             summary.count_bad(number, BadLine::NotText);
             continue;
         };
-        let fields: Vec<&str> = text.split(delimiter).map(|f| f.trim().trim_matches('"')).collect();
+        let fields: Vec<&str> = text
+            .split(delimiter)
+            .map(|f| f.trim().trim_matches('"'))
+            .collect();
         if fields.len() != names.len() {
             summary.count_bad(number, BadLine::BadRow);
             continue;
@@ -212,8 +248,16 @@ pub fn read_log(content: &[u8]) -> Result<ImportedLog, ImportError> {
             None => summary.count_bad(number, BadLine::BadRow),
         }
     }
-    let date = samples.first().filter(|_| dated).map(|s| super::time::date_of(s.time_s));
-    Ok(ImportedLog { format: LogFormat::Csv, samples, summary, date })
+    let date = samples
+        .first()
+        .filter(|_| dated)
+        .map(|s| super::time::date_of(s.time_s));
+    Ok(ImportedLog {
+        format: LogFormat::Csv,
+        samples,
+        summary,
+        date,
+    })
 }
 
 /// One row as a sample, and whether its time was ISO 8601 text; `None` for a bad row.
@@ -227,8 +271,12 @@ fn read_row(fields: &[&str], columns: &[Column]) -> Option<(Sample, bool)> {
             continue;
         }
         let value = match column.conversion {
-            Conversion::Scale(factor) => text.parse::<f64>().ok().filter(|v| v.is_finite())? * factor,
-            Conversion::Milliseconds => text.parse::<f64>().ok().filter(|v| v.is_finite())? / 1000.0,
+            Conversion::Scale(factor) => {
+                text.parse::<f64>().ok().filter(|v| v.is_finite())? * factor
+            }
+            Conversion::Milliseconds => {
+                text.parse::<f64>().ok().filter(|v| v.is_finite())? / 1000.0
+            }
             Conversion::SecondsOrIso => match text.parse::<f64>() {
                 Ok(v) if v.is_finite() => v,
                 _ => {
@@ -293,7 +341,10 @@ mod tests {
             "CSV column \"sog_furlong/fortnight\": unit \"furlong/fortnight\" is not known; expected kn, m/s, km/h or mph"
         );
         let err = read_log(b"time_s,sog_kn\n").unwrap_err();
-        assert!(matches!(err, ImportError::MissingColumn { needed: "rpm", .. }), "{err}");
+        assert!(
+            matches!(err, ImportError::MissingColumn { needed: "rpm", .. }),
+            "{err}"
+        );
         let err = read_log(b"time_s,rpm,sog_kn,sog_m/s\n").unwrap_err();
         assert!(matches!(err, ImportError::DuplicateColumn { .. }), "{err}");
     }
@@ -304,7 +355,10 @@ mod tests {
         let imported = read_log(log).unwrap();
         assert_eq!(imported.samples.len(), 2);
         assert_eq!(imported.summary.bad_count(BadLine::BadRow), 2);
-        assert_eq!(imported.summary.first_bad, vec![(3, BadLine::BadRow), (4, BadLine::BadRow)]);
+        assert_eq!(
+            imported.summary.first_bad,
+            vec![(3, BadLine::BadRow), (4, BadLine::BadRow)]
+        );
     }
 
     #[test]

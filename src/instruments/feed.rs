@@ -23,7 +23,7 @@ use std::net::{TcpStream, ToSocketAddrs, UdpSocket};
 use std::path::PathBuf;
 use std::sync::Arc;
 use std::sync::atomic::{AtomicBool, Ordering};
-use std::sync::mpsc::{Receiver, Sender, TryRecvError, channel};
+use std::sync::mpsc::{Receiver, Sender, channel};
 use std::time::{Duration, Instant, SystemTime, UNIX_EPOCH};
 
 /// Where a feed reads from.
@@ -53,10 +53,15 @@ pub enum FeedError {
 impl FeedSource {
     /// Parses `tcp://HOST:PORT`, `udp://:PORT`, `udp://ADDRESS:PORT` or a file path.
     pub fn parse(text: &str) -> Result<Self, FeedError> {
-        let bad = |problem| FeedError::BadAddress { text: text.to_owned(), problem };
+        let bad = |problem| FeedError::BadAddress {
+            text: text.to_owned(),
+            problem,
+        };
         let port_of = |rest: &str| -> Result<(String, u16), FeedError> {
             let (host, port) = rest.rsplit_once(':').ok_or(bad("no :PORT"))?;
-            let port: u16 = port.parse().map_err(|_| bad("the port is not a number 0–65535"))?;
+            let port: u16 = port
+                .parse()
+                .map_err(|_| bad("the port is not a number 0–65535"))?;
             Ok((host.trim_matches(['[', ']']).to_owned(), port))
         };
         if let Some(rest) = text.strip_prefix("tcp://") {
@@ -67,7 +72,10 @@ impl FeedSource {
             Ok(FeedSource::Tcp(join(&host, port)))
         } else if let Some(rest) = text.strip_prefix("udp://") {
             let (host, port) = port_of(rest)?;
-            Ok(FeedSource::Udp(join(if host.is_empty() { "0.0.0.0" } else { &host }, port)))
+            Ok(FeedSource::Udp(join(
+                if host.is_empty() { "0.0.0.0" } else { &host },
+                port,
+            )))
         } else if text.contains("://") {
             Err(bad("unknown scheme"))
         } else {
@@ -77,7 +85,11 @@ impl FeedSource {
 }
 
 fn join(host: &str, port: u16) -> String {
-    if host.contains(':') { format!("[{host}]:{port}") } else { format!("{host}:{port}") }
+    if host.contains(':') {
+        format!("[{host}]:{port}")
+    } else {
+        format!("{host}:{port}")
+    }
 }
 
 /// Settings of a feed.
@@ -150,7 +162,9 @@ impl std::fmt::Display for FeedState {
             FeedState::Connecting => f.write_str("connecting"),
             FeedState::Live => f.write_str("live"),
             FeedState::Silent { for_s } => write!(f, "no data for {for_s:.0} s"),
-            FeedState::Reconnecting { in_s, reason, .. } => write!(f, "reconnecting in {in_s:.0} s ({reason})"),
+            FeedState::Reconnecting { in_s, reason, .. } => {
+                write!(f, "reconnecting in {in_s:.0} s ({reason})")
+            }
             FeedState::Closed { reason } => write!(f, "closed ({reason})"),
         }
     }
@@ -195,10 +209,7 @@ impl Feed {
 
     /// The next event if one is waiting; never blocks.
     pub fn try_recv(&self) -> Option<FeedEvent> {
-        match self.events.try_recv() {
-            Ok(event) => Some(event),
-            Err(TryRecvError::Empty | TryRecvError::Disconnected) => None,
-        }
+        self.events.try_recv().ok()
     }
 
     /// Every event waiting now.
@@ -219,7 +230,10 @@ impl Drop for Feed {
 }
 
 fn now_unix_s() -> f64 {
-    SystemTime::now().duration_since(UNIX_EPOCH).map(|d| d.as_secs_f64()).unwrap_or(0.0)
+    SystemTime::now()
+        .duration_since(UNIX_EPOCH)
+        .map(|d| d.as_secs_f64())
+        .unwrap_or(0.0)
 }
 
 struct Worker {
@@ -291,7 +305,12 @@ impl Worker {
             };
             attempt += 1;
             let in_s = self.backoff(attempt);
-            if !self.send(FeedEvent::State(FeedState::Reconnecting { attempt, in_s, reason })) || !self.wait(in_s) {
+            if !self.send(FeedEvent::State(FeedState::Reconnecting {
+                attempt,
+                in_s,
+                reason,
+            })) || !self.wait(in_s)
+            {
                 return "stopped".to_owned();
             }
         }
@@ -358,7 +377,12 @@ impl Worker {
                     pending.extend_from_slice(&buffer[..n]);
                     self.take_lines(&mut pending);
                 }
-                Err(e) if matches!(e.kind(), ErrorKind::WouldBlock | ErrorKind::TimedOut | ErrorKind::Interrupted) => {
+                Err(e)
+                    if matches!(
+                        e.kind(),
+                        ErrorKind::WouldBlock | ErrorKind::TimedOut | ErrorKind::Interrupted
+                    ) =>
+                {
                     let quiet = last_data.elapsed().as_secs_f64();
                     if quiet >= self.options.reconnect_after_silence_s {
                         self.flush();
@@ -388,13 +412,19 @@ impl Worker {
                 return "stopped".to_owned();
             }
             self.send(FeedEvent::State(FeedState::Connecting));
-            match UdpSocket::bind(address).and_then(|s| s.set_read_timeout(Some(POLL)).map(|()| s)) {
+            match UdpSocket::bind(address).and_then(|s| s.set_read_timeout(Some(POLL)).map(|()| s))
+            {
                 Ok(socket) => break socket,
                 Err(e) => {
                     attempt += 1;
                     let in_s = self.backoff(attempt);
                     let reason = format!("cannot listen on udp {address}: {e}");
-                    if !self.send(FeedEvent::State(FeedState::Reconnecting { attempt, in_s, reason })) || !self.wait(in_s) {
+                    if !self.send(FeedEvent::State(FeedState::Reconnecting {
+                        attempt,
+                        in_s,
+                        reason,
+                    })) || !self.wait(in_s)
+                    {
                         return "stopped".to_owned();
                     }
                 }
@@ -419,7 +449,12 @@ impl Worker {
                     datagram.push(b'\n');
                     self.take_lines(&mut datagram);
                 }
-                Err(e) if matches!(e.kind(), ErrorKind::WouldBlock | ErrorKind::TimedOut | ErrorKind::Interrupted) => {
+                Err(e)
+                    if matches!(
+                        e.kind(),
+                        ErrorKind::WouldBlock | ErrorKind::TimedOut | ErrorKind::Interrupted
+                    ) =>
+                {
                     let quiet = last_data.elapsed().as_secs_f64();
                     if quiet >= self.options.silence_s && !silent {
                         silent = true;
@@ -451,11 +486,17 @@ impl Worker {
         self.send(FeedEvent::Lines(log.summary.clone()));
         self.send(FeedEvent::State(FeedState::Live));
         let started = Instant::now();
-        let speedup = if self.options.replay_speedup > 0.0 { self.options.replay_speedup } else { 1.0 };
+        let speedup = if self.options.replay_speedup > 0.0 {
+            self.options.replay_speedup
+        } else {
+            1.0
+        };
         let first = log.samples.first().map_or(0.0, |s| s.time_s);
         for sample in &log.samples {
             let due = (sample.time_s - first).max(0.0) / speedup;
-            if !self.wait(due - started.elapsed().as_secs_f64()) || !self.send(FeedEvent::Sample(*sample)) {
+            if !self.wait(due - started.elapsed().as_secs_f64())
+                || !self.send(FeedEvent::Sample(*sample))
+            {
                 return "stopped".to_owned();
             }
         }
@@ -465,7 +506,9 @@ impl Worker {
 }
 
 fn connect(address: &str, timeout_s: f64) -> Result<TcpStream, String> {
-    let addresses = address.to_socket_addrs().map_err(|e| format!("cannot resolve {address}: {e}"))?;
+    let addresses = address
+        .to_socket_addrs()
+        .map_err(|e| format!("cannot resolve {address}: {e}"))?;
     let mut last = format!("no address for {address}");
     for a in addresses {
         match TcpStream::connect_timeout(&a, Duration::from_secs_f64(timeout_s.max(0.01))) {
@@ -497,12 +540,24 @@ mod tests {
     /// Lines with their own epoch timestamps, 1 s apart from `t0`.
     fn lines(t0: u32, n: u32) -> String {
         (0..n)
-            .map(|i| format!("{},{}\r\n{},{}\r\n", t0 + i, with_checksum("ERRPM,E,1,1500,,A"), t0 + i, with_checksum("GPHDT,45.0,T")))
+            .map(|i| {
+                format!(
+                    "{},{}\r\n{},{}\r\n",
+                    t0 + i,
+                    with_checksum("ERRPM,E,1,1500,,A"),
+                    t0 + i,
+                    with_checksum("GPHDT,45.0,T")
+                )
+            })
             .collect()
     }
 
     /// Collects events until `done` says so or `limit` passes.
-    fn collect(feed: &Feed, limit: Duration, done: impl Fn(&[FeedEvent]) -> bool) -> Vec<FeedEvent> {
+    fn collect(
+        feed: &Feed,
+        limit: Duration,
+        done: impl Fn(&[FeedEvent]) -> bool,
+    ) -> Vec<FeedEvent> {
         let start = Instant::now();
         let mut events = Vec::new();
         while start.elapsed() < limit && !done(&events) {
@@ -513,14 +568,26 @@ mod tests {
     }
 
     fn samples(events: &[FeedEvent]) -> usize {
-        events.iter().filter(|e| matches!(e, FeedEvent::Sample(_))).count()
+        events
+            .iter()
+            .filter(|e| matches!(e, FeedEvent::Sample(_)))
+            .count()
     }
 
     #[test]
     fn addresses() {
-        assert_eq!(FeedSource::parse("tcp://10.0.0.5:10110"), Ok(FeedSource::Tcp("10.0.0.5:10110".into())));
-        assert_eq!(FeedSource::parse("udp://:10110"), Ok(FeedSource::Udp("0.0.0.0:10110".into())));
-        assert_eq!(FeedSource::parse("log.nmea"), Ok(FeedSource::File("log.nmea".into())));
+        assert_eq!(
+            FeedSource::parse("tcp://10.0.0.5:10110"),
+            Ok(FeedSource::Tcp("10.0.0.5:10110".into()))
+        );
+        assert_eq!(
+            FeedSource::parse("udp://:10110"),
+            Ok(FeedSource::Udp("0.0.0.0:10110".into()))
+        );
+        assert_eq!(
+            FeedSource::parse("log.nmea"),
+            Ok(FeedSource::File("log.nmea".into()))
+        );
         assert!(FeedSource::parse("tcp://host").is_err());
         assert!(FeedSource::parse("tcp://host:99999").is_err());
         assert!(FeedSource::parse("serial:///dev/ttyUSB0").is_err());
@@ -542,17 +609,55 @@ mod tests {
             // Stay quiet long enough to show as silent, then close.
             std::thread::sleep(Duration::from_millis(400));
         });
-        let feed = Feed::start(FeedSource::parse(&format!("tcp://127.0.0.1:{port}")).unwrap(), quick());
+        let feed = Feed::start(
+            FeedSource::parse(&format!("tcp://127.0.0.1:{port}")).unwrap(),
+            quick(),
+        );
         let events = collect(&feed, Duration::from_millis(1800), |e| {
-            samples(e) >= 6 && e.iter().any(|e| matches!(e, FeedEvent::State(FeedState::Silent { .. })))
+            samples(e) >= 6
+                && e.iter()
+                    .any(|e| matches!(e, FeedEvent::State(FeedState::Silent { .. })))
         });
         server.join().unwrap();
-        let states: Vec<&FeedState> = events.iter().filter_map(|e| if let FeedEvent::State(s) = e { Some(s) } else { None }).collect();
+        let states: Vec<&FeedState> = events
+            .iter()
+            .filter_map(|e| {
+                if let FeedEvent::State(s) = e {
+                    Some(s)
+                } else {
+                    None
+                }
+            })
+            .collect();
         assert_eq!(samples(&events), 6, "{states:?}");
-        assert!(states.iter().filter(|s| matches!(s, FeedState::Live)).count() >= 2, "{states:?}");
-        assert!(states.iter().any(|s| matches!(s, FeedState::Reconnecting { .. })), "{states:?}");
-        assert!(states.iter().any(|s| matches!(s, FeedState::Silent { .. })), "{states:?}");
-        let first = events.iter().find_map(|e| if let FeedEvent::Sample(s) = e { Some(*s) } else { None }).unwrap();
+        assert!(
+            states
+                .iter()
+                .filter(|s| matches!(s, FeedState::Live))
+                .count()
+                >= 2,
+            "{states:?}"
+        );
+        assert!(
+            states
+                .iter()
+                .any(|s| matches!(s, FeedState::Reconnecting { .. })),
+            "{states:?}"
+        );
+        assert!(
+            states.iter().any(|s| matches!(s, FeedState::Silent { .. })),
+            "{states:?}"
+        );
+        let first = events
+            .iter()
+            .find_map(|e| {
+                if let FeedEvent::Sample(s) = e {
+                    Some(*s)
+                } else {
+                    None
+                }
+            })
+            .unwrap();
         assert_eq!(first.engine_rpm, Some(1500.0));
         assert_eq!(first.time_s, 1_700_000_000.0);
     }
@@ -562,11 +667,18 @@ mod tests {
         let probe = UdpSocket::bind("127.0.0.1:0").unwrap();
         let port = probe.local_addr().unwrap().port();
         drop(probe);
-        let feed = Feed::start(FeedSource::parse(&format!("udp://127.0.0.1:{port}")).unwrap(), quick());
-        collect(&feed, Duration::from_millis(500), |e| e.contains(&FeedEvent::State(FeedState::Live)));
+        let feed = Feed::start(
+            FeedSource::parse(&format!("udp://127.0.0.1:{port}")).unwrap(),
+            quick(),
+        );
+        collect(&feed, Duration::from_millis(500), |e| {
+            e.contains(&FeedEvent::State(FeedState::Live))
+        });
         let sender = UdpSocket::bind("127.0.0.1:0").unwrap();
         for line in lines(1_700_000_000, 4).lines() {
-            sender.send_to(line.as_bytes(), ("127.0.0.1", port)).unwrap();
+            sender
+                .send_to(line.as_bytes(), ("127.0.0.1", port))
+                .unwrap();
         }
         let events = collect(&feed, Duration::from_millis(1000), |e| samples(e) >= 4);
         assert_eq!(samples(&events), 4, "{events:?}");
@@ -574,20 +686,36 @@ mod tests {
 
     #[test]
     fn file_replays_at_its_own_pace_sped_up() {
-        let spec = super::super::synth::SynthSpec { rpm_steps: vec![1500.0], leg_s: 60.0, turn_s: 20.0, ..Default::default() };
+        let spec = super::super::synth::SynthSpec {
+            rpm_steps: vec![1500.0],
+            leg_s: 60.0,
+            turn_s: 20.0,
+            ..Default::default()
+        };
         let log = super::super::synth::generate(&spec, |rpm| rpm / 500.0, None);
         let mut file = tempfile::NamedTempFile::new().unwrap();
         file.write_all(log.nmea.as_bytes()).unwrap();
-        let expected = import(log.nmea.as_bytes(), None, &ImportOptions::default()).unwrap().samples.len();
+        let expected = import(log.nmea.as_bytes(), None, &ImportOptions::default())
+            .unwrap()
+            .samples
+            .len();
         // About 170 s of log at 400× is about 0.43 s.
-        let options = FeedOptions { replay_speedup: 400.0, ..quick() };
+        let options = FeedOptions {
+            replay_speedup: 400.0,
+            ..quick()
+        };
         let start = Instant::now();
         let feed = Feed::start(FeedSource::File(file.path().to_owned()), options);
-        let events = collect(&feed, Duration::from_millis(1800), |e| e.iter().any(|e| matches!(e, FeedEvent::State(FeedState::Closed { .. }))));
+        let events = collect(&feed, Duration::from_millis(1800), |e| {
+            e.iter()
+                .any(|e| matches!(e, FeedEvent::State(FeedState::Closed { .. })))
+        });
         let elapsed = start.elapsed().as_secs_f64();
         assert_eq!(samples(&events), expected);
         assert!(elapsed > 0.3, "replayed too fast: {elapsed} s");
-        assert!(events.contains(&FeedEvent::State(FeedState::Closed { reason: "end of file".into() })));
+        assert!(events.contains(&FeedEvent::State(FeedState::Closed {
+            reason: "end of file".into()
+        })));
     }
 
     #[test]

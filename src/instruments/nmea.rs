@@ -43,7 +43,9 @@
 //! [`BadLine::NoTime`].
 
 use super::time::{parse_clock, parse_date, parse_iso8601};
-use super::{BadLine, ImportOptions, ImportedLog, LineSummary, LogFormat, METRES_PER_SECOND_PER_KNOT, Sample};
+use super::{
+    BadLine, ImportOptions, ImportedLog, LineSummary, LogFormat, METRES_PER_SECOND_PER_KNOT, Sample,
+};
 
 /// Lines closer in time than this join one sample, s.
 pub const TICK_S: f64 = 0.5;
@@ -72,14 +74,13 @@ impl std::fmt::Display for RpmSource {
 /// Talker identifiers of NMEA 0183 (from memory of the standard's talker table; proprietary
 /// `P` sentences are handled apart).
 const TALKERS: &[&str] = &[
-    "AB", "AD", "AG", "AI", "AN", "AP", "AR", "AS", "AT", "AX", "BD", "BI", "BN", "CA", "CD",
-    "CR", "CS", "CT", "CV", "CX", "DE", "DF", "DU", "EC", "EI", "EP", "ER", "FD", "FE", "FR",
-    "FS", "GA", "GB", "GI", "GL", "GN", "GP", "GQ", "HC", "HD", "HE", "HF", "HN", "HS", "II",
-    "IN", "JA", "JB", "JC", "JD", "JE", "JF", "JG", "JH", "JI", "JJ", "JK", "JL", "JM", "JN",
-    "JO", "JP", "JR", "LC", "NL", "NV", "NW", "RA", "RB", "RC", "RI", "SA", "SD", "SG", "SN",
-    "SS", "TC", "TI", "TR", "UP", "U0", "U1", "U2", "U3", "U4", "U5", "U6", "U7", "U8", "U9",
-    "VD", "VM", "VR", "VS", "VW", "WD", "WI", "WL", "YC", "YD", "YF", "YL", "YP", "YR", "YT",
-    "YV", "YX", "ZA", "ZC", "ZQ", "ZV",
+    "AB", "AD", "AG", "AI", "AN", "AP", "AR", "AS", "AT", "AX", "BD", "BI", "BN", "CA", "CD", "CR",
+    "CS", "CT", "CV", "CX", "DE", "DF", "DU", "EC", "EI", "EP", "ER", "FD", "FE", "FR", "FS", "GA",
+    "GB", "GI", "GL", "GN", "GP", "GQ", "HC", "HD", "HE", "HF", "HN", "HS", "II", "IN", "JA", "JB",
+    "JC", "JD", "JE", "JF", "JG", "JH", "JI", "JJ", "JK", "JL", "JM", "JN", "JO", "JP", "JR", "LC",
+    "NL", "NV", "NW", "RA", "RB", "RC", "RI", "SA", "SD", "SG", "SN", "SS", "TC", "TI", "TR", "UP",
+    "U0", "U1", "U2", "U3", "U4", "U5", "U6", "U7", "U8", "U9", "VD", "VM", "VR", "VS", "VW", "WD",
+    "WI", "WL", "YC", "YD", "YF", "YL", "YP", "YR", "YT", "YV", "YX", "ZA", "ZC", "ZQ", "ZV",
 ];
 
 /// Sentence types of NMEA 0183 this import does not use but accepts as valid (from memory of
@@ -192,7 +193,13 @@ fn split_prefix(text: &str) -> Result<(Option<f64>, &str), BadLine> {
     };
     let stamp = text[..start].trim_end_matches([' ', ',', ';', '\t']).trim();
     let time_s = parse_iso8601(stamp)
-        .or_else(|| stamp.parse::<f64>().ok().filter(|v| v.is_finite() && *v >= 0.0).map(epoch_seconds))
+        .or_else(|| {
+            stamp
+                .parse::<f64>()
+                .ok()
+                .filter(|v| v.is_finite() && *v >= 0.0)
+                .map(epoch_seconds)
+        })
         .ok_or(if stamp.starts_with(|c: char| c.is_ascii_digit()) {
             BadLine::BadTimestamp
         } else {
@@ -204,7 +211,10 @@ fn split_prefix(text: &str) -> Result<(Option<f64>, &str), BadLine> {
 
 /// Checks and reads one sentence `$…*hh` (or `!…*hh`).
 pub fn parse_sentence(sentence: &str) -> Result<Vec<Reading>, BadLine> {
-    let Some(body) = sentence.strip_prefix('$').or_else(|| sentence.strip_prefix('!')) else {
+    let Some(body) = sentence
+        .strip_prefix('$')
+        .or_else(|| sentence.strip_prefix('!'))
+    else {
         return Err(BadLine::NotASentence);
     };
     let Some((body, sum)) = body.rsplit_once('*') else {
@@ -221,7 +231,11 @@ pub fn parse_sentence(sentence: &str) -> Result<Vec<Reading>, BadLine> {
     if address.starts_with('P') {
         return Ok(Vec::new()); // proprietary: valid, not ours
     }
-    if address.len() != 5 || !address.bytes().all(|b| b.is_ascii_uppercase() || b.is_ascii_digit()) {
+    if address.len() != 5
+        || !address
+            .bytes()
+            .all(|b| b.is_ascii_uppercase() || b.is_ascii_digit())
+    {
         return Err(BadLine::UnknownSentence);
     }
     let (talker, kind) = address.split_at(2);
@@ -252,7 +266,10 @@ fn read_with_crate(sentence: &str) -> Result<Vec<Reading>, BadLine> {
         ParseResult::RMC(rmc) => {
             let time_of_day_s = rmc.fix_time.and_then(|t| parse_clock(&format!("{t:?}")));
             let date_days = rmc.fix_date.and_then(|d| parse_date(&format!("{d:?}")));
-            let valid = !matches!(rmc.status_of_fix, ::nmea::sentences::rmc::RmcStatusOfFix::Invalid);
+            let valid = !matches!(
+                rmc.status_of_fix,
+                ::nmea::sentences::rmc::RmcStatusOfFix::Invalid
+            );
             vec![Reading::Fix {
                 time_of_day_s,
                 date_days,
@@ -290,7 +307,12 @@ fn number(field: &str) -> Result<Option<f64>, BadLine> {
     if field.is_empty() {
         return Ok(None);
     }
-    field.parse::<f64>().ok().filter(|v| v.is_finite()).map(Some).ok_or(BadLine::BadFields)
+    field
+        .parse::<f64>()
+        .ok()
+        .filter(|v| v.is_finite())
+        .map(Some)
+        .ok_or(BadLine::BadFields)
 }
 
 /// `$--HDG,heading,deviation,E/W,variation,E/W`.
@@ -335,7 +357,7 @@ fn read_rpm(fields: &[&str]) -> Result<Reading, BadLine> {
 
 /// `$--XDR,type,value,unit,name[,type,value,unit,name…]`.
 fn read_xdr(fields: &[&str]) -> Result<Vec<Reading>, BadLine> {
-    if fields.is_empty() || fields.len() % 4 != 0 {
+    if fields.is_empty() || !fields.len().is_multiple_of(4) {
         return Err(BadLine::BadFields);
     }
     let mut readings = Vec::new();
@@ -349,9 +371,16 @@ fn read_xdr(fields: &[&str]) -> Result<Vec<Reading>, BadLine> {
                 .into_iter()
                 .rev()
                 .collect();
-            let n = if digits.is_empty() { 1 } else { digits.parse().map_err(|_| BadLine::BadFields)? };
+            let n = if digits.is_empty() {
+                1
+            } else {
+                digits.parse().map_err(|_| BadLine::BadFields)?
+            };
             let rpm = number(quad[1])?;
-            readings.push(Reading::Rpm(RpmSource::Engine(n), rpm.filter(|r| *r >= 0.0)));
+            readings.push(Reading::Rpm(
+                RpmSource::Engine(n),
+                rpm.filter(|r| *r >= 0.0),
+            ));
         }
     }
     Ok(readings)
@@ -360,12 +389,19 @@ fn read_xdr(fields: &[&str]) -> Result<Vec<Reading>, BadLine> {
 /// The automatic rpm choice among `seen` sources: engine 1, else the lowest engine, else the
 /// lowest shaft.
 pub fn choose_rpm_source(seen: &[RpmSource]) -> Option<RpmSource> {
-    let mut engines: Vec<RpmSource> = seen.iter().copied().filter(|s| matches!(s, RpmSource::Engine(_))).collect();
+    let mut engines: Vec<RpmSource> = seen
+        .iter()
+        .copied()
+        .filter(|s| matches!(s, RpmSource::Engine(_)))
+        .collect();
     engines.sort();
     if engines.contains(&RpmSource::Engine(1)) {
         return Some(RpmSource::Engine(1));
     }
-    engines.first().copied().or_else(|| seen.iter().copied().min())
+    engines
+        .first()
+        .copied()
+        .or_else(|| seen.iter().copied().min())
 }
 
 /// A value with the time it was read, s.
@@ -433,7 +469,12 @@ impl NmeaReader {
     /// Reads one line (1-based `line_number` for the summary); `receipt_time_s` is the clock to
     /// use when the line has no timestamp of its own (live feeds), unix s. Returns the sample
     /// completed by this line, if any.
-    pub fn push_line(&mut self, line: &[u8], line_number: usize, receipt_time_s: Option<f64>) -> Option<Sample> {
+    pub fn push_line(
+        &mut self,
+        line: &[u8],
+        line_number: usize,
+        receipt_time_s: Option<f64>,
+    ) -> Option<Sample> {
         self.summary.lines += 1;
         let parsed = match parse_line(line) {
             Ok(p) => p,
@@ -445,7 +486,12 @@ impl NmeaReader {
         // The RMC's own clock, for logs without timestamps.
         let mut rmc_time = None;
         for reading in &parsed.readings {
-            if let Reading::Fix { time_of_day_s: Some(tod), date_days, .. } = reading {
+            if let Reading::Fix {
+                time_of_day_s: Some(tod),
+                date_days,
+                ..
+            } = reading
+            {
                 if date_days.is_some() {
                     self.rmc_date_days = *date_days;
                 }
@@ -460,7 +506,9 @@ impl NmeaReader {
             self.summary.count_bad(line_number, BadLine::NoTime);
             return None;
         };
-        if self.first_date.is_none() && (parsed.time_s.is_some() || receipt_time_s.is_some() || self.rmc_date_days.is_some()) {
+        if self.first_date.is_none()
+            && (parsed.time_s.is_some() || receipt_time_s.is_some() || self.rmc_date_days.is_some())
+        {
             self.first_date = Some(super::time::date_of(time_s));
         }
         let completed = self.advance(time_s);
@@ -493,7 +541,10 @@ impl NmeaReader {
     }
 
     fn sample_at(&self, tick: f64) -> Option<Sample> {
-        let fresh = |s: Option<Stamped>| s.filter(|s| tick - s.time_s <= self.max_age_s).map(|s| s.value);
+        let fresh = |s: Option<Stamped>| {
+            s.filter(|s| tick - s.time_s <= self.max_age_s)
+                .map(|s| s.value)
+        };
         let sample = Sample {
             time_s: tick,
             engine_rpm: fresh(self.latest.rpm),
@@ -516,14 +567,26 @@ impl NmeaReader {
         let mut used = false;
         for reading in readings {
             match *reading {
-                Reading::Fix { valid, speed_over_ground, course_over_ground_deg, .. } => {
+                Reading::Fix {
+                    valid,
+                    speed_over_ground,
+                    course_over_ground_deg,
+                    ..
+                } => {
                     self.fix_valid = valid;
-                    let (sog, cog) = if valid { (speed_over_ground, course_over_ground_deg) } else { (None, None) };
+                    let (sog, cog) = if valid {
+                        (speed_over_ground, course_over_ground_deg)
+                    } else {
+                        (None, None)
+                    };
                     self.latest.sog = stamp(sog);
                     self.latest.cog = stamp(cog);
                     used = true;
                 }
-                Reading::Track { speed_over_ground, course_over_ground_deg } => {
+                Reading::Track {
+                    speed_over_ground,
+                    course_over_ground_deg,
+                } => {
                     if self.fix_valid {
                         if speed_over_ground.is_some() {
                             self.latest.sog = stamp(speed_over_ground);
@@ -620,11 +683,21 @@ mod tests {
     fn rmc_gives_time_date_and_speed() {
         let rmc = "$GPRMC,123519,A,4807.038,N,01131.000,E,022.4,084.4,230394,003.1,W*6A";
         let r = parse_sentence(rmc).unwrap();
-        let Reading::Fix { time_of_day_s, date_days, valid, speed_over_ground, course_over_ground_deg } = r[0] else {
+        let Reading::Fix {
+            time_of_day_s,
+            date_days,
+            valid,
+            speed_over_ground,
+            course_over_ground_deg,
+        } = r[0]
+        else {
             panic!("{r:?}")
         };
         assert_eq!(time_of_day_s, Some(12.0 * 3600.0 + 35.0 * 60.0 + 19.0));
-        assert_eq!(date_days, Some(super::super::time::days_from_civil(1994, 3, 23)));
+        assert_eq!(
+            date_days,
+            Some(super::super::time::days_from_civil(1994, 3, 23))
+        );
         assert!(valid);
         // 22.4 kn × 1852/3600 = 11.5236 m/s (BIPM SI Brochure, Table 8: knot).
         assert!((speed_over_ground.unwrap() - 11.523_555).abs() < 1e-4);
@@ -635,10 +708,14 @@ mod tests {
     fn hdg_applies_deviation_and_variation() {
         let s = with_checksum("HCHDG,98.3,0.0,E,12.6,W");
         assert_eq!(parse_sentence(&s).unwrap().len(), 1);
-        let Reading::Heading(h) = parse_sentence(&s).unwrap()[0] else { panic!() };
+        let Reading::Heading(h) = parse_sentence(&s).unwrap()[0] else {
+            panic!()
+        };
         assert!((h - 85.7).abs() < 1e-9, "{h}");
         let s = with_checksum("HCHDG,5.0,,,10.0,W");
-        let Reading::Heading(h) = parse_sentence(&s).unwrap()[0] else { panic!() };
+        let Reading::Heading(h) = parse_sentence(&s).unwrap()[0] else {
+            panic!()
+        };
         assert!((h - 355.0).abs() < 1e-9, "{h}");
     }
 
@@ -648,8 +725,14 @@ mod tests {
         assert_eq!(r, vec![Reading::Rpm(RpmSource::Engine(2), Some(1650.5))]);
         let r = parse_sentence(&with_checksum("ERRPM,S,1,820,,V")).unwrap();
         assert_eq!(r, vec![Reading::Rpm(RpmSource::Shaft(1), None)]);
-        assert_eq!(parse_sentence(&with_checksum("ERRPM,X,1,820,,A")), Err(BadLine::BadFields));
-        assert_eq!(parse_sentence(&with_checksum("ERRPM,E,1,fast,,A")), Err(BadLine::BadFields));
+        assert_eq!(
+            parse_sentence(&with_checksum("ERRPM,X,1,820,,A")),
+            Err(BadLine::BadFields)
+        );
+        assert_eq!(
+            parse_sentence(&with_checksum("ERRPM,E,1,fast,,A")),
+            Err(BadLine::BadFields)
+        );
     }
 
     #[test]
@@ -658,7 +741,10 @@ mod tests {
         assert_eq!(r, vec![Reading::Rpm(RpmSource::Engine(2), Some(1200.0))]);
         let r = parse_sentence(&with_checksum("IIXDR,T,900,R,MAIN")).unwrap();
         assert_eq!(r, vec![Reading::Rpm(RpmSource::Engine(1), Some(900.0))]);
-        assert_eq!(parse_sentence(&with_checksum("IIXDR,T,900,R")), Err(BadLine::BadFields));
+        assert_eq!(
+            parse_sentence(&with_checksum("IIXDR,T,900,R")),
+            Err(BadLine::BadFields)
+        );
     }
 
     #[test]
@@ -666,22 +752,48 @@ mod tests {
         assert_eq!(parse_line(b"$GPHDT,1.0,T*35"), Err(BadLine::BadChecksum));
         assert_eq!(parse_line(b"$GPHDT,1.0,T"), Err(BadLine::MissingChecksum));
         assert_eq!(parse_line(b"$GPHDT,1.0,T*3"), Err(BadLine::MissingChecksum));
-        assert_eq!(parse_line(with_checksum("QQHDT,1.0,T").as_bytes()), Err(BadLine::UnknownTalker));
-        assert_eq!(parse_line(with_checksum("GPXYZ,1.0,T").as_bytes()), Err(BadLine::UnknownSentence));
+        assert_eq!(
+            parse_line(with_checksum("QQHDT,1.0,T").as_bytes()),
+            Err(BadLine::UnknownTalker)
+        );
+        assert_eq!(
+            parse_line(with_checksum("GPXYZ,1.0,T").as_bytes()),
+            Err(BadLine::UnknownSentence)
+        );
         assert_eq!(parse_line(b"\x00\x9f\xffGP"), Err(BadLine::NotText));
         assert_eq!(parse_line(b"hello world"), Err(BadLine::NotASentence));
-        assert_eq!(parse_line(b"12:00 $GPHDT,1.0,T*34"), Err(BadLine::BadTimestamp));
-        assert_eq!(parse_line(with_checksum("GPRMC,garbage").as_bytes()), Err(BadLine::BadFields));
+        assert_eq!(
+            parse_line(b"12:00 $GPHDT,1.0,T*34"),
+            Err(BadLine::BadTimestamp)
+        );
+        assert_eq!(
+            parse_line(with_checksum("GPRMC,garbage").as_bytes()),
+            Err(BadLine::BadFields)
+        );
         // Known but unused, proprietary and AIS are valid and ignored.
-        assert_eq!(parse_line(with_checksum("GPGSA,A,3,,,,,,,,,,,,,1.0,1.0,1.0").as_bytes()).unwrap().readings, vec![]);
-        assert_eq!(parse_line(with_checksum("PXYZA,1").as_bytes()).unwrap().readings, vec![]);
+        assert_eq!(
+            parse_line(with_checksum("GPGSA,A,3,,,,,,,,,,,,,1.0,1.0,1.0").as_bytes())
+                .unwrap()
+                .readings,
+            vec![]
+        );
+        assert_eq!(
+            parse_line(with_checksum("PXYZA,1").as_bytes())
+                .unwrap()
+                .readings,
+            vec![]
+        );
     }
 
     #[test]
     fn mixed_talkers_are_accepted() {
         for talker in ["GP", "GN", "II", "IN", "EC", "HE"] {
             let s = with_checksum(&format!("{talker}HDT,10.0,T"));
-            assert_eq!(parse_sentence(&s), Ok(vec![Reading::Heading(10.0)]), "{talker}");
+            assert_eq!(
+                parse_sentence(&s),
+                Ok(vec![Reading::Heading(10.0)]),
+                "{talker}"
+            );
         }
     }
 
@@ -697,7 +809,10 @@ mod tests {
         let tag = "c:1700000000";
         let p = parse_line(format!("\\{tag}*{:02X}\\{hdt}", checksum(tag)).as_bytes()).unwrap();
         assert_eq!(p.time_s, Some(1_700_000_000.0));
-        assert_eq!(parse_line(format!("\\{tag}*00\\{hdt}").as_bytes()), Err(BadLine::BadChecksum));
+        assert_eq!(
+            parse_line(format!("\\{tag}*00\\{hdt}").as_bytes()),
+            Err(BadLine::BadChecksum)
+        );
     }
 
     #[test]
@@ -735,7 +850,10 @@ mod tests {
         assert!(samples[0].speed_over_ground.is_some());
         assert_eq!(samples[1].speed_over_ground, None);
         assert_eq!(reader.date(), Some("2023-11-14"));
-        assert_eq!(samples[0].time_s, 1_700_000_000.0 - 22.0 * 3600.0 - 13.0 * 60.0 - 20.0 + 12.0 * 3600.0);
+        assert_eq!(
+            samples[0].time_s,
+            1_700_000_000.0 - 22.0 * 3600.0 - 13.0 * 60.0 - 20.0 + 12.0 * 3600.0
+        );
     }
 
     #[test]

@@ -26,7 +26,9 @@
 //! reciprocal; the earlier is [`RunDirection::Out`], the later [`RunDirection::Back`], so the
 //! core's two-way mean removes a steady current.
 
-use super::{LineSummary, METRES_PER_SECOND_PER_KNOT, Sample, angle_between_deg, circular_mean_deg};
+use super::{
+    LineSummary, METRES_PER_SECOND_PER_KNOT, Sample, angle_between_deg, circular_mean_deg,
+};
 use crate::propulsion::solver::trial::{RunDirection, TrialRun};
 use std::fmt;
 
@@ -81,7 +83,8 @@ impl Default for RunOptions {
 impl RunOptions {
     /// The rpm tolerance at `rpm`, rpm.
     pub fn rpm_tolerance(&self, rpm: f64) -> f64 {
-        self.rpm_tolerance_rpm.max(self.rpm_tolerance_fraction * rpm.abs())
+        self.rpm_tolerance_rpm
+            .max(self.rpm_tolerance_fraction * rpm.abs())
     }
 }
 
@@ -169,21 +172,47 @@ impl fmt::Display for RejectReason {
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
         let kn = |v: f64| v / METRES_PER_SECOND_PER_KNOT;
         match *self {
-            RejectReason::TooShort { duration_s, needed_s } => {
-                write!(f, "too short: steady {duration_s:.0} s of {needed_s:.0} s needed")
+            RejectReason::TooShort {
+                duration_s,
+                needed_s,
+            } => {
+                write!(
+                    f,
+                    "too short: steady {duration_s:.0} s of {needed_s:.0} s needed"
+                )
             }
             RejectReason::NoGpsFix { fix_fraction } => {
-                write!(f, "no GPS fix: speed in {:.0} % of samples", 100.0 * fix_fraction)
+                write!(
+                    f,
+                    "no GPS fix: speed in {:.0} % of samples",
+                    100.0 * fix_fraction
+                )
             }
             RejectReason::NotUnderWay { speed } => write!(f, "not under way: {:.2} kn", kn(speed)),
             RejectReason::SpeedNotSteady { std, limit } => {
-                write!(f, "speed not steady: ±{:.2} kn scatter, limit {:.2} kn", kn(std), kn(limit))
+                write!(
+                    f,
+                    "speed not steady: ±{:.2} kn scatter, limit {:.2} kn",
+                    kn(std),
+                    kn(limit)
+                )
             }
             RejectReason::SpeedDrifting { change, limit } => {
-                write!(f, "speed drifting: {:+.2} kn over the run, limit {:.2} kn", kn(change), kn(limit))
+                write!(
+                    f,
+                    "speed drifting: {:+.2} kn over the run, limit {:.2} kn",
+                    kn(change),
+                    kn(limit)
+                )
             }
-            RejectReason::RpmDrifting { change_rpm, limit_rpm } => {
-                write!(f, "rpm drifting: {change_rpm:+.0} rpm over the run, limit {limit_rpm:.0} rpm")
+            RejectReason::RpmDrifting {
+                change_rpm,
+                limit_rpm,
+            } => {
+                write!(
+                    f,
+                    "rpm drifting: {change_rpm:+.0} rpm over the run, limit {limit_rpm:.0} rpm"
+                )
             }
         }
     }
@@ -304,13 +333,18 @@ impl RunFinder {
     }
 
     fn under_way(&self, sample: &Sample) -> Option<f64> {
-        sample
-            .course_over_ground_deg
-            .filter(|_| sample.speed_over_ground.is_some_and(|v| v >= self.options.min_speed))
+        sample.course_over_ground_deg.filter(|_| {
+            sample
+                .speed_over_ground
+                .is_some_and(|v| v >= self.options.min_speed)
+        })
     }
 
     fn off_course(&self, sample: &Sample) -> bool {
-        let (Some(course), true) = (self.under_way(sample), self.course_sin.hypot(self.course_cos) > 0.0) else {
+        let (Some(course), true) = (
+            self.under_way(sample),
+            self.course_sin.hypot(self.course_cos) > 0.0,
+        ) else {
             return false;
         };
         let mean = self.course_sin.atan2(self.course_cos).to_degrees();
@@ -337,7 +371,11 @@ impl RunFinder {
             return None;
         }
         let settled_from = first.time_s + self.options.settle_s;
-        let kept: Vec<Sample> = segment.iter().copied().filter(|s| s.time_s >= settled_from).collect();
+        let kept: Vec<Sample> = segment
+            .iter()
+            .copied()
+            .filter(|s| s.time_s >= settled_from)
+            .collect();
         match self.evaluate(&kept) {
             Ok(run) => {
                 self.runs.push(run);
@@ -366,9 +404,15 @@ impl RunFinder {
             _ => 0.0,
         };
         if duration_s < o.min_duration_s {
-            return Err(RejectReason::TooShort { duration_s, needed_s: o.min_duration_s });
+            return Err(RejectReason::TooShort {
+                duration_s,
+                needed_s: o.min_duration_s,
+            });
         }
-        let with_fix: Vec<(f64, f64)> = kept.iter().filter_map(|s| s.speed_over_ground.map(|v| (s.time_s, v))).collect();
+        let with_fix: Vec<(f64, f64)> = kept
+            .iter()
+            .filter_map(|s| s.speed_over_ground.map(|v| (s.time_s, v)))
+            .collect();
         let fix_fraction = with_fix.len() as f64 / kept.len() as f64;
         if fix_fraction < o.min_fix_fraction {
             return Err(RejectReason::NoGpsFix { fix_fraction });
@@ -377,20 +421,34 @@ impl RunFinder {
         if speed < o.min_speed {
             return Err(RejectReason::NotUnderWay { speed });
         }
-        let std = mean(with_fix.iter().map(|p| (p.1 - speed).powi(2))).unwrap_or(0.0).sqrt();
+        let std = mean(with_fix.iter().map(|p| (p.1 - speed).powi(2)))
+            .unwrap_or(0.0)
+            .sqrt();
         if std > o.max_speed_std {
-            return Err(RejectReason::SpeedNotSteady { std, limit: o.max_speed_std });
+            return Err(RejectReason::SpeedNotSteady {
+                std,
+                limit: o.max_speed_std,
+            });
         }
         let change = slope(&with_fix) * duration_s;
         if change.abs() > o.max_speed_drift {
-            return Err(RejectReason::SpeedDrifting { change, limit: o.max_speed_drift });
+            return Err(RejectReason::SpeedDrifting {
+                change,
+                limit: o.max_speed_drift,
+            });
         }
-        let rpms: Vec<(f64, f64)> = kept.iter().filter_map(|s| s.engine_rpm.map(|r| (s.time_s, r))).collect();
+        let rpms: Vec<(f64, f64)> = kept
+            .iter()
+            .filter_map(|s| s.engine_rpm.map(|r| (s.time_s, r)))
+            .collect();
         let engine_rpm = mean(rpms.iter().map(|p| p.1)).unwrap_or(0.0);
         let change_rpm = slope(&rpms) * duration_s;
         let limit_rpm = o.rpm_tolerance(engine_rpm);
         if change_rpm.abs() > limit_rpm {
-            return Err(RejectReason::RpmDrifting { change_rpm, limit_rpm });
+            return Err(RejectReason::RpmDrifting {
+                change_rpm,
+                limit_rpm,
+            });
         }
         Ok(SteadyRun {
             start_s: kept[0].time_s,
@@ -399,7 +457,9 @@ impl RunFinder {
             engine_rpm,
             speed_over_ground: speed,
             speed_over_ground_std: std,
-            course_over_ground_deg: circular_mean_deg(kept.iter().filter_map(|s| s.course_over_ground_deg)),
+            course_over_ground_deg: circular_mean_deg(
+                kept.iter().filter_map(|s| s.course_over_ground_deg),
+            ),
             heading_deg: circular_mean_deg(kept.iter().filter_map(|s| s.heading_deg)),
             speed_through_water: mean(kept.iter().filter_map(|s| s.speed_through_water)),
             fuel_volume_flow: mean(kept.iter().filter_map(|s| s.fuel_volume_flow)),
@@ -411,15 +471,17 @@ impl RunFinder {
     /// Pairs run `index` with the latest earlier unpaired reciprocal run at the same rpm.
     fn pair(&mut self, index: usize) {
         let run = self.runs[index];
-        let Some(course) = run.course_over_ground_deg else { return };
+        let Some(course) = run.course_over_ground_deg else {
+            return;
+        };
         let tolerance = self.options.rpm_tolerance(run.engine_rpm);
         let partner = (0..index).rev().find(|&i| {
             let other = &self.runs[i];
             other.pair.is_none()
                 && (other.engine_rpm - run.engine_rpm).abs() <= tolerance
-                && other
-                    .course_over_ground_deg
-                    .is_some_and(|c| angle_between_deg(c, course) >= 180.0 - self.options.reciprocal_tolerance_deg)
+                && other.course_over_ground_deg.is_some_and(|c| {
+                    angle_between_deg(c, course) >= 180.0 - self.options.reciprocal_tolerance_deg
+                })
         });
         if let Some(i) = partner {
             self.runs[i].pair = Some(index);
@@ -437,7 +499,10 @@ fn mean(values: impl Iterator<Item = f64>) -> Option<f64> {
 
 /// Least-squares slope of y on x (per unit x); 0 with fewer than two distinct x.
 fn slope(points: &[(f64, f64)]) -> f64 {
-    let (Some(mx), Some(my)) = (mean(points.iter().map(|p| p.0)), mean(points.iter().map(|p| p.1))) else {
+    let (Some(mx), Some(my)) = (
+        mean(points.iter().map(|p| p.0)),
+        mean(points.iter().map(|p| p.1)),
+    ) else {
         return 0.0;
     };
     let sxx: f64 = points.iter().map(|p| (p.0 - mx).powi(2)).sum();
@@ -461,7 +526,10 @@ pub struct FoundRuns {
 impl FoundRuns {
     /// Number of reciprocal pairs.
     pub fn pair_count(&self) -> usize {
-        self.runs.iter().filter(|r| r.direction == Some(RunDirection::Back)).count()
+        self.runs
+            .iter()
+            .filter(|r| r.direction == Some(RunDirection::Back))
+            .count()
     }
 
     /// The runs as the core's trial runs. The two runs of a pair both carry the pair's mean
@@ -493,19 +561,21 @@ pub enum NoRunError {
     #[error("the log holds no usable samples: {summary}")]
     NoSamples {
         /// The log's line summary.
-        summary: LineSummary,
+        summary: Box<LineSummary>,
     },
     /// Samples, but none with engine rpm.
-    #[error("the log has no engine rpm (no RPM sentence or XDR tachometer for the chosen engine, or no rpm column): {summary}")]
+    #[error(
+        "the log has no engine rpm (no RPM sentence or XDR tachometer for the chosen engine, or no rpm column): {summary}"
+    )]
     NoRpm {
         /// The log's line summary.
-        summary: LineSummary,
+        summary: Box<LineSummary>,
     },
     /// Samples, but none with a GPS speed.
     #[error("the log has no speed over ground (no valid GPS fix): {summary}")]
     NoSpeed {
         /// The log's line summary.
-        summary: LineSummary,
+        summary: Box<LineSummary>,
     },
     /// Samples with rpm and speed, but no stretch steady long enough.
     #[error("no steady run found: {} segment(s) rejected{}, {transients} transient(s); {summary}", rejected.len(), reasons(rejected))]
@@ -515,7 +585,7 @@ pub enum NoRunError {
         /// Transients.
         transients: usize,
         /// The log's line summary.
-        summary: LineSummary,
+        summary: Box<LineSummary>,
     },
 }
 
@@ -523,13 +593,25 @@ fn reasons(rejected: &[RejectedRun]) -> String {
     if rejected.is_empty() {
         return String::new();
     }
-    let list: Vec<String> = rejected.iter().take(3).map(|r| r.reason.to_string()).collect();
-    format!(" ({}{})", list.join("; "), if rejected.len() > 3 { "; …" } else { "" })
+    let list: Vec<String> = rejected
+        .iter()
+        .take(3)
+        .map(|r| r.reason.to_string())
+        .collect();
+    format!(
+        " ({}{})",
+        list.join("; "),
+        if rejected.len() > 3 { "; …" } else { "" }
+    )
 }
 
 /// Finds the steady runs in `samples` (time order) with a [`RunFinder`].
-pub fn find_runs(samples: &[Sample], options: &RunOptions, summary: &LineSummary) -> Result<FoundRuns, NoRunError> {
-    let summary = summary.clone();
+pub fn find_runs(
+    samples: &[Sample],
+    options: &RunOptions,
+    summary: &LineSummary,
+) -> Result<FoundRuns, NoRunError> {
+    let summary = Box::new(summary.clone());
     if samples.is_empty() {
         return Err(NoRunError::NoSamples { summary });
     }
@@ -543,12 +625,12 @@ pub fn find_runs(samples: &[Sample], options: &RunOptions, summary: &LineSummary
     for sample in samples {
         finder.push(sample);
     }
-    let found = finder.into_found(summary);
+    let found = finder.into_found(*summary);
     if found.runs.is_empty() {
         return Err(NoRunError::NoSteadyRun {
             rejected: found.rejected,
             transients: found.transients,
-            summary: found.summary,
+            summary: Box::new(found.summary),
         });
     }
     Ok(found)
@@ -609,9 +691,18 @@ mod tests {
         // 50 s steady: 30 s after settling, too short.
         let short = steady(0.0, 50, 1500.0, 3.0, 10.0);
         let err = find_runs(&short, &RunOptions::default(), &LineSummary::default()).unwrap_err();
-        let NoRunError::NoSteadyRun { rejected, .. } = &err else { panic!("{err}") };
-        assert!(matches!(rejected[0].reason, RejectReason::TooShort { .. }), "{err}");
-        assert!(err.to_string().contains("too short: steady 29 s of 60 s needed"), "{err}");
+        let NoRunError::NoSteadyRun { rejected, .. } = &err else {
+            panic!("{err}")
+        };
+        assert!(
+            matches!(rejected[0].reason, RejectReason::TooShort { .. }),
+            "{err}"
+        );
+        assert!(
+            err.to_string()
+                .contains("too short: steady 29 s of 60 s needed"),
+            "{err}"
+        );
 
         // Speed still rising 0.01 m/s each second: 0.8 m/s over the run.
         let mut rising = steady(0.0, 100, 1500.0, 3.0, 10.0);
@@ -619,8 +710,13 @@ mod tests {
             s.speed_over_ground = Some(2.0 + 0.01 * i as f64);
         }
         let err = find_runs(&rising, &RunOptions::default(), &LineSummary::default()).unwrap_err();
-        let NoRunError::NoSteadyRun { rejected, .. } = &err else { panic!("{err}") };
-        assert!(matches!(rejected[0].reason, RejectReason::SpeedNotSteady { .. } | RejectReason::SpeedDrifting { .. }));
+        let NoRunError::NoSteadyRun { rejected, .. } = &err else {
+            panic!("{err}")
+        };
+        assert!(matches!(
+            rejected[0].reason,
+            RejectReason::SpeedNotSteady { .. } | RejectReason::SpeedDrifting { .. }
+        ));
 
         // No fix for half the run.
         let mut nofix = steady(0.0, 100, 1500.0, 3.0, 10.0);
@@ -628,7 +724,9 @@ mod tests {
             s.speed_over_ground = None;
         }
         let err = find_runs(&nofix, &RunOptions::default(), &LineSummary::default()).unwrap_err();
-        let NoRunError::NoSteadyRun { rejected, .. } = &err else { panic!("{err}") };
+        let NoRunError::NoSteadyRun { rejected, .. } = &err else {
+            panic!("{err}")
+        };
         assert!(matches!(rejected[0].reason, RejectReason::NoGpsFix { .. }));
 
         // rpm creeping up 0.4 rpm/s: within 25 rpm of the mean all along, 40 rpm over the run.
@@ -636,9 +734,15 @@ mod tests {
         for (i, s) in creeping.iter_mut().enumerate() {
             s.engine_rpm = Some(1480.0 + 0.4 * i as f64);
         }
-        let err = find_runs(&creeping, &RunOptions::default(), &LineSummary::default()).unwrap_err();
-        let NoRunError::NoSteadyRun { rejected, .. } = &err else { panic!("{err}") };
-        assert!(matches!(rejected[0].reason, RejectReason::RpmDrifting { .. }), "{err}");
+        let err =
+            find_runs(&creeping, &RunOptions::default(), &LineSummary::default()).unwrap_err();
+        let NoRunError::NoSteadyRun { rejected, .. } = &err else {
+            panic!("{err}")
+        };
+        assert!(
+            matches!(rejected[0].reason, RejectReason::RpmDrifting { .. }),
+            "{err}"
+        );
     }
 
     #[test]
@@ -647,17 +751,26 @@ mod tests {
         assert!(matches!(none, Err(NoRunError::NoSamples { .. })));
         let mut s = steady(0.0, 100, 1500.0, 3.0, 10.0);
         s.iter_mut().for_each(|s| s.engine_rpm = None);
-        assert!(matches!(find_runs(&s, &RunOptions::default(), &LineSummary::default()), Err(NoRunError::NoRpm { .. })));
+        assert!(matches!(
+            find_runs(&s, &RunOptions::default(), &LineSummary::default()),
+            Err(NoRunError::NoRpm { .. })
+        ));
         let mut s = steady(0.0, 100, 1500.0, 3.0, 10.0);
         s.iter_mut().for_each(|s| s.speed_over_ground = None);
-        assert!(matches!(find_runs(&s, &RunOptions::default(), &LineSummary::default()), Err(NoRunError::NoSpeed { .. })));
+        assert!(matches!(
+            find_runs(&s, &RunOptions::default(), &LineSummary::default()),
+            Err(NoRunError::NoSpeed { .. })
+        ));
     }
 
     #[test]
     fn live_push_reports_each_run_when_it_ends() {
         let mut finder = RunFinder::new(RunOptions::default());
         let mut events = Vec::new();
-        for s in steady(0.0, 100, 1500.0, 3.0, 10.0).iter().chain(&steady(100.0, 100, 2000.0, 4.0, 10.0)) {
+        for s in steady(0.0, 100, 1500.0, 3.0, 10.0)
+            .iter()
+            .chain(&steady(100.0, 100, 2000.0, 4.0, 10.0))
+        {
             events.extend(finder.push(s));
         }
         assert_eq!(events, vec![RunEvent::Accepted(0)]);
@@ -671,7 +784,9 @@ mod tests {
         let mut samples = steady(0.0, 50, 1500.0, 3.0, 10.0);
         samples.extend(steady(60.0, 50, 1500.0, 3.0, 10.0));
         let err = find_runs(&samples, &RunOptions::default(), &LineSummary::default()).unwrap_err();
-        let NoRunError::NoSteadyRun { rejected, .. } = err else { panic!() };
+        let NoRunError::NoSteadyRun { rejected, .. } = err else {
+            panic!()
+        };
         assert_eq!(rejected.len(), 2);
     }
 }

@@ -128,7 +128,11 @@ pub struct XorShift(u64);
 impl XorShift {
     /// A generator from `seed` (0 is replaced, the state must not be zero).
     pub fn new(seed: u64) -> Self {
-        Self(if seed == 0 { 0x9E37_79B9_7F4A_7C15 } else { seed })
+        Self(if seed == 0 {
+            0x9E37_79B9_7F4A_7C15
+        } else {
+            seed
+        })
     }
 
     /// Next 64 random bits.
@@ -177,28 +181,41 @@ pub fn generate(
         stw: speed_through_water_at(first_rpm),
     };
     let lag = 1.0 - (-dt / spec.speed_time_constant_s).exp();
-    let step = |state: &mut State, states: &mut Vec<(f64, f64, f64, f64)>, rpm: f64, heading: f64| {
-        state.rpm = rpm;
-        state.heading_deg = heading;
-        state.stw += (speed_through_water_at(rpm) - state.stw) * lag;
-        states.push((state.time_s, state.rpm, state.heading_deg, state.stw));
-        state.time_s += dt;
-    };
+    let step =
+        |state: &mut State, states: &mut Vec<(f64, f64, f64, f64)>, rpm: f64, heading: f64| {
+            state.rpm = rpm;
+            state.heading_deg = heading;
+            state.stw += (speed_through_water_at(rpm) - state.stw) * lag;
+            states.push((state.time_s, state.rpm, state.heading_deg, state.stw));
+            state.time_s += dt;
+        };
     let ticks = |seconds: f64| (seconds / dt).round() as usize;
     let back_course = (spec.out_course_deg + 180.0).rem_euclid(360.0);
     for &rpm in &spec.rpm_steps {
         let from = state.rpm;
         for i in 0..ticks(spec.throttle_s) {
             let f = (i + 1) as f64 / ticks(spec.throttle_s) as f64;
-            step(&mut state, &mut states, from + (rpm - from) * f, spec.out_course_deg);
+            step(
+                &mut state,
+                &mut states,
+                from + (rpm - from) * f,
+                spec.out_course_deg,
+            );
         }
-        for (course, direction) in [(spec.out_course_deg, RunDirection::Out), (back_course, RunDirection::Back)] {
+        for (course, direction) in [
+            (spec.out_course_deg, RunDirection::Out),
+            (back_course, RunDirection::Back),
+        ] {
             let start_s = state.time_s;
             for _ in 0..ticks(spec.leg_s) {
                 step(&mut state, &mut states, rpm, course);
             }
             let stw = speed_through_water_at(rpm);
-            let sign = if direction == RunDirection::Out { 1.0 } else { -1.0 };
+            let sign = if direction == RunDirection::Out {
+                1.0
+            } else {
+                -1.0
+            };
             legs.push(SynthLeg {
                 engine_rpm: rpm,
                 course_deg: course,
@@ -224,7 +241,8 @@ pub fn generate(
         let (cs, cc) = spec.out_course_deg.to_radians().sin_cos();
         let (east, north) = (stw * hs + spec.current * cs, stw * hc + spec.current * cc);
         let sog = east.hypot(north) + spec.sog_noise * rng.normal();
-        let cog = (east.atan2(north).to_degrees() + spec.cog_noise_deg * rng.normal()).rem_euclid(360.0);
+        let cog =
+            (east.atan2(north).to_degrees() + spec.cog_noise_deg * rng.normal()).rem_euclid(360.0);
         let rpm_read = rpm + spec.rpm_noise * rng.normal();
         lat += north * dt / 111_120.0;
         lon += east * dt / (111_120.0 * lat.to_radians().cos());
@@ -242,12 +260,19 @@ pub fn generate(
                 nmea_angle(lon, 3, 'E', 'W'),
                 y.rem_euclid(100)
             ),
-            format!("{talker}VTG,{cog:.1},T,,M,{sog_kn:.2},N,{:.2},K,A", sog * 3.6),
+            format!(
+                "{talker}VTG,{cog:.1},T,,M,{sog_kn:.2},N,{:.2},K,A",
+                sog * 3.6
+            ),
             format!("HEHDT,{:.1},T", heading.rem_euclid(360.0)),
             format!("ERRPM,E,1,{rpm_read:.0},,A"),
         ];
         if spec.vhw {
-            sentences.push(format!("VWVHW,{:.1},T,,M,{stw_kn:.2},N,{:.2},K", heading.rem_euclid(360.0), stw * 3.6));
+            sentences.push(format!(
+                "VWVHW,{:.1},T,,M,{stw_kn:.2},N,{:.2},K",
+                heading.rem_euclid(360.0),
+                stw * 3.6
+            ));
         }
         if spec.xdr {
             sentences.push(format!("IIXDR,T,{rpm_read:.0},R,ENGINE1"));
@@ -271,8 +296,13 @@ pub fn generate(
             nmea.push_str("\r\n");
         }
         let heading = heading.rem_euclid(360.0);
-        let fuel_lph = fuel.map(|f| format!("{:.3}", f * 3.6e6)).unwrap_or_default();
-        let _ = writeln!(csv, "{time_s:.1},{rpm_read:.0},{sog_kn:.3},{cog:.1},{heading:.1},{stw_kn:.3},{fuel_lph}");
+        let fuel_lph = fuel
+            .map(|f| format!("{:.3}", f * 3.6e6))
+            .unwrap_or_default();
+        let _ = writeln!(
+            csv,
+            "{time_s:.1},{rpm_read:.0},{sog_kn:.3},{cog:.1},{heading:.1},{stw_kn:.3},{fuel_lph}"
+        );
     }
     SynthLog { nmea, csv, legs }
 }
@@ -283,7 +313,11 @@ fn nmea_angle(value: f64, degree_digits: usize, positive: char, negative: char) 
     let value = value.abs();
     let degrees = value.floor();
     let minutes = (value - degrees) * 60.0;
-    format!("{:0w$}{minutes:07.4},{hemisphere}", degrees as u32, w = degree_digits)
+    format!(
+        "{:0w$}{minutes:07.4},{hemisphere}",
+        degrees as u32,
+        w = degree_digits
+    )
 }
 
 #[cfg(test)]
@@ -292,7 +326,10 @@ mod tests {
 
     #[test]
     fn same_seed_same_log() {
-        let spec = SynthSpec { rpm_steps: vec![1500.0], ..SynthSpec::default() };
+        let spec = SynthSpec {
+            rpm_steps: vec![1500.0],
+            ..SynthSpec::default()
+        };
         let a = generate(&spec, |rpm| rpm / 500.0, None);
         let b = generate(&spec, |rpm| rpm / 500.0, None);
         assert_eq!(a, b);
@@ -314,11 +351,21 @@ mod tests {
 
     #[test]
     fn every_sentence_checks() {
-        let spec = SynthSpec { rpm_steps: vec![1500.0], xdr: true, ..SynthSpec::default() };
+        let spec = SynthSpec {
+            rpm_steps: vec![1500.0],
+            xdr: true,
+            ..SynthSpec::default()
+        };
         let log = generate(&spec, |rpm| rpm / 500.0, None);
         for line in log.nmea.lines() {
-            assert!(super::super::nmea::parse_line(line.as_bytes()).is_ok(), "{line}");
-            assert!(line.len() <= 82, "NMEA 0183 limits a sentence to 82 characters: {line}");
+            assert!(
+                super::super::nmea::parse_line(line.as_bytes()).is_ok(),
+                "{line}"
+            );
+            assert!(
+                line.len() <= 82,
+                "NMEA 0183 limits a sentence to 82 characters: {line}"
+            );
         }
         assert_eq!(log.legs.len(), 2);
         assert!((log.legs[0].speed_over_ground - 3.3).abs() < 1e-12);

@@ -45,7 +45,9 @@ pub fn clock_of(time_s: f64) -> String {
 
 fn digits(text: &str, range: std::ops::Range<usize>) -> Option<u32> {
     let part = text.get(range)?;
-    part.bytes().all(|b| b.is_ascii_digit()).then(|| part.parse().ok())?
+    part.bytes()
+        .all(|b| b.is_ascii_digit())
+        .then(|| part.parse().ok())?
 }
 
 /// Parses `YYYY-MM-DD` into days from 1970-01-01.
@@ -53,7 +55,11 @@ pub fn parse_date(text: &str) -> Option<i64> {
     if text.len() != 10 || &text[4..5] != "-" || &text[7..8] != "-" {
         return None;
     }
-    let (y, m, d) = (digits(text, 0..4)?, digits(text, 5..7)?, digits(text, 8..10)?);
+    let (y, m, d) = (
+        digits(text, 0..4)?,
+        digits(text, 5..7)?,
+        digits(text, 8..10)?,
+    );
     ((1..=12).contains(&m) && (1..=31).contains(&d)).then(|| days_from_civil(i64::from(y), m, d))
 }
 
@@ -63,7 +69,10 @@ pub fn parse_clock(text: &str) -> Option<f64> {
         return None;
     }
     let (h, m) = (digits(text, 0..2)?, digits(text, 3..5)?);
-    let s: f64 = text[6..].parse().ok().filter(|s: &f64| (0.0..61.0).contains(s))?;
+    let s: f64 = text[6..]
+        .parse()
+        .ok()
+        .filter(|s: &f64| (0.0..61.0).contains(s))?;
     (h < 24 && m < 60).then(|| f64::from(h * 3600 + m * 60) + s)
 }
 
@@ -86,7 +95,11 @@ pub fn parse_iso8601(text: &str) -> Option<f64> {
             2 => (digits(zone, 0..2)?, 0),
             _ => return None,
         };
-        let sign = if &rest[pos..pos + 1] == "+" { 1.0 } else { -1.0 };
+        let sign = if &rest[pos..pos + 1] == "+" {
+            1.0
+        } else {
+            -1.0
+        };
         (&rest[..pos], sign * f64::from(h * 3600 + m * 60))
     } else {
         (rest, 0.0)
@@ -108,15 +121,24 @@ mod tests {
         assert_eq!(clock_of(1_700_000_000.0), "22:13:20");
         assert_eq!(civil_from_days(19_675), (2023, 11, 14));
         // 2000 was a leap year (Gregorian rule: divisible by 400), so 29 February exists.
-        assert_eq!(days_from_civil(2000, 3, 1) - days_from_civil(2000, 2, 28), 2);
+        assert_eq!(
+            days_from_civil(2000, 3, 1) - days_from_civil(2000, 2, 28),
+            2
+        );
     }
 
     #[test]
     fn iso8601_forms() {
         assert_eq!(parse_iso8601("2023-11-14T22:13:20Z"), Some(1_700_000_000.0));
         assert_eq!(parse_iso8601("2023-11-14 22:13:20"), Some(1_700_000_000.0));
-        assert_eq!(parse_iso8601("2023-11-14T23:13:20+01:00"), Some(1_700_000_000.0));
-        assert_eq!(parse_iso8601("2023-11-14T22:13:20.5Z"), Some(1_700_000_000.5));
+        assert_eq!(
+            parse_iso8601("2023-11-14T23:13:20+01:00"),
+            Some(1_700_000_000.0)
+        );
+        assert_eq!(
+            parse_iso8601("2023-11-14T22:13:20.5Z"),
+            Some(1_700_000_000.5)
+        );
         assert_eq!(parse_iso8601("2023-13-14T22:13:20Z"), None);
         assert_eq!(parse_iso8601("2023-11-14T25:13:20Z"), None);
         assert_eq!(parse_iso8601("yesterday"), None);

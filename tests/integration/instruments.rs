@@ -2,7 +2,9 @@
 //! own input, so these check the import against what was put in, not against the world).
 
 use tidewright::instruments::synth::{self, SynthSpec, TimePrefix};
-use tidewright::instruments::{BadLine, LogFormat, METRES_PER_SECOND_PER_KNOT, import, runs::NoRunError, runs::RunOptions};
+use tidewright::instruments::{
+    BadLine, LogFormat, METRES_PER_SECOND_PER_KNOT, import, runs::NoRunError, runs::RunOptions,
+};
 use tidewright::propulsion::solver::trial::RunDirection;
 
 /// An invented speed curve: m/s at rpm.
@@ -11,20 +13,37 @@ fn curve(rpm: f64) -> f64 {
 }
 
 fn spec() -> SynthSpec {
-    SynthSpec { rpm_steps: vec![1200.0, 1600.0, 2000.0, 2400.0], ..SynthSpec::default() }
+    SynthSpec {
+        rpm_steps: vec![1200.0, 1600.0, 2000.0, 2400.0],
+        ..SynthSpec::default()
+    }
 }
 
 fn check_recovery(text: &str) {
     let log = synth::generate(&spec(), curve, Some(&|rpm: f64| rpm * 1e-9));
-    let content = if text == "csv" { log.csv.clone() } else { log.nmea.clone() };
+    let content = if text == "csv" {
+        log.csv.clone()
+    } else {
+        log.nmea.clone()
+    };
     let imported = import(content.as_bytes(), None, &Default::default()).unwrap();
     let found = imported.find_runs(&RunOptions::default()).unwrap();
-    assert_eq!(found.runs.len(), log.legs.len(), "{text}: {:?}", found.rejected);
+    assert_eq!(
+        found.runs.len(),
+        log.legs.len(),
+        "{text}: {:?}",
+        found.rejected
+    );
     assert_eq!(found.pair_count(), 4, "{text}");
     for (run, leg) in found.runs.iter().zip(&log.legs) {
         // The acceptance bound: each run's mean speed within 0.05 kn of the truth.
         let error_kn = (run.speed_over_ground - leg.speed_over_ground) / METRES_PER_SECOND_PER_KNOT;
-        assert!(error_kn.abs() < 0.05, "{text}: {} rpm {:?}: {error_kn:+.3} kn", leg.engine_rpm, leg.direction);
+        assert!(
+            error_kn.abs() < 0.05,
+            "{text}: {} rpm {:?}: {error_kn:+.3} kn",
+            leg.engine_rpm,
+            leg.direction
+        );
         assert!((run.engine_rpm - leg.engine_rpm).abs() < 3.0);
         assert_eq!(run.direction, Some(leg.direction));
         let stw = run.speed_through_water.unwrap();
@@ -32,7 +51,13 @@ fn check_recovery(text: &str) {
     }
     let trial = found.trial_runs();
     assert!(trial.iter().all(|t| t.direction.is_some()));
-    assert_eq!(trial.iter().filter(|t| t.direction == Some(RunDirection::Out)).count(), 4);
+    assert_eq!(
+        trial
+            .iter()
+            .filter(|t| t.direction == Some(RunDirection::Out))
+            .count(),
+        4
+    );
     if text == "csv" {
         assert!(trial[0].fuel_volume_flow.is_some());
     }
@@ -51,12 +76,23 @@ fn csv_log_recovers_each_run_and_pairs_them() {
 #[test]
 fn every_time_prefix_reads_the_same() {
     for prefix in [TimePrefix::Iso, TimePrefix::Epoch, TimePrefix::TagBlock] {
-        let spec = SynthSpec { time_prefix: prefix, rpm_steps: vec![1500.0], gps_talker: "GN", xdr: true, ..SynthSpec::default() };
+        let spec = SynthSpec {
+            time_prefix: prefix,
+            rpm_steps: vec![1500.0],
+            gps_talker: "GN",
+            xdr: true,
+            ..SynthSpec::default()
+        };
         let log = synth::generate(&spec, curve, None);
         let imported = import(log.nmea.as_bytes(), None, &Default::default()).unwrap();
         assert_eq!(imported.format, LogFormat::Nmea);
         assert_eq!(imported.date.as_deref(), Some("2023-11-14"), "{prefix:?}");
-        assert_eq!(imported.summary.bad_total(), 0, "{prefix:?}: {}", imported.summary);
+        assert_eq!(
+            imported.summary.bad_total(),
+            0,
+            "{prefix:?}: {}",
+            imported.summary
+        );
         let found = imported.find_runs(&RunOptions::default()).unwrap();
         assert_eq!(found.pair_count(), 1, "{prefix:?}");
     }
@@ -67,7 +103,10 @@ fn the_core_calibration_sees_two_way_pairs() {
     // The converted runs group in the core's rule: each rpm once, both directions.
     let log = synth::generate(&spec(), curve, None);
     let imported = import(log.nmea.as_bytes(), None, &Default::default()).unwrap();
-    let trial = imported.find_runs(&RunOptions::default()).unwrap().trial_runs();
+    let trial = imported
+        .find_runs(&RunOptions::default())
+        .unwrap()
+        .trial_runs();
     for pair in trial.chunks(2) {
         assert_eq!(pair[0].engine_rpm, pair[1].engine_rpm);
         // Two-way mean removes the 0.3 m/s current: (out + back)/2 = speed through water.
@@ -78,7 +117,14 @@ fn the_core_calibration_sees_two_way_pairs() {
 
 #[test]
 fn corrupted_log_is_counted_not_fatal() {
-    let log = synth::generate(&SynthSpec { rpm_steps: vec![1500.0], ..SynthSpec::default() }, curve, None);
+    let log = synth::generate(
+        &SynthSpec {
+            rpm_steps: vec![1500.0],
+            ..SynthSpec::default()
+        },
+        curve,
+        None,
+    );
     let mut lines: Vec<String> = log.nmea.lines().map(str::to_owned).collect();
     let n = lines.len();
     // Every 50th line: a flipped checksum digit; every 70th: cut in half; every 45th (an HDT): a made-up talker.
@@ -92,7 +138,9 @@ fn corrupted_log_is_counted_not_fatal() {
             line.truncate(line.len() / 2);
             cut += 1;
         } else if i % 45 == 2 && line.starts_with("$HEHDT") {
-            *line = tidewright::instruments::nmea::with_checksum(&line[1..line.len() - 3].replacen("HE", "QX", 1));
+            *line = tidewright::instruments::nmea::with_checksum(
+                &line[1..line.len() - 3].replacen("HE", "QX", 1),
+            );
             talker += 1;
         }
     }
@@ -107,19 +155,31 @@ fn corrupted_log_is_counted_not_fatal() {
     assert_eq!(s.bad_count(BadLine::NotText), 1);
     assert!(talker > 0 && cut > 0 && flipped > 0);
     // The runs survive the damage.
-    assert_eq!(imported.find_runs(&RunOptions::default()).unwrap().pair_count(), 1);
+    assert_eq!(
+        imported
+            .find_runs(&RunOptions::default())
+            .unwrap()
+            .pair_count(),
+        1
+    );
 }
 
 #[test]
 fn binary_and_empty_files_say_why() {
-    let binary: Vec<u8> = (0..4096u32).map(|i| (i.wrapping_mul(2_654_435_761) >> 13) as u8).collect();
+    let binary: Vec<u8> = (0..4096u32)
+        .map(|i| (i.wrapping_mul(2_654_435_761) >> 13) as u8)
+        .collect();
     let imported = import(&binary, None, &Default::default()).unwrap();
     assert_eq!(imported.samples.len(), 0);
     assert!(imported.summary.bad_total() > 0);
     assert_eq!(imported.summary.bad_total(), imported.summary.lines);
     let err = imported.find_runs(&RunOptions::default()).unwrap_err();
     assert!(matches!(err, NoRunError::NoSamples { .. }), "{err}");
-    assert!(err.to_string().starts_with("the log holds no usable samples"), "{err}");
+    assert!(
+        err.to_string()
+            .starts_with("the log holds no usable samples"),
+        "{err}"
+    );
 
     let err = import(b"", None, &Default::default()).unwrap_err();
     assert_eq!(err.to_string(), "the log is empty");
@@ -128,11 +188,17 @@ fn binary_and_empty_files_say_why() {
 #[test]
 fn a_log_with_no_steady_run_says_why() {
     // Legs of 40 s: after 20 s of settling, 20 s steady, short of the 60 s needed.
-    let spec = SynthSpec { leg_s: 40.0, rpm_steps: vec![1500.0, 2000.0], ..SynthSpec::default() };
+    let spec = SynthSpec {
+        leg_s: 40.0,
+        rpm_steps: vec![1500.0, 2000.0],
+        ..SynthSpec::default()
+    };
     let log = synth::generate(&spec, curve, None);
     let imported = import(log.nmea.as_bytes(), None, &Default::default()).unwrap();
     let err = imported.find_runs(&RunOptions::default()).unwrap_err();
-    let NoRunError::NoSteadyRun { rejected, .. } = &err else { panic!("{err}") };
+    let NoRunError::NoSteadyRun { rejected, .. } = &err else {
+        panic!("{err}")
+    };
     assert_eq!(rejected.len(), 4, "{err}");
     assert!(err.to_string().contains("too short"), "{err}");
 }
