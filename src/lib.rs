@@ -32,6 +32,7 @@
 //! ```
 
 pub mod cli;
+pub mod instruments;
 pub mod profile;
 pub mod propulsion;
 pub mod report;

@@ -1,0 +1,728 @@
+//! The live feed: NMEA 0183 from TCP, UDP or a file replayed in real time, read on a background
+//! thread that sends samples and its state over one channel; the caller polls and never blocks.
+//!
+//! Sources: `tcp://HOST:PORT` (a multiplexer or instrument server; 10110 is the IANA-registered
+//! NMEA-0183 port), `udp://:PORT` or `udp://ADDRESS:PORT` (broadcast or unicast datagrams,
+//! bound locally), or a file path (NMEA or CSV, replayed at the pace of its own timestamps times
+//! [`FeedOptions::replay_speedup`]).
+//!
+//! States: [`FeedState::Connecting`] → [`FeedState::Live`]; a feed with no data for
+//! [`FeedOptions::silence_s`] is [`FeedState::Silent`]; a closed or failed TCP connection (or
+//! one silent for [`FeedOptions::reconnect_after_silence_s`]) is [`FeedState::Reconnecting`]
+//! with a doubling backoff from [`FeedOptions::reconnect_initial_s`] up to
+//! [`FeedOptions::reconnect_max_s`]; [`FeedState::Closed`] is final (stopped, end of a replayed
+//! file, or a file that cannot be read).
+//!
+//! Network lines carry the time they were received unless they hold their own timestamp or
+//! TAG block (see [`super::nmea`]), so a receiver's clock quirks do not stall the run finder.
+
+use super::nmea::{DEFAULT_MAX_AGE_S, NmeaReader, RpmSource};
+use super::{ImportOptions, LineSummary, Sample, import};
+use std::io::{ErrorKind, Read};
+use std::net::{TcpStream, ToSocketAddrs, UdpSocket};
+use std::path::PathBuf;
+use std::sync::Arc;
+use std::sync::atomic::{AtomicBool, Ordering};
+use std::sync::mpsc::{Receiver, Sender, channel};
+use std::time::{Duration, Instant, SystemTime, UNIX_EPOCH};
+
+/// Where a feed reads from.
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub enum FeedSource {
+    /// A TCP server, `HOST:PORT`.
+    Tcp(String),
+    /// A local UDP address to bind, `ADDRESS:PORT`.
+    Udp(String),
+    /// A log file replayed in real time.
+    File(PathBuf),
+}
+
+/// Why a feed address could not be understood.
+#[derive(Debug, Clone, PartialEq, Eq, thiserror::Error)]
+pub enum FeedError {
+    /// A `tcp://` or `udp://` address without a usable port.
+    #[error("feed {text:?}: expected tcp://HOST:PORT, udp://:PORT or a file path ({problem})")]
+    BadAddress {
+        /// The text given.
+        text: String,
+        /// What is wrong.
+        problem: &'static str,
+    },
+}
+
+impl FeedSource {
+    /// Parses `tcp://HOST:PORT`, `udp://:PORT`, `udp://ADDRESS:PORT` or a file path.
+    pub fn parse(text: &str) -> Result<Self, FeedError> {
+        let bad = |problem| FeedError::BadAddress {
+            text: text.to_owned(),
+            problem,
+        };
+        let port_of = |rest: &str| -> Result<(String, u16), FeedError> {
+            let (host, port) = rest.rsplit_once(':').ok_or(bad("no :PORT"))?;
+            let port: u16 = port
+                .parse()
+                .map_err(|_| bad("the port is not a number 0–65535"))?;
+            Ok((host.trim_matches(['[', ']']).to_owned(), port))
+        };
+        if let Some(rest) = text.strip_prefix("tcp://") {
+            let (host, port) = port_of(rest)?;
+            if host.is_empty() || port == 0 {
+                return Err(bad("TCP needs a host and a non-zero port"));
+            }
+            Ok(FeedSource::Tcp(join(&host, port)))
+        } else if let Some(rest) = text.strip_prefix("udp://") {
+            let (host, port) = port_of(rest)?;
+            Ok(FeedSource::Udp(join(
+                if host.is_empty() { "0.0.0.0" } else { &host },
+                port,
+            )))
+        } else if text.contains("://") {
+            Err(bad("unknown scheme"))
+        } else {
+            Ok(FeedSource::File(PathBuf::from(text)))
+        }
+    }
+}
+
+fn join(host: &str, port: u16) -> String {
+    if host.contains(':') {
+        format!("[{host}]:{port}")
+    } else {
+        format!("{host}:{port}")
+    }
+}
+
+/// Settings of a feed.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct FeedOptions {
+    /// No data for this long shows as silent, s (default 5).
+    pub silence_s: f64,
+    /// A TCP feed silent for this long is reconnected, s (default 30).
+    pub reconnect_after_silence_s: f64,
+    /// First reconnect delay, s (default 1); doubles each failed attempt.
+    pub reconnect_initial_s: f64,
+    /// Longest reconnect delay, s (default 30).
+    pub reconnect_max_s: f64,
+    /// TCP connect timeout, s (default 5).
+    pub connect_timeout_s: f64,
+    /// Replay speed of a file: 1 is real time (default 1).
+    pub replay_speedup: f64,
+    /// Which rpm to use (`None`: automatic, see [`super::nmea::choose_rpm_source`]).
+    pub rpm_source: Option<RpmSource>,
+    /// Fill-forward limit, s (default 5).
+    pub max_age_s: f64,
+}
+
+impl Default for FeedOptions {
+    fn default() -> Self {
+        Self {
+            silence_s: 5.0,
+            reconnect_after_silence_s: 30.0,
+            reconnect_initial_s: 1.0,
+            reconnect_max_s: 30.0,
+            connect_timeout_s: 5.0,
+            replay_speedup: 1.0,
+            rpm_source: None,
+            max_age_s: DEFAULT_MAX_AGE_S,
+        }
+    }
+}
+
+/// The state of a feed.
+#[derive(Debug, Clone, PartialEq)]
+pub enum FeedState {
+    /// Connecting (or binding, or opening the file).
+    Connecting,
+    /// Connected and receiving.
+    Live,
+    /// Connected but no data for this long, s.
+    Silent {
+        /// Time since the last data, s.
+        for_s: f64,
+    },
+    /// Waiting to reconnect.
+    Reconnecting {
+        /// Attempt number, from 1.
+        attempt: u32,
+        /// Delay before the attempt, s.
+        in_s: f64,
+        /// What went wrong.
+        reason: String,
+    },
+    /// Finished for good.
+    Closed {
+        /// Why.
+        reason: String,
+    },
+}
+
+impl std::fmt::Display for FeedState {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        match self {
+            FeedState::Connecting => f.write_str("connecting"),
+            FeedState::Live => f.write_str("live"),
+            FeedState::Silent { for_s } => write!(f, "no data for {for_s:.0} s"),
+            FeedState::Reconnecting { in_s, reason, .. } => {
+                write!(f, "reconnecting in {in_s:.0} s ({reason})")
+            }
+            FeedState::Closed { reason } => write!(f, "closed ({reason})"),
+        }
+    }
+}
+
+/// What the feed thread sends.
+#[derive(Debug, Clone, PartialEq)]
+pub enum FeedEvent {
+    /// The state changed.
+    State(FeedState),
+    /// A sample.
+    Sample(Sample),
+    /// The line counts so far (sent at most once a second, and at the end).
+    Lines(LineSummary),
+}
+
+/// A running feed; dropping it stops the thread (which notices within 0.1 s).
+#[derive(Debug)]
+pub struct Feed {
+    events: Receiver<FeedEvent>,
+    stop: Arc<AtomicBool>,
+}
+
+/// How often the thread wakes to check for stop and silence.
+const POLL: Duration = Duration::from_millis(100);
+
+impl Feed {
+    /// Starts reading `source` on a background thread.
+    pub fn start(source: FeedSource, options: FeedOptions) -> Feed {
+        let (tx, events) = channel();
+        let stop = Arc::new(AtomicBool::new(false));
+        let worker = Worker {
+            tx,
+            stop: Arc::clone(&stop),
+            options,
+            reader: NmeaReader::new(options.rpm_source, options.max_age_s),
+            last_lines_sent: Instant::now(),
+        };
+        std::thread::spawn(move || worker.run(source));
+        Feed { events, stop }
+    }
+
+    /// The next event if one is waiting; never blocks.
+    pub fn try_recv(&self) -> Option<FeedEvent> {
+        self.events.try_recv().ok()
+    }
+
+    /// Every event waiting now.
+    pub fn drain(&self) -> Vec<FeedEvent> {
+        std::iter::from_fn(|| self.try_recv()).collect()
+    }
+
+    /// Asks the thread to stop.
+    pub fn stop(&self) {
+        self.stop.store(true, Ordering::Relaxed);
+    }
+}
+
+impl Drop for Feed {
+    fn drop(&mut self) {
+        self.stop();
+    }
+}
+
+fn now_unix_s() -> f64 {
+    SystemTime::now()
+        .duration_since(UNIX_EPOCH)
+        .map(|d| d.as_secs_f64())
+        .unwrap_or(0.0)
+}
+
+struct Worker {
+    tx: Sender<FeedEvent>,
+    stop: Arc<AtomicBool>,
+    options: FeedOptions,
+    reader: NmeaReader,
+    last_lines_sent: Instant,
+}
+
+/// How a connection ended.
+enum Ended {
+    Stopped,
+    Lost(String),
+}
+
+impl Worker {
+    fn stopped(&self) -> bool {
+        self.stop.load(Ordering::Relaxed)
+    }
+
+    /// Sends; false when the receiver is gone (the thread then ends).
+    fn send(&self, event: FeedEvent) -> bool {
+        self.tx.send(event).is_ok()
+    }
+
+    fn run(mut self, source: FeedSource) {
+        let reason = match source {
+            FeedSource::Tcp(address) => self.run_tcp(&address),
+            FeedSource::Udp(address) => self.run_udp(&address),
+            FeedSource::File(path) => self.run_file(&path),
+        };
+        self.send(FeedEvent::Lines(self.reader.summary().clone()));
+        self.send(FeedEvent::State(FeedState::Closed { reason }));
+    }
+
+    /// Waits `seconds` in short sleeps; false if stopped meanwhile.
+    fn wait(&self, seconds: f64) -> bool {
+        let until = Instant::now() + Duration::from_secs_f64(seconds.max(0.0));
+        while Instant::now() < until {
+            if self.stopped() {
+                return false;
+            }
+            std::thread::sleep(POLL.min(until.saturating_duration_since(Instant::now())));
+        }
+        !self.stopped()
+    }
+
+    fn backoff(&self, attempt: u32) -> f64 {
+        let factor = 2f64.powi(attempt.saturating_sub(1).min(16) as i32);
+        (self.options.reconnect_initial_s * factor).min(self.options.reconnect_max_s)
+    }
+
+    fn run_tcp(&mut self, address: &str) -> String {
+        let mut attempt = 0;
+        loop {
+            if self.stopped() || !self.send(FeedEvent::State(FeedState::Connecting)) {
+                return "stopped".to_owned();
+            }
+            let reason = match connect(address, self.options.connect_timeout_s) {
+                Ok(stream) => {
+                    attempt = 0;
+                    match self.read_stream(stream) {
+                        Ended::Stopped => return "stopped".to_owned(),
+                        Ended::Lost(reason) => reason,
+                    }
+                }
+                Err(reason) => reason,
+            };
+            attempt += 1;
+            let in_s = self.backoff(attempt);
+            if !self.send(FeedEvent::State(FeedState::Reconnecting {
+                attempt,
+                in_s,
+                reason,
+            })) || !self.wait(in_s)
+            {
+                return "stopped".to_owned();
+            }
+        }
+    }
+
+    /// Lines of `pending` up to the last `\n` go to the reader.
+    fn take_lines(&mut self, pending: &mut Vec<u8>) {
+        let Some(end) = pending.iter().rposition(|b| *b == b'\n') else {
+            if pending.len() > 4096 {
+                pending.clear(); // no line end in 4 KiB: not a line protocol
+            }
+            return;
+        };
+        let now = now_unix_s();
+        let lines: Vec<u8> = pending.drain(..=end).collect();
+        for (number, line) in super::numbered_lines(&lines) {
+            let total = self.reader.summary().lines + number;
+            if let Some(sample) = self.reader.push_line(line, total, Some(now)) {
+                self.send(FeedEvent::Sample(sample));
+            }
+        }
+        self.send_lines_now_and_then();
+    }
+
+    fn send_lines_now_and_then(&mut self) {
+        if self.last_lines_sent.elapsed() >= Duration::from_secs(1) {
+            self.last_lines_sent = Instant::now();
+            self.send(FeedEvent::Lines(self.reader.summary().clone()));
+        }
+    }
+
+    fn flush(&mut self) {
+        if let Some(sample) = self.reader.finish() {
+            self.send(FeedEvent::Sample(sample));
+        }
+    }
+
+    fn read_stream(&mut self, mut stream: TcpStream) -> Ended {
+        if stream.set_read_timeout(Some(POLL)).is_err() {
+            return Ended::Lost("cannot set a read timeout".to_owned());
+        }
+        self.send(FeedEvent::State(FeedState::Live));
+        let mut buffer = [0u8; 4096];
+        let mut pending = Vec::new();
+        let mut last_data = Instant::now();
+        // Whole seconds of silence last shown, so the state is sent once a second.
+        let mut silent_shown: Option<u64> = None;
+        loop {
+            if self.stopped() {
+                return Ended::Stopped;
+            }
+            match stream.read(&mut buffer) {
+                Ok(0) => {
+                    pending.push(b'\n');
+                    self.take_lines(&mut pending);
+                    self.flush();
+                    return Ended::Lost("the server closed the connection".to_owned());
+                }
+                Ok(n) => {
+                    if silent_shown.take().is_some() {
+                        self.send(FeedEvent::State(FeedState::Live));
+                    }
+                    last_data = Instant::now();
+                    pending.extend_from_slice(&buffer[..n]);
+                    self.take_lines(&mut pending);
+                }
+                Err(e)
+                    if matches!(
+                        e.kind(),
+                        ErrorKind::WouldBlock | ErrorKind::TimedOut | ErrorKind::Interrupted
+                    ) =>
+                {
+                    let quiet = last_data.elapsed().as_secs_f64();
+                    if quiet >= self.options.reconnect_after_silence_s {
+                        self.flush();
+                        return Ended::Lost(format!("no data for {quiet:.0} s"));
+                    }
+                    let whole = quiet.floor() as u64;
+                    if quiet >= self.options.silence_s && silent_shown != Some(whole) {
+                        if silent_shown.is_none() {
+                            self.flush();
+                        }
+                        silent_shown = Some(whole);
+                        self.send(FeedEvent::State(FeedState::Silent { for_s: quiet }));
+                    }
+                }
+                Err(e) => {
+                    self.flush();
+                    return Ended::Lost(e.to_string());
+                }
+            }
+        }
+    }
+
+    fn run_udp(&mut self, address: &str) -> String {
+        let mut attempt = 0;
+        let socket = loop {
+            if self.stopped() {
+                return "stopped".to_owned();
+            }
+            self.send(FeedEvent::State(FeedState::Connecting));
+            match UdpSocket::bind(address).and_then(|s| s.set_read_timeout(Some(POLL)).map(|()| s))
+            {
+                Ok(socket) => break socket,
+                Err(e) => {
+                    attempt += 1;
+                    let in_s = self.backoff(attempt);
+                    let reason = format!("cannot listen on udp {address}: {e}");
+                    if !self.send(FeedEvent::State(FeedState::Reconnecting {
+                        attempt,
+                        in_s,
+                        reason,
+                    })) || !self.wait(in_s)
+                    {
+                        return "stopped".to_owned();
+                    }
+                }
+            }
+        };
+        self.send(FeedEvent::State(FeedState::Live));
+        let mut buffer = [0u8; 65_536];
+        let mut last_data = Instant::now();
+        let mut silent = false;
+        loop {
+            if self.stopped() {
+                return "stopped".to_owned();
+            }
+            match socket.recv(&mut buffer) {
+                Ok(n) => {
+                    if silent {
+                        self.send(FeedEvent::State(FeedState::Live));
+                        silent = false;
+                    }
+                    last_data = Instant::now();
+                    let mut datagram = buffer[..n].to_vec();
+                    datagram.push(b'\n');
+                    self.take_lines(&mut datagram);
+                }
+                Err(e)
+                    if matches!(
+                        e.kind(),
+                        ErrorKind::WouldBlock | ErrorKind::TimedOut | ErrorKind::Interrupted
+                    ) =>
+                {
+                    let quiet = last_data.elapsed().as_secs_f64();
+                    if quiet >= self.options.silence_s && !silent {
+                        silent = true;
+                        self.flush();
+                        self.send(FeedEvent::State(FeedState::Silent { for_s: quiet }));
+                    }
+                }
+                Err(e) => return format!("udp {address}: {e}"),
+            }
+        }
+    }
+
+    fn run_file(&mut self, path: &std::path::Path) -> String {
+        self.send(FeedEvent::State(FeedState::Connecting));
+        let content = match std::fs::read(path) {
+            Ok(c) => c,
+            Err(e) => return format!("cannot read {}: {e}", path.display()),
+        };
+        let options = ImportOptions {
+            rpm_source: self.options.rpm_source,
+            max_age_s: Some(self.options.max_age_s),
+            ..ImportOptions::default()
+        };
+        let log = match import(&content, None, &options) {
+            Ok(log) => log,
+            Err(e) => return format!("{}: {e}", path.display()),
+        };
+        self.reader = NmeaReader::new(None, self.options.max_age_s);
+        self.send(FeedEvent::Lines(log.summary.clone()));
+        self.send(FeedEvent::State(FeedState::Live));
+        let started = Instant::now();
+        let speedup = if self.options.replay_speedup > 0.0 {
+            self.options.replay_speedup
+        } else {
+            1.0
+        };
+        let first = log.samples.first().map_or(0.0, |s| s.time_s);
+        for sample in &log.samples {
+            let due = (sample.time_s - first).max(0.0) / speedup;
+            if !self.wait(due - started.elapsed().as_secs_f64())
+                || !self.send(FeedEvent::Sample(*sample))
+            {
+                return "stopped".to_owned();
+            }
+        }
+        self.send(FeedEvent::Lines(log.summary));
+        "end of file".to_owned()
+    }
+}
+
+fn connect(address: &str, timeout_s: f64) -> Result<TcpStream, String> {
+    let addresses = address
+        .to_socket_addrs()
+        .map_err(|e| format!("cannot resolve {address}: {e}"))?;
+    let mut last = format!("no address for {address}");
+    for a in addresses {
+        match TcpStream::connect_timeout(&a, Duration::from_secs_f64(timeout_s.max(0.01))) {
+            Ok(stream) => return Ok(stream),
+            Err(e) => last = format!("cannot connect to {address}: {e}"),
+        }
+    }
+    Err(last)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::super::nmea::with_checksum;
+    use super::*;
+    use std::io::Write;
+    use std::net::TcpListener;
+
+    fn quick() -> FeedOptions {
+        FeedOptions {
+            silence_s: 0.2,
+            reconnect_after_silence_s: 5.0,
+            reconnect_initial_s: 0.05,
+            reconnect_max_s: 0.2,
+            connect_timeout_s: 0.5,
+            ..FeedOptions::default()
+        }
+    }
+
+    /// Lines with their own epoch timestamps, 1 s apart from `t0`.
+    fn lines(t0: u32, n: u32) -> String {
+        (0..n)
+            .map(|i| {
+                format!(
+                    "{},{}\r\n{},{}\r\n",
+                    t0 + i,
+                    with_checksum("ERRPM,E,1,1500,,A"),
+                    t0 + i,
+                    with_checksum("GPHDT,45.0,T")
+                )
+            })
+            .collect()
+    }
+
+    /// Collects events until `done` says so or `limit` passes.
+    fn collect(
+        feed: &Feed,
+        limit: Duration,
+        done: impl Fn(&[FeedEvent]) -> bool,
+    ) -> Vec<FeedEvent> {
+        let start = Instant::now();
+        let mut events = Vec::new();
+        while start.elapsed() < limit && !done(&events) {
+            events.extend(feed.drain());
+            std::thread::sleep(Duration::from_millis(10));
+        }
+        events
+    }
+
+    fn samples(events: &[FeedEvent]) -> usize {
+        events
+            .iter()
+            .filter(|e| matches!(e, FeedEvent::Sample(_)))
+            .count()
+    }
+
+    #[test]
+    fn addresses() {
+        assert_eq!(
+            FeedSource::parse("tcp://10.0.0.5:10110"),
+            Ok(FeedSource::Tcp("10.0.0.5:10110".into()))
+        );
+        assert_eq!(
+            FeedSource::parse("udp://:10110"),
+            Ok(FeedSource::Udp("0.0.0.0:10110".into()))
+        );
+        assert_eq!(
+            FeedSource::parse("log.nmea"),
+            Ok(FeedSource::File("log.nmea".into()))
+        );
+        assert!(FeedSource::parse("tcp://host").is_err());
+        assert!(FeedSource::parse("tcp://host:99999").is_err());
+        assert!(FeedSource::parse("serial:///dev/ttyUSB0").is_err());
+    }
+
+    #[test]
+    fn tcp_reconnects_when_the_server_comes_back() {
+        let listener = TcpListener::bind("127.0.0.1:0").unwrap();
+        let port = listener.local_addr().unwrap().port();
+        let server = std::thread::spawn(move || {
+            let (mut conn, _) = listener.accept().unwrap();
+            conn.write_all(lines(1_700_000_000, 3).as_bytes()).unwrap();
+            drop(conn);
+            drop(listener);
+            std::thread::sleep(Duration::from_millis(250));
+            let listener = TcpListener::bind(("127.0.0.1", port)).unwrap();
+            let (mut conn, _) = listener.accept().unwrap();
+            conn.write_all(lines(1_700_000_100, 3).as_bytes()).unwrap();
+            // Stay quiet long enough to show as silent, then close.
+            std::thread::sleep(Duration::from_millis(400));
+        });
+        let feed = Feed::start(
+            FeedSource::parse(&format!("tcp://127.0.0.1:{port}")).unwrap(),
+            quick(),
+        );
+        let events = collect(&feed, Duration::from_millis(1800), |e| {
+            samples(e) >= 6
+                && e.iter()
+                    .any(|e| matches!(e, FeedEvent::State(FeedState::Silent { .. })))
+        });
+        server.join().unwrap();
+        let states: Vec<&FeedState> = events
+            .iter()
+            .filter_map(|e| {
+                if let FeedEvent::State(s) = e {
+                    Some(s)
+                } else {
+                    None
+                }
+            })
+            .collect();
+        assert_eq!(samples(&events), 6, "{states:?}");
+        assert!(
+            states
+                .iter()
+                .filter(|s| matches!(s, FeedState::Live))
+                .count()
+                >= 2,
+            "{states:?}"
+        );
+        assert!(
+            states
+                .iter()
+                .any(|s| matches!(s, FeedState::Reconnecting { .. })),
+            "{states:?}"
+        );
+        assert!(
+            states.iter().any(|s| matches!(s, FeedState::Silent { .. })),
+            "{states:?}"
+        );
+        let first = events
+            .iter()
+            .find_map(|e| {
+                if let FeedEvent::Sample(s) = e {
+                    Some(*s)
+                } else {
+                    None
+                }
+            })
+            .unwrap();
+        assert_eq!(first.engine_rpm, Some(1500.0));
+        assert_eq!(first.time_s, 1_700_000_000.0);
+    }
+
+    #[test]
+    fn udp_datagrams_become_samples() {
+        let probe = UdpSocket::bind("127.0.0.1:0").unwrap();
+        let port = probe.local_addr().unwrap().port();
+        drop(probe);
+        let feed = Feed::start(
+            FeedSource::parse(&format!("udp://127.0.0.1:{port}")).unwrap(),
+            quick(),
+        );
+        collect(&feed, Duration::from_millis(500), |e| {
+            e.contains(&FeedEvent::State(FeedState::Live))
+        });
+        let sender = UdpSocket::bind("127.0.0.1:0").unwrap();
+        for line in lines(1_700_000_000, 4).lines() {
+            sender
+                .send_to(line.as_bytes(), ("127.0.0.1", port))
+                .unwrap();
+        }
+        let events = collect(&feed, Duration::from_millis(1000), |e| samples(e) >= 4);
+        assert_eq!(samples(&events), 4, "{events:?}");
+    }
+
+    #[test]
+    fn file_replays_at_its_own_pace_sped_up() {
+        let spec = super::super::synth::SynthSpec {
+            rpm_steps: vec![1500.0],
+            leg_s: 60.0,
+            turn_s: 20.0,
+            ..Default::default()
+        };
+        let log = super::super::synth::generate(&spec, |rpm| rpm / 500.0, None);
+        let mut file = tempfile::NamedTempFile::new().unwrap();
+        file.write_all(log.nmea.as_bytes()).unwrap();
+        let expected = import(log.nmea.as_bytes(), None, &ImportOptions::default())
+            .unwrap()
+            .samples
+            .len();
+        // About 170 s of log at 400× is about 0.43 s.
+        let options = FeedOptions {
+            replay_speedup: 400.0,
+            ..quick()
+        };
+        let start = Instant::now();
+        let feed = Feed::start(FeedSource::File(file.path().to_owned()), options);
+        let events = collect(&feed, Duration::from_millis(1800), |e| {
+            e.iter()
+                .any(|e| matches!(e, FeedEvent::State(FeedState::Closed { .. })))
+        });
+        let elapsed = start.elapsed().as_secs_f64();
+        assert_eq!(samples(&events), expected);
+        assert!(elapsed > 0.3, "replayed too fast: {elapsed} s");
+        assert!(events.contains(&FeedEvent::State(FeedState::Closed {
+            reason: "end of file".into()
+        })));
+    }
+
+    #[test]
+    fn dropping_the_feed_stops_the_thread_without_blocking() {
+        let feed = Feed::start(FeedSource::Tcp("127.0.0.1:9".into()), quick());
+        let start = Instant::now();
+        drop(feed);
+        assert!(start.elapsed() < Duration::from_millis(50));
+    }
+}
