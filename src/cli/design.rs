@@ -21,8 +21,9 @@ use crate::propulsion::solver::matching::point_at_engine_rpm;
 use crate::propulsion::solver::trial::{
     Calibration, CalibrationFit, CalibrationOptions, calibrate,
 };
+use crate::report::checks::CALM_WATER_NOTE;
 use crate::report::table::{Column, Table};
-use crate::report::{CAUTION, Display, INCH_M, KNOT_MPS, json};
+use crate::report::{CAUTION, Display, INCH_M, KNOT_MPS, json, percent};
 use crate::units::Kind;
 
 /// The variants asked for: one by label, or all.
@@ -54,6 +55,9 @@ struct PitchJson {
     absorbed_kw: Option<f64>,
     condition: String,
     search: String,
+    speed_at_target_kn: Option<f64>,
+    froude_at_target: Option<f64>,
+    in_method_range: Option<bool>,
     warnings: Vec<String>,
 }
 
@@ -74,6 +78,9 @@ impl From<&PitchRecommendation> for PitchJson {
             absorbed_kw: finite_or_none(r.absorbed_power.map(|w| w / 1e3)),
             condition: r.condition.describe(),
             search: stop_text(&r.stop),
+            speed_at_target_kn: finite_or_none(r.speed_at_target.map(|v| v / KNOT_MPS)),
+            froude_at_target: finite_or_none(r.target_validity.map(|v| v.froude)),
+            in_method_range: r.in_method_range,
             warnings: r.warnings.iter().map(ToString::to_string).collect(),
         }
     }
@@ -172,6 +179,15 @@ pub fn pitch_text(r: &PitchRecommendation, d: &Display) -> String {
                     ),
                 }
             ));
+            if let (Some(false), Some(v)) = (r.in_method_range, r.target_validity) {
+                out.push_str(&format!(
+                    "  UNRELIABLE: at {:.0} rpm this pitch runs the boat at {} (Fn {:.2}), outside the resistance method's range — a sea trial decides\n",
+                    r.target_point.engine_rpm,
+                    r.speed_at_target
+                        .map_or("—".into(), |s| d.quantity(s, Kind::Speed)),
+                    v.froude
+                ));
+            }
         }
         _ => out.push_str(&format!("  no pitch recommended: {}\n", stop_text(&r.stop))),
     }
@@ -538,6 +554,11 @@ pub fn trial_text(cal: &Calibration, d: &Display) -> String {
         out.push_str(&format!(", wake fraction {w:.3}"));
     }
     out.push('\n');
+    out.push_str(&format!(
+        "  The factor multiplies the calm, clean-hull resistance at the trial's condition: the trial is compared with the model without the boat's service margin ({}) and fouling ({}), which every prediction then adds on top of the calibrated resistance.\n",
+        percent(cal.service_margin, 0),
+        percent(cal.fouling, 0)
+    ));
     for w in &cal.warnings {
         out.push_str(&format!("  warning: {w}\n"));
     }
@@ -588,7 +609,7 @@ fn calibration_doc(loaded: &LoadedBoat, index: usize, cal: &Calibration) -> Cali
         wake_fraction: cal.wake_fraction.map(round),
         trial_date: loaded.doc.trial.as_ref().and_then(|t| t.date.clone()),
         note: Some(format!(
-            "{fitted} fitted{on} by `tidewright trial --save` to {} rpm groups from {low:.0} to {high:.0} rpm, screw {}; RMS error {:.3} kn before, {:.3} kn after",
+            "{fitted} fitted{on} by `tidewright trial --save` {CALM_WATER_NOTE} to {} rpm groups from {low:.0} to {high:.0} rpm, screw {}; RMS error {:.3} kn before, {:.3} kn after",
             cal.points.len(),
             loaded.vessel.variants[index].label,
             cal.rms_before / KNOT_MPS,

@@ -10,6 +10,7 @@ pub use interaction::{Interaction, InteractionMethod};
 pub use particulars::{HullForm, HullInput};
 pub use resistance::{
     AirDrag, Margins, ResistanceComponents, ResistanceMethod, ResistanceModel, ResistanceTable,
+    SpeedValidity,
 };
 
 use thiserror::Error;

@@ -433,3 +433,71 @@ fn pitch_json_names_its_condition_and_calibration() {
     }
     assert!(v["condition"].as_str().unwrap().contains("displacement"));
 }
+
+/// The test fixtures' profile directory (boats/ and engines/).
+fn fixture_store() -> String {
+    std::path::Path::new(env!("CARGO_MANIFEST_DIR"))
+        .join("tests/fixtures/valid")
+        .display()
+        .to_string()
+}
+
+#[test]
+fn full_throttle_past_the_method_is_marked_unreliable_in_json_report_and_pitch() {
+    // The fixture "stubby" (invented: 7.5 m, 8 t, L/B 2.8, 80 kW) reaches full throttle past
+    // Fn 0.5: outside Holtrop–Mennen's Fn ≤ 0.45 (from memory) and past the speed/length limit
+    // 8.26/(D/L)^0.311 for its displacement-length ratio (common practice).
+    let store = fixture_store();
+    let doc = run_json(&["--profiles", &store, "report", "stubby", "--format", "json"]);
+    let variant = &doc["variants"][0];
+    let matching = &variant["match"];
+    assert_eq!(matching["top_speed_in_method_range"], Value::Bool(false));
+    assert!(
+        matching["top_speed_froude"].as_f64().unwrap() > 0.5,
+        "{matching}"
+    );
+    let points = variant["points"].as_array().unwrap();
+    for p in points {
+        let froude = p["froude"].as_f64().unwrap();
+        let in_range = p["in_method_range"].as_bool().unwrap();
+        // Past Fn 0.45 no point is in range; a point in range is below it.
+        assert!(!(froude > 0.45 && in_range), "{p}");
+    }
+    assert_eq!(
+        points[0]["in_method_range"],
+        Value::Bool(true),
+        "idle is in range"
+    );
+    assert!(
+        points
+            .iter()
+            .any(|p| p["in_method_range"] == Value::Bool(false))
+    );
+
+    let text = run_text(&["--profiles", &store, "report", "stubby"]);
+    assert!(
+        text.contains("top speed about") && text.contains("(UNRELIABLE: Fn"),
+        "{text}"
+    );
+    assert!(
+        text.contains("FULL THROTTLE OUTSIDE THE METHOD'S RANGE (screw only)"),
+        "{text}"
+    );
+    assert!(
+        text.contains("unreliable: outside the method's range (Fn"),
+        "{text}"
+    );
+
+    let pitch = run_text(&["--profiles", &store, "pitch", "stubby"]);
+    assert!(
+        pitch.contains("UNRELIABLE: at 3000 rpm this pitch"),
+        "{pitch}"
+    );
+    assert!(pitch.contains("a sea trial decides"), "{pitch}");
+    let pitch_json = run_json(&["--profiles", &store, "pitch", "stubby", "--format", "json"]);
+    assert_eq!(
+        pitch_json["variants"][0]["in_method_range"],
+        Value::Bool(false),
+        "{pitch_json}"
+    );
+}

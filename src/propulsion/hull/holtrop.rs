@@ -430,11 +430,16 @@ pub fn validity_warnings(hull: &HullForm, edition: Edition) -> Vec<Warning> {
     warnings
 }
 
-/// Highest Froude number of the data behind each edition (1982: 0.45; 1984: about 1.0; from memory).
+/// Highest Froude number at which each edition is taken as valid for small displacement craft
+/// (dimensionless): Fn ≤ 0.45, the commonly quoted limit of the regression sample (from memory).
+///
+/// The 1984 re-analysis reaches higher Froude numbers only through slender high-speed forms
+/// (Series 64 and similar, L/B far above these boats'), and the 1982 paper's own row for
+/// trawlers, coasters and tugs stops lower still (about 0.38, from memory); a short beamy
+/// motorboat is therefore not credited with the 1984 edition's high-speed reach.
 pub fn froude_limit(edition: Edition) -> f64 {
     match edition {
-        Edition::Original1982 => 0.45,
-        Edition::Revised1984 => 1.0,
+        Edition::Original1982 | Edition::Revised1984 => 0.45,
     }
 }
 
