@@ -336,13 +336,28 @@ fn sweep_text(result: &SweepResult, label: &str, d: &Display) -> String {
             ),
             format!("{:.2}", c.gear_ratio),
             opt(c.pitch, &|p| d.number(p, Kind::ScrewLength, 1)),
-            opt(c.top_speed, &|v| d.number(v, Kind::Speed, 2)),
+            opt(c.top_speed, &|v| {
+                let prefix = if c.top_speed_in_method_range == Some(false) {
+                    "≈"
+                } else {
+                    ""
+                };
+                format!("{prefix}{}", d.number(v, Kind::Speed, 2))
+            }),
             opt(c.open_water_efficiency_at_target, &|v| format!("{v:.3}")),
             opt(c.open_water_efficiency_at_top, &|v| format!("{v:.3}")),
             opt(c.fuel_per_distance_at_target, &|v| {
                 d.number(v, Kind::FuelPerDistance, 2)
             }),
-            c.problem.clone().unwrap_or_default(),
+            [
+                (c.top_speed_in_method_range == Some(false))
+                    .then(|| super::conditions::UNRELIABLE_TOP_NOTE.to_string()),
+                c.problem.clone(),
+            ]
+            .into_iter()
+            .flatten()
+            .collect::<Vec<_>>()
+            .join("; "),
         ]);
     }
     out.push_str(&table.to_text("  "));
@@ -360,6 +375,7 @@ struct CandidateJson {
     gear_ratio: f64,
     pitch_m: Option<f64>,
     top_speed_kn: Option<f64>,
+    top_speed_in_method_range: Option<bool>,
     meeting_rpm: Option<f64>,
     eta0_at_target: Option<f64>,
     eta0_at_top: Option<f64>,
@@ -425,6 +441,7 @@ pub fn sweep(ctx: &Context, args: &SweepArgs, out: &mut dyn Write) -> anyhow::Re
                         gear_ratio: c.gear_ratio,
                         pitch_m: finite_or_none(c.pitch),
                         top_speed_kn: finite_or_none(c.top_speed.map(|v| v / KNOT_MPS)),
+                        top_speed_in_method_range: c.top_speed_in_method_range,
                         meeting_rpm: finite_or_none(c.meeting_rpm),
                         eta0_at_target: finite_or_none(c.open_water_efficiency_at_target),
                         eta0_at_top: finite_or_none(c.open_water_efficiency_at_top),

@@ -740,6 +740,12 @@ pub fn target_line(
     match &v.target {
         Ok(c) => {
             let mut line = format!("At {at}: {}", cruise_summary(c, d));
+            if !c.point.in_method_range {
+                line.push_str(&format!(
+                    " — UNRELIABLE: Fn {:.2}, outside the resistance method's range",
+                    c.point.froude
+                ));
+            }
             if c.beyond_full_load {
                 line.push_str(" — past the engine's full-load curve: not reachable");
             } else if v.duty.is_none() && engine.duty == Some(Duty::Intermittent) {

@@ -838,6 +838,8 @@ pub struct SweepCandidate {
     pub pitch: Option<f64>,
     /// Top speed at full throttle, m/s.
     pub top_speed: Option<f64>,
+    /// Whether the top speed is inside the resistance method's range (false: unreliable).
+    pub top_speed_in_method_range: Option<bool>,
     /// Full-throttle engine rpm, rpm.
     pub meeting_rpm: Option<f64>,
     /// Open-water efficiency η0 at the target speed.
@@ -1029,6 +1031,7 @@ fn evaluate_candidate(
         stop: SearchStop::IterationsExhausted,
         pitch: None,
         top_speed: None,
+        top_speed_in_method_range: None,
         meeting_rpm: None,
         open_water_efficiency_at_target: None,
         open_water_efficiency_at_top: None,
@@ -1066,6 +1069,7 @@ fn evaluate_candidate(
     match match_engine(&system, &vessel.match_criteria) {
         Ok(m) => {
             candidate.top_speed = Some(m.top_speed);
+            candidate.top_speed_in_method_range = Some(m.top_speed_in_method_range);
             candidate.meeting_rpm = Some(m.meeting_rpm);
             candidate.open_water_efficiency_at_top = Some(m.top_point.open_water_efficiency);
             candidate.propulsive_efficiency_at_top =
@@ -1185,6 +1189,7 @@ mod tests {
             stop: SearchStop::Converged,
             pitch: Some(0.4),
             top_speed: Some(top),
+            top_speed_in_method_range: Some(true),
             meeting_rpm: None,
             open_water_efficiency_at_target: None,
             open_water_efficiency_at_top: None,
