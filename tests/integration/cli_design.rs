@@ -501,3 +501,27 @@ fn full_throttle_past_the_method_is_marked_unreliable_in_json_report_and_pitch()
         "{pitch_json}"
     );
 }
+
+#[test]
+fn the_exported_charts_ring_points_past_the_method_and_the_report_marks_the_top_speed() {
+    // Fixture "stubby": full throttle past Fn 0.5, beyond Holtrop–Mennen's Fn ≤ 0.45 (from
+    // memory) and the common-practice speed/length limit.
+    let dir = tempfile::tempdir().unwrap();
+    let out = dir.path().join("export");
+    tidewright()
+        .args(["--profiles", &fixture_store(), "export", "stubby", "--out"])
+        .arg(&out)
+        .assert()
+        .success();
+    for chart in ["speed.svg", "power.svg"] {
+        let svg = std::fs::read_to_string(out.join(chart)).unwrap();
+        // The legend is XML-escaped: the apostrophe is written &apos;.
+        assert!(
+            svg.contains("past the method&apos;s range: unreliable"),
+            "{chart}"
+        );
+    }
+    let md = std::fs::read_to_string(out.join("report.md")).unwrap();
+    assert!(md.contains("(UNRELIABLE: Fn"), "{md}");
+    assert!(!md.contains("top speed 9."), "a plain top speed:\n{md}");
+}
