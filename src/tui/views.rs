@@ -328,6 +328,14 @@ fn calibration_lines(app: &App, view: &super::analysis::CalibrationView) -> Vec<
             0.5, 2.0
         )),
     ]));
+    lines.push(Line::styled(
+        format!(
+            "on calm, clean-hull resistance: predicted without the service margin {:.0} % and fouling {:.0} %, which go on top",
+            cal.service_margin * 100.0,
+            cal.fouling * 100.0
+        ),
+        app.theme.dim,
+    ));
     if let Some(w) = cal.wake_fraction {
         lines.push(Line::raw(format!("Fitted wake fraction {w:.3}")));
     }
