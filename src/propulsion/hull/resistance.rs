@@ -277,13 +277,11 @@ impl ResistanceModel {
             froude_range.is_none_or(|(low, high)| froude >= low - 1e-9 && froude <= high + 1e-9);
         let length = self.hull.input.length_waterline;
         let speed_length_ratio = (speed / KNOT) / (length / FOOT).sqrt();
-        let speed_length_limit = match self.method {
-            ResistanceMethod::HoltropMennen => {
-                let mass = self.water.density * self.hull.input.displacement_volume;
-                Some(speed_length_limit(displacement_length_ratio(mass, length)))
-            }
-            ResistanceMethod::Table(_) => None,
-        };
+        // Every regression method stays inside the displacement regime; a table does not need to.
+        let speed_length_limit = (!matches!(self.method, ResistanceMethod::Table(_))).then(|| {
+            let mass = self.water.density * self.hull.input.displacement_volume;
+            speed_length_limit(displacement_length_ratio(mass, length))
+        });
         let speed_length_in_range =
             speed_length_limit.is_none_or(|limit| speed_length_ratio <= limit);
         SpeedValidity {
