@@ -647,7 +647,7 @@ pub fn recommend_pitch_for_condition(
         warnings.push(Warning::new(
             "pitch recommendation",
             format!(
-                "UNRELIABLE: at {:.0} rpm with the recommended pitch the boat runs outside {}'s range ({reason}); the resistance there is an extrapolation, so a sea trial decides the pitch",
+                "UNRELIABLE: at {:.0} rpm with the recommended pitch the boat runs outside the range of {} ({reason}); the resistance there is an extrapolation, so a sea trial decides the pitch",
                 target_point.engine_rpm,
                 vessel.resistance.method.name()
             ),
