@@ -136,6 +136,12 @@ pub fn cruise(ctx: &Context, args: &CruiseArgs, out: &mut dyn Write) -> anyhow::
             if point.beyond_full_load {
                 line.push_str(" — past the engine's full-load curve: not reachable");
             }
+            if !point.point.in_method_range {
+                line.push_str(&format!(
+                    " — UNRELIABLE: Fn {:.2}, outside the resistance method's range; a sea trial decides",
+                    point.point.froude
+                ));
+            }
             writeln!(out, "{line}")?;
             writeln!(out, "{}", loaded.calibration_line())?;
             writeln!(out, "Caution: {CAUTION}")?;

@@ -21,6 +21,9 @@ use crate::report::table::{Column, Table};
 use crate::report::{CAUTION, Display, KNOT_MPS, LITRE_M3, json, percent};
 use crate::units::Kind;
 
+/// The note of a row whose top speed (marked ≈) lies outside the resistance method's range.
+pub const UNRELIABLE_TOP_NOTE: &str = "≈ top speed unreliable: outside the method's range";
+
 /// What-if settings, as fractions.
 #[derive(Debug, Clone, Copy, PartialEq)]
 pub struct WhatIfSettings {
@@ -202,6 +205,10 @@ impl WhatIf {
             if o.cruise_beyond_full_load == Some(true) {
                 note.push("target speed past full load".to_string());
             }
+            let unreliable = o.top_speed_in_method_range == Some(false);
+            if unreliable {
+                note.push(UNRELIABLE_TOP_NOTE.to_string());
+            }
             if let Some(problem) = &o.problem {
                 note.push(problem.clone());
             }
@@ -226,7 +233,10 @@ impl WhatIf {
                 o.verdict
                     .map_or_else(dash, |v| verdict_words(v).to_string()),
                 finite(o.full_throttle_rpm).map_or_else(dash, |r| format!("{r:.0}")),
-                finite(o.top_speed).map_or_else(dash, |v| d.number(v, Kind::Speed, 2)),
+                finite(o.top_speed).map_or_else(dash, |v| {
+                    let prefix = if unreliable { "≈" } else { "" };
+                    format!("{prefix}{}", d.number(v, Kind::Speed, 2))
+                }),
                 finite(o.cruise_rpm).map_or_else(dash, |r| format!("{r:.0}")),
                 finite(o.cruise_power).map_or_else(dash, |w| d.number(w, Kind::Power, 1)),
                 finite(o.cruise_fuel_volume_flow)
@@ -364,6 +374,7 @@ struct OutcomeJson {
     verdict: Option<Verdict>,
     full_throttle_rpm: Option<f64>,
     top_speed_kn: Option<f64>,
+    top_speed_in_method_range: Option<bool>,
     absorbed_pct_at_rated: Option<f64>,
     cruise_rpm: Option<f64>,
     cruise_kw: Option<f64>,
@@ -445,6 +456,7 @@ pub fn run(ctx: &Context, args: &ConditionsArgs, out: &mut dyn Write) -> anyhow:
                     verdict: o.verdict,
                     full_throttle_rpm: finite(o.full_throttle_rpm),
                     top_speed_kn: finite(o.top_speed).map(|v| v / KNOT_MPS),
+                    top_speed_in_method_range: o.top_speed_in_method_range,
                     absorbed_pct_at_rated: finite(o.absorbed_fraction_at_rated).map(|f| f * 100.0),
                     cruise_rpm: finite(o.cruise_rpm),
                     cruise_kw: kw(o.cruise_power),

@@ -22,8 +22,9 @@ use crate::propulsion::solver::trial::{
     Calibration, CalibrationFit, CalibrationOptions, calibrate,
 };
 use crate::report::boat::{margin_words, signed_rpm, verdict_words};
+use crate::report::checks::CALM_WATER_NOTE;
 use crate::report::table::{Column, Table};
-use crate::report::{CAUTION, Display, INCH_M, KNOT_MPS, json};
+use crate::report::{CAUTION, Display, INCH_M, KNOT_MPS, json, percent};
 use crate::units::Kind;
 
 /// The variants asked for: one by label, or all.
@@ -61,6 +62,9 @@ struct PitchJson {
     cure: Option<CureJson>,
     condition: String,
     search: String,
+    speed_at_target_kn: Option<f64>,
+    froude_at_target: Option<f64>,
+    in_method_range: Option<bool>,
     warnings: Vec<String>,
 }
 
@@ -84,6 +88,9 @@ impl From<&PitchRecommendation> for PitchJson {
             cure: r.cure.as_ref().map(CureJson::from),
             condition: r.condition.describe(),
             search: stop_text(&r.stop),
+            speed_at_target_kn: finite_or_none(r.speed_at_target.map(|v| v / KNOT_MPS)),
+            froude_at_target: finite_or_none(r.target_validity.map(|v| v.froude)),
+            in_method_range: r.in_method_range,
             warnings: r.warnings.iter().map(ToString::to_string).collect(),
         }
     }
@@ -248,6 +255,15 @@ pub fn pitch_text(r: &PitchRecommendation, d: &Display) -> String {
                     ),
                 }
             ));
+            if let (Some(false), Some(v)) = (r.in_method_range, r.target_validity) {
+                out.push_str(&format!(
+                    "  UNRELIABLE: at {:.0} rpm this pitch runs the boat at {} (Fn {:.2}), outside the resistance method's range — a sea trial decides\n",
+                    r.target_point.engine_rpm,
+                    r.speed_at_target
+                        .map_or("—".into(), |s| d.quantity(s, Kind::Speed)),
+                    v.froude
+                ));
+            }
         }
         _ => out.push_str(&format!("  no pitch recommended: {}\n", stop_text(&r.stop))),
     }
@@ -444,13 +460,28 @@ fn sweep_text(result: &SweepResult, label: &str, d: &Display) -> String {
             ),
             format!("{:.2}", c.gear_ratio),
             opt(c.pitch, &|p| d.number(p, Kind::ScrewLength, 1)),
-            opt(c.top_speed, &|v| d.number(v, Kind::Speed, 2)),
+            opt(c.top_speed, &|v| {
+                let prefix = if c.top_speed_in_method_range == Some(false) {
+                    "≈"
+                } else {
+                    ""
+                };
+                format!("{prefix}{}", d.number(v, Kind::Speed, 2))
+            }),
             opt(c.open_water_efficiency_at_target, &|v| format!("{v:.3}")),
             opt(c.open_water_efficiency_at_top, &|v| format!("{v:.3}")),
             opt(c.fuel_per_distance_at_target, &|v| {
                 d.number(v, Kind::FuelPerDistance, 2)
             }),
-            c.problem.clone().unwrap_or_default(),
+            [
+                (c.top_speed_in_method_range == Some(false))
+                    .then(|| super::conditions::UNRELIABLE_TOP_NOTE.to_string()),
+                c.problem.clone(),
+            ]
+            .into_iter()
+            .flatten()
+            .collect::<Vec<_>>()
+            .join("; "),
         ]);
     }
     out.push_str(&table.to_text("  "));
@@ -468,6 +499,7 @@ struct CandidateJson {
     gear_ratio: f64,
     pitch_m: Option<f64>,
     top_speed_kn: Option<f64>,
+    top_speed_in_method_range: Option<bool>,
     meeting_rpm: Option<f64>,
     eta0_at_target: Option<f64>,
     eta0_at_top: Option<f64>,
@@ -533,6 +565,7 @@ pub fn sweep(ctx: &Context, args: &SweepArgs, out: &mut dyn Write) -> anyhow::Re
                         gear_ratio: c.gear_ratio,
                         pitch_m: finite_or_none(c.pitch),
                         top_speed_kn: finite_or_none(c.top_speed.map(|v| v / KNOT_MPS)),
+                        top_speed_in_method_range: c.top_speed_in_method_range,
                         meeting_rpm: finite_or_none(c.meeting_rpm),
                         eta0_at_target: finite_or_none(c.open_water_efficiency_at_target),
                         eta0_at_top: finite_or_none(c.open_water_efficiency_at_top),
@@ -662,6 +695,11 @@ pub fn trial_text(cal: &Calibration, d: &Display) -> String {
         out.push_str(&format!(", wake fraction {w:.3}"));
     }
     out.push('\n');
+    out.push_str(&format!(
+        "  The factor multiplies the calm, clean-hull resistance at the trial's condition: the trial is compared with the model without the boat's service margin ({}) and fouling ({}), which every prediction then adds on top of the calibrated resistance.\n",
+        percent(cal.service_margin, 0),
+        percent(cal.fouling, 0)
+    ));
     for w in &cal.warnings {
         out.push_str(&format!("  warning: {w}\n"));
     }
@@ -712,7 +750,7 @@ fn calibration_doc(loaded: &LoadedBoat, index: usize, cal: &Calibration) -> Cali
         wake_fraction: cal.wake_fraction.map(round),
         trial_date: loaded.doc.trial.as_ref().and_then(|t| t.date.clone()),
         note: Some(format!(
-            "{fitted} fitted{on} by `tidewright trial --save` to {} rpm groups from {low:.0} to {high:.0} rpm, screw {}; RMS error {:.3} kn before, {:.3} kn after",
+            "{fitted} fitted{on} by `tidewright trial --save` {CALM_WATER_NOTE} to {} rpm groups from {low:.0} to {high:.0} rpm, screw {}; RMS error {:.3} kn before, {:.3} kn after",
             cal.points.len(),
             loaded.vessel.variants[index].label,
             cal.rms_before / KNOT_MPS,
@@ -792,6 +830,9 @@ pub fn trial(ctx: &Context, args: &DesignArgs, out: &mut dyn Write) -> anyhow::R
                 rms_after_kn: f64,
                 resistance_factor_before: f64,
                 resistance_factor: f64,
+                factor_basis: &'static str,
+                service_margin: f64,
+                fouling: f64,
                 wake_fraction: Option<f64>,
                 saved_calibration: Option<crate::report::checks::AppliedCalibration>,
                 rms_with_saved_kn: Option<f64>,
@@ -808,6 +849,9 @@ pub fn trial(ctx: &Context, args: &DesignArgs, out: &mut dyn Write) -> anyhow::R
                 rms_after_kn: cal.rms_after / KNOT_MPS,
                 resistance_factor_before: cal.resistance_factor_before,
                 resistance_factor: cal.resistance_factor,
+                factor_basis: "calm, clean-hull resistance; service margin and fouling on top",
+                service_margin: cal.service_margin,
+                fouling: cal.fouling,
                 wake_fraction: finite_or_none(cal.wake_fraction),
                 saved_calibration: loaded.applied_calibration(),
                 rms_with_saved_kn: kn(rms_saved),

@@ -324,7 +324,7 @@ pub struct TrialDoc {
 /// A correction fitted to a sea trial and applied to every prediction.
 #[derive(Debug, Clone, PartialEq)]
 pub struct CalibrationDoc {
-    /// Factor on total resistance (1 = none).
+    /// Factor on calm, clean-hull water resistance (1 = none); margins go on top.
     pub resistance_factor: f64,
     /// Fitted wake fraction, replacing the estimate, if fitted.
     pub wake_fraction: Option<f64>,

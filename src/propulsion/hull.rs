@@ -12,6 +12,7 @@ pub use interaction::{Interaction, InteractionMethod};
 pub use particulars::{HullForm, HullInput};
 pub use resistance::{
     AirDrag, Margins, ResistanceComponents, ResistanceMethod, ResistanceModel, ResistanceTable,
+    SpeedValidity,
 };
 pub use selection::{MethodChoice, choose_method};
 

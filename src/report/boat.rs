@@ -185,6 +185,15 @@ pub fn rpm_steps(idle_rpm: f64, rated_rpm: f64, step: f64) -> Result<Vec<f64>, R
     Ok(steps)
 }
 
+/// The loud warning when a variant's full-throttle point lies outside the resistance method.
+pub fn full_throttle_warning(label: &str, m: &MatchResult, method: &str, reason: &str) -> String {
+    format!(
+        "FULL THROTTLE OUTSIDE THE METHOD'S RANGE (screw {label}): at {:.0} rpm the boat would run at {:.1} kn, where {reason}. {method} is not valid there: the top speed, the verdict and any pitch chosen at full throttle are extrapolations — a sea trial (`tidewright trial`) or a resistance table decides",
+        m.meeting_rpm,
+        m.top_speed / KNOT_MPS
+    )
+}
+
 /// The reason a cruise point cannot be shown, if any of its numbers is not finite.
 fn checked(point: CruisePoint) -> Result<CruisePoint, String> {
     let p = &point.point;
@@ -255,6 +264,7 @@ impl BoatReport {
             Err(e) => add(format!("engine sheet {}: {e}", engine.name)),
         }
         let mut variants = Vec::with_capacity(indices.len());
+        let mut full_throttle_warnings = Vec::new();
         for index in indices {
             let v = &vessel.variants[index];
             v.screw
@@ -286,6 +296,16 @@ impl BoatReport {
             let target = cruise_at_speed(&system, &vessel.trip, vessel.trip.target_speed)
                 .map_err(|e| e.to_string())
                 .and_then(checked);
+            if let Ok(m) = &matching
+                && let Some(reason) = m.top_validity.reason()
+            {
+                full_throttle_warnings.push(full_throttle_warning(
+                    &v.label,
+                    m,
+                    vessel.resistance.method.name(),
+                    &reason,
+                ));
+            }
             let duty = target
                 .as_ref()
                 .ok()
@@ -300,6 +320,12 @@ impl BoatReport {
                 extrapolated: !v.screw.warnings().is_empty(),
                 method_spread: vessel.method_spread(index),
             });
+        }
+        // The full-throttle warnings lead: the pitch is decided there.
+        for w in full_throttle_warnings.into_iter().rev() {
+            if !warnings.contains(&w) {
+                warnings.insert(0, w);
+            }
         }
         Ok(Self {
             boat: vessel.name.clone(),
@@ -564,6 +590,9 @@ impl BoatReport {
                             verdict: m.verdict,
                             rpm_margin: m.rpm_margin,
                             rpm_margin_is_lower_bound: m.margin_is_lower_bound,
+                            top_speed_froude: m.top_validity.froude,
+                            top_speed_in_method_range: m.top_speed_in_method_range,
+                            top_speed_unreliable_because: m.top_validity.reason(),
                         }),
                         match_error: v.matching.as_ref().err().cloned(),
                         cruise: v.target.as_ref().ok().map(PointJson::from),
@@ -712,11 +741,7 @@ pub fn operating_table(v: &VariantReport, d: &Display, with_label: bool) -> Tabl
                         if imperial { 3 } else { 2 },
                     ),
                     d.number(c.range, Kind::Distance, 0),
-                    if c.beyond_full_load {
-                        "past full load: not reachable".into()
-                    } else {
-                        String::new()
-                    },
+                    point_note(c),
                 ]);
             }
             Err(reason) => {
@@ -728,6 +753,21 @@ pub fn operating_table(v: &VariantReport, d: &Display, with_label: bool) -> Tabl
         table.push(cells);
     }
     table
+}
+
+/// The note of one operating row: past full load, outside the method's range, or empty.
+fn point_note(c: &CruisePoint) -> String {
+    let mut notes = Vec::new();
+    if c.beyond_full_load {
+        notes.push("past full load: not reachable".to_string());
+    }
+    if !c.point.in_method_range {
+        notes.push(format!(
+            "unreliable: outside the method's range (Fn {:.2})",
+            c.point.froude
+        ));
+    }
+    notes.join("; ")
 }
 
 /// The verdict in words.
@@ -780,13 +820,23 @@ pub fn signed_rpm(rpm: f64) -> String {
 /// "Match: over-propped — …" for one variant.
 pub fn match_line(v: &VariantReport, d: &Display, rated_rpm: f64) -> String {
     let line = match &v.matching {
-        Ok(m) => format!(
-            "Match: {} — full throttle at {:.0} rpm, top speed {}, the screw absorbs {} of rated power at rated rpm",
-            verdict_and_margin(m, rated_rpm),
-            m.meeting_rpm,
-            d.quantity(m.top_speed, Kind::Speed),
-            percent(m.absorbed_fraction_at_rated, 0)
-        ),
+        Ok(m) => {
+            let top_speed = if m.top_speed_in_method_range {
+                d.quantity(m.top_speed, Kind::Speed)
+            } else {
+                format!(
+                    "about {} (UNRELIABLE: Fn {:.2}, outside the resistance method's range; a sea trial decides)",
+                    d.quantity(m.top_speed, Kind::Speed),
+                    m.top_validity.froude
+                )
+            };
+            format!(
+                "Match: {} — full throttle at {:.0} rpm, top speed {top_speed}, the screw absorbs {} of rated power at rated rpm",
+                verdict_and_margin(m, rated_rpm),
+                m.meeting_rpm,
+                percent(m.absorbed_fraction_at_rated, 0)
+            )
+        }
         Err(reason) => format!("Match: not found — {reason}"),
     };
     if v.extrapolated {
@@ -807,6 +857,12 @@ pub fn target_line(
     match &v.target {
         Ok(c) => {
             let mut line = format!("At {at}: {}", cruise_summary(c, d));
+            if !c.point.in_method_range {
+                line.push_str(&format!(
+                    " — UNRELIABLE: Fn {:.2}, outside the resistance method's range",
+                    c.point.froude
+                ));
+            }
             if c.beyond_full_load {
                 line.push_str(" — past the engine's full-load curve: not reachable");
             } else if v.duty.is_none() && engine.duty == Some(Duty::Intermittent) {
@@ -944,6 +1000,10 @@ pub struct PointJson {
     pub range_nm: f64,
     /// Whether the point lies past the full-load curve.
     pub beyond_full_load: bool,
+    /// Length Froude number V/√(g·LWL).
+    pub froude: f64,
+    /// Whether the resistance method is valid at this speed (false: unreliable).
+    pub in_method_range: bool,
 }
 
 impl From<&CruisePoint> for PointJson {
@@ -966,6 +1026,8 @@ impl From<&CruisePoint> for PointJson {
             fuel_l_per_nm: c.fuel_per_distance / LITRE_M3 * NAUTICAL_MILE_M,
             range_nm: c.range / NAUTICAL_MILE_M,
             beyond_full_load: c.beyond_full_load,
+            froude: p.froude,
+            in_method_range: p.in_method_range,
         }
     }
 }
@@ -995,6 +1057,12 @@ pub struct MatchJson {
     pub rpm_margin: f64,
     /// Whether `rpm_margin` is only a lower bound.
     pub rpm_margin_is_lower_bound: bool,
+    /// Length Froude number at the top speed.
+    pub top_speed_froude: f64,
+    /// Whether the top speed is inside the resistance method's range (false: unreliable).
+    pub top_speed_in_method_range: bool,
+    /// Why the top speed is unreliable, or null.
+    pub top_speed_unreliable_because: Option<String>,
 }
 
 #[cfg(test)]

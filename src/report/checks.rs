@@ -37,7 +37,7 @@ pub struct CheckInputs {
 /// The sea-trial correction saved with the boat and applied to every prediction.
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct AppliedCalibration {
-    /// Factor on total resistance.
+    /// Factor on calm, clean-hull water resistance (margins go on top).
     pub resistance_factor: f64,
     /// Fitted wake fraction replacing the estimate, if fitted.
     pub wake_fraction: Option<f64>,
@@ -68,9 +68,27 @@ impl AppliedCalibration {
         } else {
             line.push_str(&format!(" ({})", about.join("; ")));
         }
+        line.push_str(" on calm, clean-hull resistance, margins on top");
+        if self.fitted_with_margins() {
+            line.push_str(
+                "; saved by an earlier tidewright whose fit counted the service margin and fouling inside the factor, so it under-states the resistance by about the margins: run `tidewright trial BOAT --save` again",
+            );
+        }
         line
     }
+
+    /// Whether the note says the factor was written by a `trial --save` from before the fit
+    /// worked on calm-water resistance (its note lacks the "calm-water" its successors carry).
+    pub fn fitted_with_margins(&self) -> bool {
+        self.note.as_deref().is_some_and(|n| {
+            n.contains("by `tidewright trial --save`") && !n.contains(CALM_WATER_NOTE)
+        })
+    }
 }
+
+/// The words every note written by `trial --save` carries since the fit works on calm-water
+/// resistance; a saved note without them comes from the older fit with the margins inside.
+pub const CALM_WATER_NOTE: &str = "on calm-water resistance";
 
 /// Where on the propeller curve a screw is checked.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
@@ -536,7 +554,18 @@ mod tests {
         };
         assert_eq!(
             c.line(),
-            "calibration applied: resistance ×1.114 (sea trial 2024-05-18; fitted)"
+            "calibration applied: resistance ×1.114 (sea trial 2024-05-18; fitted) on calm, clean-hull resistance, margins on top"
+        );
+        assert!(!c.fitted_with_margins());
+        // A note written by `trial --save` before the fit worked on calm water is flagged.
+        let old = AppliedCalibration {
+            note: Some("resistance factor fitted on 2025-01-02 by `tidewright trial --save` to 3 rpm groups".into()),
+            ..c.clone()
+        };
+        assert!(old.fitted_with_margins());
+        assert!(
+            old.line()
+                .contains("run `tidewright trial BOAT --save` again")
         );
     }
 }

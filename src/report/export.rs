@@ -33,6 +33,10 @@ const ENGINE_LOOK: usize = 0;
 const VARIANT_LOOK: usize = 1;
 /// The look of measured or special points (full-throttle points, sea-trial runs).
 const MARKER_LOOK: usize = 5;
+/// The look of the markers over points outside the resistance method's range.
+const UNRELIABLE_LOOK: usize = 4;
+/// The legend of those markers.
+const UNRELIABLE_NAME: &str = "past the method's range: unreliable";
 
 /// The charts of the export, in display units: power, speed, fuel rate and range.
 pub fn charts(vessel: &Vessel, curves: &BoatReport, system: UnitSystem) -> Vec<(String, Chart)> {
@@ -100,7 +104,32 @@ pub fn charts(vessel: &Vessel, curves: &BoatReport, system: UnitSystem) -> Vec<(
         });
     }
 
+    // Points outside the resistance method's range (the core's in_method_range) are ringed.
+    let unreliable = |f: &dyn Fn(&crate::propulsion::solver::CruisePoint) -> (f64, f64)| {
+        let points: Vec<(f64, f64)> = curves
+            .variants
+            .iter()
+            .flat_map(|v| solved(v).into_iter())
+            .filter(|c| !c.point.in_method_range)
+            .map(|c| f(&c))
+            .collect();
+        (!points.is_empty()).then(|| Series {
+            name: UNRELIABLE_NAME.into(),
+            points,
+            style: SeriesStyle::Markers,
+            look: UNRELIABLE_LOOK,
+        })
+    };
+    power.extend(unreliable(&|c| {
+        (
+            c.point.engine_rpm,
+            d.scaled(c.point.brake_power, Kind::Power),
+        )
+    }));
     let mut speed = per_variant(&|c| (c.point.engine_rpm, d.scaled(c.point.speed, Kind::Speed)));
+    speed.extend(unreliable(&|c| {
+        (c.point.engine_rpm, d.scaled(c.point.speed, Kind::Speed))
+    }));
     if !vessel.trial.is_empty() {
         speed.push(Series {
             name: "sea trial (speed over ground)".into(),

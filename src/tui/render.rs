@@ -235,6 +235,9 @@ fn convert(points: &[(f64, f64)], x: Option<Kind>, y: Kind, system: UnitSystem) 
         .collect()
 }
 
+/// Legend of the dotted part of a curve past the resistance method's range.
+const UNRELIABLE_LEGEND: &str = "••• unreliable";
+
 /// The chart for the app's current chart kind, in display units.
 pub fn chart_view(app: &App) -> ChartView {
     let system = app.units;
@@ -344,18 +347,38 @@ pub fn chart_view(app: &App) -> ChartView {
         } else {
             ""
         };
+        // Past the first point outside the resistance method's range the curve is an
+        // extrapolation: drawn as a chain of dots in the warning colour instead of a line.
+        let threshold = variant.unreliable_from.map(|(rpm, speed)| match x_kind {
+            Some(kind) => units::to_display(speed, kind, system),
+            None => rpm,
+        });
+        let split = threshold.map_or(points.len(), |x| points.partition_point(|p| p.0 < x));
+        let (reliable, unreliable) = (points[..split].to_vec(), points[split..].to_vec());
         view.series.push(Series {
             name: None,
-            points: points.clone(),
+            points: reliable.clone(),
             shape: SeriesShape::Line,
             style,
         });
         view.series.push(Series {
             name: Some(format!("{} {}{active}", glyph.symbol(), variant.label)),
-            points: every_nth(&points, 6),
+            points: every_nth(&reliable, 6),
             shape: SeriesShape::Points(glyph),
             style,
         });
+        if !unreliable.is_empty() {
+            let named = !view
+                .series
+                .iter()
+                .any(|s| s.name.as_deref() == Some(UNRELIABLE_LEGEND));
+            view.series.push(Series {
+                name: named.then(|| UNRELIABLE_LEGEND.to_string()),
+                points: unreliable,
+                shape: SeriesShape::Points(Glyph::Dot),
+                style: app.theme.warning,
+            });
+        }
         if let Ok(m) = &variant.matched {
             let p = m.top_point;
             let point = match kind {
@@ -497,17 +520,31 @@ pub fn readout_lines(app: &App) -> Vec<Line<'static>> {
                     .solution
                     .solved()
                     .map_or(m.meeting_rpm - m.rpm_margin, |s| s.vessel.engine.rated_rpm);
-                Line::from(vec![
-                    Span::raw(format!(
-                        "{}: margin {} ({}) · absorbs {:.0} % at rated · top {} · ",
-                        variant.label,
-                        signed_rpm(m.rpm_margin),
-                        margin_words(m.rpm_margin, m.margin_is_lower_bound, rated_rpm),
-                        m.absorbed_fraction_at_rated * 100.0,
+                let mut spans = vec![Span::raw(format!(
+                    "{}: margin {} ({}) · absorbs {:.0} % at rated · top ",
+                    variant.label,
+                    signed_rpm(m.rpm_margin),
+                    margin_words(m.rpm_margin, m.margin_is_lower_bound, rated_rpm),
+                    m.absorbed_fraction_at_rated * 100.0,
+                ))];
+                if m.top_speed_in_method_range {
+                    spans.push(Span::raw(format!(
+                        "{} · ",
                         units::format(m.top_speed, Kind::Speed, system)
-                    )),
-                    Span::styled(verdict_text(m.verdict), verdict_style),
-                ])
+                    )));
+                } else {
+                    spans.push(Span::styled(
+                        format!(
+                            "≈{} UNRELIABLE (Fn {:.2})",
+                            units::format(m.top_speed, Kind::Speed, system),
+                            m.top_validity.froude
+                        ),
+                        theme.warning.add_modifier(Modifier::BOLD),
+                    ));
+                    spans.push(Span::raw(" · "));
+                }
+                spans.push(Span::styled(verdict_text(m.verdict), verdict_style));
+                Line::from(spans)
             }
             Err(why) => Line::styled(
                 format!("{}: no match with the engine: {why}", variant.label),

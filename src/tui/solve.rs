@@ -40,6 +40,9 @@ pub struct VariantSolution {
     pub warnings: Vec<Warning>,
     /// The first failure along the curve, if any point could not be solved.
     pub curve_failure: Option<String>,
+    /// (engine rpm, boat speed m/s) of the first curve point outside the resistance method's
+    /// range (the core's `in_method_range`): the curve is drawn differently from there on.
+    pub unreliable_from: Option<(f64, f64)>,
 }
 
 /// Everything solved for the document.
@@ -181,8 +184,13 @@ impl Solution {
             Some(false) => "BEYOND re-pitch limit: new screw",
             None => "",
         };
+        let unreliable = if rec.in_method_range == Some(false) {
+            " UNRELIABLE, a sea trial decides;"
+        } else {
+            ""
+        };
         Some(format!(
-            "Recommended pitch {} ({sign}{}, {limit}) for {} load; p adds it",
+            "Recommended pitch {} ({sign}{}, {limit}) for {} load;{unreliable} p adds it",
             units::format(pitch, Kind::ScrewLength, system),
             units::format(change.abs(), Kind::ScrewLength, system),
             self.solved()?.recommendation_load,
@@ -262,6 +270,10 @@ fn solve_variant(vessel: &Vessel, index: usize) -> VariantSolution {
         range_by_speed: Vec::with_capacity(CURVE_POINTS),
         warnings: vessel.variants[index].screw.warnings(),
         curve_failure,
+        unreliable_from: curve
+            .solved()
+            .find(|p| !p.in_method_range)
+            .map(|p| (p.engine_rpm, p.speed)),
     };
     for point in curve.solved() {
         solution

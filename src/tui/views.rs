@@ -31,6 +31,25 @@ fn number(value: Option<f64>, kind: Kind, system: UnitSystem, decimals: usize) -
     }
 }
 
+/// The legend of a ≈-marked top speed.
+const UNRELIABLE_TOP_LEGEND: &str =
+    "≈ top speed outside the resistance method's range: unreliable, a sea trial decides";
+
+/// A top speed, marked ≈ when it lies outside the resistance method's range (unreliable).
+fn top_speed(
+    value: Option<f64>,
+    in_range: Option<bool>,
+    system: UnitSystem,
+    decimals: usize,
+) -> String {
+    let text = number(value, Kind::Speed, system, decimals);
+    if in_range == Some(false) && value.is_some() {
+        format!("≈{text}")
+    } else {
+        text
+    }
+}
+
 fn short_verdict(verdict: Option<Verdict>) -> &'static str {
     match verdict {
         Some(Verdict::Over) => "OVER",
@@ -178,6 +197,13 @@ fn sweep_lines(app: &App, view: &super::analysis::SweepView) -> Vec<Line<'static
         }
         lines.push(candidate_line(app, view.over, c));
     }
+    if result
+        .candidates
+        .iter()
+        .any(|c| c.top_speed_in_method_range == Some(false))
+    {
+        lines.push(Line::styled(UNRELIABLE_TOP_LEGEND, app.theme.warning));
+    }
     for c in unsolved {
         lines.push(Line::styled(
             format!(
@@ -201,7 +227,7 @@ fn candidate_line(app: &App, over: SweepOver, c: &SweepCandidate) -> Line<'stati
         sweep_value(over, c.value, system),
         number(c.pitch, Kind::ScrewLength, system, 1),
         pitch_ratio.map_or_else(dash, |r| format!("{r:.2}")),
-        number(c.top_speed, Kind::Speed, system, 1),
+        top_speed(c.top_speed, c.top_speed_in_method_range, system, 1),
         eta(c.open_water_efficiency_at_target),
         eta(c.open_water_efficiency_at_top),
         number(
@@ -302,6 +328,14 @@ fn calibration_lines(app: &App, view: &super::analysis::CalibrationView) -> Vec<
             0.5, 2.0
         )),
     ]));
+    lines.push(Line::styled(
+        format!(
+            "on calm, clean-hull resistance: predicted without the service margin {:.0} % and fouling {:.0} %, which go on top",
+            cal.service_margin * 100.0,
+            cal.fouling * 100.0
+        ),
+        app.theme.dim,
+    ));
     if let Some(w) = cal.wake_fraction {
         lines.push(Line::raw(format!("Fitted wake fraction {w:.3}")));
     }
@@ -413,7 +447,7 @@ fn outcome_table(app: &App, outcomes: &[ConditionOutcome], width: usize) -> Vec<
     ));
     lines.push(row(
         format!("top {}", u(Kind::Speed)),
-        each(&|o| number(o.top_speed, Kind::Speed, system, 2)),
+        each(&|o| top_speed(o.top_speed, o.top_speed_in_method_range, system, 2)),
         Style::default(),
     ));
     lines.push(row(
@@ -454,6 +488,12 @@ fn outcome_table(app: &App, outcomes: &[ConditionOutcome], width: usize) -> Vec<
         ),
         app.theme.dim,
     ));
+    if outcomes
+        .iter()
+        .any(|o| o.top_speed_in_method_range == Some(false))
+    {
+        lines.push(Line::styled(UNRELIABLE_TOP_LEGEND, app.theme.warning));
+    }
     for o in outcomes {
         if let Some(p) = &o.problem {
             lines.push(Line::styled(

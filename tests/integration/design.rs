@@ -552,11 +552,14 @@ fn noise(state: &mut u64) -> f64 {
     ((*state >> 11) as f64 / (1u64 << 53) as f64) * 2.0 - 1.0
 }
 
-/// Out and back runs generated from `boat` with its resistance multiplied by `factor`, a steady
+/// Out and back runs generated from `boat`'s calm, clean-hull resistance (service margin and
+/// fouling at zero: a trial measures the hull as it is) multiplied by `factor`, a steady
 /// `current` (m/s, with the Out heading) and ±`noise_kn` knots of measurement noise.
 fn trial_log(boat: &Vessel, factor: f64, current: f64, noise_kn: f64) -> Vec<TrialRun> {
     let mut truth = boat.clone();
     truth.resistance.margins.resistance_factor = factor;
+    truth.resistance.margins.service = 0.0;
+    truth.resistance.margins.fouling = 0.0;
     let mut state = 0x5eed_u64;
     let mut runs = Vec::new();
     for rpm in [1200.0, 1600.0, 2000.0, 2400.0, 2700.0] {
@@ -620,6 +623,37 @@ fn calibration_recovers_a_known_resistance_factor() {
         calibrated.resistance.margins.resistance_factor,
         clean.resistance_factor,
         1e-12
+    );
+}
+
+#[test]
+fn the_trial_fit_works_on_calm_water_resistance_and_margins_go_on_top() {
+    // Issue 9: a boat with a 15 % service margin and 10 % fouling, tried with its hull as it is
+    // (calm, clean resistance × 1.20); the fit must return 1.20 within 1 %, not 1.20 divided by
+    // the margins, and the calibrated boat must then carry its margins on top of the factor.
+    let mut boat = vessel();
+    boat.resistance.margins.service = 0.15;
+    boat.resistance.margins.fouling = 0.10;
+    let runs = trial_log(&boat, 1.20, 0.0, 0.0);
+    let cal = calibrate(&boat.system(0), &runs, &CalibrationOptions::default()).unwrap();
+    assert!(
+        (cal.resistance_factor / 1.20 - 1.0).abs() < 0.01,
+        "factor {}",
+        cal.resistance_factor
+    );
+    assert_eq!((cal.service_margin, cal.fouling), (0.15, 0.10));
+    let mut calibrated = boat.clone();
+    cal.apply(&mut calibrated);
+    assert_eq!(calibrated.resistance.margins.service, 0.15);
+    assert_eq!(calibrated.resistance.margins.fouling, 0.10);
+    // The calibrated boat with margins is slower at the same rpm than the trial hull itself.
+    let trial_speed = cal.points.last().unwrap().measured_speed;
+    let predicted = point_at_engine_rpm(&calibrated.system(0), 2700.0)
+        .unwrap()
+        .speed;
+    assert!(
+        predicted < trial_speed - 1e-3,
+        "{predicted} vs {trial_speed}"
     );
 }
 

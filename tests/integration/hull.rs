@@ -244,7 +244,8 @@ fn components_sum_to_total_with_margins_and_air() {
         );
         previous = r.total;
     }
-    // Margins by hand: service on calm water + air, fouling on friction, then the factor.
+    // Margins by hand: the factor on calm water, then fouling on the calibrated friction and
+    // service on calibrated calm water + air (issue 9; docs/method.md §2.4).
     let bare = ResistanceModel {
         air: None,
         margins: Margins::default(),
@@ -253,7 +254,7 @@ fn components_sum_to_total_with_margins_and_air() {
     let v = 3.0;
     let (b, r) = (bare.resistance(v).unwrap(), m.resistance(v).unwrap());
     let air = 0.5 * 1.225 * 0.8 * 6.0 * (v + 2.0) * (v + 2.0);
-    let want = 1.1 * (b.total + air + 0.2 * b.friction + 0.15 * (b.total + air));
+    let want = 1.1 * b.total + air + 0.2 * 1.1 * b.friction + 0.15 * (1.1 * b.total + air);
     assert_close!(r.total, want, 1e-12);
 }
 
@@ -427,4 +428,50 @@ fn ittc_1957_line_at_several_reynolds_numbers() {
     // Holtrop & Mennen (1982) §5: 205 m at 25 kn in ν 1.18831e-6 m²/s gives CF = 0.001390.
     let rn = reynolds_number(25.0 * KNOT, 205.0, 1.18831e-6);
     assert_close!(ittc1957_friction_coefficient(rn), 0.001390, 0.0005);
+}
+
+#[test]
+fn the_calibration_factor_multiplies_calm_water_and_the_margins_go_on_top() {
+    // Issue 9 (order set in docs/method.md §2.4): total = k·Rcalm + fouling·k·RF
+    // + service·(k·Rcalm + Rair) + Rair, by hand from the same model with k = 1 and no margins.
+    let m = model(ResistanceMethod::HoltropMennen);
+    let mut bare = m.clone();
+    bare.margins = Margins::default();
+    bare.air = None;
+    let speed = 4.0;
+    let plain = bare.resistance(speed).unwrap();
+    let air = m.air.unwrap().force(speed);
+    let (k, service, fouling) = (1.1, 0.15, 0.2);
+    let calm = k * plain.total;
+    let want = calm + fouling * k * plain.friction + service * (calm + air) + air;
+    let r = m.resistance(speed).unwrap();
+    assert_close!(r.total, want, 1e-9);
+    // Air drag is not calibrated: it comes from the windage, not from the hull.
+    assert_close!(r.air, air, 1e-12);
+}
+
+#[test]
+fn validity_marks_speeds_past_the_froude_range_or_the_speed_length_limit() {
+    use tidewright::propulsion::hull::resistance::{displacement_length_ratio, speed_length_limit};
+    // 40 ft LWL, 30 000 lb: D/L = (30 000/2240)/(0.40)³ = 209.26 and the speed/length limit
+    // 8.26/209.26^0.311 = 1.5676 (by hand; the S/L-limit formula is common practice).
+    let dl = displacement_length_ratio(30_000.0 * 0.453_592_37, 40.0 * 0.3048);
+    assert_close!(dl, 209.26, 0.01);
+    assert_close!(speed_length_limit(dl), 1.5676, 1e-4);
+    let m = model(ResistanceMethod::HoltropMennen);
+    let froude_speed = |fn_l: f64| fn_l * (9.80665 * m.hull.input.length_waterline).sqrt();
+    // Holtrop–Mennen for small craft: Fn up to 0.45 (the regression sample, from memory).
+    assert_eq!(m.froude_range(), Some((0.0, 0.45)));
+    let slow = m.validity_at(froude_speed(0.25));
+    assert!(slow.in_method_range, "{slow:?}");
+    let fast = m.validity_at(froude_speed(0.55));
+    assert!(!fast.in_method_range && !fast.froude_in_range, "{fast:?}");
+    assert!(fast.reason().unwrap().contains("0.45"));
+    // A table covers exactly its own speeds, and no speed/length limit applies to measured data.
+    let table = model(ResistanceMethod::Table(ResistanceTable {
+        rows: vec![(1.0, 100.0), (6.0, 9000.0)],
+    }));
+    assert!(table.validity_at(6.0).in_method_range);
+    assert!(!table.validity_at(6.5).in_method_range);
+    assert_eq!(table.validity_at(3.0).speed_length_limit, None);
 }

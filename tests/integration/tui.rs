@@ -928,7 +928,15 @@ fn band_is_drawn_on_the_power_chart_and_the_screw_pane_names_the_condition() {
         text.contains("for half load"),
         "recommendation condition:\n{text}"
     );
-    assert!(text.contains("Cavitation"), "cavitation line:\n{text}");
+    // Pintle's full throttle lies past the method's range, so the recommendation carries its
+    // unreliable note first and the cavitation line, next in the pane's notes, is cut from the
+    // bottom at this size; it is still the second note.
+    let notes = tidewright::tui::fields::pane_notes(Pane::Screw, &app);
+    assert!(notes[0].contains("UNRELIABLE"), "{notes:?}");
+    assert!(
+        notes[1].contains("Cavitation"),
+        "cavitation line: {notes:?}"
+    );
     assert!(!text.contains("band ±10 %"));
     keys(&mut app, "b");
     assert!(app.band_shown);
@@ -1190,4 +1198,39 @@ fn tmux_sigterm_and_sighup_restore_the_terminal() {
             "alternate screen not left:\n{text}"
         );
     }
+}
+
+#[test]
+fn full_throttle_past_the_method_is_marked_in_the_readout_and_the_chart() {
+    // The fixture "stubby" reaches full throttle past Fn 0.5, beyond Holtrop–Mennen's Fn ≤ 0.45
+    // (from memory) and the common-practice speed/length limit: the readout must not show its
+    // top speed as a plain figure, and the speed curve changes style past the first such point.
+    let store =
+        Store::at(std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("tests/fixtures/valid"));
+    let mut app = tidewright::tui::open_app(&store, Some("stubby")).expect("the fixture opens");
+    app.chart = ChartKind::SpeedVsRpm;
+    let readout: String = render::readout_lines(&app)
+        .iter()
+        .map(ToString::to_string)
+        .collect::<Vec<_>>()
+        .join("\n");
+    assert!(readout.contains("UNRELIABLE (Fn"), "{readout}");
+    let view = render::chart_view(&app);
+    assert!(
+        view.series
+            .iter()
+            .any(|s| s.name.as_deref() == Some("••• unreliable") && !s.points.is_empty()),
+        "{view:?}"
+    );
+    let recommendation = app
+        .solution
+        .recommendation_line(UnitSystem::Metric)
+        .unwrap();
+    assert!(
+        recommendation.contains("UNRELIABLE") && recommendation.contains("a sea trial decides"),
+        "{recommendation}"
+    );
+    let text = screen(&app, 100, 30);
+    assert!(text.contains("••• unreliable"), "{text}");
+    insta::assert_snapshot!("stubby_unreliable_100x30", text);
 }

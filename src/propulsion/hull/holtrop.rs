@@ -446,11 +446,16 @@ pub fn outside_ranges(hull: &HullForm) -> Vec<(&'static str, f64, f64, f64)> {
         .collect()
 }
 
-/// Highest Froude number of the data behind each edition (1982: 0.45; 1984: about 1.0; from memory).
+/// Highest Froude number at which either edition is taken as valid for small displacement
+/// craft (dimensionless): [`SMALL_SHIP_FROUDE_MAX`], the limit of the ship type nearest a small
+/// motorboat.
+///
+/// The 1984 re-analysis reaches higher Froude numbers only through slender high-speed forms
+/// (L/B far above these boats'), so a short beamy motorboat is not credited with that reach;
+/// the commonly quoted limit of the whole 1982 sample, Fn 0.45 (from memory), is wider still.
 pub fn froude_limit(edition: Edition) -> f64 {
     match edition {
-        Edition::Original1982 => 0.45,
-        Edition::Revised1984 => 1.0,
+        Edition::Original1982 | Edition::Revised1984 => SMALL_SHIP_FROUDE_MAX,
     }
 }
 
@@ -461,8 +466,8 @@ pub fn froude_warning(fn_l: f64, edition: Edition) -> Option<Warning> {
         Warning::new(
             SOURCE,
             format!(
-                "Froude number {fn_l:.3} is above {limit}, the fastest in the method's data; \
-                 the hull is semi-planing there and the wave resistance is an extrapolation"
+                "Froude number {fn_l:.3} is above {limit}, the fastest Holtrop & Mennen give for \
+                 trawlers, coasters and tugs; the wave resistance is an extrapolation there"
             ),
         )
     })

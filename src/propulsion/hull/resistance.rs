@@ -28,7 +28,7 @@ pub struct ResistanceComponents {
     pub air: f64,
     /// Service margin (fouling, sea state) added on top, N.
     pub margin: f64,
-    /// Total resistance including every component, the margin and the calibration factor, N.
+    /// Total resistance: calibrated calm water, air and the margins on top, N.
     pub total: f64,
 }
 
@@ -70,7 +70,8 @@ pub struct Margins {
     pub service: f64,
     /// Hull fouling as added frictional resistance, fraction of friction (0.2 = +20 %).
     pub fouling: f64,
-    /// Calibration factor on total resistance from a sea trial (1.0 = none).
+    /// Sea-trial calibration factor on the calm, clean-hull water resistance (1.0 = none);
+    /// fouling and the service margin are added on top of the calibrated resistance.
     pub resistance_factor: f64,
 }
 
@@ -193,19 +194,132 @@ impl ResistanceMethod {
 /// The Holtrop edition a [`ResistanceMethod::HoltropMennen`] model evaluates.
 pub const HOLTROP_EDITION: Edition = Edition::Revised1984;
 
+/// One knot, m/s (1852 m per hour, by definition).
+const KNOT: f64 = 1852.0 / 3600.0;
+/// One foot, m (international foot, by definition).
+const FOOT: f64 = 0.3048;
+/// One long ton, kg (2240 lb × 0.45359237 kg, by definition).
+const LONG_TON: f64 = 2240.0 * 0.453_592_37;
+
+/// Where one speed lies against the resistance method's range and the displacement regime:
+/// the single in-range decision every front end reads.
+#[derive(Debug, Clone, Copy, PartialEq, serde::Serialize)]
+pub struct SpeedValidity {
+    /// Length Froude number V/√(g·LWL) at the speed (dimensionless).
+    pub froude: f64,
+    /// The method's Froude range (low, high), dimensionless; `None` if it states none.
+    pub froude_range: Option<(f64, f64)>,
+    /// Speed/length ratio V/√LWL in kn/√ft (dimensionless by convention).
+    pub speed_length_ratio: f64,
+    /// Common-practice speed/length limit of a displacement hull of this displacement-length
+    /// ratio, kn/√ft; `None` for a resistance table (measured data over its own speeds).
+    pub speed_length_limit: Option<f64>,
+    /// Whether the Froude number is inside the method's range.
+    pub froude_in_range: bool,
+    /// Whether the speed/length ratio is at or below the limit (true without a limit).
+    pub speed_length_in_range: bool,
+    /// Both: the prediction at this speed is within the method's range and the displacement regime.
+    pub in_method_range: bool,
+}
+
+impl SpeedValidity {
+    /// Why the prediction is unreliable here, in words, or `None` when it is in range.
+    pub fn reason(&self) -> Option<String> {
+        if self.in_method_range {
+            return None;
+        }
+        let mut parts = Vec::new();
+        if !self.froude_in_range {
+            match self.froude_range {
+                Some((_, high)) if self.froude > high => parts.push(format!(
+                    "Froude number {:.2} is past the method's range (up to {high:.2})",
+                    self.froude
+                )),
+                Some((low, high)) => parts.push(format!(
+                    "Froude number {:.2} is outside the method's range {low:.2}–{high:.2}",
+                    self.froude
+                )),
+                None => {}
+            }
+        }
+        if let (false, Some(limit)) = (self.speed_length_in_range, self.speed_length_limit) {
+            parts.push(format!(
+                "speed/length ratio {:.2} is past the displacement-hull limit {limit:.2} for this displacement-length ratio",
+                self.speed_length_ratio
+            ));
+        }
+        Some(parts.join("; "))
+    }
+}
+
+/// Displacement-length ratio D/L = Δ[long tons]/(0.01·LWL[ft])³ of a hull of `displacement_mass`
+/// kg on a waterline of `length_waterline` m (dimensionless by convention; common practice).
+pub fn displacement_length_ratio(displacement_mass: f64, length_waterline: f64) -> f64 {
+    (displacement_mass / LONG_TON) / (0.01 * length_waterline / FOOT).powi(3)
+}
+
+/// The highest speed/length ratio V[kn]/√LWL[ft] a displacement hull of displacement-length
+/// ratio `displacement_length` reaches before it leaves the displacement regime:
+/// 8.26/(D/L)^0.311 (common practice; the powering rule of thumb for displacement motorboats).
+pub fn speed_length_limit(displacement_length: f64) -> f64 {
+    8.26 / displacement_length.powf(0.311)
+}
+
 impl ResistanceModel {
-    /// The published Froude-number range of this model's method (see
-    /// [`ResistanceMethod::froude_range`]), dimensionless.
+    /// The Froude range (low, high) in which the method's prediction is published as valid
+    /// (dimensionless); `None` when the method states none. A table covers its own speeds.
     pub fn froude_range(&self) -> Option<(f64, f64)> {
-        self.method.froude_range()
+        match &self.method {
+            ResistanceMethod::Table(table) => {
+                let first = table.rows.first()?.0;
+                let last = table.rows.last()?.0;
+                Some((
+                    self.hull.froude_number(first),
+                    self.hull.froude_number(last),
+                ))
+            }
+            method => method.froude_range(),
+        }
+    }
+
+    /// Where `speed` (m/s) lies against the method's Froude range and the common-practice
+    /// speed/length limit of a displacement hull: the one in-range decision of the core.
+    ///
+    /// A table is measured data, so only its own speed range counts; a regression also has to
+    /// stay inside the displacement regime (speed/length limit for the hull's D/L ratio).
+    pub fn validity_at(&self, speed: f64) -> SpeedValidity {
+        let froude = self.hull.froude_number(speed);
+        let froude_range = self.froude_range();
+        // A small tolerance keeps a table's own end speeds inside despite rounding.
+        let froude_in_range =
+            froude_range.is_none_or(|(low, high)| froude >= low - 1e-9 && froude <= high + 1e-9);
+        let length = self.hull.input.length_waterline;
+        let speed_length_ratio = (speed / KNOT) / (length / FOOT).sqrt();
+        // Every regression method stays inside the displacement regime; a table does not need to.
+        let speed_length_limit = (!matches!(self.method, ResistanceMethod::Table(_))).then(|| {
+            let mass = self.water.density * self.hull.input.displacement_volume;
+            speed_length_limit(displacement_length_ratio(mass, length))
+        });
+        let speed_length_in_range =
+            speed_length_limit.is_none_or(|limit| speed_length_ratio <= limit);
+        SpeedValidity {
+            froude,
+            froude_range,
+            speed_length_ratio,
+            speed_length_limit,
+            froude_in_range,
+            speed_length_in_range,
+            in_method_range: froude.is_finite() && froude_in_range && speed_length_in_range,
+        }
     }
 
     /// Total resistance and its components at `speed` (m/s); 0 m/s gives all zeros.
     ///
     /// The components always sum to `total`: friction·form_factor + appendages + wave + bulb +
-    /// transom + correlation + air + margin. `margin` holds fouling (fouling × friction) and the
-    /// service margin (service × (calm water + air)); every force is then multiplied by the
-    /// calibration factor `resistance_factor`. For a table, `friction` is the ITTC-1957 friction
+    /// transom + correlation + air + margin. The calibration factor `resistance_factor`
+    /// multiplies the calm-water components (not air); `margin` then holds fouling (fouling ×
+    /// calibrated friction) and the service margin (service × (calibrated calm water + air)).
+    /// For a table, `friction` is the ITTC-1957 friction
     /// of the resolved wetted surface (form factor 1) and `wave` the rest of the table's value
     /// (the residuary resistance). No allocation.
     pub fn resistance(&self, speed: f64) -> Result<ResistanceComponents, HullError> {
@@ -262,6 +376,21 @@ impl ResistanceModel {
                 }
             }
         };
+        // The sea-trial factor calibrates the calm, clean-hull water resistance only; air drag
+        // is computed from the windage, and fouling and the service margin go on top of the
+        // calibrated resistance, so a factor fitted on a calm clean model (trial.rs) is never
+        // multiplied by the margins twice.
+        let factor = self.margins.resistance_factor;
+        for force in [
+            &mut parts.friction,
+            &mut parts.appendages,
+            &mut parts.wave,
+            &mut parts.bulb,
+            &mut parts.transom,
+            &mut parts.correlation,
+        ] {
+            *force *= factor;
+        }
         let calm_water = parts.friction * parts.form_factor
             + parts.appendages
             + parts.wave
@@ -271,19 +400,6 @@ impl ResistanceModel {
         parts.air = self.air.map_or(0.0, |air| air.force(speed));
         parts.margin =
             self.margins.fouling * parts.friction + self.margins.service * (calm_water + parts.air);
-        let factor = self.margins.resistance_factor;
-        for force in [
-            &mut parts.friction,
-            &mut parts.appendages,
-            &mut parts.wave,
-            &mut parts.bulb,
-            &mut parts.transom,
-            &mut parts.correlation,
-            &mut parts.air,
-            &mut parts.margin,
-        ] {
-            *force *= factor;
-        }
         parts.total = parts.friction * parts.form_factor
             + parts.appendages
             + parts.wave

@@ -78,6 +78,8 @@ mod tests {
             load_fraction: 0.3,
             fuel_mass_flow: 0.0,
             fuel_volume_flow: 0.0,
+            froude: 0.0,
+            in_method_range: true,
         }
     }
 

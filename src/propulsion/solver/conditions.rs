@@ -183,6 +183,8 @@ pub struct ConditionOutcome {
     pub full_throttle_rpm: Option<f64>,
     /// Top speed, m/s.
     pub top_speed: Option<f64>,
+    /// Whether the top speed is inside the resistance method's range (false: unreliable).
+    pub top_speed_in_method_range: Option<bool>,
     /// Brake power at rated rpm as a fraction of rated power.
     pub absorbed_fraction_at_rated: Option<f64>,
     /// Engine rpm at the target speed, rpm.
@@ -232,6 +234,7 @@ fn outcome(vessel: &Vessel, index: usize, label: &str) -> ConditionOutcome {
         verdict: None,
         full_throttle_rpm: None,
         top_speed: None,
+        top_speed_in_method_range: None,
         absorbed_fraction_at_rated: None,
         cruise_rpm: None,
         cruise_power: None,
@@ -244,6 +247,7 @@ fn outcome(vessel: &Vessel, index: usize, label: &str) -> ConditionOutcome {
             out.verdict = Some(m.verdict);
             out.full_throttle_rpm = Some(m.meeting_rpm);
             out.top_speed = Some(m.top_speed);
+            out.top_speed_in_method_range = Some(m.top_speed_in_method_range);
             out.absorbed_fraction_at_rated = Some(m.absorbed_fraction_at_rated);
         }
         Err(e) => problems.push(format!("match: {e}")),

@@ -156,6 +156,8 @@ mod tests {
             load_fraction: load,
             fuel_mass_flow: flow * 840.0,
             fuel_volume_flow: flow,
+            froude: 0.0,
+            in_method_range: true,
         }
     }
 

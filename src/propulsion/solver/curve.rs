@@ -117,5 +117,8 @@ fn interpolate(low: &OperatingPoint, high: &OperatingPoint, fraction: f64) -> Op
         load_fraction: mix(low.load_fraction, high.load_fraction),
         fuel_mass_flow: mix(low.fuel_mass_flow, high.fuel_mass_flow),
         fuel_volume_flow: mix(low.fuel_volume_flow, high.fuel_volume_flow),
+        froude: mix(low.froude, high.froude),
+        // Between a valid and an invalid point only the valid side's own speed is vouched for.
+        in_method_range: low.in_method_range && high.in_method_range,
     }
 }

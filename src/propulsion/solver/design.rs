@@ -10,6 +10,7 @@ use super::matching::{MatchResult, Verdict, match_engine, point_at_engine_rpm};
 use super::point::PointFailure;
 use super::{Installation, RootOutcome, System, Vessel};
 use crate::propulsion::Warning;
+use crate::propulsion::hull::SpeedValidity;
 use crate::propulsion::screw::{BSeriesScrew, ScrewError, ScrewGeometry, ScrewModel};
 use thiserror::Error;
 
@@ -398,6 +399,14 @@ pub struct PitchRecommendation {
     pub stop: SearchStop,
     /// Root-finder iterations used (power evaluations, including bracketing).
     pub evaluations: u32,
+    /// Boat speed at the target rpm with the recommended pitch, m/s, if solved.
+    pub speed_at_target: Option<f64>,
+    /// Where that speed lies against the resistance method's range and the displacement
+    /// regime, if solved.
+    pub target_validity: Option<SpeedValidity>,
+    /// Whether the speed the pitch is chosen for is inside the method's range (`None` if the
+    /// speed was not solved); false means the recommendation is unreliable and a sea trial decides.
+    pub in_method_range: Option<bool>,
     /// Short caution to show beside the recommendation.
     pub caution: String,
     /// Warnings: re-pitch beyond the limit, pitch ratio outside the B-series range, …
@@ -792,7 +801,33 @@ pub fn recommend_pitch_for_condition(
         )),
     }
 
+    // The pitch is decided at the target rpm: where the boat then runs outside the resistance
+    // method's range the whole recommendation rests on an extrapolated resistance.
+    let speed_at_target = search.pitch.and_then(|pitch| {
+        let screw = rebuilt_screw(ScrewGeometry { pitch, ..base }).ok()?;
+        let system = system_with(vessel, &screw, vessel.installation);
+        point_at_engine_rpm(&system, target_point.engine_rpm)
+            .ok()
+            .map(|p| p.speed)
+    });
+    let target_validity = speed_at_target.map(|v| vessel.resistance.validity_at(v));
+    let in_method_range = target_validity.map(|v| v.in_method_range);
+    if let Some(reason) = target_validity.and_then(|v| v.reason()) {
+        warnings.push(Warning::new(
+            "pitch recommendation",
+            format!(
+                "UNRELIABLE: at {:.0} rpm with the recommended pitch the boat runs outside the range of {} ({reason}); the resistance there is an extrapolation, so a sea trial decides the pitch",
+                target_point.engine_rpm,
+                vessel.resistance.method.name()
+            ),
+        ));
+    }
     let mut caution = PITCH_CAUTION.to_string();
+    if in_method_range == Some(false) {
+        caution = format!(
+            "Unreliable: the pitch is chosen at a speed outside the resistance method's range; a sea trial decides. {caution}"
+        );
+    }
     if within == Some(false) {
         caution = format!("Beyond the re-pitch limit: a new screw is needed. {caution}");
     }
@@ -815,6 +850,9 @@ pub fn recommend_pitch_for_condition(
         condition,
         stop: search.stop,
         evaluations: search.evaluations,
+        speed_at_target,
+        target_validity,
+        in_method_range,
         caution,
         warnings,
     })
@@ -973,6 +1011,8 @@ pub struct SweepCandidate {
     pub pitch: Option<f64>,
     /// Top speed at full throttle, m/s.
     pub top_speed: Option<f64>,
+    /// Whether the top speed is inside the resistance method's range (false: unreliable).
+    pub top_speed_in_method_range: Option<bool>,
     /// Full-throttle engine rpm, rpm.
     pub meeting_rpm: Option<f64>,
     /// Open-water efficiency η0 at the target speed.
@@ -1164,6 +1204,7 @@ fn evaluate_candidate(
         stop: SearchStop::IterationsExhausted,
         pitch: None,
         top_speed: None,
+        top_speed_in_method_range: None,
         meeting_rpm: None,
         open_water_efficiency_at_target: None,
         open_water_efficiency_at_top: None,
@@ -1201,6 +1242,7 @@ fn evaluate_candidate(
     match match_engine(&system, &vessel.match_criteria) {
         Ok(m) => {
             candidate.top_speed = Some(m.top_speed);
+            candidate.top_speed_in_method_range = Some(m.top_speed_in_method_range);
             candidate.meeting_rpm = Some(m.meeting_rpm);
             candidate.open_water_efficiency_at_top = Some(m.top_point.open_water_efficiency);
             candidate.propulsive_efficiency_at_top =
@@ -1320,6 +1362,7 @@ mod tests {
             stop: SearchStop::Converged,
             pitch: Some(0.4),
             top_speed: Some(top),
+            top_speed_in_method_range: Some(true),
             meeting_rpm: None,
             open_water_efficiency_at_target: None,
             open_water_efficiency_at_top: None,

@@ -3,6 +3,7 @@
 use super::point::{OperatingPoint, PointFailure, solve_point};
 use super::{RootOutcome, System, brent};
 use crate::propulsion::STANDARD_GRAVITY;
+use crate::propulsion::hull::SpeedValidity;
 
 /// Whether the screw lets the engine reach rated rpm with a little headroom.
 ///
@@ -129,6 +130,11 @@ pub struct MatchResult {
     /// stopped it (the full-load power held at its last value beyond the curve), rpm; equal to
     /// `meeting_rpm` when not governed, `None` if not reached below [`MAX_FROUDE_NUMBER`].
     pub free_running_rpm: Option<f64>,
+    /// Where the top speed lies against the resistance method's range and the displacement
+    /// regime: the decision every front end shows beside the top speed.
+    pub top_validity: SpeedValidity,
+    /// Whether the top speed is inside the method's range (`top_validity.in_method_range`).
+    pub top_speed_in_method_range: bool,
 }
 
 /// The largest boat speed any search here considers, as a length Froude number
@@ -325,6 +331,7 @@ pub fn match_engine(
     } else {
         Some(top_point.engine_rpm)
     };
+<<<<<<< HEAD
     let rated_rpm = engine.rated_rpm;
     let rpm_margin = free_running_rpm.unwrap_or(top_point.engine_rpm) - rated_rpm;
     let margin_is_lower_bound = free_running_rpm.is_none();
@@ -334,7 +341,12 @@ pub fn match_engine(
     } else {
         criteria.verdict(rpm_margin, rated_rpm)
     };
+=======
+    let top_validity = system.resistance.validity_at(top_point.speed);
+>>>>>>> i9b
     Ok(MatchResult {
+        top_validity,
+        top_speed_in_method_range: top_validity.in_method_range,
         meeting_rpm: top_point.engine_rpm,
         top_speed: top_point.speed,
         top_point,

@@ -54,6 +54,14 @@ pub struct OperatingPoint {
     pub fuel_mass_flow: f64,
     /// Fuel volume flow, m³/s.
     pub fuel_volume_flow: f64,
+    /// Length Froude number V/√(g·LWL) of the point (0 when solved without a hull model).
+    pub froude: f64,
+    /// Whether the resistance method is valid at this speed (its Froude range and the
+    /// displacement regime, [`ResistanceModel::validity_at`]); true when solved without a hull
+    /// model.
+    ///
+    /// [`ResistanceModel::validity_at`]: crate::propulsion::hull::ResistanceModel::validity_at
+    pub in_method_range: bool,
 }
 
 /// Why a point could not be solved. Every failure carries its reason to the screen.
@@ -366,6 +374,8 @@ pub fn solve_with_resistance(
         load_fraction,
         fuel_mass_flow,
         fuel_volume_flow: drive.engine.fuel_volume_flow(engine_rpm, brake_power),
+        froude: 0.0,
+        in_method_range: true,
     };
     point.check_finite()
 }
@@ -450,6 +460,8 @@ impl OperatingPoint {
             load_fraction: 0.0,
             fuel_mass_flow: 0.0,
             fuel_volume_flow: 0.0,
+            froude: 0.0,
+            in_method_range: true,
         }
     }
 
@@ -516,7 +528,11 @@ pub fn solve_point(system: &System<'_>, speed: f64) -> Result<OperatingPoint, Po
         return solve_with_resistance(&system.drive(), 0.0, 0.0, interaction);
     }
     let resistance = model.resistance(speed)?.total;
-    solve_with_resistance(&system.drive(), speed, resistance, interaction)
+    let mut point = solve_with_resistance(&system.drive(), speed, resistance, interaction)?;
+    let validity = model.validity_at(speed);
+    point.froude = validity.froude;
+    point.in_method_range = validity.in_method_range;
+    Ok(point)
 }
 
 #[cfg(test)]

@@ -73,9 +73,9 @@ pub struct TrialPoint {
     pub two_way: bool,
     /// Current along the Out heading, (mean Out − mean Back)/2, m/s, when two-way.
     pub current: Option<f64>,
-    /// Predicted speed before calibration, m/s (`None` where the model could not solve it).
+    /// Predicted calm, clean-hull speed before calibration, m/s (`None` where unsolved).
     pub predicted_before: Option<f64>,
-    /// Predicted speed after calibration, m/s.
+    /// Predicted calm, clean-hull speed after calibration, m/s.
     pub predicted_after: Option<f64>,
     /// Mean measured fuel volume flow, m³/s, if logged.
     pub measured_fuel_volume_flow: Option<f64>,
@@ -132,10 +132,14 @@ pub struct Calibration {
     pub rms_after: f64,
     /// The resistance factor in the model before calibration.
     pub resistance_factor_before: f64,
-    /// The fitted resistance factor (multiplies total resistance).
+    /// The fitted resistance factor (multiplies calm, clean-hull water resistance).
     pub resistance_factor: f64,
     /// The fitted constant wake fraction, if asked for.
     pub wake_fraction: Option<f64>,
+    /// The boat's service margin, left out of the fit and applied on top afterwards, fraction.
+    pub service_margin: f64,
+    /// The boat's fouling allowance, left out of the fit and applied on top afterwards, fraction.
+    pub fouling: f64,
     /// The interaction to use after calibration (the fitted wake with the model's t and ηR).
     pub interaction: InteractionMethod,
     /// Warnings: one-way groups, runs the model could not predict, a fit at its bound.
@@ -396,12 +400,31 @@ fn validate(runs: &[TrialRun], options: &CalibrationOptions) -> Result<(), Trial
 
 /// Calibrates `system` against the trial `runs`: groups and averages them, predicts each rpm,
 /// and fits a resistance factor (and optionally a wake fraction) by least squares on speed.
+///
+/// Predictions before and after are of the calm, clean hull (the system's service margin and
+/// fouling set to zero): the fitted factor multiplies calm-water resistance at the trial's
+/// condition, and [`Calibration::apply`] leaves the boat's margins to go on top of it.
 pub fn calibrate(
     system: &System<'_>,
     runs: &[TrialRun],
     options: &CalibrationOptions,
 ) -> Result<Calibration, TrialError> {
     validate(runs, options)?;
+    let (service_margin, fouling) = (
+        system.resistance.margins.service,
+        system.resistance.margins.fouling,
+    );
+    // The fit works on calm-water resistance: the boat's service margin and fouling are
+    // allowances for later predictions, applied on top of the calibrated resistance, never
+    // inside the fit (or they would be counted twice, once in the factor and once on top).
+    let mut calm_model: ResistanceModel = system.resistance.clone();
+    calm_model.margins.service = 0.0;
+    calm_model.margins.fouling = 0.0;
+    let calm_system = System {
+        resistance: &calm_model,
+        ..system.clone()
+    };
+    let system = &calm_system;
     let mut warnings = Vec::new();
     let groups = group_runs(runs, options.rpm_group_tolerance, &mut warnings);
     let before = predict(system, &groups);
@@ -566,13 +589,16 @@ pub fn calibrate(
         resistance_factor_before: system.resistance.margins.resistance_factor,
         resistance_factor: factor,
         wake_fraction,
+        service_margin,
+        fouling,
         interaction,
         warnings,
     })
 }
 
 impl Calibration {
-    /// Applies the fitted correction to a vessel (resistance factor, and the wake if fitted).
+    /// Applies the fitted correction to a vessel (resistance factor, and the wake if fitted);
+    /// the vessel's service margin and fouling stay as they are, on top of the factor.
     pub fn apply(&self, vessel: &mut super::Vessel) {
         vessel.resistance.margins.resistance_factor = self.resistance_factor;
         if self.wake_fraction.is_some() {
