@@ -623,7 +623,10 @@ pub fn calibration(
 /// trial's rpm groups, or `None` when the boat has no saved correction or nothing solved.
 pub fn rms_with_saved(loaded: &LoadedBoat, index: usize, cal: &Calibration) -> Option<f64> {
     loaded.doc.calibration.as_ref()?;
-    let system = loaded.vessel.system(index);
+    // Compared as the fit is made: the calibrated calm-water model, margins off.
+    let mut calm = loaded.vessel.clone();
+    calm.resistance = calm.resistance.calm_water();
+    let system = calm.system(index);
     let errors: Vec<f64> = cal
         .points
         .iter()

@@ -825,9 +825,9 @@ pub fn match_line(v: &VariantReport, d: &Display, rated_rpm: f64) -> String {
                 d.quantity(m.top_speed, Kind::Speed)
             } else {
                 format!(
-                    "about {} (UNRELIABLE: Fn {:.2}, outside the resistance method's range; a sea trial decides)",
+                    "about {} (UNRELIABLE: {}; a sea trial decides)",
                     d.quantity(m.top_speed, Kind::Speed),
-                    m.top_validity.froude
+                    m.top_validity.reason().unwrap_or_default()
                 )
             };
             format!(

@@ -460,7 +460,7 @@ fn report_of_one_variant_and_of_an_unknown_one() {
         ])
         .assert()
         .code(2)
-        .stderr(predicate::str::contains("nope").and(predicate::str::contains("old 26x21")));
+        .stderr(predicate::str::contains("nope").and(predicate::str::contains("old 26x19")));
     tidewright()
         .args(["--profiles", &store, "report", "no-such-boat"])
         .assert()
@@ -877,7 +877,7 @@ fn export_writes_markdown_and_svg_that_parse_as_xml() {
             roxmltree::Document::parse(&svg).unwrap_or_else(|e| panic!("{chart} is not XML: {e}"));
         assert_eq!(doc.root_element().tag_name().name(), "svg");
         assert!(
-            svg.contains("current 450x310"),
+            svg.contains("current 450x290"),
             "{chart} legend names the variant"
         );
         assert!(!svg.contains("NaN"));

@@ -460,13 +460,14 @@ fn validity_marks_speeds_past_the_froude_range_or_the_speed_length_limit() {
     assert_close!(speed_length_limit(dl), 1.5676, 1e-4);
     let m = model(ResistanceMethod::HoltropMennen);
     let froude_speed = |fn_l: f64| fn_l * (9.80665 * m.hull.input.length_waterline).sqrt();
-    // Holtrop–Mennen for small craft: Fn up to 0.45 (the regression sample, from memory).
-    assert_eq!(m.froude_range(), Some((0.0, 0.45)));
+    // Holtrop–Mennen for small craft: Fn up to 0.38, the limit of its trawler/coaster/tug row
+    // (Holtrop & Mennen 1982, table of limitations; from memory).
+    assert_eq!(m.froude_range(), Some((0.0, 0.38)));
     let slow = m.validity_at(froude_speed(0.25));
     assert!(slow.in_method_range, "{slow:?}");
     let fast = m.validity_at(froude_speed(0.55));
     assert!(!fast.in_method_range && !fast.froude_in_range, "{fast:?}");
-    assert!(fast.reason().unwrap().contains("0.45"));
+    assert!(fast.reason().unwrap().contains("0.38"));
     // A table covers exactly its own speeds, and no speed/length limit applies to measured data.
     let table = model(ResistanceMethod::Table(ResistanceTable {
         rows: vec![(1.0, 100.0), (6.0, 9000.0)],

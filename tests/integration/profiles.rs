@@ -538,10 +538,10 @@ fn demo_screw_variants_get_their_intended_verdicts() {
     use tidewright::propulsion::solver::Verdict;
     use tidewright::propulsion::solver::matching::match_engine;
     let intended: &[(&str, &str, Verdict)] = &[
-        ("marram", "old 26x21", Verdict::Over),
-        ("marram", "re-pitched 26x18", Verdict::Matched),
+        ("marram", "old 26x19", Verdict::Over),
+        ("marram", "re-pitched 26x17.5", Verdict::Matched),
         ("marram", "flat 26x15", Verdict::Under),
-        ("pintle", "current 450x310", Verdict::Matched),
+        ("pintle", "current 450x290", Verdict::Matched),
         ("sorrel", "current 19x15", Verdict::Matched),
     ];
     let demo = Store::at("/nonexistent");

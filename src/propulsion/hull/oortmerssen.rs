@@ -184,7 +184,7 @@ impl OortmerssenCoefficients {
     /// Residuary resistance over displacement weight RR/Δ at Froude number `fn_l`
     /// (dimensionless); 0 at Fn = 0 and floored at 0.
     pub fn residuary_over_weight(&self, fn_l: f64) -> f64 {
-        if !(fn_l > 0.0) {
+        if fn_l.is_nan() || fn_l <= 0.0 {
             return 0.0;
         }
         let x = fn_l.max(FROUDE_FLOOR).powi(-2);

@@ -266,6 +266,16 @@ pub fn speed_length_limit(displacement_length: f64) -> f64 {
 }
 
 impl ResistanceModel {
+    /// The same model for a calm sea and a clean hull: service margin and fouling at zero, the
+    /// sea-trial factor kept. A trial is fitted and compared on this model; the margins are
+    /// allowances that go on top of it for predictions.
+    pub fn calm_water(&self) -> ResistanceModel {
+        let mut calm = self.clone();
+        calm.margins.service = 0.0;
+        calm.margins.fouling = 0.0;
+        calm
+    }
+
     /// The Froude range (low, high) in which the method's prediction is published as valid
     /// (dimensionless); `None` when the method states none. A table covers its own speeds.
     pub fn froude_range(&self) -> Option<(f64, f64)> {

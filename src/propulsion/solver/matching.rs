@@ -331,7 +331,6 @@ pub fn match_engine(
     } else {
         Some(top_point.engine_rpm)
     };
-<<<<<<< HEAD
     let rated_rpm = engine.rated_rpm;
     let rpm_margin = free_running_rpm.unwrap_or(top_point.engine_rpm) - rated_rpm;
     let margin_is_lower_bound = free_running_rpm.is_none();
@@ -341,9 +340,7 @@ pub fn match_engine(
     } else {
         criteria.verdict(rpm_margin, rated_rpm)
     };
-=======
     let top_validity = system.resistance.validity_at(top_point.speed);
->>>>>>> i9b
     Ok(MatchResult {
         top_validity,
         top_speed_in_method_range: top_validity.in_method_range,

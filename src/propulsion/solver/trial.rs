@@ -417,9 +417,7 @@ pub fn calibrate(
     // The fit works on calm-water resistance: the boat's service margin and fouling are
     // allowances for later predictions, applied on top of the calibrated resistance, never
     // inside the fit (or they would be counted twice, once in the factor and once on top).
-    let mut calm_model: ResistanceModel = system.resistance.clone();
-    calm_model.margins.service = 0.0;
-    calm_model.margins.fouling = 0.0;
+    let calm_model = system.resistance.calm_water();
     let calm_system = System {
         resistance: &calm_model,
         ..system.clone()
