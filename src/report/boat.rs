@@ -716,6 +716,8 @@ pub fn operating_table(v: &VariantReport, d: &Display, with_label: bool) -> Tabl
     ]);
     let mut table = Table::new(columns);
     let imperial = d.system == UnitSystem::Imperial;
+    // A run of unsolvable rows says why once, on its first row.
+    let mut previous_failed = false;
     for row in &v.rows {
         let mut cells = Vec::new();
         if with_label {
@@ -747,9 +749,14 @@ pub fn operating_table(v: &VariantReport, d: &Display, with_label: bool) -> Tabl
             Err(reason) => {
                 cells.push(format!("{:.0}", row.engine_rpm));
                 cells.extend(std::iter::repeat_n("—".to_string(), 7));
-                cells.push(reason.clone());
+                cells.push(if previous_failed {
+                    "not solved (as above)".to_string()
+                } else {
+                    reason.clone()
+                });
             }
         }
+        previous_failed = row.outcome.is_err();
         table.push(cells);
     }
     table

@@ -400,7 +400,8 @@ pub fn value(field: FieldId, boat: &BoatDoc) -> FieldValue {
         F::HalfEntranceAngle => opt(&boat.hull.half_entrance_angle, Kind::Angle),
         F::TransomArea => opt(&boat.hull.transom_area, Kind::Area),
         F::ResistanceMethod => FieldValue::ReadOnly(match &boat.resistance.method {
-            ResistanceMethodDoc::Auto => "auto (fits the hull)".into(),
+            // Shown as the method the core chose (see `derived_text`).
+            ResistanceMethodDoc::Auto => String::new(),
             ResistanceMethodDoc::HoltropMennen => "Holtrop–Mennen".into(),
             ResistanceMethodDoc::VanOortmerssen => "van Oortmerssen".into(),
             ResistanceMethodDoc::Table(rows) => format!("table, {} rows", rows.len()),
@@ -715,6 +716,12 @@ fn derived_text(field: FieldId, app: &App) -> String {
         FieldId::FuelDensity => {
             units::format(app.doc.engine.fuel_density.value, Kind::Density, system)
         }
+        FieldId::ResistanceMethod => solved
+            .map(|s| {
+                let name = s.vessel.resistance.method.name();
+                format!("auto: {}", name.split(" (").next().unwrap_or(name))
+            })
+            .unwrap_or_else(|| "auto (fits the hull)".into()),
         FieldId::PitchRatio => solved
             .and_then(|s| s.vessel.variants.get(s.vessel.active_variant))
             .map(|v| format!("{:.3}", v.screw.geometry().pitch_ratio()))

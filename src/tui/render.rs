@@ -6,7 +6,7 @@ use super::field_list::{FieldList, TypedValue};
 use super::fields::{self, Pane};
 use super::keys::{self, Mode};
 use crate::propulsion::solver::Verdict;
-use crate::report::boat::{margin_words, signed_rpm};
+use crate::report::boat::signed_rpm;
 use crate::units::{self, Kind, UnitSystem};
 use ratatui::Frame;
 use ratatui::buffer::Buffer;
@@ -520,11 +520,12 @@ pub fn readout_lines(app: &App) -> Vec<Line<'static>> {
                     .solution
                     .solved()
                     .map_or(m.meeting_rpm - m.rpm_margin, |s| s.vessel.engine.rated_rpm);
+                // Short for the strip; the report's words say the same ("runs free … past rated").
+                let bound = if m.margin_is_lower_bound { "≥" } else { "" };
                 let mut spans = vec![Span::raw(format!(
-                    "{}: margin {} ({}) · absorbs {:.0} % at rated · top ",
+                    "{}: margin {bound}{} at rated {rated_rpm:.0} · absorbs {:.0} % · top ",
                     variant.label,
                     signed_rpm(m.rpm_margin),
-                    margin_words(m.rpm_margin, m.margin_is_lower_bound, rated_rpm),
                     m.absorbed_fraction_at_rated * 100.0,
                 ))];
                 if m.top_speed_in_method_range {
@@ -544,6 +545,14 @@ pub fn readout_lines(app: &App) -> Vec<Line<'static>> {
                     spans.push(Span::raw(" · "));
                 }
                 spans.push(Span::styled(verdict_text(m.verdict), verdict_style));
+                // The other method's top speed: the spread is a real uncertainty.
+                if let Some(spread) = &variant.method_spread {
+                    let name = spread.alternative.split(" (").next().unwrap_or_default();
+                    let top = spread
+                        .alternative_top_speed
+                        .map_or("—".to_string(), |v| units::format(v, Kind::Speed, system));
+                    spans.push(Span::raw(format!(" · by {name}: top {top}")));
+                }
                 Line::from(spans)
             }
             Err(why) => Line::styled(

@@ -13,7 +13,9 @@ use crate::propulsion::solver::matching::match_engine;
 use crate::propulsion::solver::shaft::{
     ShaftCheck, ShaftMaterial, YACHT_SAFETY_FACTOR, check_shaft, duty_note,
 };
-use crate::propulsion::solver::{CruisePoint, MatchResult, PropellerCurve, Trip, Vessel};
+use crate::propulsion::solver::{
+    CruisePoint, MatchResult, MethodSpread, PropellerCurve, Trip, Vessel,
+};
 use crate::units::{self, Kind, UnitSystem};
 
 /// Speeds solved per propeller curve (enough for a smooth braille line at 120 columns).
@@ -43,6 +45,8 @@ pub struct VariantSolution {
     /// (engine rpm, boat speed m/s) of the first curve point outside the resistance method's
     /// range (the core's `in_method_range`): the curve is drawn differently from there on.
     pub unreliable_from: Option<(f64, f64)>,
+    /// The other resistance method's figures beside the chosen one's, when both run.
+    pub method_spread: Option<MethodSpread>,
 }
 
 /// Everything solved for the document.
@@ -274,6 +278,7 @@ fn solve_variant(vessel: &Vessel, index: usize) -> VariantSolution {
             .solved()
             .find(|p| !p.in_method_range)
             .map(|p| (p.engine_rpm, p.speed)),
+        method_spread: vessel.method_spread(index),
     };
     for point in curve.solved() {
         solution

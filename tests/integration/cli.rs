@@ -5,6 +5,7 @@
 use assert_cmd::Command;
 use predicates::prelude::*;
 use serde_json::Value;
+use tidewright::profile::Store;
 
 /// The binary with an empty environment for the store: `--profiles` is always given by a test.
 fn tidewright() -> Command {
@@ -901,4 +902,46 @@ fn terminal_ui_entry_points_do_not_panic() {
         .timeout(std::time::Duration::from_secs(10))
         .assert();
     assert!(!String::from_utf8_lossy(&assert.get_output().stderr).contains("panicked"));
+}
+
+/// The coarsest screw the loader accepts (P/D 2.0): the report never shows a negative KQ or
+/// NaN, and a run of rpm rows it cannot solve says why once (issue: "a point it cannot solve
+/// says why once").
+#[test]
+fn report_of_a_far_too_coarse_screw_says_why_once() {
+    let dir = tempfile::tempdir().unwrap();
+    std::fs::create_dir_all(dir.path().join("boats")).unwrap();
+    let demo = Store::at("/nonexistent");
+    let marram = demo.load_boat("marram").unwrap().doc;
+    let mut coarse = marram.clone();
+    for v in &mut coarse.variants {
+        v.pitch.value = 2.0 * v.diameter.value;
+    }
+    coarse.engine = "quellan-qd90".into();
+    let engine_text = demo.load_engine("quellan-qd90").unwrap().doc.to_toml();
+    std::fs::create_dir_all(dir.path().join("engines")).unwrap();
+    std::fs::write(dir.path().join("engines/quellan-qd90.toml"), engine_text).unwrap();
+    std::fs::write(dir.path().join("boats/coarse.toml"), coarse.to_toml()).unwrap();
+    let store = dir.path().display().to_string();
+    let out = tidewright()
+        .args([
+            "--profiles",
+            &store,
+            "report",
+            "coarse",
+            "--variant",
+            "flat 26x15",
+        ])
+        .assert()
+        .success();
+    let text = String::from_utf8_lossy(&out.get_output().stdout).to_string();
+    assert!(
+        !text.contains("NaN") && !text.contains("KQ came out"),
+        "{text}"
+    );
+    let reasons = text.matches("does not reach").count();
+    let as_above = text.matches("not solved (as above)").count();
+    assert!(as_above >= 1, "{text}");
+    // Once in the table (the first unsolved row) and once in the match line.
+    assert!(reasons <= 2, "{text}");
 }
