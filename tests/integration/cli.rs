@@ -945,3 +945,38 @@ fn report_of_a_far_too_coarse_screw_says_why_once() {
     // Once in the table (the first unsolved row) and once in the match line.
     assert!(reasons <= 2, "{text}");
 }
+
+/// The pitch `pitch` recommends, written into the boat file as a variant, reads "matched" in
+/// `report` with at least the default light-running margin (2 % of rated rpm, common practice).
+#[test]
+fn the_recommended_pitch_written_as_a_variant_reads_matched_in_the_report() {
+    let (_demo_dir, demo_store) = demo_store();
+    let demo = Store::at("/nonexistent");
+    for (boat, engine) in [("marram", "quellan-qd90"), ("pintle", "brindmoor-3b40")] {
+        let rec = run_json(&["--profiles", &demo_store, "pitch", boat, "--format", "json"]);
+        let pitch = rec["variants"][0]["recommended_pitch_m"].as_f64().unwrap();
+        let dir = tempfile::tempdir().unwrap();
+        for sub in ["boats", "engines"] {
+            std::fs::create_dir_all(dir.path().join(sub)).unwrap();
+        }
+        let mut doc = demo.load_boat(boat).unwrap().doc;
+        doc.variants.truncate(1);
+        doc.variants[0].pitch.value = pitch;
+        doc.variants[0].label = "recommended".into();
+        doc.active_variant = 0;
+        std::fs::write(dir.path().join(format!("boats/{boat}.toml")), doc.to_toml()).unwrap();
+        let engine_doc = demo.load_engine(engine).unwrap().doc;
+        let rated = engine_doc.rated_rpm.value;
+        std::fs::write(
+            dir.path().join(format!("engines/{engine}.toml")),
+            engine_doc.to_toml(),
+        )
+        .unwrap();
+        let store = dir.path().display().to_string();
+        let report = run_json(&["--profiles", &store, "report", boat, "--format", "json"]);
+        let m = &report["variants"][0]["match"];
+        assert_eq!(m["verdict"], "matched", "{boat}: {m}");
+        let margin = m["rpm_margin"].as_f64().unwrap();
+        assert!(margin >= 0.02 * rated - 1.0, "{boat}: margin {margin}");
+    }
+}
