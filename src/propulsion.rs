@@ -13,20 +13,107 @@ pub mod water;
 /// Standard acceleration of gravity, m/s² (CGPM 1901; NIST SP 811).
 pub const STANDARD_GRAVITY: f64 = 9.80665;
 
+/// The input or derived quantity a [`Warning`] is about, so a screen can place the warning
+/// beside the field it concerns without reading its words.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, serde::Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum Subject {
+    /// No one input: a note on the method or the result as a whole.
+    General,
+    /// Displacement (volume or mass) of the load case.
+    Displacement,
+    /// Waterline length.
+    LengthWaterline,
+    /// Waterline beam.
+    BeamWaterline,
+    /// Canoe-body draft (aft, forward or mean).
+    Draft,
+    /// Trim: the difference of the drafts aft and forward.
+    Trim,
+    /// Length–beam ratio L/B.
+    LengthBeamRatio,
+    /// Beam–draft ratio B/T.
+    BeamDraftRatio,
+    /// Block coefficient Cb.
+    BlockCoefficient,
+    /// Prismatic coefficient Cp.
+    PrismaticCoefficient,
+    /// Midship-section coefficient Cm.
+    MidshipCoefficient,
+    /// Waterplane coefficient Cwp.
+    WaterplaneCoefficient,
+    /// Longitudinal centre of buoyancy.
+    Lcb,
+    /// Wetted surface of the hull.
+    WettedSurface,
+    /// Half angle of entrance of the waterline.
+    HalfEntranceAngle,
+    /// Immersed transom area.
+    TransomArea,
+    /// Bulbous bow.
+    Bulb,
+    /// Appendages (area and form factor).
+    Appendages,
+    /// Froude number at a speed (the method's speed range).
+    FroudeNumber,
+    /// The resistance method chosen or named.
+    ResistanceMethod,
+    /// A user resistance table.
+    ResistanceTable,
+    /// Wake fraction, thrust deduction and relative rotative efficiency.
+    Interaction,
+    /// Water temperature and kind.
+    Water,
+    /// Air drag inputs (windage).
+    Windage,
+    /// Number of blades.
+    Blades,
+    /// Screw diameter.
+    Diameter,
+    /// Screw pitch.
+    Pitch,
+    /// Pitch ratio P/D.
+    PitchRatio,
+    /// Expanded area ratio AE/A0.
+    AreaRatio,
+    /// A user open-water table.
+    OpenWaterTable,
+    /// Cavitation and blade loading at an operating point.
+    Cavitation,
+    /// Reduction gear ratio.
+    GearRatio,
+    /// Propeller shaft (diameter, material, immersion).
+    Shaft,
+    /// The engine sheet's power curve and limits.
+    Engine,
+    /// The engine sheet's fuel data.
+    Fuel,
+    /// The sea-trial log and its fit.
+    Trial,
+}
+
 /// A caution about an input or result that the user should see; `source` names the method.
 #[derive(Debug, Clone, PartialEq, serde::Serialize)]
 pub struct Warning {
     /// Which method or check raised it, e.g. "Holtrop-Mennen" or "B-series".
     pub source: &'static str,
+    /// The input it is about, for placing it beside a field.
+    pub subject: Subject,
     /// A sentence for the user naming the value and the limit it passed.
     pub message: String,
 }
 
 impl Warning {
-    /// A warning from `source` with the given message.
+    /// A warning from `source` about no one input ([`Subject::General`]).
     pub fn new(source: &'static str, message: impl Into<String>) -> Self {
+        Self::about(Subject::General, source, message)
+    }
+
+    /// A warning from `source` about `subject`.
+    pub fn about(subject: Subject, source: &'static str, message: impl Into<String>) -> Self {
         Self {
             source,
+            subject,
             message: message.into(),
         }
     }
