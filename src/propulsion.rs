@@ -6,6 +6,7 @@
 
 pub mod engine;
 pub mod hull;
+pub mod numeric;
 pub mod screw;
 pub mod solver;
 pub mod water;

@@ -8,9 +8,10 @@
 use super::cruise::cruise_at_speed;
 use super::matching::{MatchResult, Verdict, match_engine, point_at_engine_rpm};
 use super::point::PointFailure;
-use super::{Installation, RootOutcome, System, Vessel};
+use super::{Installation, System, Vessel};
 use crate::propulsion::Warning;
 use crate::propulsion::hull::SpeedValidity;
+use crate::propulsion::numeric::{self, RootOutcome};
 use crate::propulsion::screw::{BSeriesScrew, ScrewError, ScrewGeometry, ScrewModel};
 use thiserror::Error;
 
@@ -605,7 +606,7 @@ fn search_pitch(
     };
     let (far, f_far) = far_bracket;
     let tolerance = options.power_tolerance;
-    let result = super::brent(
+    let result = numeric::brent(
         &mut residual,
         (near, f_near),
         (far, f_far),

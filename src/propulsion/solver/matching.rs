@@ -1,9 +1,10 @@
 //! Matching the propeller curve to the engine's full-load envelope.
 
+use super::System;
 use super::point::{OperatingPoint, PointFailure, solve_point};
-use super::{RootOutcome, System, brent};
 use crate::propulsion::STANDARD_GRAVITY;
 use crate::propulsion::hull::SpeedValidity;
+use crate::propulsion::numeric::{RootOutcome, brent};
 
 /// Whether the screw lets the engine reach rated rpm with a little headroom.
 ///

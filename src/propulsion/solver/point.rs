@@ -1,8 +1,9 @@
 //! One operating point: the thrust identity solved at one boat speed.
 
-use super::{Installation, RootOutcome, System, brent};
+use super::{Installation, System};
 use crate::propulsion::engine::EngineSheet;
 use crate::propulsion::hull::Interaction;
+use crate::propulsion::numeric::{RootOutcome, brent};
 use crate::propulsion::screw::ScrewModel;
 use crate::propulsion::water::WaterProperties;
 use std::convert::Infallible;
