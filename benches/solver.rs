@@ -7,10 +7,9 @@ use std::time::Duration;
 use tidewright::profile::Store;
 use tidewright::propulsion::hull::holtrop::HoltropCoefficients;
 use tidewright::propulsion::hull::resistance::HOLTROP_EDITION;
-use tidewright::propulsion::solver::design::{
-    PitchOptions, SweepOptions, SweepParameter, recommend_pitch, sweep,
-};
+use tidewright::propulsion::solver::pitch::{PitchOptions, recommend_pitch};
 use tidewright::propulsion::solver::point::solve_point;
+use tidewright::propulsion::solver::sweep::{SweepOptions, SweepParameter, sweep};
 use tidewright::propulsion::solver::{PropellerCurve, Variant, Vessel};
 
 /// Standard gravity, m/s² (NIST SP 811).

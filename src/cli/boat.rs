@@ -11,7 +11,7 @@ use super::{
 };
 use crate::profile::Rotation;
 use crate::propulsion::solver::cruise::{cruise_at_rpm, cruise_at_speed};
-use crate::propulsion::solver::design::PitchOptions;
+use crate::propulsion::solver::pitch::PitchOptions;
 use crate::report::boat::{BoatReport, PointJson, cruise_summary};
 use crate::report::export::{Section, export as export_files};
 use crate::report::{CAUTION, Display, json};

@@ -14,7 +14,7 @@ use crate::propulsion::solver::conditions::{
     Condition, ConditionOutcome, UncertaintyBand, UncertaintyRanges, compare_conditions,
     recommend_pitch_under, uncertainty_band,
 };
-use crate::propulsion::solver::design::{PitchOptions, PitchRecommendation, recommend_pitch};
+use crate::propulsion::solver::pitch::{PitchOptions, PitchRecommendation, recommend_pitch};
 use crate::report::boat::verdict_words;
 use crate::report::checks::AppliedCalibration;
 use crate::report::table::{Column, Table};

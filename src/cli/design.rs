@@ -12,12 +12,15 @@ use super::{
 use crate::profile::store::Saved;
 use crate::profile::store::save_boat_file;
 use crate::profile::{CalibrationDoc, Origin};
-use crate::propulsion::solver::design::{
-    MatchSummary, PitchCure, PitchOptions, PitchRecommendation, PitchTarget, RankCriterion,
-    RepitchLimit, SweepOptions, SweepParameter, SweepResult, USUAL_AREA_RATIOS, USUAL_BLADE_COUNTS,
-    gear_ratios_around, recommend_pitch, sweep as run_sweep,
-};
 use crate::propulsion::solver::matching::point_at_engine_rpm;
+use crate::propulsion::solver::pitch::{
+    MatchSummary, PitchCure, PitchOptions, PitchRecommendation, PitchTarget, RepitchLimit,
+    recommend_pitch,
+};
+use crate::propulsion::solver::sweep::{
+    RankCriterion, SweepOptions, SweepParameter, SweepResult, USUAL_AREA_RATIOS,
+    USUAL_BLADE_COUNTS, gear_ratios_around, sweep as run_sweep,
+};
 use crate::propulsion::solver::trial::{
     Calibration, CalibrationFit, CalibrationOptions, calibrate,
 };
@@ -140,8 +143,8 @@ impl From<&PitchCure> for CureJson {
     }
 }
 
-fn stop_text(stop: &crate::propulsion::solver::design::SearchStop) -> String {
-    use crate::propulsion::solver::design::SearchStop;
+fn stop_text(stop: &crate::propulsion::solver::pitch::SearchStop) -> String {
+    use crate::propulsion::solver::pitch::SearchStop;
     match stop {
         SearchStop::Converged => "converged".into(),
         SearchStop::BracketLost(reason) => format!("no pitch found: {reason}"),

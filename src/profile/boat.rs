@@ -11,7 +11,7 @@ use crate::propulsion::hull::{
 use crate::propulsion::screw::{
     BSeriesScrew, OpenWaterPoint, OpenWaterTable, ScrewGeometry, ScrewModel,
 };
-use crate::propulsion::solver::design::RepitchLimit;
+use crate::propulsion::solver::pitch::RepitchLimit;
 use crate::propulsion::solver::{
     Installation, MatchCriteria, RunDirection, TrialRun, Trip, Variant, Vessel,
 };

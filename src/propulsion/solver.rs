@@ -6,10 +6,11 @@ pub mod checks;
 pub mod conditions;
 pub mod cruise;
 pub mod curve;
-pub mod design;
 pub mod matching;
+pub mod pitch;
 pub mod point;
 pub mod shaft;
+pub mod sweep;
 pub mod trial;
 pub mod vessel;
 

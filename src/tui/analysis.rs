@@ -8,8 +8,9 @@ use crate::propulsion::solver::conditions::{
     Condition, ConditionOutcome, UncertaintyBand, UncertaintyRanges, compare_conditions,
     uncertainty_band,
 };
-use crate::propulsion::solver::design::{
-    PitchOptions, SweepOptions, SweepParameter, SweepResult, USUAL_AREA_RATIOS, USUAL_BLADE_COUNTS,
+use crate::propulsion::solver::pitch::PitchOptions;
+use crate::propulsion::solver::sweep::{
+    SweepOptions, SweepParameter, SweepResult, USUAL_AREA_RATIOS, USUAL_BLADE_COUNTS,
     gear_ratios_around, sweep,
 };
 use crate::propulsion::solver::trial::{Calibration, CalibrationOptions, calibrate};

@@ -8,8 +8,8 @@ use crate::propulsion::screw::cavitation::CavitationReport;
 use crate::propulsion::solver::OperatingPoint;
 use crate::propulsion::solver::checks::cavitation_at_point;
 use crate::propulsion::solver::cruise::cruise_at_speed;
-use crate::propulsion::solver::design::{PitchOptions, PitchRecommendation, recommend_pitch};
 use crate::propulsion::solver::matching::match_engine;
+use crate::propulsion::solver::pitch::{PitchOptions, PitchRecommendation, recommend_pitch};
 use crate::propulsion::solver::shaft::{
     ShaftCheck, ShaftMaterial, YACHT_SAFETY_FACTOR, check_shaft, duty_note,
 };

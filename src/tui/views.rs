@@ -8,7 +8,7 @@ use super::solve::{CheckPoint, Checks};
 use crate::propulsion::screw::cavitation::{CavitationReport, PASCALS_PER_PSI};
 use crate::propulsion::solver::Verdict;
 use crate::propulsion::solver::conditions::ConditionOutcome;
-use crate::propulsion::solver::design::SweepCandidate;
+use crate::propulsion::solver::sweep::SweepCandidate;
 use crate::units::{self, Kind, UnitSystem};
 use ratatui::buffer::Buffer;
 use ratatui::layout::Rect;

@@ -15,14 +15,16 @@ use tidewright::propulsion::screw::{
 use tidewright::propulsion::solver::conditions::{
     Condition, UncertaintyRanges, compare_conditions, recommend_pitch_under, uncertainty_band,
 };
-use tidewright::propulsion::solver::design::{
-    ApertureLimit, DesignError, INCH, PitchOptions, PitchTarget, RankCriterion, RepitchLimit,
-    SearchStop, SweepOptions, SweepParameter, recommend_pitch, sweep,
-};
 use tidewright::propulsion::solver::matching::{match_engine, point_at_engine_rpm};
+use tidewright::propulsion::solver::pitch::{
+    DesignError, INCH, PitchOptions, PitchTarget, RepitchLimit, SearchStop, recommend_pitch,
+};
 use tidewright::propulsion::solver::point::solve_point;
 use tidewright::propulsion::solver::shaft::{
     ShaftMaterial, check_shaft, duty_note, max_engine_torque,
+};
+use tidewright::propulsion::solver::sweep::{
+    ApertureLimit, RankCriterion, SweepOptions, SweepParameter, sweep,
 };
 use tidewright::propulsion::solver::trial::{CalibrationFit, CalibrationOptions, calibrate};
 use tidewright::propulsion::solver::{

@@ -3,8 +3,8 @@
 
 use tidewright::profile::Store;
 use tidewright::propulsion::screw::{BSeriesScrew, ScrewGeometry, ScrewModel};
-use tidewright::propulsion::solver::design::{INCH, PitchOptions, recommend_pitch};
 use tidewright::propulsion::solver::matching::{DEFAULT_LIGHT_RUNNING, match_engine};
+use tidewright::propulsion::solver::pitch::{INCH, PitchOptions, recommend_pitch};
 use tidewright::propulsion::solver::{Variant, Verdict, Vessel};
 use tidewright::report::boat::{BoatReport, signed_rpm, verdict_words};
 use tidewright::tui::render;

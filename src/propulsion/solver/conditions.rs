@@ -3,9 +3,9 @@
 
 use super::Vessel;
 use super::cruise::cruise_at_speed;
-use super::design::{ConditionSummary, DesignError, PitchOptions, PitchRecommendation, SearchStop};
-use super::design::{matching_pitch, recommend_pitch_for_condition};
 use super::matching::{Verdict, match_engine, point_at_engine_rpm};
+use super::pitch::{ConditionSummary, DesignError, PitchOptions, PitchRecommendation, SearchStop};
+use super::pitch::{matching_pitch, recommend_pitch_for_condition};
 use crate::propulsion::Warning;
 use crate::propulsion::hull::{HullError, Interaction, InteractionMethod};
 use thiserror::Error;

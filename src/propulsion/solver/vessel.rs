@@ -1,8 +1,8 @@
 //! A whole boat in SI form, ready to solve: resistance, interaction, gear, screws, engine, trip.
 
 use super::cruise::{CruisePoint, Trip, cruise_at_rpm, cruise_at_speed};
-use super::design::RepitchLimit;
 use super::matching::{MatchCriteria, MatchResult, match_engine};
+use super::pitch::RepitchLimit;
 use super::point::PointFailure;
 use super::trial::TrialRun;
 use super::{Installation, System};
