@@ -55,6 +55,8 @@ pub enum Subject {
     Bulb,
     /// Appendages (area and form factor).
     Appendages,
+    /// Service margin and fouling added to the resistance.
+    Margins,
     /// Froude number at a speed (the method's speed range).
     FroudeNumber,
     /// The resistance method chosen or named.

@@ -65,4 +65,57 @@ mod tests {
             );
         }
     }
+
+    /// The demo fleet's core warnings — hull and method ranges, each screw, and the pitch
+    /// recommendation of each variant — carry the subject of the input their message names,
+    /// so a screen can place them without reading words. The expected subject of each message
+    /// start is the quantity that message itself names.
+    #[test]
+    fn demo_warnings_that_name_an_input_carry_its_subject() {
+        use crate::profile::{BoatDoc, EngineDoc};
+        use crate::propulsion::Subject;
+        use crate::propulsion::solver::pitch::{PitchOptions, recommend_pitch};
+        let named: [(&str, Subject); 12] = [
+            ("L/B", Subject::LengthBeamRatio),
+            ("B/T", Subject::BeamDraftRatio),
+            ("Cp", Subject::PrismaticCoefficient),
+            ("Cm", Subject::MidshipCoefficient),
+            ("LCB", Subject::Lcb),
+            ("half angle of entrance", Subject::HalfEntranceAngle),
+            ("block coefficient", Subject::BlockCoefficient),
+            ("waterplane coefficient", Subject::WaterplaneCoefficient),
+            ("pitch ratio P/D", Subject::PitchRatio),
+            ("the recommended pitch ratio P/D", Subject::PitchRatio),
+            ("area ratio AE/A0", Subject::AreaRatio),
+            ("Froude number", Subject::FroudeNumber),
+        ];
+        let mut checked = 0;
+        for (name, text) in BOATS {
+            let boat = BoatDoc::from_toml(text, name).unwrap();
+            let engine =
+                EngineDoc::from_toml(super::engine(&boat.engine).unwrap(), &boat.engine).unwrap();
+            let vessel = boat.to_default_vessel(&engine).unwrap();
+            let mut warnings = vessel.resistance.warnings();
+            for (index, variant) in vessel.variants.iter().enumerate() {
+                warnings.extend(variant.screw.warnings());
+                if let Ok(rec) = recommend_pitch(&vessel, index, &PitchOptions::default()) {
+                    warnings.extend(rec.warnings);
+                }
+            }
+            for warning in &warnings {
+                let expected = named
+                    .iter()
+                    .filter(|(start, _)| warning.message.starts_with(start))
+                    .max_by_key(|(start, _)| start.len());
+                if let Some((_, subject)) = expected {
+                    assert_eq!(warning.subject, *subject, "{name}: {warning}");
+                    checked += 1;
+                }
+            }
+        }
+        assert!(
+            checked > 0,
+            "no demo warning names an input: the test checks nothing"
+        );
+    }
 }

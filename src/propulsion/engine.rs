@@ -1,6 +1,6 @@
 //! The engine sheet: full-load power envelope, propeller-law curve, fuel consumption.
 
-use crate::propulsion::Warning;
+use crate::propulsion::{Subject, Warning};
 use thiserror::Error;
 
 /// A curve of (engine rpm, value) points sorted by rpm, interpolated linearly.
@@ -224,7 +224,8 @@ impl FuelModel {
                     .flatten()
                     .any(|&v| v < PLAUSIBLE_SFC.0 || v > PLAUSIBLE_SFC.1);
                 if outside {
-                    warnings.push(Warning::new(
+                    warnings.push(Warning::about(
+                        Subject::Fuel,
                         "engine sheet",
                         "the SFC map has values outside 150–400 g/kWh, unusual for a diesel",
                     ));
@@ -252,7 +253,8 @@ impl FuelModel {
                     });
                 }
                 if *full_load_sfc < PLAUSIBLE_SFC.0 || *full_load_sfc > PLAUSIBLE_SFC.1 {
-                    warnings.push(Warning::new(
+                    warnings.push(Warning::about(
+                        Subject::Fuel,
                         "engine sheet",
                         format!(
                             "full-load SFC {:.0} g/kWh is outside 150–400 g/kWh, unusual for a diesel",
@@ -333,7 +335,8 @@ impl EngineSheet {
                 .iter()
                 .find(|(rpm, p)| *p > 1.01 * self.full_load_power_at(*rpm))
             {
-                warnings.push(Warning::new(
+                warnings.push(Warning::about(
+                    Subject::Engine,
                     "engine sheet",
                     format!(
                         "the propeller-law curve ({:.1} kW at {rpm:.0} rpm) lies above the \
@@ -350,7 +353,8 @@ impl EngineSheet {
             "a positive density in kg/m³",
         )?;
         if !(700.0..=1000.0).contains(&self.fuel_density) {
-            warnings.push(Warning::new(
+            warnings.push(Warning::about(
+                Subject::Fuel,
                 "engine sheet",
                 format!(
                     "fuel density {:.0} kg/m³ is unusual (diesel is about 840 kg/m³)",
@@ -372,7 +376,8 @@ impl EngineSheet {
                 "a positive power in watts",
             )?;
             if power > 1.001 * self.rated_power() {
-                warnings.push(Warning::new(
+                warnings.push(Warning::about(
+                    Subject::Engine,
                     "engine sheet",
                     "the maximum continuous power is above the rated power",
                 ));

@@ -16,7 +16,7 @@
 use super::HullForm;
 use super::friction::{ittc1957_friction_coefficient, reynolds_number};
 use crate::propulsion::water::WaterProperties;
-use crate::propulsion::{STANDARD_GRAVITY, Warning};
+use crate::propulsion::{STANDARD_GRAVITY, Subject, Warning};
 
 /// Which published version of the method to evaluate.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, serde::Serialize)]
@@ -394,7 +394,8 @@ impl HoltropCoefficients {
 pub fn validity_warnings(hull: &HullForm, edition: Edition) -> Vec<Warning> {
     let mut warnings = Vec::new();
     let outside = |what: &str, value: f64, min: f64, max: f64| {
-        Warning::new(
+        Warning::about(
+            range_subject(what),
             SOURCE,
             format!(
                 "{what} = {value:.3} is outside {min}–{max}, the range of the ships Holtrop & Mennen fitted; \
@@ -419,12 +420,28 @@ pub fn validity_warnings(hull: &HullForm, edition: Edition) -> Vec<Warning> {
         ));
     }
     if edition == Edition::Revised1984 && l_b <= 2.0 {
-        warnings.push(Warning::new(
+        warnings.push(Warning::about(
+            Subject::LengthBeamRatio,
             SOURCE,
             format!("L/B = {l_b:.2} ≤ 2: the high-speed wave formula (Fn > 0.55) gives no wave resistance"),
         ));
     }
     warnings
+}
+
+/// The input each entry of [`RANGES`] is about, in the same order.
+const RANGE_SUBJECTS: [Subject; 3] = [
+    Subject::PrismaticCoefficient,
+    Subject::LengthBeamRatio,
+    Subject::BeamDraftRatio,
+];
+
+/// The subject of the [`RANGES`] entry named `name` (a name from that table).
+fn range_subject(name: &str) -> Subject {
+    RANGES
+        .iter()
+        .position(|(range, _, _)| *range == name)
+        .map_or(Subject::General, |i| RANGE_SUBJECTS[i])
 }
 
 /// The published ranges of the ships Holtrop & Mennen fitted: (name, min, max) of Cp, L/B, B/T.
@@ -463,7 +480,8 @@ pub fn froude_limit(edition: Edition) -> f64 {
 pub fn froude_warning(fn_l: f64, edition: Edition) -> Option<Warning> {
     let limit = froude_limit(edition);
     (fn_l > limit).then(|| {
-        Warning::new(
+        Warning::about(
+            Subject::FroudeNumber,
             SOURCE,
             format!(
                 "Froude number {fn_l:.3} is above {limit}, the fastest Holtrop & Mennen give for \

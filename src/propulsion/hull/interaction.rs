@@ -145,7 +145,9 @@ pub fn small_craft_warning(
     (matches!(method, InteractionMethod::Holtrop1984SingleScrew)
         && (values.thrust_deduction > 0.20 || hull_efficiency < 1.0))
         .then(|| {
-            crate::propulsion::Warning::new(
+            crate::propulsion::Warning::about(
+                crate::propulsion::Subject::Interaction,
+
                 "interaction",
                 format!(
                     "Holtrop (1984) single-screw t = {:.3}, w = {:.3}, hull efficiency {hull_efficiency:.3}: unusual for small \

@@ -17,7 +17,7 @@ use super::friction::{ittc1957_friction_coefficient, reynolds_number};
 use super::interaction::{Interaction, ScrewAtStern};
 use super::{HullError, HullForm};
 use crate::propulsion::water::WaterProperties;
-use crate::propulsion::{STANDARD_GRAVITY, Warning};
+use crate::propulsion::{STANDARD_GRAVITY, Subject, Warning};
 use std::sync::OnceLock;
 
 /// The tables as shipped: resistance table d and propulsion-factor table e.
@@ -50,6 +50,24 @@ pub const RANGES: [(&str, f64, f64); 6] = [
     ("LCB (% of L from ½L)", -7.0, 2.8),
     ("half angle of entrance (deg)", 10.0, 46.0),
 ];
+
+/// The input each entry of [`RANGES`] is about, in the same order.
+const RANGE_SUBJECTS: [Subject; 6] = [
+    Subject::LengthBeamRatio,
+    Subject::BeamDraftRatio,
+    Subject::PrismaticCoefficient,
+    Subject::MidshipCoefficient,
+    Subject::Lcb,
+    Subject::HalfEntranceAngle,
+];
+
+/// The subject of the [`RANGES`] entry named `name` (a name from that table).
+fn range_subject(name: &str) -> Subject {
+    RANGES
+        .iter()
+        .position(|(range, _, _)| *range == name)
+        .map_or(Subject::General, |i| RANGE_SUBJECTS[i])
+}
 
 /// The parsed tables: d[row][C1..C4] and e[row][t, w, ηR].
 #[derive(Debug, Clone, PartialEq)]
@@ -264,7 +282,8 @@ pub fn validity_warnings(hull: &HullForm) -> Vec<Warning> {
     let mut warnings: Vec<Warning> = outside_ranges(hull)
         .into_iter()
         .map(|(what, value, min, max)| {
-            Warning::new(
+            Warning::about(
+                range_subject(what),
                 SOURCE,
                 format!(
                     "{what} = {value:.3} is outside {min}–{max}, the range of the small ships van Oortmerssen \
@@ -282,7 +301,8 @@ pub fn validity_warnings(hull: &HullForm) -> Vec<Warning> {
 /// A warning when Froude number `fn_l` is past the regression's data (Fn ≤ 0.50).
 pub fn froude_warning(fn_l: f64) -> Option<Warning> {
     (fn_l > FROUDE_MAX).then(|| {
-        Warning::new(
+        Warning::about(
+            Subject::FroudeNumber,
             SOURCE,
             format!(
                 "Froude number {fn_l:.3} is above {FROUDE_MAX}, the fastest in the method's data; \

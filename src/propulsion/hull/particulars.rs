@@ -2,7 +2,7 @@
 
 use super::HullError;
 use super::holtrop::{Edition, HoltropCoefficients};
-use crate::propulsion::{Resolved, STANDARD_GRAVITY, Warning};
+use crate::propulsion::{Resolved, STANDARD_GRAVITY, Subject, Warning};
 
 /// Hull particulars as the user knows them; `None` means "estimate it". All SI.
 #[derive(Debug, Clone, PartialEq, serde::Serialize)]
@@ -282,49 +282,68 @@ impl HullForm {
 
     fn unusual_values(&self) -> Vec<Warning> {
         let mut warnings = Vec::new();
-        let mut warn = |message: String| warnings.push(Warning::new(SOURCE, message));
+        let mut warn = |subject: Subject, message: String| {
+            warnings.push(Warning::about(subject, SOURCE, message))
+        };
         let (l, b) = (self.input.length_waterline, self.input.beam_waterline);
         let cb = self.block_coefficient;
         if !(0.35..=0.85).contains(&cb) {
-            warn(format!(
-                "block coefficient {cb:.3} is unusual for a displacement hull (0.35–0.85); check length, beam, draft and displacement"
-            ));
+            warn(
+                Subject::BlockCoefficient,
+                format!(
+                    "block coefficient {cb:.3} is unusual for a displacement hull (0.35–0.85); check length, beam, draft and displacement"
+                ),
+            );
         }
         if !(2.0..=12.0).contains(&(l / b)) {
-            warn(format!(
-                "L/B = {:.2} is unusual (2–12); check length and beam",
-                l / b
-            ));
+            warn(
+                Subject::LengthBeamRatio,
+                format!(
+                    "L/B = {:.2} is unusual (2–12); check length and beam",
+                    l / b
+                ),
+            );
         }
         let bt = b / self.draft_mean;
         if !(1.2..=6.0).contains(&bt) {
-            warn(format!(
-                "B/T = {bt:.2} is unusual (1.2–6); check beam and draft"
-            ));
+            warn(
+                Subject::BeamDraftRatio,
+                format!("B/T = {bt:.2} is unusual (1.2–6); check beam and draft"),
+            );
         }
         let trim = (self.input.draft_aft - self.input.draft_forward).abs() / self.draft_mean;
         if trim > 0.5 {
-            warn(format!(
-                "trim {:.0} % of mean draft is large; the methods assume a hull near even keel",
-                trim * 100.0
-            ));
+            warn(
+                Subject::Trim,
+                format!(
+                    "trim {:.0} % of mean draft is large; the methods assume a hull near even keel",
+                    trim * 100.0
+                ),
+            );
         }
         if self.waterplane_coefficient.value < cb {
-            warn(format!(
-                "waterplane coefficient {:.3} is below the block coefficient {cb:.3}, which is only possible for a hull wider below the waterline",
-                self.waterplane_coefficient.value
-            ));
+            warn(
+                Subject::WaterplaneCoefficient,
+                format!(
+                    "waterplane coefficient {:.3} is below the block coefficient {cb:.3}, which is only possible for a hull wider below the waterline",
+                    self.waterplane_coefficient.value
+                ),
+            );
         }
         if self.waterplane_coefficient.is_estimated() {
-            warn(format!(
-                "waterplane coefficient not given: estimated {:.3} by (1+2Cb)/3, the weakest input — it runs well below \
+            warn(
+                Subject::WaterplaneCoefficient,
+                format!(
+                    "waterplane coefficient not given: estimated {:.3} by (1+2Cb)/3, the weakest input — it runs well below \
                  the 0.70–0.78 usual for these hulls (common practice) and feeds the wetted-surface and entrance-angle \
                  estimates and the sinkage between loads; give hull.waterplane_coefficient",
-                self.waterplane_coefficient.value
-            ));
+                    self.waterplane_coefficient.value
+                ),
+            );
         }
         if self.lcb_fraction.is_estimated() {
             warn(
+                Subject::Lcb,
                 "LCB not given: assumed at ½L; form factor and entrance angle depend on it, give it if known"
                     .to_string(),
             );
@@ -332,10 +351,13 @@ impl HullForm {
         let cp = self.prismatic_coefficient;
         let raw_run = 1.0 - cp + 0.06 * cp * self.lcb_percent() / (4.0 * cp - 1.0);
         if raw_run < LENGTH_OF_RUN_FLOOR {
-            warn(format!(
-                "Cp {cp:.3} with LCB {:.1} % gives no length of run in Holtrop's regression; 5 % of L used",
-                self.lcb_percent()
-            ));
+            warn(
+                Subject::PrismaticCoefficient,
+                format!(
+                    "Cp {cp:.3} with LCB {:.1} % gives no length of run in Holtrop's regression; 5 % of L used",
+                    self.lcb_percent()
+                ),
+            );
         }
         warnings
     }

@@ -4,8 +4,8 @@ use super::friction::{ittc1957_friction_coefficient, reynolds_number};
 use super::holtrop::{self, Edition};
 use super::oortmerssen::{self, OortmerssenCoefficients};
 use super::{HullError, HullForm};
-use crate::propulsion::Warning;
 use crate::propulsion::water::WaterProperties;
+use crate::propulsion::{Subject, Warning};
 
 /// Resistance at one speed split into its components, all in newtons.
 #[derive(Debug, Clone, Copy, PartialEq, Default, serde::Serialize)]
@@ -433,13 +433,18 @@ impl ResistanceModel {
             }
             ResistanceMethod::Table(table) => {
                 if let Err(e) = table.validate() {
-                    warnings.push(Warning::new(SOURCE, e.to_string()));
+                    warnings.push(Warning::about(
+                        Subject::ResistanceTable,
+                        SOURCE,
+                        e.to_string(),
+                    ));
                 }
             }
         }
         let m = &self.margins;
         if !(m.resistance_factor.is_finite() && (0.5..=2.0).contains(&m.resistance_factor)) {
-            warnings.push(Warning::new(
+            warnings.push(Warning::about(
+                Subject::Trial,
                 SOURCE,
                 format!(
                     "resistance calibration factor {} is far from 1 (0.5–2 expected): check the sea-trial fit",
@@ -448,7 +453,8 @@ impl ResistanceModel {
             ));
         }
         if !(0.0..=1.0).contains(&m.service) || !(0.0..=2.0).contains(&m.fouling) {
-            warnings.push(Warning::new(
+            warnings.push(Warning::about(
+                Subject::Margins,
                 SOURCE,
                 format!(
                     "margins service {:.0} % / fouling {:.0} % are unusual (0–100 % / 0–200 %)",
@@ -472,11 +478,16 @@ impl ResistanceModel {
                 warnings.extend(oortmerssen::froude_warning(self.hull.froude_number(speed)));
             }
             ResistanceMethod::Table(table) => match table.interpolate(speed) {
-                Err(e) => warnings.push(Warning::new(SOURCE, e.to_string())),
+                Err(e) => warnings.push(Warning::about(
+                    Subject::ResistanceTable,
+                    SOURCE,
+                    e.to_string(),
+                )),
                 Ok(tabulated) => {
                     let friction = self.ittc_friction(speed);
                     if speed > 0.0 && tabulated < friction {
-                        warnings.push(Warning::new(
+                        warnings.push(Warning::about(
+                            Subject::ResistanceTable,
                             SOURCE,
                             format!(
                                 "table resistance {tabulated:.0} N at {speed:.2} m/s is below the flat-plate friction \

@@ -6,7 +6,7 @@
 //! term but J^s (and x^p) is a constant, so each screw keeps the sums collapsed into cubics in J.
 
 use super::{OpenWaterPoint, ScrewError, ScrewGeometry, ScrewModel};
-use crate::propulsion::Warning;
+use crate::propulsion::{Subject, Warning};
 use std::sync::OnceLock;
 
 /// The published coefficient table, copied from the project's reference folder.
@@ -292,7 +292,8 @@ impl BSeriesScrew {
         let g = &self.geometry;
         let mut warnings = Vec::new();
         if !(2..=7).contains(&g.blades) {
-            warnings.push(Warning::new(
+            warnings.push(Warning::about(
+                Subject::Blades,
                 SOURCE,
                 format!(
                     "{} blades is outside the series' range of 2 to 7 blades; KT and KQ are extrapolated",
@@ -301,7 +302,8 @@ impl BSeriesScrew {
             ));
         }
         if !(0.30..=1.05).contains(&g.area_ratio) {
-            warnings.push(Warning::new(
+            warnings.push(Warning::about(
+                Subject::AreaRatio,
                 SOURCE,
                 format!(
                     "area ratio AE/A0 = {:.3} is outside the series' range 0.30 to 1.05; KT and KQ are extrapolated",
@@ -311,7 +313,8 @@ impl BSeriesScrew {
         }
         let pitch_ratio = g.pitch_ratio();
         if !(0.5..=1.4).contains(&pitch_ratio) {
-            warnings.push(Warning::new(
+            warnings.push(Warning::about(
+                Subject::PitchRatio,
                 SOURCE,
                 format!(
                     "pitch ratio P/D = {pitch_ratio:.3} is outside the series' range 0.5 to 1.4; KT and KQ are extrapolated"

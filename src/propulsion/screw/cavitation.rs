@@ -5,7 +5,7 @@
 //! pass/fail, so that callers can warn at the target speed and at top speed.
 
 use super::ScrewGeometry;
-use crate::propulsion::{STANDARD_GRAVITY, Warning};
+use crate::propulsion::{STANDARD_GRAVITY, Subject, Warning};
 use std::f64::consts::PI;
 use thiserror::Error;
 
@@ -384,7 +384,8 @@ pub fn check_cavitation(input: &CavitationInput) -> Result<CavitationReport, Cav
 
     let mut warnings = Vec::new();
     if !keller_area_ratio.passed {
-        warnings.push(Warning::new(
+        warnings.push(Warning::about(
+            Subject::AreaRatio,
             SOURCE,
             format!(
                 "area ratio AE/A0 = {:.3} is below Keller's minimum of {:.3}",
@@ -393,7 +394,8 @@ pub fn check_cavitation(input: &CavitationInput) -> Result<CavitationReport, Cav
         ));
     }
     if !thrust_loading.passed {
-        warnings.push(Warning::new(
+        warnings.push(Warning::about(
+            Subject::Cavitation,
             SOURCE,
             format!(
                 "thrust loading τc = {:.3} is above Burrill's 5 % back-cavitation limit of {:.3} at σ0.7R = {:.3}",
@@ -402,7 +404,8 @@ pub fn check_cavitation(input: &CavitationInput) -> Result<CavitationReport, Cav
         ));
     }
     if !(BURRILL_SIGMA_RANGE.0..=BURRILL_SIGMA_RANGE.1).contains(&cavitation_number) {
-        warnings.push(Warning::new(
+        warnings.push(Warning::about(
+            Subject::Cavitation,
             SOURCE,
             format!(
                 "cavitation number σ0.7R = {cavitation_number:.3} is outside the Burrill diagram ({} to {}); its limit is extrapolated",
@@ -411,7 +414,8 @@ pub fn check_cavitation(input: &CavitationInput) -> Result<CavitationReport, Cav
         ));
     }
     if !blade_loading.passed {
-        warnings.push(Warning::new(
+        warnings.push(Warning::about(
+            Subject::Cavitation,
             SOURCE,
             format!(
                 "blade loading {:.1} psi ({:.1} kPa) is above the limit of {:.1} psi ({:.1} kPa)",
@@ -423,7 +427,8 @@ pub fn check_cavitation(input: &CavitationInput) -> Result<CavitationReport, Cav
         ));
     }
     if let Some(check) = tip_speed_check.filter(|c| !c.passed) {
-        warnings.push(Warning::new(
+        warnings.push(Warning::about(
+            Subject::Cavitation,
             SOURCE,
             format!(
                 "tip speed {:.1} m/s is above the limit of {:.1} m/s",

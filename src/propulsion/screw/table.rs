@@ -1,7 +1,7 @@
 //! A user open-water table (J, KT, KQ) for a screw that is not of the B-series.
 
 use super::{OpenWaterPoint, ScrewError, ScrewGeometry};
-use crate::propulsion::Warning;
+use crate::propulsion::{Subject, Warning};
 
 /// A user open-water table, interpolated in J.
 #[derive(Debug, Clone, PartialEq)]
@@ -124,13 +124,15 @@ impl OpenWaterTable {
         let mut warnings = Vec::new();
         let first = self.points[0].advance_ratio;
         if first > 0.0 {
-            warnings.push(Warning::new(
+            warnings.push(Warning::about(
+                Subject::OpenWaterTable,
                 "open-water table",
                 format!("the table starts at J = {first}; below it KT and KQ are extrapolated"),
             ));
         }
         if self.zero_thrust_extrapolated {
-            warnings.push(Warning::new(
+            warnings.push(Warning::about(
+                Subject::OpenWaterTable,
                 "open-water table",
                 format!(
                     "the table ends before zero thrust; KT = 0 is extrapolated to J = {:.3}",
@@ -144,7 +146,8 @@ impl OpenWaterTable {
             .take_while(|w| w[0].advance_ratio < self.zero_thrust_j)
             .any(|w| w[1].thrust_coefficient > w[0].thrust_coefficient);
         if rising {
-            warnings.push(Warning::new(
+            warnings.push(Warning::about(
+                Subject::OpenWaterTable,
                 "open-water table",
                 "KT rises with J somewhere below zero thrust; the thrust identity may have more \
                  than one root and the first one is used",

@@ -6,8 +6,8 @@ use super::cruise::cruise_at_speed;
 use super::matching::{Verdict, match_engine, point_at_engine_rpm};
 use super::pitch::{ConditionSummary, DesignError, PitchOptions, PitchRecommendation, SearchStop};
 use super::pitch::{matching_pitch, recommend_pitch_for_condition};
-use crate::propulsion::Warning;
 use crate::propulsion::hull::{HullError, Interaction, InteractionMethod};
+use crate::propulsion::{Subject, Warning};
 use thiserror::Error;
 
 /// Why a condition could not be applied to the boat.
@@ -403,7 +403,8 @@ pub fn uncertainty_band(
             }
             let mut wake = frozen.wake_fraction + shift;
             if wake < 0.0 {
-                warnings.push(Warning::new(
+                warnings.push(Warning::about(
+                    Subject::Interaction,
                     "uncertainty band",
                     format!("the shifted wake fraction {wake:.3} was clamped at 0"),
                 ));

@@ -7,9 +7,9 @@
 //! *Masthead* no. 18, which gives SF 2 for light pleasure craft, 3 for average yachts, up to
 //! 7.5 for inspected passenger vessels, keyway allowance included).
 
-use crate::propulsion::Warning;
 use crate::propulsion::engine::{Duty, EngineSheet};
 use crate::propulsion::solver::Installation;
+use crate::propulsion::{Subject, Warning};
 use std::f64::consts::PI;
 use thiserror::Error;
 
@@ -225,7 +225,8 @@ pub fn check_shaft(
     if let Some(d) = existing_diameter
         && d < min_diameter
     {
-        warnings.push(Warning::new(
+        warnings.push(Warning::about(
+            Subject::Shaft,
             "shaft",
             format!(
                 "the existing shaft of {:.1} mm is smaller than the {:.1} mm that {} needs for {:.0} N·m with a safety factor of {:.1}",

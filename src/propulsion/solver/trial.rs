@@ -24,8 +24,8 @@ pub struct TrialRun {
 
 use super::System;
 use super::matching::point_at_engine_rpm;
-use crate::propulsion::Warning;
 use crate::propulsion::hull::{Interaction, InteractionMethod, ResistanceModel};
+use crate::propulsion::{Subject, Warning};
 use thiserror::Error;
 
 /// Why a trial log could not be used for calibration.
@@ -187,7 +187,8 @@ fn group_runs(runs: &[TrialRun], tolerance: f64, warnings: &mut Vec<Warning>) ->
             (Some(o), Some(b)) => {
                 let undirected = members.iter().filter(|r| r.direction.is_none()).count();
                 if undirected > 0 {
-                    warnings.push(Warning::new(
+                    warnings.push(Warning::about(
+                        Subject::Trial,
                         "sea trial",
                         format!("{undirected} run(s) at {rpm:.0} rpm without a direction were left out of the two-way mean"),
                     ));
@@ -195,7 +196,8 @@ fn group_runs(runs: &[TrialRun], tolerance: f64, warnings: &mut Vec<Warning>) ->
                 (0.5 * (o + b), true, Some(0.5 * (o - b)))
             }
             _ => {
-                warnings.push(Warning::new(
+                warnings.push(Warning::about(
+                    Subject::Trial,
                     "sea trial",
                     format!("no reciprocal runs at {rpm:.0} rpm: any current is still in the measured speed"),
                 ));
@@ -511,7 +513,8 @@ pub fn calibrate(
             interaction = with_wake(w);
             wake_fraction = Some(w);
             if (w - w0).abs() < 1e-3 || (w1 - w).abs() < 1e-3 {
-                warnings.push(Warning::new(
+                warnings.push(Warning::about(
+                    Subject::Interaction,
                     "sea trial",
                     format!(
                         "the fitted wake fraction {w:.3} is at the end of its search range {w0:.2}–{w1:.2}"
@@ -519,14 +522,16 @@ pub fn calibrate(
                 ));
             }
         } else {
-            warnings.push(Warning::new(
+            warnings.push(Warning::about(
+                Subject::Trial,
                 "sea trial",
                 "fitting the wake did not improve on the resistance factor alone: the wake is left as estimated",
             ));
         }
     }
     if (factor - f0).abs() < 1e-3 || (f1 - factor).abs() < 1e-3 {
-        warnings.push(Warning::new(
+        warnings.push(Warning::about(
+            Subject::Trial,
             "sea trial",
             format!("the fitted resistance factor {factor:.3} is at the end of its search range {f0:.2}–{f1:.2}: check the log and the hull data"),
         ));
@@ -542,7 +547,8 @@ pub fn calibrate(
         (rms_after, factor, wake_fraction, interaction, after)
     } else {
         // The fit can only lose to the start if it left the solvable range: keep the model.
-        warnings.push(Warning::new(
+        warnings.push(Warning::about(
+            Subject::Trial,
             "sea trial",
             "the fit did not improve on the model: no correction applied",
         ));
@@ -556,7 +562,8 @@ pub fn calibrate(
     };
     for (g, p) in groups.iter().zip(&before) {
         if p.is_none() {
-            warnings.push(Warning::new(
+            warnings.push(Warning::about(
+                Subject::Trial,
                 "sea trial",
                 format!(
                     "the model could not predict {:.0} rpm: that point is left out of the RMS",

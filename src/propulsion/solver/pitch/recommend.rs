@@ -5,13 +5,13 @@ use super::{
     DesignError, INCH, PITCH_CAUTION, PitchOptions, PitchTarget, SearchStop, TargetPoint,
     bseries_geometry, rebuilt_screw, search_pitch, system_with,
 };
-use crate::propulsion::Warning;
 use crate::propulsion::hull::SpeedValidity;
 use crate::propulsion::screw::ScrewGeometry;
 use crate::propulsion::solver::matching::{
     MatchResult, Verdict, match_engine, point_at_engine_rpm,
 };
 use crate::propulsion::solver::{Installation, Vessel};
+use crate::propulsion::{Subject, Warning};
 
 /// The loading condition a recommendation or a what-if case was made for.
 #[derive(Debug, Clone, PartialEq, serde::Serialize)]
@@ -271,7 +271,8 @@ pub fn recommend_pitch_for_condition(
 
     let mut warnings = Vec::new();
     if let (Some(c), Some(false)) = (change, within) {
-        warnings.push(Warning::new(
+        warnings.push(Warning::about(
+            Subject::Pitch,
             "pitch recommendation",
             format!(
                 "the change of {:+.1} mm ({:+.2} in) is beyond the re-pitch limit of ±{:.1} mm (common practice): a new screw is the answer",
@@ -295,7 +296,8 @@ pub fn recommend_pitch_for_condition(
     if let Some(p) = search.pitch {
         let ratio = p / base.diameter;
         if !(0.5..=1.4).contains(&ratio) {
-            warnings.push(Warning::new(
+            warnings.push(Warning::about(
+                Subject::PitchRatio,
                 "B-series",
                 format!("the recommended pitch ratio P/D = {ratio:.2} is outside the series' range 0.5–1.4"),
             ));
@@ -327,7 +329,8 @@ pub fn recommend_pitch_for_condition(
     let target_validity = speed_at_target.map(|v| vessel.resistance.validity_at(v));
     let in_method_range = target_validity.map(|v| v.in_method_range);
     if let Some(reason) = target_validity.and_then(|v| v.reason()) {
-        warnings.push(Warning::new(
+        warnings.push(Warning::about(
+            Subject::FroudeNumber,
             "pitch recommendation",
             format!(
                 "UNRELIABLE: at {:.0} rpm with the recommended pitch the boat runs outside the range of {} ({reason}); the resistance there is an extrapolation, so a sea trial decides the pitch",
