@@ -331,4 +331,36 @@ mod tests {
         }
         assert_eq!(SweepOver::AreaRatio.next(), SweepOver::Diameter);
     }
+
+    #[test]
+    fn what_if_view_shows_the_numbers_of_conditions_for_every_demo_boat() {
+        // One definition of the cases: the view and the report model of `conditions` agree.
+        let store = Store::at(std::env::temp_dir().join("tidewright-analysis-tests-no-store"));
+        let boats = store.list_boats().expect("the demo fleet lists");
+        assert!(boats.len() >= 2, "{boats:?}");
+        for name in boats {
+            let app = demo(&name);
+            let ViewData::WhatIf(view) = ViewData::compute(
+                ViewKind::WhatIf,
+                SweepOver::Diameter,
+                &app.doc.boat,
+                &app.doc.engine,
+            ) else {
+                panic!("what-if view")
+            };
+            let outcomes = view.outcomes.expect("the view solves");
+            let study = Study::of_documents(&app.doc.boat, &app.doc.engine).unwrap();
+            let model = study
+                .what_if(study.vessel.active_variant, &WhatIfSettings::default())
+                .unwrap();
+            let json = crate::report::what_if::what_if_json(&study, &model);
+            assert_eq!(outcomes.len(), json.conditions.len(), "{name}");
+            for (o, row) in outcomes.iter().zip(&json.conditions) {
+                let kn = o.top_speed.map(|v| v / crate::units::KNOT_MPS);
+                assert_eq!(kn, row.top_speed_kn, "{name} {}", row.label);
+                assert_eq!(o.cruise_rpm, row.cruise_rpm, "{name} {}", row.label);
+                assert_eq!(o.verdict, row.verdict, "{name} {}", row.label);
+            }
+        }
+    }
 }
