@@ -15,6 +15,7 @@ use std::io::Write;
 use std::path::PathBuf;
 use std::process::ExitCode;
 
+use crate::study::Study;
 use crate::units::UnitSystem;
 
 /// Exit code: the command did what was asked.
@@ -467,6 +468,25 @@ pub fn run(cli: Cli, out: &mut dyn Write) -> anyhow::Result<()> {
 
 fn open_terminal_ui(ctx: &Context, boat: Option<&str>) -> anyhow::Result<()> {
     crate::tui::run(&store::store(ctx), boat, ctx.units)
+}
+
+/// Builds the study of the boat named (or at the path) `boat` in the store the options point at.
+pub(crate) fn load_study(ctx: &Context, boat: &str) -> anyhow::Result<Study> {
+    Study::load(&store::store(ctx), boat, ctx.units)
+}
+
+/// The variant `--variant LABEL` names, else the active one; an unknown label is a usage error.
+pub(crate) fn variant_or_active(study: &Study, label: Option<&str>) -> anyhow::Result<usize> {
+    study
+        .variant(label)
+        .map_err(|e| UsageError(format!("--variant: {e}")).into())
+}
+
+/// The variant `--variant LABEL` names, else all; an unknown label is a usage error.
+pub(crate) fn variants_or_all(study: &Study, label: Option<&str>) -> anyhow::Result<Vec<usize>> {
+    study
+        .variants(label)
+        .map_err(|e| UsageError(format!("--variant: {e}")).into())
 }
 
 /// Parses an engine speed given as a plain number or with its unit ("1800", "1800 rpm").

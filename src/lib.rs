@@ -36,5 +36,6 @@ pub mod instruments;
 pub mod profile;
 pub mod propulsion;
 pub mod report;
+pub mod study;
 pub mod tui;
 pub mod units;

@@ -6,19 +6,17 @@
 
 pub mod boat;
 pub mod checks;
+pub mod design;
 pub mod export;
 pub mod json;
 pub mod openwater;
 pub mod svg;
 pub mod table;
+pub mod what_if;
 
 use crate::units::{self, Kind, UnitSystem};
 
-/// The caution shown wherever a pitch, a match verdict or an engine load is given.
-pub const CAUTION: &str = "These figures are estimates from published methods and the inputs given. \
-The engine maker's installation limits, local codes and a licensed marine surveyor or naval \
-architect decide the final engine, gear and screw.";
-
+pub use crate::study::CAUTION;
 pub use crate::units::{INCH_M, KNOT_MPS, LITRE_M3, NAUTICAL_MILE_M};
 
 /// Numbers and units of a report in one unit system (the units module decides the units).

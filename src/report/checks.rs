@@ -13,102 +13,13 @@ use crate::propulsion::screw::cavitation::{
     CavitationReport, KELLER_CONSTANT_SINGLE_SCREW, PASCALS_PER_PSI,
     SMALL_CRAFT_BLADE_LOADING_LIMIT,
 };
-use crate::propulsion::solver::checks::cavitation_at_point;
-use crate::propulsion::solver::shaft::{
-    ShaftCheck, ShaftMaterial, YACHT_SAFETY_FACTOR, check_shaft,
-};
-use crate::propulsion::solver::{OperatingPoint, Vessel};
+use crate::propulsion::solver::Vessel;
+use crate::propulsion::solver::shaft::ShaftCheck;
+use crate::study::checks::{cavitation, shaft_check};
 use crate::units::{Kind, UnitSystem};
 
-/// Material assumed for the shaft check when the boat file names none.
-pub const DEFAULT_SHAFT_MATERIAL: &str = "stainless 316";
-
-/// What the checks need from the boat file beyond the solved vessel (SI).
-#[derive(Debug, Clone, Default, PartialEq)]
-pub struct CheckInputs {
-    /// Depth of the shaft centreline below the waterline, m (`installation.shaft_immersion`).
-    pub shaft_immersion: Option<f64>,
-    /// The existing shaft's diameter, m (`installation.shaft_diameter`).
-    pub shaft_diameter: Option<f64>,
-    /// The shaft material's name as written in the file (`installation.shaft_material`).
-    pub shaft_material: Option<String>,
-}
-
-/// The sea-trial correction saved with the boat and applied to every prediction.
-#[derive(Debug, Clone, PartialEq, Serialize)]
-pub struct AppliedCalibration {
-    /// Factor on calm, clean-hull water resistance (margins go on top).
-    pub resistance_factor: f64,
-    /// Fitted wake fraction replacing the estimate, if fitted.
-    pub wake_fraction: Option<f64>,
-    /// Date of the trial it came from.
-    pub trial_date: Option<String>,
-    /// How it was fitted.
-    pub note: Option<String>,
-}
-
-impl AppliedCalibration {
-    /// "calibration applied: resistance ×1.114 (sea trial 2024-05-18; …)".
-    pub fn line(&self) -> String {
-        let mut line = format!(
-            "calibration applied: resistance ×{:.3}",
-            self.resistance_factor
-        );
-        if let Some(w) = self.wake_fraction {
-            line.push_str(&format!(", wake fraction {w:.3}"));
-        }
-        let about: Vec<String> = self
-            .trial_date
-            .iter()
-            .map(|d| format!("sea trial {d}"))
-            .chain(self.note.iter().cloned())
-            .collect();
-        if about.is_empty() {
-            line.push_str(" (sea-trial correction)");
-        } else {
-            line.push_str(&format!(" ({})", about.join("; ")));
-        }
-        line.push_str(" on calm, clean-hull resistance, margins on top");
-        if self.fitted_with_margins() {
-            line.push_str(
-                "; saved by an earlier tidewright whose fit counted the service margin and fouling inside the factor, so it under-states the resistance by about the margins: run `tidewright trial BOAT --save` again",
-            );
-        }
-        line
-    }
-
-    /// Whether the note says the factor was written by a `trial --save` from before the fit
-    /// worked on calm-water resistance (its note lacks the "calm-water" its successors carry).
-    pub fn fitted_with_margins(&self) -> bool {
-        self.note.as_deref().is_some_and(|n| {
-            n.contains("by `tidewright trial --save`") && !n.contains(CALM_WATER_NOTE)
-        })
-    }
-}
-
-/// The words every note written by `trial --save` carries since the fit works on calm-water
-/// resistance; a saved note without them comes from the older fit with the margins inside.
-pub const CALM_WATER_NOTE: &str = "on calm-water resistance";
-
-/// Where on the propeller curve a screw is checked.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
-#[serde(rename_all = "snake_case")]
-pub enum CheckPoint {
-    /// At the trip's target speed.
-    TargetSpeed,
-    /// At full throttle (top speed).
-    TopSpeed,
-}
-
-impl CheckPoint {
-    /// The point in words.
-    pub fn words(self) -> &'static str {
-        match self {
-            CheckPoint::TargetSpeed => "target speed",
-            CheckPoint::TopSpeed => "top speed",
-        }
-    }
-}
+pub use crate::study::checks::{CheckPoint, DEFAULT_SHAFT_MATERIAL, shaft_material};
+pub use crate::study::{AppliedCalibration, CALM_WATER_NOTE, CheckInputs};
 
 /// One screw checked at one operating point.
 #[derive(Debug, Clone, PartialEq)]
@@ -145,21 +56,6 @@ pub struct DesignChecks {
     pub shaft_note: Option<String>,
 }
 
-/// The built-in shaft material the file's name means, or why none does (naming the field).
-pub fn shaft_material(name: &str) -> Result<ShaftMaterial, String> {
-    ShaftMaterial::by_name(name).map_err(|e| format!("installation.shaft_material: {e}"))
-}
-
-fn check_point(
-    vessel: &Vessel,
-    geometry: ScrewGeometry,
-    point: &OperatingPoint,
-    immersion: f64,
-) -> Result<CavitationReport, String> {
-    cavitation_at_point(geometry, point, &vessel.resistance.water, immersion)
-        .map_err(|e| e.to_string())
-}
-
 impl DesignChecks {
     /// Runs the checks for the variants of `variants` (already solved by the report).
     pub fn build(vessel: &Vessel, variants: &[VariantReport], inputs: &CheckInputs) -> Self {
@@ -174,10 +70,10 @@ impl DesignChecks {
                 .map(|v| {
                     let mut rows = Vec::new();
                     if let Ok(c) = &v.target {
-                        rows.push((CheckPoint::TargetSpeed, c.point));
+                        rows.push((CheckPoint::Target, c.point));
                     }
                     if let Ok(m) = &v.matching {
-                        rows.push((CheckPoint::TopSpeed, m.top_point));
+                        rows.push((CheckPoint::Top, m.top_point));
                     }
                     VariantChecks {
                         label: v.label.clone(),
@@ -188,32 +84,14 @@ impl DesignChecks {
                                 at,
                                 speed: p.speed,
                                 engine_rpm: p.engine_rpm,
-                                outcome: check_point(vessel, v.geometry, &p, immersion),
+                                outcome: cavitation(vessel, v.geometry, &p, immersion),
                             })
                             .collect(),
                     }
                 })
                 .collect()),
         };
-        let (material, shaft_note) = match &inputs.shaft_material {
-            Some(name) => (shaft_material(name), None),
-            None => (
-                shaft_material(DEFAULT_SHAFT_MATERIAL),
-                Some(format!(
-                    "the boat file names no installation.shaft_material: {DEFAULT_SHAFT_MATERIAL} assumed"
-                )),
-            ),
-        };
-        let shaft = material.and_then(|m| {
-            check_shaft(
-                &vessel.engine,
-                &vessel.installation,
-                &m,
-                YACHT_SAFETY_FACTOR,
-                inputs.shaft_diameter,
-            )
-            .map_err(|e| e.to_string())
-        });
+        let (shaft, shaft_note) = shaft_check(vessel, inputs);
         Self {
             cavitation,
             shaft,

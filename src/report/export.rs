@@ -1,9 +1,14 @@
 //! The printable report for the owner and the propeller shop: Markdown with SVG charts.
 
 use super::boat::{BoatReport, match_line, operating_table, screw_spec, target_line};
+use super::design::{comparison_text, pitch_text, trial_text};
 use super::svg::{Chart, Series, SeriesStyle};
 use super::{CAUTION, Display};
+use crate::profile::Rotation;
 use crate::propulsion::solver::Vessel;
+use crate::propulsion::solver::pitch::PitchOptions;
+use crate::study::what_if::WhatIfSettings;
+use crate::study::{Study, active_variant};
 use crate::units::{Kind, UnitSystem};
 
 /// One file of the export: its name inside the output directory and its text.
@@ -303,4 +308,73 @@ pub fn export(
         contents: chart.to_svg(),
     }));
     files
+}
+/// The sections of the export that come from the design stage: the recommended screw, the
+/// pitch of every variant and the sea-trial calibration.
+pub fn design_sections(study: &Study, d: &Display) -> Vec<Section> {
+    let vessel = &study.vessel;
+    let mut sections = Vec::new();
+    let active = active_variant(vessel);
+    let indices: Vec<usize> = (0..vessel.variants.len()).collect();
+    match study.recommendations(&indices, &PitchOptions::default()) {
+        Ok(recs) => {
+            let mut body = String::new();
+            if let Some(rec) = recs.get(active) {
+                let g = vessel.variants[active].screw.geometry();
+                let hand = match study.doc.variants.get(active).and_then(|v| v.rotation) {
+                    Some(Rotation::Right) => ", right hand",
+                    Some(Rotation::Left) => ", left hand",
+                    None => ", hand of rotation not given",
+                };
+                match rec.recommended_pitch.filter(|p| p.is_finite()) {
+                    Some(p) => body.push_str(&format!(
+                        "**Recommended screw** (from variant {}): {} blades × {} diameter × {} pitch, AE/A0 {:.2}{hand}.\n\n",
+                        rec.label,
+                        g.blades,
+                        d.quantity(g.diameter, Kind::ScrewLength),
+                        d.quantity(p, Kind::ScrewLength),
+                        g.area_ratio
+                    )),
+                    None => body.push_str(&format!("No pitch could be recommended for the active variant {}.\n\n", rec.label)),
+                }
+            }
+            for rec in &recs {
+                body.push_str("```text\n");
+                body.push_str(&pitch_text(rec, d));
+                body.push_str("```\n\n");
+            }
+            sections.push(Section {
+                title: "Pitch recommendation".into(),
+                body,
+            });
+        }
+        Err(e) => sections.push(Section {
+            title: "Pitch recommendation".into(),
+            body: format!("Not available: {e:#}"),
+        }),
+    }
+    let what_if = study.what_if(active, &WhatIfSettings::default());
+    sections.push(Section {
+        title: "What-if conditions".into(),
+        body: match what_if {
+            Ok(w) => w.to_markdown(d),
+            Err(e) => format!("Not available: {e:#}"),
+        },
+    });
+    if !vessel.trial.is_empty() {
+        let body = match study.calibration(active, false) {
+            Ok(cal) => format!(
+                "{}.\n\n{}.\n\n```text\n{}```\n",
+                study.calibration_line(),
+                comparison_text(study, study.rms_with_saved(active, &cal), d),
+                trial_text(&cal, d)
+            ),
+            Err(e) => format!("Not available: {e:#}"),
+        };
+        sections.push(Section {
+            title: "Sea-trial calibration".into(),
+            body,
+        });
+    }
+    sections
 }

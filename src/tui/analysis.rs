@@ -2,25 +2,24 @@
 //! by the solver when a view opens (and again after an edit while it is open) and cached in the
 //! app state; drawing only reads them. All values are SI (rpm as rpm).
 
-use crate::profile::{BoatDoc, CalibrationDoc, EngineDoc, LoadCondition};
-use crate::propulsion::solver::Vessel;
-use crate::propulsion::solver::conditions::{
-    Condition, ConditionOutcome, UncertaintyBand, UncertaintyRanges, compare_conditions,
-    uncertainty_band,
-};
-use crate::propulsion::solver::pitch::PitchOptions;
-use crate::propulsion::solver::sweep::{
-    SweepOptions, SweepParameter, SweepResult, USUAL_AREA_RATIOS, USUAL_BLADE_COUNTS,
-    gear_ratios_around, sweep,
-};
-use crate::propulsion::solver::trial::{Calibration, CalibrationOptions, calibrate};
+use crate::profile::{BoatDoc, CalibrationDoc, EngineDoc};
+use crate::propulsion::solver::conditions::{Condition, ConditionOutcome, UncertaintyBand};
+use crate::propulsion::solver::sweep::{SweepOptions, SweepParameter, SweepResult};
+use crate::propulsion::solver::trial::Calibration;
+use crate::study::Study;
+use crate::study::design::FittedBy;
+pub use crate::study::design::SweepOver;
+use crate::study::what_if::WhatIfSettings;
 
-/// Fouling added for the "fouled" what-if, as a fraction of friction (from memory: a season's
-/// growth on an unpainted bottom adds tens of percent to friction).
-pub const FOULED_EXTRA: f64 = 0.30;
-/// Sea-state margin added for the "sea state" what-if, fraction of resistance (common practice:
-/// a 15 % sea margin).
-pub const SEA_STATE_EXTRA: f64 = 0.15;
+/// Fouling of the "fouled" what-if, fraction of friction: the study's one definition (the
+/// case sets the fouling to this; it is not added to the boat's own).
+pub const FOULED_EXTRA: f64 = WHAT_IF.fouled;
+/// Sea-state margin of the "sea state" what-if, fraction of resistance: the study's one
+/// definition (the case sets the margin to this; it is not added to the boat's own).
+pub const SEA_STATE_EXTRA: f64 = WHAT_IF.sea_margin;
+
+/// The what-if settings the view uses: the same defaults as `conditions`.
+const WHAT_IF: WhatIfSettings = WhatIfSettings::DEFAULT;
 
 /// Which design view is open.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
@@ -59,36 +58,6 @@ impl ViewKind {
     }
 }
 
-/// What a sweep varies.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, Default)]
-pub enum SweepOver {
-    /// Screw diameter up to the aperture's limit.
-    #[default]
-    Diameter,
-    /// Reduction gear ratio.
-    GearRatio,
-    /// Number of blades.
-    Blades,
-    /// Expanded area ratio AE/A0.
-    AreaRatio,
-}
-
-impl SweepOver {
-    /// Every parameter, in the order the key cycles them.
-    pub const ALL: [SweepOver; 4] = [
-        SweepOver::Diameter,
-        SweepOver::GearRatio,
-        SweepOver::Blades,
-        SweepOver::AreaRatio,
-    ];
-
-    /// The next parameter (wrapping).
-    pub fn next(self) -> Self {
-        let i = Self::ALL.iter().position(|k| *k == self).unwrap_or(0);
-        Self::ALL[(i + 1) % Self::ALL.len()]
-    }
-}
-
 /// A sweep of the active variant.
 #[derive(Debug, Clone, PartialEq)]
 pub struct SweepView {
@@ -113,21 +82,17 @@ pub struct CalibrationView {
     pub result: Result<Calibration, String>,
     /// The resistance factor the boat currently applies, if it has a calibration.
     pub applied: Option<f64>,
+    /// The `[calibration]` the study writes for this fit (the same path as `trial --save`).
+    pub doc: Option<CalibrationDoc>,
 }
 
 impl CalibrationView {
     /// The correction to write into the boat document, when the fit improved on the model.
     pub fn correction(&self) -> Option<CalibrationDoc> {
         let cal = self.result.as_ref().ok()?;
-        (cal.rms_after < cal.rms_before).then(|| CalibrationDoc {
-            resistance_factor: cal.resistance_factor,
-            wake_fraction: cal.wake_fraction,
-            trial_date: self.trial_date.clone(),
-            note: Some(format!(
-                "resistance factor fitted to {} trial runs by least squares on speed; RMS {:.3} → {:.3} m/s",
-                self.runs, cal.rms_before, cal.rms_after
-            )),
-        })
+        (cal.rms_after < cal.rms_before)
+            .then(|| self.doc.clone())
+            .flatten()
     }
 }
 
@@ -178,37 +143,17 @@ fn active_label(boat: &BoatDoc) -> String {
         .unwrap_or_default()
 }
 
-/// The sweep parameter for `over`: diameters up to the aperture's limit, the gear ratios
-/// either side of the boat's, 2–5 blades, or four area ratios.
-pub fn sweep_parameter(
-    over: SweepOver,
-    boat: &BoatDoc,
-    vessel: &Vessel,
-) -> Result<SweepParameter, String> {
-    let index = vessel.active_variant;
-    Ok(match over {
-        SweepOver::Diameter => {
-            let inst = &boat.installation;
-            let largest = inst.max_screw_diameter.as_ref().map(|q| q.value).ok_or(
-                "the boat file gives no installation.max_screw_diameter, so the aperture limit of a diameter sweep is unknown",
-            )?;
-            let clearance = inst.tip_clearance.as_ref().map_or(0.0, |q| q.value);
-            let current = vessel.variants[index].screw.geometry().diameter;
-            SweepParameter::diameters_up_to(current, largest, clearance)
-                .map_err(|e| format!("installation.max_screw_diameter / tip_clearance: {e}"))?
-        }
-        SweepOver::GearRatio => {
-            SweepParameter::GearRatio(gear_ratios_around(vessel.installation.gear_ratio))
-        }
-        SweepOver::Blades => SweepParameter::Blades(USUAL_BLADE_COUNTS.to_vec()),
-        SweepOver::AreaRatio => SweepParameter::AreaRatio(USUAL_AREA_RATIOS.to_vec()),
-    })
+/// The sweep parameter for `over` of the active variant: the study's one definition.
+pub fn sweep_parameter(over: SweepOver, study: &Study) -> Result<SweepParameter, String> {
+    study
+        .sweep_parameter(study.vessel.active_variant, over, None)
+        .map_err(|e| e.to_string())
 }
 
 fn sweep_view(over: SweepOver, boat: &BoatDoc, engine: &EngineDoc) -> SweepView {
     let label = active_label(boat);
-    let vessel = match super::fields::build_vessel(boat, engine) {
-        Ok(v) => v,
+    let study = match Study::of_documents(boat, engine) {
+        Ok(s) => s,
         Err(why) => {
             return SweepView {
                 over,
@@ -218,14 +163,15 @@ fn sweep_view(over: SweepOver, boat: &BoatDoc, engine: &EngineDoc) -> SweepView 
             };
         }
     };
-    let parameter = sweep_parameter(over, boat, &vessel);
+    let parameter = sweep_parameter(over, &study);
     let max_diameter = match &parameter {
         Ok(SweepParameter::Diameter { aperture, .. }) => Some(aperture.max_diameter()),
         _ => None,
     };
     let result = parameter.and_then(|p| {
-        sweep(&vessel, vessel.active_variant, &p, &SweepOptions::default())
-            .map_err(|e| e.to_string())
+        study
+            .sweep(study.vessel.active_variant, &p, &SweepOptions::default())
+            .map_err(|e| format!("{e:#}"))
     });
     SweepView {
         over,
@@ -239,78 +185,69 @@ fn calibration_view(boat: &BoatDoc, engine: &EngineDoc) -> CalibrationView {
     let runs = boat.trial.as_ref().map_or(0, |t| t.runs.len());
     let trial_date = boat.trial.as_ref().and_then(|t| t.date.clone());
     let applied = boat.calibration.as_ref().map(|c| c.resistance_factor);
-    // Fitted against the model without any saved correction, so the view reads the same
-    // before and after the correction is applied.
-    let mut raw = boat.clone();
-    raw.calibration = None;
-    let result = if runs == 0 {
+    let fitted = if runs == 0 {
         Err("this boat has no sea-trial log: add [[trial.run]] entries (rpm, speed, direction) to its file to compare the model with measured speeds".into())
     } else {
-        super::fields::build_vessel(&raw, engine).and_then(|vessel| {
-            calibrate(
-                &vessel.system(vessel.active_variant),
-                &vessel.trial,
-                &CalibrationOptions::default(),
-            )
-            .map_err(|e| e.to_string())
+        // The study fits against the model without any saved correction, so the view reads
+        // the same before and after the correction is applied.
+        Study::of_documents(boat, engine).and_then(|study| {
+            let index = study.vessel.active_variant;
+            study
+                .calibration(index, false)
+                .map(|cal| {
+                    let doc = study.calibration_doc(index, &cal, FittedBy::TerminalUi);
+                    (cal, doc)
+                })
+                .map_err(|e| format!("{:#}", e.root_cause()))
         })
+    };
+    let (result, doc) = match fitted {
+        Ok((cal, doc)) => (Ok(cal), Some(doc)),
+        Err(e) => (Err(e), None),
     };
     CalibrationView {
         trial_date,
         runs,
         result,
         applied,
+        doc,
     }
 }
 
-/// The what-if conditions for `boat`: the load cases its file gives (displacement volume from
-/// the mass and the water's density), fouled, and a rougher sea state.
-pub fn conditions(boat: &BoatDoc, vessel: &Vessel) -> Vec<Condition> {
-    let density = vessel.resistance.water.density;
-    let mut list: Vec<Condition> = LoadCondition::ALL
+/// The what-if conditions of `study`: the study's one definition of the cases.
+pub fn conditions(study: &Study) -> Vec<Condition> {
+    study
+        .what_if_cases(&WHAT_IF)
         .into_iter()
-        .filter_map(|c| {
-            let case = boat.load.case(c)?;
-            let name = match c {
-                LoadCondition::Light => "light",
-                LoadCondition::Half => "half load",
-                LoadCondition::Full => "full load",
-            };
-            Some(Condition::displacement(
-                name,
-                case.displacement.value / density,
-            ))
-        })
-        .collect();
-    let margins = vessel.resistance.margins;
-    list.push(Condition::fouled("fouled", margins.fouling + FOULED_EXTRA));
-    list.push(Condition::sea_state(
-        "sea state",
-        margins.service + SEA_STATE_EXTRA,
-    ));
-    list
+        .map(|c| c.condition)
+        .collect()
 }
 
 fn what_if_view(boat: &BoatDoc, engine: &EngineDoc) -> WhatIfView {
     let label = active_label(boat);
-    let outcomes = super::fields::build_vessel(boat, engine).and_then(|vessel| {
-        compare_conditions(&vessel, vessel.active_variant, &conditions(boat, &vessel))
-            .map_err(|e| e.to_string())
+    let outcomes = Study::of_documents(boat, engine).and_then(|study| {
+        let shorts = study.what_if_short_labels(&WHAT_IF);
+        study
+            .what_if_outcomes(study.vessel.active_variant, &WHAT_IF)
+            .map(|outcomes| short_named(outcomes, &shorts))
+            .map_err(|e| format!("{:#}", e.root_cause()))
     });
     WhatIfView { label, outcomes }
+}
+
+/// The outcomes under the short names the narrow table shows.
+fn short_named(mut outcomes: Vec<ConditionOutcome>, shorts: &[&str]) -> Vec<ConditionOutcome> {
+    for (o, short) in outcomes.iter_mut().zip(shorts) {
+        o.condition.label = (*short).to_string();
+    }
+    outcomes
 }
 
 /// The active variant's propeller curve as a band over displacement ±10 % and wake ±0.05, with
 /// the recommended pitch's range over the same cases.
 pub fn band(boat: &BoatDoc, engine: &EngineDoc) -> Result<UncertaintyBand, String> {
-    let vessel = super::fields::build_vessel(boat, engine)?;
-    uncertainty_band(
-        &vessel,
-        vessel.active_variant,
-        &UncertaintyRanges::default(),
-        &PitchOptions::default(),
-    )
-    .map_err(|e| e.to_string())
+    let study = Study::of_documents(boat, engine)?;
+    study.band(study.vessel.active_variant, &WHAT_IF)
 }
 
 #[cfg(test)]
@@ -326,9 +263,9 @@ mod tests {
     #[test]
     fn diameter_sweep_reaches_the_profiles_largest_screw() {
         let app = demo("pintle");
-        let vessel = crate::tui::fields::build_vessel(&app.doc.boat, &app.doc.engine).unwrap();
+        let study = Study::of_documents(&app.doc.boat, &app.doc.engine).unwrap();
         let Ok(SweepParameter::Diameter { aperture, .. }) =
-            sweep_parameter(SweepOver::Diameter, &app.doc.boat, &vessel)
+            sweep_parameter(SweepOver::Diameter, &study)
         else {
             panic!("a diameter sweep")
         };
@@ -336,25 +273,35 @@ mod tests {
         assert!((aperture.max_diameter() - 0.5).abs() < 1e-12);
         let mut boat = app.doc.boat.clone();
         boat.installation.max_screw_diameter = None;
-        let err = sweep_parameter(SweepOver::Diameter, &boat, &vessel).unwrap_err();
+        let study = Study::of_documents(&boat, &app.doc.engine).unwrap();
+        let err = sweep_parameter(SweepOver::Diameter, &study).unwrap_err();
         assert!(err.contains("max_screw_diameter"), "{err}");
     }
 
     #[test]
     fn what_if_conditions_are_the_files_loads_then_fouled_and_sea_state() {
         let app = demo("pintle");
-        let vessel = crate::tui::fields::build_vessel(&app.doc.boat, &app.doc.engine).unwrap();
-        let list = conditions(&app.doc.boat, &vessel);
+        let study = Study::of_documents(&app.doc.boat, &app.doc.engine).unwrap();
+        let vessel = &study.vessel;
+        let list = conditions(&study);
         let labels: Vec<&str> = list.iter().map(|c| c.label.as_str()).collect();
         assert_eq!(
             labels,
-            ["light", "half load", "full load", "fouled", "sea state"]
+            [
+                "light",
+                "half load",
+                "full load",
+                "fouled hull (+30 % friction)",
+                "seaway (30 % sea-state margin)"
+            ]
         );
         // pintle's light load is 4.2 t in sea water.
         let light = list[0].displacement_volume.unwrap();
         assert!((light * vessel.resistance.water.density - 4200.0).abs() < 1e-6);
-        assert!((list[3].fouling.unwrap() - (0.1 + FOULED_EXTRA)).abs() < 1e-12);
-        assert!((list[4].service_margin.unwrap() - (0.15 + SEA_STATE_EXTRA)).abs() < 1e-12);
+        // One definition with `conditions`: the cases set fouling and margin, never add to
+        // the boat's own (pintle's are 10 % and 15 %).
+        assert!((list[3].fouling.unwrap() - FOULED_EXTRA).abs() < 1e-12);
+        assert!((list[4].service_margin.unwrap() - SEA_STATE_EXTRA).abs() < 1e-12);
     }
 
     #[test]
@@ -383,5 +330,37 @@ mod tests {
             assert_eq!(kind.next().prev(), kind);
         }
         assert_eq!(SweepOver::AreaRatio.next(), SweepOver::Diameter);
+    }
+
+    #[test]
+    fn what_if_view_shows_the_numbers_of_conditions_for_every_demo_boat() {
+        // One definition of the cases: the view and the report model of `conditions` agree.
+        let store = Store::at(std::env::temp_dir().join("tidewright-analysis-tests-no-store"));
+        let boats = store.list_boats().expect("the demo fleet lists");
+        assert!(boats.len() >= 2, "{boats:?}");
+        for name in boats {
+            let app = demo(&name);
+            let ViewData::WhatIf(view) = ViewData::compute(
+                ViewKind::WhatIf,
+                SweepOver::Diameter,
+                &app.doc.boat,
+                &app.doc.engine,
+            ) else {
+                panic!("what-if view")
+            };
+            let outcomes = view.outcomes.expect("the view solves");
+            let study = Study::of_documents(&app.doc.boat, &app.doc.engine).unwrap();
+            let model = study
+                .what_if(study.vessel.active_variant, &WhatIfSettings::default())
+                .unwrap();
+            let json = crate::report::what_if::what_if_json(&study, &model);
+            assert_eq!(outcomes.len(), json.conditions.len(), "{name}");
+            for (o, row) in outcomes.iter().zip(&json.conditions) {
+                let kn = o.top_speed.map(|v| v / crate::units::KNOT_MPS);
+                assert_eq!(kn, row.top_speed_kn, "{name} {}", row.label);
+                assert_eq!(o.cruise_rpm, row.cruise_rpm, "{name} {}", row.label);
+                assert_eq!(o.verdict, row.verdict, "{name} {}", row.label);
+            }
+        }
     }
 }

@@ -6,16 +6,17 @@ use crate::profile::{BoatDoc, EngineDoc};
 use crate::propulsion::Warning;
 use crate::propulsion::screw::cavitation::CavitationReport;
 use crate::propulsion::solver::OperatingPoint;
-use crate::propulsion::solver::checks::cavitation_at_point;
+
 use crate::propulsion::solver::cruise::cruise_at_speed;
 use crate::propulsion::solver::matching::match_engine;
 use crate::propulsion::solver::pitch::{PitchOptions, PitchRecommendation, recommend_pitch};
-use crate::propulsion::solver::shaft::{
-    ShaftCheck, ShaftMaterial, YACHT_SAFETY_FACTOR, check_shaft, duty_note,
-};
+use crate::propulsion::solver::shaft::{ShaftCheck, duty_note};
 use crate::propulsion::solver::{
     CruisePoint, MatchResult, MethodSpread, PropellerCurve, Trip, Vessel,
 };
+pub use crate::study::checks::CheckPoint;
+use crate::study::checks::{cavitation, shaft_check};
+use crate::study::{CheckInputs, Study};
 use crate::units::{self, Kind, UnitSystem};
 
 /// Speeds solved per propeller curve (enough for a smooth braille line at 120 columns).
@@ -73,25 +74,6 @@ pub struct Solved {
     pub checks: Checks,
 }
 
-/// Where a cavitation check was made.
-#[derive(Debug, Clone, Copy, PartialEq, Eq)]
-pub enum CheckPoint {
-    /// At the trip's target speed.
-    Target,
-    /// At full throttle (the meeting point).
-    Top,
-}
-
-impl CheckPoint {
-    /// The point's name as shown.
-    pub fn name(self) -> &'static str {
-        match self {
-            CheckPoint::Target => "target speed",
-            CheckPoint::Top => "top speed",
-        }
-    }
-}
-
 /// The active variant's cavitation, shaft and engine-duty checks, solved with every edit.
 #[derive(Debug, Clone, PartialEq)]
 pub struct Checks {
@@ -101,6 +83,8 @@ pub struct Checks {
     pub shaft_immersion: Option<f64>,
     /// The shaft check against the boat's shaft, or why it could not be made.
     pub shaft: Result<ShaftCheck, String>,
+    /// A note on the shaft material, when it was assumed (the report's rule).
+    pub shaft_note: Option<String>,
     /// The engine sheet's duty note beside the load at the target speed.
     pub duty: Option<String>,
 }
@@ -115,14 +99,13 @@ pub struct Solution {
 impl Solution {
     /// Builds the vessel from `boat` and `engine` and solves every variant.
     pub fn solve(boat: &BoatDoc, engine: &EngineDoc) -> Self {
-        let result = super::fields::build_vessel(boat, engine).map(|vessel| {
-            let mut solved = solve_vessel(vessel);
-            solved.checks = Checks::of(&solved, boat);
-            solved.recommendation_load = boat.load.default.to_string();
-            solved.recommendation_mass = boat
-                .load
-                .case(boat.load.default)
-                .map(|c| c.displacement.value);
+        let result = Study::of_documents(boat, engine).map(|study| {
+            // The vessel is built for the file's default load, so that is the recommendation's.
+            let (load, _) = study.default_load();
+            let inputs = study.inputs.clone();
+            let mut solved = solve_vessel(study.vessel);
+            solved.checks = Checks::with_inputs(&solved, &inputs);
+            solved.recommendation_load = load;
             solved
         });
         Self { result }
@@ -233,6 +216,7 @@ pub fn solve_vessel(vessel: Vessel) -> Solved {
             cavitation: Vec::new(),
             shaft_immersion: None,
             shaft: Err("no boat file to read the shaft from".into()),
+            shaft_note: None,
             duty: None,
         },
         vessel,
@@ -242,6 +226,12 @@ pub fn solve_vessel(vessel: Vessel) -> Solved {
         .as_ref()
         .map(|r| r.condition.label.clone())
         .unwrap_or_default();
+    // The mass the solver made the recommendation for, not the document's.
+    solved.recommendation_mass = solved
+        .recommendation
+        .as_ref()
+        .ok()
+        .map(|r| r.condition.displacement_volume * solved.vessel.resistance.water.density);
     solved
 }
 
@@ -300,12 +290,15 @@ fn solve_variant(vessel: &Vessel, index: usize) -> VariantSolution {
 impl Checks {
     /// The checks of the active variant of `solved`, with the installation data of `boat`.
     pub fn of(solved: &Solved, boat: &BoatDoc) -> Self {
+        Self::with_inputs(solved, &CheckInputs::of(boat))
+    }
+
+    /// The checks of the active variant of `solved` with the study's installation `inputs`.
+    pub fn with_inputs(solved: &Solved, inputs: &CheckInputs) -> Self {
         let vessel = &solved.vessel;
         let index = vessel.active_variant;
         let geometry = *vessel.variants[index].screw.geometry();
-        let installation = &boat.installation;
-        let shaft_immersion = installation.shaft_immersion.as_ref().map(|q| q.value);
-        let water = &vessel.resistance.water;
+        let shaft_immersion = inputs.shaft_immersion;
         // Without an immersion the static pressure at the screw is unknown: the check is not
         // made rather than guessed, as in the headless report.
         let check = |point: &OperatingPoint| -> Result<CavitationReport, String> {
@@ -313,7 +306,7 @@ impl Checks {
                 "the boat file gives no installation.shaft_immersion (depth of the shaft centreline)"
                     .to_string()
             })?;
-            cavitation_at_point(geometry, point, water, immersion).map_err(|e| e.to_string())
+            cavitation(vessel, geometry, point, immersion)
         };
         let mut cavitation = Vec::new();
         let mut duty = None;
@@ -338,24 +331,12 @@ impl Checks {
                     .and_then(|m| check(&m.top_point)),
             ));
         }
-        let shaft = match installation.shaft_material.as_deref() {
-            None => Err("the boat file names no installation.shaft_material".to_string()),
-            Some(name) => ShaftMaterial::by_name(name)
-                .and_then(|material| {
-                    check_shaft(
-                        &vessel.engine,
-                        &vessel.installation,
-                        &material,
-                        YACHT_SAFETY_FACTOR,
-                        installation.shaft_diameter.as_ref().map(|q| q.value),
-                    )
-                })
-                .map_err(|e| format!("installation.shaft_material: {e}")),
-        };
+        let (shaft, shaft_note) = shaft_check(vessel, inputs);
         Self {
             cavitation,
             shaft_immersion,
             shaft,
+            shaft_note,
             duty,
         }
     }

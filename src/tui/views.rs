@@ -600,6 +600,9 @@ pub fn check_lines(app: &App, checks: &Checks) -> Vec<Line<'static>> {
         }
         Err(why) => Line::styled(format!("Shaft not checked: {why}"), app.theme.warning),
     });
+    if let Some(note) = &checks.shaft_note {
+        lines.push(Line::styled(format!("Shaft: {note}"), app.theme.dim));
+    }
     if let Some(duty) = &checks.duty {
         lines.push(Line::raw(format!(
             "Engine duty at the target speed: {duty}"

@@ -794,7 +794,9 @@ fn calibration_view_on_pintle_lowers_the_rms_and_applying_it_is_undoable() {
         .calibration
         .as_ref()
         .expect("correction applied");
-    assert!((applied.resistance_factor - factor).abs() < 1e-12);
+    // The correction goes through the study's one calibration path, which writes the factor
+    // to four decimals (as `trial --save` does).
+    assert!((applied.resistance_factor - factor).abs() <= 0.5e-4);
     assert!(app.dirty(), "applying marks the boat unsaved");
     let after = top_speed(&app);
     // A factor above 1 adds resistance: the same engine reaches a lower top speed.

@@ -1,0 +1,362 @@
+//! The what-if comparison laid out: the conditions side by side, the pitch for each and the
+//! uncertainty band, as text, Markdown and JSON over the study's [`WhatIf`].
+
+use serde::Serialize;
+
+use super::boat::verdict_words;
+use super::checks::AppliedCalibration;
+use super::table::{Column, Table};
+use super::{CAUTION, Display, KNOT_MPS, LITRE_M3, percent};
+use crate::propulsion::solver::Verdict;
+use crate::propulsion::solver::pitch::PitchRecommendation;
+use crate::study::Study;
+pub use crate::study::what_if::{WhatIf, WhatIfSettings};
+use crate::units::Kind;
+
+/// The note of a row whose top speed (marked ≈) lies outside the resistance method's range.
+pub const UNRELIABLE_TOP_NOTE: &str = "≈ top speed unreliable: outside the method's range";
+
+fn finite(v: Option<f64>) -> Option<f64> {
+    v.filter(|x| x.is_finite())
+}
+
+fn recommended(p: &Result<PitchRecommendation, String>) -> Option<f64> {
+    p.as_ref().ok().and_then(|r| finite(r.recommended_pitch))
+}
+
+impl WhatIf {
+    /// The side-by-side table of the conditions.
+    pub fn conditions_table(&self, d: &Display) -> Table {
+        let mut table = Table::new(vec![
+            Column::text("condition"),
+            Column::number("displacement", &d.unit(Kind::Mass)),
+            Column::text("verdict"),
+            Column::number("full throttle", "rpm"),
+            Column::number("top speed", &d.unit(Kind::Speed)),
+            Column::number("cruise", "rpm"),
+            Column::number("power", &d.unit(Kind::Power)),
+            Column::number("fuel/h", &d.unit(Kind::FuelRate)),
+            Column::number("pitch for it", &d.unit(Kind::ScrewLength)),
+            Column::text("note"),
+        ]);
+        let dash = || "—".to_string();
+        let mass_decimals = if d.system == crate::units::UnitSystem::Imperial {
+            0
+        } else {
+            2
+        };
+        for (i, (o, p)) in self.outcomes.iter().zip(&self.pitches).enumerate() {
+            let mut note = Vec::new();
+            if o.cruise_beyond_full_load == Some(true) {
+                note.push("target speed past full load".to_string());
+            }
+            let unreliable = o.top_speed_in_method_range == Some(false);
+            if unreliable {
+                note.push(UNRELIABLE_TOP_NOTE.to_string());
+            }
+            if let Some(problem) = &o.problem {
+                note.push(problem.clone());
+            }
+            if let Err(e) = p {
+                note.push(format!("pitch: {e}"));
+            }
+            let label = if i == 0 {
+                format!(
+                    "{} (file default: {})",
+                    o.condition.label, self.default_load
+                )
+            } else {
+                o.condition.label.clone()
+            };
+            table.push(vec![
+                label,
+                d.number(
+                    o.condition.displacement_volume * self.water_density,
+                    Kind::Mass,
+                    mass_decimals,
+                ),
+                o.verdict
+                    .map_or_else(dash, |v| verdict_words(v).to_string()),
+                finite(o.full_throttle_rpm).map_or_else(dash, |r| format!("{r:.0}")),
+                finite(o.top_speed).map_or_else(dash, |v| {
+                    let prefix = if unreliable { "≈" } else { "" };
+                    format!("{prefix}{}", d.number(v, Kind::Speed, 2))
+                }),
+                finite(o.cruise_rpm).map_or_else(dash, |r| format!("{r:.0}")),
+                finite(o.cruise_power).map_or_else(dash, |w| d.number(w, Kind::Power, 1)),
+                finite(o.cruise_fuel_volume_flow)
+                    .map_or_else(dash, |q| d.number(q, Kind::FuelRate, 2)),
+                recommended(p).map_or_else(dash, |m| d.number(m, Kind::ScrewLength, 1)),
+                note.join("; "),
+            ]);
+        }
+        table
+    }
+
+    /// "pitch for it" column: which condition each recommendation was made for.
+    pub fn pitch_conditions(&self) -> Vec<String> {
+        self.pitches
+            .iter()
+            .filter_map(|p| p.as_ref().ok())
+            .map(|r| r.condition.describe())
+            .collect()
+    }
+
+    /// The band as a table: power as given and its least and greatest over the cases.
+    pub fn band_table(&self, d: &Display) -> Option<Table> {
+        let band = self.band.as_ref().ok()?;
+        let mut table = Table::new(vec![
+            Column::number("engine", "rpm"),
+            Column::number("speed", &d.unit(Kind::Speed)),
+            Column::number("power", &d.unit(Kind::Power)),
+            Column::number("least", &d.unit(Kind::Power)),
+            Column::number("greatest", &d.unit(Kind::Power)),
+        ]);
+        let opt = |v: Option<f64>, kind, decimals| {
+            finite(v).map_or("—".to_string(), |x| d.number(x, kind, decimals))
+        };
+        for p in &band.points {
+            table.push(vec![
+                format!("{:.0}", p.engine_rpm),
+                opt(p.nominal_speed, Kind::Speed, 2),
+                opt(p.nominal_power, Kind::Power, 1),
+                opt(p.low_power, Kind::Power, 1),
+                opt(p.high_power, Kind::Power, 1),
+            ]);
+        }
+        Some(table)
+    }
+
+    /// The band's heading line and its pitch range line.
+    pub fn band_lines(&self, d: &Display) -> Vec<String> {
+        match &self.band {
+            Err(e) => vec![format!("Uncertainty band not available: {e}")],
+            Ok(band) => {
+                let mut lines = vec![format!(
+                    "Uncertainty band: displacement ±{}, wake fraction ±{:.2} (an estimated wake held at its value at {})",
+                    percent(band.ranges.displacement_fraction, 0),
+                    band.ranges.wake_shift,
+                    d.quantity(band.wake_reference_speed, Kind::Speed)
+                )];
+                let as_given = self
+                    .pitches
+                    .first()
+                    .and_then(|p| p.as_ref().ok())
+                    .map(|r| r.condition.describe())
+                    .unwrap_or_else(|| "the boat as given".into());
+                lines.push(match (finite(band.pitch_nominal), finite(band.pitch_low), finite(band.pitch_high)) {
+                    (Some(p), Some(lo), Some(hi)) => format!(
+                        "Recommended pitch {} (range {} to {} over the band), made for {as_given}",
+                        d.quantity(p, Kind::ScrewLength),
+                        d.quantity(lo, Kind::ScrewLength),
+                        d.quantity(hi, Kind::ScrewLength)
+                    ),
+                    _ => "No pitch range: the pitch search found no pitch for the boat as given".into(),
+                });
+                lines.extend(band.warnings.iter().map(|w| format!("warning: {w}")));
+                lines
+            }
+        }
+    }
+
+    /// The whole comparison as text (also the body of the export's section, in a code block).
+    pub fn to_text(&self, d: &Display) -> String {
+        let mut out = format!("Screw {}: what-if conditions side by side\n", self.label);
+        out.push_str(&self.conditions_table(d).to_text("  "));
+        out.push_str("  Each pitch is made to absorb 100 % of rated power at rated rpm for its own condition:\n");
+        for c in self.pitch_conditions() {
+            out.push_str(&format!("    {c}\n"));
+        }
+        out.push('\n');
+        let lines = self.band_lines(d);
+        if let Some(first) = lines.first() {
+            out.push_str(&format!("{first}\n"));
+        }
+        if let Some(table) = self.band_table(d) {
+            out.push_str(&table.to_text("  "));
+        }
+        for line in lines.iter().skip(1) {
+            out.push_str(&format!("{line}\n"));
+        }
+        out
+    }
+
+    /// The comparison as Markdown for the export.
+    pub fn to_markdown(&self, d: &Display) -> String {
+        let mut out = format!(
+            "Screw {}: the same boat and screw under each condition.\n\n",
+            self.label
+        );
+        out.push_str(&self.conditions_table(d).to_markdown());
+        out.push_str("\nEach pitch is made to absorb 100 % of rated power at rated rpm for its own condition:\n\n");
+        for c in self.pitch_conditions() {
+            out.push_str(&format!("- {c}\n"));
+        }
+        let lines = self.band_lines(d);
+        if let Some(first) = lines.first() {
+            out.push_str(&format!("\n{first}.\n\n"));
+        }
+        if let Some(table) = self.band_table(d) {
+            out.push_str(&table.to_markdown());
+            out.push('\n');
+        }
+        for line in lines.iter().skip(1) {
+            out.push_str(&format!("- {line}\n"));
+        }
+        out
+    }
+}
+
+/// One condition in JSON.
+#[derive(Debug, Serialize)]
+pub struct OutcomeJson {
+    /// The condition's label.
+    pub label: String,
+    /// Displacement, kg.
+    pub displacement_kg: f64,
+    /// Displacement volume, m³.
+    pub displacement_m3: f64,
+    /// Service (sea-state) margin, fraction of resistance.
+    pub service_margin: f64,
+    /// Fouling, fraction of friction.
+    pub fouling: f64,
+    /// Calibration factor on resistance.
+    pub resistance_factor: f64,
+    /// The match verdict.
+    pub verdict: Option<Verdict>,
+    /// Engine rpm at full throttle.
+    pub full_throttle_rpm: Option<f64>,
+    /// Top speed, kn.
+    pub top_speed_kn: Option<f64>,
+    /// Whether the top speed lies in the resistance method's range.
+    pub top_speed_in_method_range: Option<bool>,
+    /// Power absorbed at rated rpm, % of rated power.
+    pub absorbed_pct_at_rated: Option<f64>,
+    /// Engine rpm at the target speed.
+    pub cruise_rpm: Option<f64>,
+    /// Brake power at the target speed, kW.
+    pub cruise_kw: Option<f64>,
+    /// Fuel at the target speed, L/h.
+    pub cruise_lph: Option<f64>,
+    /// Whether the target speed lies past the full-load curve.
+    pub cruise_beyond_full_load: Option<bool>,
+    /// The pitch recommended for this condition, m.
+    pub recommended_pitch_m: Option<f64>,
+    /// The condition the pitch was made for, in words.
+    pub pitch_condition: Option<String>,
+    /// Why something could not be solved.
+    pub problem: Option<String>,
+}
+
+/// One rpm of the band in JSON.
+#[derive(Debug, Serialize)]
+pub struct BandPointJson {
+    engine_rpm: f64,
+    speed_kn: Option<f64>,
+    power_kw: Option<f64>,
+    low_kw: Option<f64>,
+    high_kw: Option<f64>,
+}
+
+/// The band in JSON.
+#[derive(Debug, Serialize)]
+pub struct BandJson {
+    displacement_spread: f64,
+    wake_shift: f64,
+    wake_reference_speed_kn: f64,
+    points: Vec<BandPointJson>,
+    pitch_nominal_m: Option<f64>,
+    pitch_low_m: Option<f64>,
+    pitch_high_m: Option<f64>,
+    pitch_condition: Option<String>,
+    unsolved_cases: usize,
+    warnings: Vec<String>,
+}
+
+/// The JSON document of `conditions`.
+#[derive(Debug, Serialize)]
+pub struct WhatIfJson {
+    boat: String,
+    variant: String,
+    calibration: Option<AppliedCalibration>,
+    /// One per condition, the boat as given first.
+    pub conditions: Vec<OutcomeJson>,
+    band: Option<BandJson>,
+    band_error: Option<String>,
+    caution: &'static str,
+}
+
+/// The JSON document of `result`, a what-if comparison of `study`.
+pub fn what_if_json(study: &Study, result: &WhatIf) -> WhatIfJson {
+    let kw = |v: Option<f64>| finite(v).map(|w| w / 1e3);
+    let conditions = result
+        .outcomes
+        .iter()
+        .zip(&result.pitches)
+        .map(|(o, p)| OutcomeJson {
+            label: o.condition.label.clone(),
+            displacement_kg: o.condition.displacement_volume * result.water_density,
+            displacement_m3: o.condition.displacement_volume,
+            service_margin: o.condition.service_margin,
+            fouling: o.condition.fouling,
+            resistance_factor: o.condition.resistance_factor,
+            verdict: o.verdict,
+            full_throttle_rpm: finite(o.full_throttle_rpm),
+            top_speed_kn: finite(o.top_speed).map(|v| v / KNOT_MPS),
+            top_speed_in_method_range: o.top_speed_in_method_range,
+            absorbed_pct_at_rated: finite(o.absorbed_fraction_at_rated).map(|f| f * 100.0),
+            cruise_rpm: finite(o.cruise_rpm),
+            cruise_kw: kw(o.cruise_power),
+            cruise_lph: finite(o.cruise_fuel_volume_flow).map(|q| q / LITRE_M3 * 3600.0),
+            cruise_beyond_full_load: o.cruise_beyond_full_load,
+            recommended_pitch_m: recommended(p),
+            pitch_condition: p.as_ref().ok().map(|r| r.condition.describe()),
+            problem: o.problem.clone().or_else(|| p.as_ref().err().cloned()),
+        })
+        .collect();
+    let band = result.band.as_ref().ok().map(|b| BandJson {
+        displacement_spread: b.ranges.displacement_fraction,
+        wake_shift: b.ranges.wake_shift,
+        wake_reference_speed_kn: b.wake_reference_speed / KNOT_MPS,
+        points: b
+            .points
+            .iter()
+            .map(|p| BandPointJson {
+                engine_rpm: p.engine_rpm,
+                speed_kn: finite(p.nominal_speed).map(|v| v / KNOT_MPS),
+                power_kw: kw(p.nominal_power),
+                low_kw: kw(p.low_power),
+                high_kw: kw(p.high_power),
+            })
+            .collect(),
+        pitch_nominal_m: finite(b.pitch_nominal),
+        pitch_low_m: finite(b.pitch_low),
+        pitch_high_m: finite(b.pitch_high),
+        pitch_condition: result
+            .pitches
+            .first()
+            .and_then(|p| p.as_ref().ok())
+            .map(|r| r.condition.describe()),
+        unsolved_cases: b.unsolved_cases,
+        warnings: b.warnings.iter().map(ToString::to_string).collect(),
+    });
+    WhatIfJson {
+        boat: study.vessel.name.clone(),
+        variant: result.label.clone(),
+        calibration: study.calibration.clone(),
+        conditions,
+        band,
+        band_error: result.band.as_ref().err().cloned(),
+        caution: CAUTION,
+    }
+}
+
+/// The text of `conditions`: the boat, its calibration, the comparison and the caution.
+pub fn what_if_text(study: &Study, result: &WhatIf, d: &Display) -> String {
+    format!(
+        "{}\n{}\n{}\nCaution: {CAUTION}\n",
+        study.vessel.name,
+        study.calibration_line(),
+        result.to_text(d)
+    )
+}
