@@ -12,6 +12,7 @@ pub mod boat;
 pub mod demo;
 pub mod engine;
 pub mod error;
+mod fields;
 pub mod quantity;
 pub mod store;
 

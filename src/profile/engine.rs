@@ -1,6 +1,7 @@
 //! The engine sheet file (`engines/NAME.toml`): schema, typed document, validation, conversion.
 
 use super::error::{Issue, ProfileError};
+use super::fields::{UNIT_SYSTEMS, check_schema, name_of};
 use super::quantity::{Quantity, Reader, guess_system, out, out_num, out_text};
 use crate::propulsion::engine::{Duty, EngineSheet, FuelModel, RpmCurve};
 use crate::units::{Kind, UnitSystem};
@@ -142,10 +143,6 @@ const DUTIES: [(&str, Duty); 2] = [
     ("continuous", Duty::Continuous),
     ("intermittent", Duty::Intermittent),
 ];
-pub(crate) const UNIT_SYSTEMS: [(&str, UnitSystem); 2] = [
-    ("metric", UnitSystem::Metric),
-    ("imperial", UnitSystem::Imperial),
-];
 
 fn read_curve(
     r: &mut Reader<'_>,
@@ -225,7 +222,7 @@ impl EngineDoc {
         let raw: RawEngine =
             toml::from_str(source).map_err(|e| ProfileError::from_toml(file, source, &e))?;
         let mut r = Reader::new(file, source);
-        super::boat::check_schema(&r, &raw.schema)?;
+        check_schema(&r, &raw.schema)?;
         let units = match &raw.units {
             Some(u) => r.choice("units", u, &UNIT_SYSTEMS)?,
             None => guess_system(
@@ -358,10 +355,7 @@ impl EngineDoc {
     /// Writes the sheet as TOML in its unit system (unedited values keep their original text).
     pub fn to_toml(&self) -> String {
         let s = self.units;
-        let units_name = UNIT_SYSTEMS
-            .iter()
-            .find(|(_, u)| *u == s)
-            .map_or("metric", |(n, _)| n);
+        let units_name = name_of(&UNIT_SYSTEMS, s);
         let fuel = match &self.fuel {
             FuelDoc::SfcMap { rpm, load, sfc } => RawFuel {
                 rpm: Some(rpm.iter().map(|q| out(q, Kind::Rotation, s)).collect()),

@@ -5,6 +5,7 @@ use super::boat::BoatDoc;
 use super::demo;
 use super::engine::EngineDoc;
 use super::error::ProfileError;
+pub use super::fields::{MAX_NAME_LEN, check_name};
 use std::hash::{Hash, Hasher};
 use std::io::Write;
 use std::path::{Path, PathBuf};
@@ -20,8 +21,6 @@ pub const ENGINES_DIR: &str = "engines";
 pub const EXTENSION: &str = "toml";
 /// Suffix appended to a file's name for the previous version kept on save.
 pub const BACKUP_SUFFIX: &str = ".bak";
-/// Longest profile name accepted, characters.
-pub const MAX_NAME_LEN: usize = 64;
 
 /// What a file looked like when it was loaded, to notice later changes by someone else.
 #[derive(Debug, Clone, PartialEq, Eq)]
@@ -115,49 +114,6 @@ pub struct Saved {
 #[derive(Debug, Clone, PartialEq)]
 pub struct Store {
     root: Option<PathBuf>,
-}
-
-/// Refuses names that could leave the store or misbehave as file names.
-pub fn check_name(name: &str) -> Result<(), ProfileError> {
-    let refuse = |reason| {
-        Err(ProfileError::UnsafeName {
-            name: name.to_owned(),
-            reason,
-        })
-    };
-    if name.is_empty() {
-        return refuse("it is empty");
-    }
-    if name.chars().count() > MAX_NAME_LEN {
-        return refuse("it is longer than 64 characters");
-    }
-    if name.contains(['/', '\\']) {
-        return refuse("it contains a path separator");
-    }
-    if name.contains("..") {
-        return refuse("it contains \"..\"");
-    }
-    if name.starts_with('.') {
-        return refuse("it starts with a dot");
-    }
-    if name.chars().any(char::is_control) {
-        return refuse("it contains a control character");
-    }
-    if !name
-        .chars()
-        .all(|c| c.is_ascii_alphanumeric() || matches!(c, '-' | '_' | '.'))
-    {
-        return refuse("it contains a character other than letters, digits, '-', '_' and '.'");
-    }
-    let stem = name.split('.').next().unwrap_or(name).to_ascii_lowercase();
-    let reserved = matches!(stem.as_str(), "con" | "prn" | "aux" | "nul")
-        || ((stem.starts_with("com") || stem.starts_with("lpt"))
-            && stem.len() == 4
-            && stem.as_bytes()[3].is_ascii_digit());
-    if reserved {
-        return refuse("it is a reserved device name on Windows");
-    }
-    Ok(())
 }
 
 fn read_file(path: &Path) -> Result<(String, FileStamp), ProfileError> {
@@ -621,26 +577,6 @@ impl PendingSave {
 #[cfg(test)]
 mod tests {
     use super::*;
-
-    #[test]
-    fn unsafe_names_are_refused_with_a_reason() {
-        for (name, reason) in [
-            ("", "empty"),
-            ("../etc", "path separator"),
-            ("a..b", ".."),
-            (".hidden", "dot"),
-            ("tab\there", "control"),
-            ("sp ace", "other than"),
-            ("nul", "reserved"),
-            ("COM1.toml", "reserved"),
-        ] {
-            let err = check_name(name).unwrap_err().to_string();
-            assert!(err.contains(reason), "{name:?}: {err}");
-        }
-        for ok in ["marram", "pintle-2", "old_boat.v2", "com10"] {
-            assert!(check_name(ok).is_ok(), "{ok}");
-        }
-    }
 
     #[test]
     fn flag_wins_over_environment() {
