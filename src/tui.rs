@@ -9,6 +9,7 @@
 pub mod analysis;
 pub mod app;
 pub mod chart;
+pub mod edit;
 pub mod field_list;
 pub mod fields;
 pub mod keys;

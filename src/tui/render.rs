@@ -197,8 +197,8 @@ fn draw_pane(app: &App, pane: Pane, area: Rect, buf: &mut Buffer) {
 fn pane_title(app: &App, pane: Pane) -> String {
     match pane {
         Pane::Screw => {
-            let count = fields::variant_count(&app.doc.boat);
-            let active = fields::active_variant(&app.doc.boat);
+            let count = super::edit::variant_count(&app.doc.boat);
+            let active = super::edit::active_variant(&app.doc.boat);
             format!("Screw · variant {} of {count}", active + 1)
         }
         _ => pane.title().to_string(),
@@ -450,7 +450,7 @@ fn verdict_text(verdict: Verdict) -> &'static str {
 pub fn readout_lines(app: &App) -> Vec<Line<'static>> {
     let system = app.units;
     let theme = &app.theme;
-    let target = fields::target_speed(&app.doc.boat);
+    let target = super::edit::target_speed(&app.doc.boat);
     let mut lines = Vec::new();
     let target_text = match &app.edit {
         Some(edit) if edit.target == EditTarget::TargetSpeed => format!("{}▏", edit.text),
