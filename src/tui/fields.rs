@@ -2,13 +2,9 @@
 //! its [`Kind`], its nudge step, its file key (to match the profile's validation issues), and
 //! where its *estimated* and *warning* markers come from.
 
-use super::app::App;
-use super::field_list::FieldRow;
-use super::render::variant_glyph;
 use crate::profile::{
     BoatDoc, EngineDoc, InteractionDoc, Quantity, ResistanceMethodDoc, VariantDoc,
 };
-use crate::propulsion::Resolved;
 use crate::propulsion::solver::Vessel;
 use crate::propulsion::water::WaterKind;
 use crate::units::{self, Kind, UnitSystem};
@@ -325,7 +321,7 @@ pub fn file_key(field: FieldId, boat: &BoatDoc) -> String {
 }
 
 /// Words that tie a core warning to the field, so the field carries the warning marker.
-fn warning_words(field: FieldId) -> &'static [&'static str] {
+pub(crate) fn warning_words(field: FieldId) -> &'static [&'static str] {
     use FieldId as F;
     match field {
         F::Displacement => &["displacement", "block coefficient", "Cb"],
@@ -353,10 +349,6 @@ pub fn active_doc(boat: &BoatDoc) -> Option<&VariantDoc> {
 /// The vessel the document builds (for the default load condition), or why it does not.
 pub fn build_vessel(boat: &BoatDoc, engine: &EngineDoc) -> Result<Vessel, String> {
     boat.to_default_vessel(engine).map_err(|e| e.to_string())
-}
-
-fn resolved_text(r: Option<&Resolved>, kind: Kind, system: UnitSystem) -> Option<String> {
-    r.map(|r| units::format(r.value, kind, system))
 }
 
 /// The value of `field` in `doc`.
@@ -520,130 +512,4 @@ pub fn kind_of(field: FieldId) -> Option<FieldKind> {
         F::Blades => FieldKind::Count,
         _ => return None,
     })
-}
-
-/// The estimate the core used for an optional hull value left out of the document.
-fn estimate(field: FieldId, app: &App) -> Option<(Resolved, Kind)> {
-    let hull = &app.solution.solved()?.vessel.resistance.hull;
-    match field {
-        FieldId::WettedSurface => Some((hull.wetted_surface, Kind::Area)),
-        FieldId::HalfEntranceAngle => Some((hull.half_entrance_angle_deg, Kind::Angle)),
-        FieldId::TransomArea => Some((hull.transom_area, Kind::Area)),
-        _ => None,
-    }
-}
-
-/// The text of a read-only field that comes from the engine sheet or the solved vessel.
-fn derived_text(field: FieldId, app: &App) -> String {
-    let system = app.units;
-    let solved = app.solution.solved();
-    match field {
-        FieldId::RatedRpm => format!("{:.0} rpm", app.doc.engine.rated_rpm.value),
-        FieldId::RatedPower => solved
-            .map(|s| units::format(s.vessel.engine.rated_power(), Kind::Power, system))
-            .unwrap_or_else(|| "—".into()),
-        FieldId::FuelDensity => {
-            units::format(app.doc.engine.fuel_density.value, Kind::Density, system)
-        }
-        FieldId::ResistanceMethod => solved
-            .map(|s| {
-                let name = s.vessel.resistance.method.name();
-                format!("auto: {}", name.split(" (").next().unwrap_or(name))
-            })
-            .unwrap_or_else(|| "auto (fits the hull)".into()),
-        FieldId::PitchRatio => solved
-            .and_then(|s| s.vessel.variants.get(s.vessel.active_variant))
-            .map(|v| format!("{:.3}", v.screw.geometry().pitch_ratio()))
-            .unwrap_or_else(|| "—".into()),
-        _ => "—".into(),
-    }
-}
-
-/// The first core warning that concerns `field`.
-fn warning_for(field: FieldId, app: &App) -> Option<String> {
-    let words = warning_words(field);
-    if words.is_empty() {
-        return None;
-    }
-    let solved = app.solution.solved()?;
-    let variant_warnings = app
-        .solution
-        .active()
-        .map(|v| v.warnings.as_slice())
-        .unwrap_or(&[]);
-    let screw_field = matches!(
-        field,
-        FieldId::Blades
-            | FieldId::Diameter
-            | FieldId::Pitch
-            | FieldId::AreaRatio
-            | FieldId::PitchRatio
-    );
-    let pool: &[crate::propulsion::Warning] = if screw_field {
-        variant_warnings
-    } else {
-        &solved.warnings
-    };
-    pool.iter()
-        .find(|w| words.iter().any(|word| w.message.contains(word)))
-        .map(|w| w.to_string())
-}
-
-/// The rows of `pane` for the app's document, formatted in its display units.
-pub fn rows(pane: Pane, app: &App) -> Vec<FieldRow> {
-    let boat = &app.doc.boat;
-    fields_of(pane, boat)
-        .into_iter()
-        .map(|field| {
-            let mut row = FieldRow {
-                label: label(field).to_string(),
-                about: about(field).to_string(),
-                warning: warning_for(field, app).or_else(|| super::edit::problem_at(field, boat)),
-                ..FieldRow::default()
-            };
-            row.value = match value(field, boat) {
-                FieldValue::Number { value, kind } => format_number(value, kind, app.units),
-                FieldValue::Choice(text) | FieldValue::Engine(text) | FieldValue::Text(text) => {
-                    text
-                }
-                FieldValue::ReadOnly(text) => match estimate(field, app) {
-                    Some((resolved, kind)) => {
-                        row.estimated_by = resolved.estimated_by.map(str::to_string);
-                        resolved_text(Some(&resolved), kind, app.units).unwrap_or(text)
-                    }
-                    None if text.is_empty() => derived_text(field, app),
-                    None => text,
-                },
-            };
-            row
-        })
-        .collect()
-}
-
-/// Lines under a pane's fields: the variants and the pitch recommendation for the Screw pane.
-pub fn pane_notes(pane: Pane, app: &App) -> Vec<String> {
-    if pane != Pane::Screw {
-        return Vec::new();
-    }
-    let boat = &app.doc.boat;
-    let variants: Vec<String> = boat
-        .variants
-        .iter()
-        .enumerate()
-        .map(|(i, v)| {
-            let active = if i == boat.active_variant { "◀" } else { "" };
-            // Non-breaking spaces keep each entry whole when the line wraps.
-            format!("{} {}{active}", variant_glyph(i).symbol(), v.label).replace(' ', "\u{a0}")
-        })
-        .collect();
-    // Most important first: the notes are cut from the bottom when the pane is short.
-    let mut notes = Vec::new();
-    if let Some(line) = app.solution.recommendation_line(app.units) {
-        notes.push(line);
-    }
-    if let Some(solved) = app.solution.solved() {
-        notes.push(super::views::screw_pane_check_line(&solved.checks));
-    }
-    notes.push(format!("Variants: {}", variants.join("  ")));
-    notes
 }
