@@ -11,6 +11,7 @@ pub mod app;
 pub mod chart;
 pub mod edit;
 pub mod fields;
+pub mod issues;
 pub mod keys;
 pub mod solve;
 pub mod theme;

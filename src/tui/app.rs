@@ -8,6 +8,7 @@ use super::analysis::{self, SweepOver, ViewData, ViewKind};
 use super::chart::ChartKind;
 use super::edit;
 use super::fields::{self, FieldId, FieldValue, Pane};
+use super::issues::Issues;
 use super::keys::{self, Command, Mode};
 use super::solve::Solution;
 use super::theme::Theme;
@@ -204,6 +205,9 @@ pub struct App {
     pub savable: bool,
     /// The solved results for the current document, every variant.
     pub solution: Solution,
+    /// The document's validation problems and core warnings, each tied to its field; found
+    /// once per edit with the solution (drawing only looks them up).
+    pub issues: Issues,
     /// The pane with the keyboard.
     pub focus: Pane,
     /// The selected row of each pane.
@@ -244,12 +248,14 @@ impl App {
             engine: opened.engine,
         };
         let solution = Solution::solve(&doc.boat, &doc.engine);
+        let issues = Issues::compute(&doc.boat, &solution);
         Self {
             name: opened.name,
             saved: doc.clone(),
             doc,
             savable: opened.savable,
             solution,
+            issues,
             focus: Pane::Screw,
             selected: [0; 3],
             edit: None,
@@ -812,13 +818,11 @@ impl App {
     }
 
     fn accept_edit(&mut self) {
-        self.revalidate();
         let Some(edit) = self.edit.clone() else {
             return;
         };
-        if edit.problem.is_some() {
-            return; // Shown with its reason; never applied.
-        }
+        // Parsed and validated once, on the copy that is committed; a problem is shown with
+        // its reason and never applied.
         let mut next = self.doc.clone();
         let result = match edit.target {
             EditTarget::TargetSpeed => edit::parse_target_speed(&edit.text)
@@ -865,6 +869,7 @@ impl App {
 
     fn resolve(&mut self) {
         self.solution = Solution::solve(&self.doc.boat, &self.doc.engine);
+        self.issues = Issues::compute(&self.doc.boat, &self.solution);
         self.refresh_analysis();
         let count = self.pane_fields(self.focus).len();
         let row = &mut self.selected[self.focus.index()];

@@ -86,7 +86,7 @@ fn set_number(field: FieldId, boat: &mut BoatDoc, typed: Quantity) -> Result<(),
 }
 
 /// The first validation problem of `boat` at the field's file key, if any.
-pub fn problem_at(field: FieldId, boat: &BoatDoc) -> Option<String> {
+fn problem_at(field: FieldId, boat: &BoatDoc) -> Option<String> {
     let key = file_key(field, boat);
     boat.validate()
         .into_iter()

@@ -320,27 +320,6 @@ pub fn file_key(field: FieldId, boat: &BoatDoc) -> String {
     }
 }
 
-/// Words that tie a core warning to the field, so the field carries the warning marker.
-pub(crate) fn warning_words(field: FieldId) -> &'static [&'static str] {
-    use FieldId as F;
-    match field {
-        F::Displacement => &["displacement", "block coefficient", "Cb"],
-        F::LengthWaterline => &["L/B", "length", "Froude"],
-        F::BeamWaterline => &["B/T", "L/B", "beam"],
-        F::DraftAft | F::DraftForward => &["B/T", "draft"],
-        F::WettedSurface => &["wetted surface"],
-        F::HalfEntranceAngle => &["entrance"],
-        F::TransomArea => &["transom"],
-        F::ResistanceMethod => &["Holtrop", "table", "prismatic", "Cp"],
-        F::WaterTemperature => &["temperature"],
-        F::Blades => &["blade count", "blades"],
-        F::AreaRatio => &["AE/A0", "area ratio"],
-        F::PitchRatio | F::Pitch => &["P/D", "pitch ratio"],
-        F::Diameter => &["diameter"],
-        _ => &[],
-    }
-}
-
 /// The active screw variant of `boat`, if it has one.
 pub fn active_doc(boat: &BoatDoc) -> Option<&VariantDoc> {
     boat.variants.get(boat.active_variant)

@@ -6,7 +6,7 @@ use crate::tui::app::{App, EditTarget, Overlay};
 use crate::tui::chart::variant_glyph;
 use crate::tui::edit;
 use crate::tui::fields::{
-    self, FieldId, FieldValue, Pane, about, fields_of, format_number, label, value,
+    FieldId, FieldValue, Pane, about, fields_of, format_number, label, value,
 };
 use crate::units::{self, Kind, UnitSystem};
 use ratatui::buffer::Buffer;
@@ -89,36 +89,6 @@ fn derived_text(field: FieldId, app: &App) -> String {
     }
 }
 
-/// The first core warning that concerns `field`.
-fn warning_for(field: FieldId, app: &App) -> Option<String> {
-    let words = fields::warning_words(field);
-    if words.is_empty() {
-        return None;
-    }
-    let solved = app.solution.solved()?;
-    let variant_warnings = app
-        .solution
-        .active()
-        .map(|v| v.warnings.as_slice())
-        .unwrap_or(&[]);
-    let screw_field = matches!(
-        field,
-        FieldId::Blades
-            | FieldId::Diameter
-            | FieldId::Pitch
-            | FieldId::AreaRatio
-            | FieldId::PitchRatio
-    );
-    let pool: &[crate::propulsion::Warning] = if screw_field {
-        variant_warnings
-    } else {
-        &solved.warnings
-    };
-    pool.iter()
-        .find(|w| words.iter().any(|word| w.message.contains(word)))
-        .map(|w| w.to_string())
-}
-
 /// The rows of `pane` for the app's document, formatted in its display units.
 pub fn rows(pane: Pane, app: &App) -> Vec<FieldRow> {
     let boat = &app.doc.boat;
@@ -128,7 +98,7 @@ pub fn rows(pane: Pane, app: &App) -> Vec<FieldRow> {
             let mut row = FieldRow {
                 label: label(field).to_string(),
                 about: about(field).to_string(),
-                warning: warning_for(field, app).or_else(|| edit::problem_at(field, boat)),
+                warning: app.issues.first_for(field).map(str::to_string),
                 ..FieldRow::default()
             };
             row.value = match value(field, boat) {
