@@ -1,5 +1,5 @@
 //! The chart model: which chart is shown, and its series in display units with the marker
-//! glyphs that tell variants apart as well as colour (drawn by [`super::ui::chart`]).
+//! glyphs that tell variants apart as well as colour (drawn in `ui/chart.rs`).
 
 use ratatui::style::Style;
 use ratatui::symbols::Marker;
