@@ -10,7 +10,7 @@ use tidewright::profile::Store;
 use tidewright::tui::app::{Action, App};
 use tidewright::tui::fields::{FieldId, Pane};
 use tidewright::tui::keys::Command;
-use tidewright::tui::{open_app, render};
+use tidewright::tui::{open_app, ui};
 
 /// The demo app with the Screw pane's pitch field selected.
 fn app_on_pitch(boat: &str) -> App {
@@ -50,7 +50,7 @@ fn screen(c: &mut Criterion) {
                 up = !up;
                 app.update(Action::Command(command));
                 terminal
-                    .draw(|frame| render::render(black_box(&app), frame))
+                    .draw(|frame| ui::render(black_box(&app), frame))
                     .expect("draw");
             })
         });
@@ -58,7 +58,7 @@ fn screen(c: &mut Criterion) {
         group.bench_function(format!("draw_only_120x40_{boat}"), |b| {
             b.iter(|| {
                 terminal
-                    .draw(|frame| render::render(black_box(&app), frame))
+                    .draw(|frame| ui::render(black_box(&app), frame))
                     .expect("draw");
             })
         });

@@ -4,18 +4,18 @@
 //! The design follows one rule: keys become [`app::Action`]s through the table in [`keys`];
 //! [`app::App::update`] is the only place state changes (each edit re-solves every variant,
 //! [`solve`]); I/O comes back as an [`app::Effect`] that the thin loop here carries out; and
-//! [`render::render`] draws a pure function of the state.
+//! [`ui::render`] draws a pure function of the state.
 
 pub mod analysis;
 pub mod app;
 pub mod chart;
-pub mod field_list;
+pub mod edit;
 pub mod fields;
+pub mod issues;
 pub mod keys;
-pub mod render;
 pub mod solve;
 pub mod theme;
-pub mod views;
+pub mod ui;
 
 use crate::profile::store::save_boat_file;
 use crate::profile::{FileStamp, Loaded, Origin, ProfileError, Store};
@@ -122,7 +122,7 @@ fn open(
 }
 
 /// The app for `boat` of `store` (or its first boat), as the terminal UI starts it; for tests
-/// and benchmarks that drive [`App::update`] and [`render::draw`] without a terminal.
+/// and benchmarks that drive [`App::update`] and [`ui::draw`] without a terminal.
 pub fn open_app(store: &Store, boat: Option<&str>) -> Result<App, ProfileError> {
     let (opened, _, _) = open(store, boat)?;
     let units = opened.boat.units;
@@ -196,7 +196,7 @@ fn event_loop(
     session: &mut Session,
     stop: &AtomicBool,
 ) -> anyhow::Result<()> {
-    terminal.draw(|frame| render::render(app, frame))?;
+    terminal.draw(|frame| ui::render(app, frame))?;
     // Debug builds only: a panic on demand, so that the robustness tests can prove in tmux
     // that the terminal is restored after one (tests/integration/robustness/terminal.rs).
     #[cfg(debug_assertions)]
@@ -227,7 +227,7 @@ fn event_loop(
                 app.update(Action::FileChanged);
             }
         }
-        terminal.draw(|frame| render::render(app, frame))?;
+        terminal.draw(|frame| ui::render(app, frame))?;
     }
     Ok(())
 }

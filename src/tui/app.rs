@@ -6,7 +6,9 @@
 
 use super::analysis::{self, SweepOver, ViewData, ViewKind};
 use super::chart::ChartKind;
+use super::edit;
 use super::fields::{self, FieldId, FieldValue, Pane};
+use super::issues::Issues;
 use super::keys::{self, Command, Mode};
 use super::solve::Solution;
 use super::theme::Theme;
@@ -203,6 +205,9 @@ pub struct App {
     pub savable: bool,
     /// The solved results for the current document, every variant.
     pub solution: Solution,
+    /// The document's validation problems and core warnings, each tied to its field; found
+    /// once per edit with the solution (drawing only looks them up).
+    pub issues: Issues,
     /// The pane with the keyboard.
     pub focus: Pane,
     /// The selected row of each pane.
@@ -243,12 +248,14 @@ impl App {
             engine: opened.engine,
         };
         let solution = Solution::solve(&doc.boat, &doc.engine);
+        let issues = Issues::compute(&doc.boat, &solution);
         Self {
             name: opened.name,
             saved: doc.clone(),
             doc,
             savable: opened.savable,
             solution,
+            issues,
             focus: Pane::Screw,
             selected: [0; 3],
             edit: None,
@@ -352,7 +359,7 @@ impl App {
             }
             Action::EngineLoaded(engine, name) => {
                 let mut next = self.doc.clone();
-                fields::set_engine_name(&mut next.boat, &name);
+                edit::set_engine_name(&mut next.boat, &name);
                 next.engine = *engine;
                 self.commit(next);
                 self.set_status(Level::Info, format!("engine sheet {name} in use"));
@@ -603,7 +610,7 @@ impl App {
             Command::Undo => self.undo(),
             Command::Redo => self.redo(),
             Command::EditTargetSpeed => {
-                let value = fields::target_speed(&self.doc.boat);
+                let value = edit::target_speed(&self.doc.boat);
                 self.edit = Some(EditBuffer {
                     target: EditTarget::TargetSpeed,
                     text: units::format(value, units::Kind::Speed, self.units),
@@ -614,31 +621,29 @@ impl App {
             Command::NextChart => self.chart = self.chart.next(),
             Command::PrevChart => self.chart = self.chart.prev(),
             Command::NextVariant | Command::PrevVariant => {
-                let count = fields::variant_count(&self.doc.boat);
+                let count = edit::variant_count(&self.doc.boat);
                 if count > 1 {
                     let mut next = self.doc.clone();
-                    let active = fields::active_variant(&next.boat);
+                    let active = edit::active_variant(&next.boat);
                     let index = if command == Command::NextVariant {
                         (active + 1) % count
                     } else {
                         (active + count - 1) % count
                     };
-                    fields::set_active_variant(&mut next.boat, index);
+                    edit::set_active_variant(&mut next.boat, index);
                     self.commit(next);
                 }
             }
             Command::AddVariant | Command::DuplicateVariant => {
                 let mut next = self.doc.clone();
-                let label = fields::duplicate_active_variant(
-                    &mut next.boat,
-                    command == Command::AddVariant,
-                );
+                let label =
+                    edit::duplicate_active_variant(&mut next.boat, command == Command::AddVariant);
                 self.commit(next);
                 self.set_status(Level::Info, format!("added variant {label}"));
             }
             Command::RemoveVariant => {
                 let mut next = self.doc.clone();
-                match fields::remove_active_variant(&mut next.boat) {
+                match edit::remove_active_variant(&mut next.boat) {
                     Ok(label) => {
                         self.commit(next);
                         self.set_status(Level::Info, format!("removed variant {label}"));
@@ -649,7 +654,7 @@ impl App {
             Command::ApplyRecommendation => match self.solution.recommended_pitch() {
                 Some(pitch) => {
                     let mut next = self.doc.clone();
-                    let label = fields::add_variant_with_pitch(&mut next.boat, pitch, self.units);
+                    let label = edit::add_variant_with_pitch(&mut next.boat, pitch, self.units);
                     self.commit(next);
                     self.set_status(
                         Level::Info,
@@ -763,7 +768,7 @@ impl App {
             }
             FieldValue::Choice { .. } => {
                 let mut next = self.doc.clone();
-                match fields::next_choice(field, &mut next.boat) {
+                match edit::next_choice(field, &mut next.boat) {
                     Ok(()) => self.commit(next),
                     Err(why) => self.set_status(Level::Error, why),
                 }
@@ -801,10 +806,10 @@ impl App {
     fn revalidate(&mut self) {
         let Some(edit) = &self.edit else { return };
         let problem = match edit.target {
-            EditTarget::TargetSpeed => fields::parse_target_speed(&edit.text).err(),
+            EditTarget::TargetSpeed => edit::parse_target_speed(&edit.text).err(),
             EditTarget::Field(field) => {
                 let mut probe = self.doc.clone();
-                fields::set_from_text(field, &mut probe.boat, &edit.text).err()
+                edit::set_from_text(field, &mut probe.boat, &edit.text).err()
             }
         };
         if let Some(edit) = &mut self.edit {
@@ -813,18 +818,16 @@ impl App {
     }
 
     fn accept_edit(&mut self) {
-        self.revalidate();
         let Some(edit) = self.edit.clone() else {
             return;
         };
-        if edit.problem.is_some() {
-            return; // Shown with its reason; never applied.
-        }
+        // Parsed and validated once, on the copy that is committed; a problem is shown with
+        // its reason and never applied.
         let mut next = self.doc.clone();
         let result = match edit.target {
-            EditTarget::TargetSpeed => fields::parse_target_speed(&edit.text)
-                .map(|speed| fields::set_target_speed(&mut next.boat, speed)),
-            EditTarget::Field(field) => fields::set_from_text(field, &mut next.boat, &edit.text),
+            EditTarget::TargetSpeed => edit::parse_target_speed(&edit.text)
+                .map(|speed| edit::set_target_speed(&mut next.boat, speed)),
+            EditTarget::Field(field) => edit::set_from_text(field, &mut next.boat, &edit.text),
         };
         match result {
             Ok(()) => {
@@ -844,7 +847,7 @@ impl App {
             return;
         };
         let mut next = self.doc.clone();
-        match fields::nudge(field, &mut next.boat, direction, self.units) {
+        match edit::nudge(field, &mut next.boat, direction, self.units) {
             Ok(()) => self.commit(next),
             Err(why) => self.set_status(Level::Error, why),
         }
@@ -866,6 +869,7 @@ impl App {
 
     fn resolve(&mut self) {
         self.solution = Solution::solve(&self.doc.boat, &self.doc.engine);
+        self.issues = Issues::compute(&self.doc.boat, &self.solution);
         self.refresh_analysis();
         let count = self.pane_fields(self.focus).len();
         let row = &mut self.selected[self.focus.index()];

@@ -1,12 +1,8 @@
-//! Braille line charts from `(x, y)` series, with variants told apart by marker glyphs and
-//! labels as well as colour.
+//! The chart model: which chart is shown, and its series in display units with the marker
+//! glyphs that tell variants apart as well as colour (drawn in `ui/chart.rs`).
 
-use ratatui::buffer::Buffer;
-use ratatui::layout::Rect;
 use ratatui::style::Style;
 use ratatui::symbols::Marker;
-use ratatui::text::{Line, Span};
-use ratatui::widgets::{Axis, Block, Borders, Chart, Dataset, GraphType, Paragraph, Widget, Wrap};
 
 /// Which chart the chart area shows.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Default)]
@@ -90,7 +86,7 @@ impl Glyph {
         }
     }
 
-    fn marker(self) -> Marker {
+    pub(crate) fn marker(self) -> Marker {
         match self {
             Glyph::Dot => Marker::Dot,
             Glyph::Bar => Marker::Bar,
@@ -149,197 +145,7 @@ impl ChartView {
     }
 }
 
-/// Axis labels: the ends and the middle, with a precision that suits the span.
-fn axis_labels(bounds: [f64; 2]) -> Vec<Span<'static>> {
-    let span = bounds[1] - bounds[0];
-    let decimals = if span >= 100.0 {
-        0
-    } else if span >= 10.0 {
-        1
-    } else {
-        2
-    };
-    let mid = 0.5 * (bounds[0] + bounds[1]);
-    [bounds[0], mid, bounds[1]]
-        .into_iter()
-        .map(|v| Span::raw(format!("{v:.decimals$}")))
-        .collect()
-}
-
-/// The chart widget over a [`ChartView`].
-#[derive(Debug, Clone)]
-pub struct ChartWidget<'a> {
-    /// The chart to draw.
-    pub view: &'a ChartView,
-    /// Style of the axes and border.
-    pub frame_style: Style,
-}
-
-impl Widget for ChartWidget<'_> {
-    fn render(self, area: Rect, buf: &mut Buffer) {
-        let view = self.view;
-        let block = Block::default()
-            .borders(Borders::ALL)
-            .border_style(self.frame_style)
-            .title(format!(" {} ", view.title));
-        let inner = block.inner(area);
-        block.render(area, buf);
-        if inner.width < 10 || inner.height < 4 {
-            return;
-        }
-        // The legend and the note go under the plot, so they never hide a curve.
-        let mut below: Vec<Line> = Vec::new();
-        let legend: Vec<&str> = view
-            .series
-            .iter()
-            .filter_map(|s| s.name.as_deref())
-            .collect();
-        if !legend.is_empty() {
-            // Non-breaking spaces keep each entry whole when the legend wraps.
-            let entries: Vec<String> = legend.iter().map(|e| e.replace(' ', "\u{a0}")).collect();
-            below.push(Line::raw(entries.join("  ")));
-        }
-        if let Some(note) = &view.note {
-            below.push(Line::styled(note.clone(), self.frame_style));
-        }
-        let below_height: u16 = below
-            .iter()
-            .map(|l| super::field_list::wrapped_height(&l.to_string(), inner.width))
-            .sum::<u16>()
-            .min(inner.height.saturating_sub(6));
-        let chart_area = Rect {
-            height: inner.height - below_height,
-            ..inner
-        };
-        let below_area = Rect {
-            y: inner.y + chart_area.height,
-            height: below_height,
-            ..inner
-        };
-        let (x_bounds, y_bounds) = view.bounds();
-        let datasets: Vec<Dataset> = view
-            .series
-            .iter()
-            .map(|s| {
-                let mut d = Dataset::default().data(&s.points).style(s.style);
-                d = match s.shape {
-                    SeriesShape::Line => d.marker(Marker::Braille).graph_type(GraphType::Line),
-                    SeriesShape::Points(g) => d.marker(g.marker()).graph_type(GraphType::Scatter),
-                };
-                if let Some(name) = &s.name {
-                    d = d.name(name.clone());
-                }
-                d
-            })
-            .collect();
-        let chart = Chart::new(datasets)
-            .x_axis(
-                Axis::default()
-                    .title(view.x_title.clone())
-                    .bounds(x_bounds)
-                    .labels(axis_labels(x_bounds))
-                    .style(self.frame_style),
-            )
-            .y_axis(
-                Axis::default()
-                    .title(view.y_title.clone())
-                    .bounds(y_bounds)
-                    .labels(axis_labels(y_bounds))
-                    .style(self.frame_style),
-            )
-            .legend_position(None);
-        chart.render(chart_area, buf);
-        if below_height > 0 {
-            Paragraph::new(below)
-                .wrap(Wrap { trim: true })
-                .render(below_area, buf);
-        }
-    }
-}
-
-#[cfg(test)]
-mod tests {
-    use super::*;
-
-    fn view() -> ChartView {
-        ChartView {
-            title: "Power vs engine rpm".into(),
-            x_title: "engine rpm".into(),
-            y_title: "kW".into(),
-            series: vec![
-                Series {
-                    name: Some("full load".into()),
-                    points: vec![(1000.0, 20.0), (2000.0, 45.0), (3000.0, 60.0)],
-                    shape: SeriesShape::Line,
-                    style: Style::default(),
-                },
-                Series {
-                    name: Some("• A".into()),
-                    points: vec![(1500.0, 8.0), (2500.0, 35.0)],
-                    shape: SeriesShape::Points(Glyph::Dot),
-                    style: Style::default(),
-                },
-            ],
-            note: Some("no trial log".into()),
-        }
-    }
-
-    fn draw(view: &ChartView, width: u16, height: u16) -> String {
-        let area = Rect::new(0, 0, width, height);
-        let mut buf = Buffer::empty(area);
-        ChartWidget {
-            view,
-            frame_style: Style::default(),
-        }
-        .render(area, &mut buf);
-        (0..height)
-            .map(|y| {
-                (0..width)
-                    .map(|x| buf[(x, y)].symbol().replace('\u{a0}', " "))
-                    .collect::<String>()
-            })
-            .collect::<Vec<_>>()
-            .join("\n")
-    }
-
-    #[test]
-    fn draws_braille_axes_legend_and_note() {
-        let text = draw(&view(), 60, 16);
-        assert!(text.contains("Power vs engine rpm"));
-        assert!(text.contains("engine rpm"), "{text}");
-        assert!(text.contains("full load"), "{text}");
-        assert!(text.contains("• A"), "{text}");
-        assert!(text.contains("3000"), "{text}");
-        assert!(text.contains("no trial log"), "{text}");
-        assert!(
-            text.chars().any(|c| ('\u{2801}'..='\u{28FF}').contains(&c)),
-            "no braille in\n{text}"
-        );
-    }
-
-    #[test]
-    fn bounds_ignore_non_finite_points_and_survive_empty_series() {
-        let mut v = view();
-        v.series[0].points.push((f64::NAN, 1e9));
-        let (x, y) = v.bounds();
-        assert_eq!(x, [1000.0, 3000.0]);
-        assert!((y[1] - 63.0).abs() < 1e-9);
-        let empty = ChartView {
-            series: vec![],
-            ..view()
-        };
-        assert_eq!(empty.bounds(), ([0.0, 1.0], [0.0, 1.05]));
-        draw(&empty, 30, 8);
-        draw(&view(), 3, 3);
-    }
-
-    #[test]
-    fn chart_cycle_visits_all() {
-        let mut k = ChartKind::default();
-        for _ in 0..4 {
-            k = k.next();
-        }
-        assert_eq!(k, ChartKind::PowerVsRpm);
-        assert_eq!(ChartKind::PowerVsRpm.prev(), ChartKind::RangeVsSpeed);
-    }
+/// The glyph that marks variant `index` on the charts and in the legend.
+pub fn variant_glyph(index: usize) -> Glyph {
+    Glyph::FOR_VARIANTS[index % Glyph::FOR_VARIANTS.len()]
 }

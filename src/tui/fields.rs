@@ -1,14 +1,10 @@
-//! The fields of the three panes and how each reads and writes the boat document: its label,
+//! The fields of the three panes and how each reads the boat document: its label,
 //! its [`Kind`], its nudge step, its file key (to match the profile's validation issues), and
 //! where its *estimated* and *warning* markers come from.
 
-use super::app::App;
-use super::field_list::FieldRow;
-use super::render::variant_glyph;
 use crate::profile::{
-    BoatDoc, EngineDoc, InteractionDoc, LoadCondition, Quantity, ResistanceMethodDoc, VariantDoc,
+    BoatDoc, EngineDoc, InteractionDoc, Quantity, ResistanceMethodDoc, VariantDoc,
 };
-use crate::propulsion::Resolved;
 use crate::propulsion::solver::Vessel;
 use crate::propulsion::water::WaterKind;
 use crate::units::{self, Kind, UnitSystem};
@@ -250,7 +246,7 @@ pub fn label(field: FieldId) -> &'static str {
 }
 
 /// What the field is, shown when it is selected.
-fn about(field: FieldId) -> &'static str {
+pub fn about(field: FieldId) -> &'static str {
     use FieldId as F;
     match field {
         F::LoadCondition => "which loading is solved; Enter: next condition the boat file gives",
@@ -286,7 +282,7 @@ fn about(field: FieldId) -> &'static str {
 }
 
 /// The key of the field in the boat file, to match the profile's validation issues.
-fn file_key(field: FieldId, boat: &BoatDoc) -> String {
+pub fn file_key(field: FieldId, boat: &BoatDoc) -> String {
     use FieldId as F;
     let variant = format!("variant[{}]", boat.active_variant + 1);
     match field {
@@ -324,51 +320,14 @@ fn file_key(field: FieldId, boat: &BoatDoc) -> String {
     }
 }
 
-/// Words that tie a core warning to the field, so the field carries the warning marker.
-fn warning_words(field: FieldId) -> &'static [&'static str] {
-    use FieldId as F;
-    match field {
-        F::Displacement => &["displacement", "block coefficient", "Cb"],
-        F::LengthWaterline => &["L/B", "length", "Froude"],
-        F::BeamWaterline => &["B/T", "L/B", "beam"],
-        F::DraftAft | F::DraftForward => &["B/T", "draft"],
-        F::WettedSurface => &["wetted surface"],
-        F::HalfEntranceAngle => &["entrance"],
-        F::TransomArea => &["transom"],
-        F::ResistanceMethod => &["Holtrop", "table", "prismatic", "Cp"],
-        F::WaterTemperature => &["temperature"],
-        F::Blades => &["blade count", "blades"],
-        F::AreaRatio => &["AE/A0", "area ratio"],
-        F::PitchRatio | F::Pitch => &["P/D", "pitch ratio"],
-        F::Diameter => &["diameter"],
-        _ => &[],
-    }
-}
-
-fn active_doc(boat: &BoatDoc) -> Option<&VariantDoc> {
+/// The active screw variant of `boat`, if it has one.
+pub fn active_doc(boat: &BoatDoc) -> Option<&VariantDoc> {
     boat.variants.get(boat.active_variant)
-}
-
-fn active_doc_mut(boat: &mut BoatDoc) -> Option<&mut VariantDoc> {
-    let index = boat.active_variant;
-    boat.variants.get_mut(index)
-}
-
-fn load_case_mut(boat: &mut BoatDoc) -> Option<&mut crate::profile::LoadCase> {
-    match boat.load.default {
-        LoadCondition::Light => boat.load.light.as_mut(),
-        LoadCondition::Half => boat.load.half.as_mut(),
-        LoadCondition::Full => boat.load.full.as_mut(),
-    }
 }
 
 /// The vessel the document builds (for the default load condition), or why it does not.
 pub fn build_vessel(boat: &BoatDoc, engine: &EngineDoc) -> Result<Vessel, String> {
     boat.to_default_vessel(engine).map_err(|e| e.to_string())
-}
-
-fn resolved_text(r: Option<&Resolved>, kind: Kind, system: UnitSystem) -> Option<String> {
-    r.map(|r| units::format(r.value, kind, system))
 }
 
 /// The value of `field` in `doc`.
@@ -508,116 +467,6 @@ pub fn nudge_step(field: FieldId, kind: FieldKind, system: UnitSystem) -> f64 {
     }
 }
 
-fn set_quantity(target: &mut Quantity, typed: &Quantity) {
-    *target = typed.clone();
-}
-
-/// Writes `typed` (internal unit; kept as typed for the file) into `field` of `boat`.
-fn set_number(field: FieldId, boat: &mut BoatDoc, typed: Quantity) -> Result<(), String> {
-    use FieldId as F;
-    let value = typed.value;
-    let not_here = || Err(format!("{} is not edited here", label(field)));
-    match field {
-        F::Displacement => match load_case_mut(boat) {
-            Some(case) => set_quantity(&mut case.displacement, &typed),
-            None => {
-                return Err("the boat file gives no displacement for this load condition".into());
-            }
-        },
-        F::LengthWaterline => set_quantity(&mut boat.hull.length_waterline, &typed),
-        F::BeamWaterline => set_quantity(&mut boat.hull.beam_waterline, &typed),
-        F::DraftAft => set_quantity(&mut boat.hull.draft_aft, &typed),
-        F::DraftForward => set_quantity(&mut boat.hull.draft_forward, &typed),
-        F::WettedSurface => boat.hull.wetted_surface = Some(typed.clone()),
-        F::HalfEntranceAngle => boat.hull.half_entrance_angle = Some(typed.clone()),
-        F::TransomArea => boat.hull.transom_area = Some(typed.clone()),
-        F::ServiceMargin => boat.resistance.service_margin = value,
-        F::Fouling => boat.resistance.fouling = value,
-        F::WaterTemperature => set_quantity(&mut boat.water.temperature, &typed),
-        F::WindageArea => match &mut boat.windage {
-            Some(w) => set_quantity(&mut w.frontal_area, &typed),
-            None => return not_here(),
-        },
-        F::Headwind => match &mut boat.windage {
-            Some(w) => w.headwind = Some(typed.clone()),
-            None => return not_here(),
-        },
-        F::GearRatio => boat.installation.gear_ratio = value,
-        F::ShaftEfficiency => boat.installation.shaft_efficiency = value,
-        F::GearEfficiency => boat.installation.gear_efficiency = value,
-        F::Tank => set_quantity(&mut boat.trip.tank, &typed),
-        F::UsableFraction => boat.trip.usable_fraction = value,
-        F::Reserve => boat.trip.reserve = value,
-        F::Blades | F::Diameter | F::Pitch | F::AreaRatio => {
-            let Some(v) = active_doc_mut(boat) else {
-                return not_here();
-            };
-            match field {
-                F::Blades => {
-                    if !(value >= 0.0 && value <= f64::from(u32::MAX) && value.fract() == 0.0) {
-                        return Err("expected a whole number of blades".into());
-                    }
-                    v.blades = value as u32;
-                }
-                F::Diameter => set_quantity(&mut v.diameter, &typed),
-                F::Pitch => set_quantity(&mut v.pitch, &typed),
-                _ => v.area_ratio = value,
-            }
-        }
-        _ => return not_here(),
-    }
-    Ok(())
-}
-
-/// The first validation problem of `boat` at the field's file key, if any.
-fn problem_at(field: FieldId, boat: &BoatDoc) -> Option<String> {
-    let key = file_key(field, boat);
-    boat.validate()
-        .into_iter()
-        .find(|issue| issue.key == key)
-        .map(|issue| issue.problem)
-}
-
-/// Parses `text` for `field` and writes it into `boat`; the reason when it is not valid.
-pub fn set_from_text(field: FieldId, boat: &mut BoatDoc, text: &str) -> Result<(), String> {
-    let doc_value = {
-        let kind = kind_of(field);
-        match kind {
-            // Kept as typed, so the file shows "19 in" rather than a converted number.
-            Some(FieldKind::Unit(kind)) => {
-                Some(Quantity::from_text(text, kind).map_err(|e| e.to_string())?)
-            }
-            Some(FieldKind::Plain(_)) | Some(FieldKind::Count) => Some(Quantity::new(
-                text.trim()
-                    .parse::<f64>()
-                    .ok()
-                    .filter(|v| v.is_finite())
-                    .ok_or_else(|| {
-                        format!("expected a plain number such as 2.5, got {:?}", text.trim())
-                    })?,
-            )),
-            None => None,
-        }
-    };
-    match (field, doc_value) {
-        (_, Some(v)) => set_number(field, boat, v)?,
-        (FieldId::VariantLabel, None) => {
-            let label = text.trim();
-            if label.is_empty() {
-                return Err("expected a label for the variant".into());
-            }
-            if let Some(v) = active_doc_mut(boat) {
-                v.label = label.to_string();
-            }
-        }
-        _ => return Err(format!("{} is not typed in", label(field))),
-    }
-    match problem_at(field, boat) {
-        Some(problem) => Err(problem),
-        None => Ok(()),
-    }
-}
-
 /// How a numeric field is typed; `None` for fields that are not numbers.
 pub fn kind_of(field: FieldId) -> Option<FieldKind> {
     use FieldId as F;
@@ -642,315 +491,4 @@ pub fn kind_of(field: FieldId) -> Option<FieldKind> {
         F::Blades => FieldKind::Count,
         _ => return None,
     })
-}
-
-/// The numeric value of `field` in `boat`, internal unit, if it has one.
-fn number_of(field: FieldId, boat: &BoatDoc) -> Option<f64> {
-    match value(field, boat) {
-        FieldValue::Number { value, .. } => Some(value),
-        _ => None,
-    }
-}
-
-/// `value` rounded to 9 significant decimals of its magnitude, removing binary round-off.
-fn clean(value: f64) -> f64 {
-    if value == 0.0 || !value.is_finite() {
-        return value;
-    }
-    let scale = 10f64.powi(9 - value.abs().log10().ceil() as i32);
-    (value * scale).round() / scale
-}
-
-/// Nudges `field` by `direction` steps in display units of `system`.
-pub fn nudge(
-    field: FieldId,
-    boat: &mut BoatDoc,
-    direction: f64,
-    system: UnitSystem,
-) -> Result<(), String> {
-    let Some(kind) = kind_of(field) else {
-        return Err(format!("{} has no step to nudge by", label(field)));
-    };
-    let current = match field {
-        FieldId::WettedSurface | FieldId::HalfEntranceAngle | FieldId::TransomArea => {
-            return Err("type a value first: an estimate has no step".into());
-        }
-        _ => number_of(field, boat).ok_or_else(|| format!("{} has no value", label(field)))?,
-    };
-    let step = nudge_step(field, kind, system);
-    let next = match kind {
-        FieldKind::Unit(k) => {
-            // Rounding off the last bits keeps 14.0 in + 0.1 in from showing as 14.099999 in.
-            let shown = clean(units::to_display(current, k, system) + direction * step);
-            units::from_display(shown, k, system)
-        }
-        _ => clean(current + direction * step),
-    };
-    set_number(field, boat, Quantity::new(next))?;
-    match problem_at(field, boat) {
-        Some(problem) => Err(problem),
-        None => Ok(()),
-    }
-}
-
-/// The estimate the core used for an optional hull value left out of the document.
-fn estimate(field: FieldId, app: &App) -> Option<(Resolved, Kind)> {
-    let hull = &app.solution.solved()?.vessel.resistance.hull;
-    match field {
-        FieldId::WettedSurface => Some((hull.wetted_surface, Kind::Area)),
-        FieldId::HalfEntranceAngle => Some((hull.half_entrance_angle_deg, Kind::Angle)),
-        FieldId::TransomArea => Some((hull.transom_area, Kind::Area)),
-        _ => None,
-    }
-}
-
-/// The text of a read-only field that comes from the engine sheet or the solved vessel.
-fn derived_text(field: FieldId, app: &App) -> String {
-    let system = app.units;
-    let solved = app.solution.solved();
-    match field {
-        FieldId::RatedRpm => format!("{:.0} rpm", app.doc.engine.rated_rpm.value),
-        FieldId::RatedPower => solved
-            .map(|s| units::format(s.vessel.engine.rated_power(), Kind::Power, system))
-            .unwrap_or_else(|| "—".into()),
-        FieldId::FuelDensity => {
-            units::format(app.doc.engine.fuel_density.value, Kind::Density, system)
-        }
-        FieldId::ResistanceMethod => solved
-            .map(|s| {
-                let name = s.vessel.resistance.method.name();
-                format!("auto: {}", name.split(" (").next().unwrap_or(name))
-            })
-            .unwrap_or_else(|| "auto (fits the hull)".into()),
-        FieldId::PitchRatio => solved
-            .and_then(|s| s.vessel.variants.get(s.vessel.active_variant))
-            .map(|v| format!("{:.3}", v.screw.geometry().pitch_ratio()))
-            .unwrap_or_else(|| "—".into()),
-        _ => "—".into(),
-    }
-}
-
-/// The first core warning that concerns `field`.
-fn warning_for(field: FieldId, app: &App) -> Option<String> {
-    let words = warning_words(field);
-    if words.is_empty() {
-        return None;
-    }
-    let solved = app.solution.solved()?;
-    let variant_warnings = app
-        .solution
-        .active()
-        .map(|v| v.warnings.as_slice())
-        .unwrap_or(&[]);
-    let screw_field = matches!(
-        field,
-        FieldId::Blades
-            | FieldId::Diameter
-            | FieldId::Pitch
-            | FieldId::AreaRatio
-            | FieldId::PitchRatio
-    );
-    let pool: &[crate::propulsion::Warning] = if screw_field {
-        variant_warnings
-    } else {
-        &solved.warnings
-    };
-    pool.iter()
-        .find(|w| words.iter().any(|word| w.message.contains(word)))
-        .map(|w| w.to_string())
-}
-
-/// The rows of `pane` for the app's document, formatted in its display units.
-pub fn rows(pane: Pane, app: &App) -> Vec<FieldRow> {
-    let boat = &app.doc.boat;
-    fields_of(pane, boat)
-        .into_iter()
-        .map(|field| {
-            let mut row = FieldRow {
-                label: label(field).to_string(),
-                about: about(field).to_string(),
-                warning: warning_for(field, app).or_else(|| problem_at(field, boat)),
-                ..FieldRow::default()
-            };
-            row.value = match value(field, boat) {
-                FieldValue::Number { value, kind } => format_number(value, kind, app.units),
-                FieldValue::Choice(text) | FieldValue::Engine(text) | FieldValue::Text(text) => {
-                    text
-                }
-                FieldValue::ReadOnly(text) => match estimate(field, app) {
-                    Some((resolved, kind)) => {
-                        row.estimated_by = resolved.estimated_by.map(str::to_string);
-                        resolved_text(Some(&resolved), kind, app.units).unwrap_or(text)
-                    }
-                    None if text.is_empty() => derived_text(field, app),
-                    None => text,
-                },
-            };
-            row
-        })
-        .collect()
-}
-
-/// Lines under a pane's fields: the variants and the pitch recommendation for the Screw pane.
-pub fn pane_notes(pane: Pane, app: &App) -> Vec<String> {
-    if pane != Pane::Screw {
-        return Vec::new();
-    }
-    let boat = &app.doc.boat;
-    let variants: Vec<String> = boat
-        .variants
-        .iter()
-        .enumerate()
-        .map(|(i, v)| {
-            let active = if i == boat.active_variant { "◀" } else { "" };
-            // Non-breaking spaces keep each entry whole when the line wraps.
-            format!("{} {}{active}", variant_glyph(i).symbol(), v.label).replace(' ', "\u{a0}")
-        })
-        .collect();
-    // Most important first: the notes are cut from the bottom when the pane is short.
-    let mut notes = Vec::new();
-    if let Some(line) = app.solution.recommendation_line(app.units) {
-        notes.push(line);
-    }
-    if let Some(solved) = app.solution.solved() {
-        notes.push(super::views::screw_pane_check_line(&solved.checks));
-    }
-    notes.push(format!("Variants: {}", variants.join("  ")));
-    notes
-}
-
-/// Moves `field` to its next choice in `boat`.
-pub fn next_choice(field: FieldId, boat: &mut BoatDoc) -> Result<(), String> {
-    match field {
-        FieldId::LoadCondition => {
-            let given: Vec<LoadCondition> = LoadCondition::ALL
-                .into_iter()
-                .filter(|c| boat.load.case(*c).is_some())
-                .collect();
-            let at = given
-                .iter()
-                .position(|c| *c == boat.load.default)
-                .unwrap_or(0);
-            match given.get((at + 1) % given.len().max(1)) {
-                Some(next) => boat.load.default = *next,
-                None => return Err("the boat file gives no load conditions".into()),
-            }
-        }
-        FieldId::Interaction => {
-            boat.interaction = match boat.interaction {
-                InteractionDoc::Auto => InteractionDoc::Holtrop1984,
-                InteractionDoc::Holtrop1984 => InteractionDoc::Taylor,
-                InteractionDoc::Taylor => InteractionDoc::VanOortmerssen,
-                _ => InteractionDoc::Auto,
-            }
-        }
-        FieldId::Water => {
-            boat.water.kind = match boat.water.kind {
-                WaterKind::Sea => WaterKind::Fresh,
-                WaterKind::Fresh => WaterKind::Sea,
-            }
-        }
-        _ => return Err(format!("{} has no choices", label(field))),
-    }
-    Ok(())
-}
-
-/// The target speed of the trip, m/s.
-pub fn target_speed(boat: &BoatDoc) -> f64 {
-    boat.trip.target_speed.value
-}
-
-/// Parses a typed target speed, m/s.
-pub fn parse_target_speed(text: &str) -> Result<f64, String> {
-    let speed = units::parse(text, Kind::Speed).map_err(|e| e.to_string())?;
-    if speed > 0.0 {
-        Ok(speed)
-    } else {
-        Err("expected a target speed above zero".into())
-    }
-}
-
-/// Sets the trip's target speed, m/s.
-pub fn set_target_speed(boat: &mut BoatDoc, speed: f64) {
-    boat.trip.target_speed = Quantity::new(speed);
-}
-
-/// Number of screw variants.
-pub fn variant_count(boat: &BoatDoc) -> usize {
-    boat.variants.len()
-}
-
-/// Index of the active variant.
-pub fn active_variant(boat: &BoatDoc) -> usize {
-    boat.active_variant
-}
-
-/// Makes variant `index` the active one.
-pub fn set_active_variant(boat: &mut BoatDoc, index: usize) {
-    if index < boat.variants.len() {
-        boat.active_variant = index;
-    }
-}
-
-/// A label not yet used by a variant, starting from `base`.
-fn unused_label(boat: &BoatDoc, base: &str) -> String {
-    let taken = |label: &str| boat.variants.iter().any(|v| v.label == label);
-    if !taken(base) {
-        return base.to_string();
-    }
-    (2..)
-        .map(|n| format!("{base} {n}"))
-        .find(|l| !taken(l))
-        .unwrap_or_else(|| base.to_string())
-}
-
-/// Adds a copy of the active variant (named "new" when `fresh`, else "… copy") and makes it
-/// active; returns its label.
-pub fn duplicate_active_variant(boat: &mut BoatDoc, fresh: bool) -> String {
-    let Some(source) = active_doc(boat).cloned() else {
-        return String::new();
-    };
-    let base = if fresh {
-        "new".to_string()
-    } else {
-        format!("{} copy", source.label)
-    };
-    let label = unused_label(boat, &base);
-    boat.variants.push(VariantDoc {
-        label: label.clone(),
-        ..source
-    });
-    boat.active_variant = boat.variants.len() - 1;
-    label
-}
-
-/// Removes the active variant unless it is the only one; returns its label.
-pub fn remove_active_variant(boat: &mut BoatDoc) -> Result<String, String> {
-    if boat.variants.len() <= 1 {
-        return Err("the last screw variant cannot be removed".into());
-    }
-    let removed = boat.variants.remove(boat.active_variant);
-    boat.active_variant = boat.active_variant.min(boat.variants.len() - 1);
-    Ok(removed.label)
-}
-
-/// Adds a copy of the active variant with `pitch` (m) and makes it active; returns its label.
-pub fn add_variant_with_pitch(boat: &mut BoatDoc, pitch: f64, system: UnitSystem) -> String {
-    let Some(source) = active_doc(boat).cloned() else {
-        return String::new();
-    };
-    let base = format!("pitch {}", units::format(pitch, Kind::ScrewLength, system));
-    let label = unused_label(boat, &base);
-    boat.variants.push(VariantDoc {
-        label: label.clone(),
-        pitch: Quantity::new(pitch),
-        ..source
-    });
-    boat.active_variant = boat.variants.len() - 1;
-    label
-}
-
-/// Points the boat at the engine sheet `name`.
-pub fn set_engine_name(boat: &mut BoatDoc, name: &str) {
-    boat.engine = name.to_string();
 }

@@ -7,7 +7,7 @@ use tidewright::propulsion::solver::matching::{DEFAULT_LIGHT_RUNNING, match_engi
 use tidewright::propulsion::solver::pitch::{INCH, PitchOptions, recommend_pitch};
 use tidewright::propulsion::solver::{Variant, Verdict, Vessel};
 use tidewright::report::boat::{BoatReport, signed_rpm, verdict_words};
-use tidewright::tui::render;
+use tidewright::tui::ui;
 
 fn demo_vessel(name: &str) -> Vessel {
     let store = Store::at("/nonexistent");
@@ -138,7 +138,7 @@ fn every_front_end_shows_the_same_verdict_and_margin_for_every_demo_variant() {
             if let Ok(solved) = app.solution.result.as_mut() {
                 solved.vessel.active_variant = i;
             }
-            let readout: String = render::readout_lines(&app)
+            let readout: String = ui::readout::readout_lines(&app)
                 .iter()
                 .map(|l| l.to_string())
                 .collect::<Vec<_>>()

@@ -12,7 +12,7 @@ use tidewright::tui::app::{Action, App, EditTarget, Effect, Overlay};
 use tidewright::tui::chart::ChartKind;
 use tidewright::tui::fields::{FieldId, Pane};
 use tidewright::tui::keys::{self, Command, Mode};
-use tidewright::tui::render;
+use tidewright::tui::ui;
 use tidewright::units::UnitSystem;
 
 /// A store directory that does not exist, so the embedded demo fleet is used.
@@ -27,7 +27,7 @@ fn demo_app() -> App {
 
 fn screen(app: &App, width: u16, height: u16) -> String {
     let mut terminal = Terminal::new(TestBackend::new(width, height)).unwrap();
-    terminal.draw(|f| render::render(app, f)).unwrap();
+    terminal.draw(|f| ui::render(app, f)).unwrap();
     let buf = terminal.backend().buffer().clone();
     (0..height)
         .map(|y| {
@@ -601,7 +601,7 @@ fn too_small_terminal_gets_a_message() {
 fn no_colour_theme_draws_without_colours() {
     let app = demo_app();
     let mut terminal = Terminal::new(TestBackend::new(120, 40)).unwrap();
-    terminal.draw(|f| render::render(&app, f)).unwrap();
+    terminal.draw(|f| ui::render(&app, f)).unwrap();
     let buf = terminal.backend().buffer();
     let coloured = buf
         .content()
@@ -933,7 +933,7 @@ fn band_is_drawn_on_the_power_chart_and_the_screw_pane_names_the_condition() {
     // Pintle's full throttle lies past the method's range, so the recommendation carries its
     // unreliable note first and the cavitation line, next in the pane's notes, is cut from the
     // bottom at this size; it is still the second note.
-    let notes = tidewright::tui::fields::pane_notes(Pane::Screw, &app);
+    let notes = ui::panes::pane_notes(Pane::Screw, &app);
     assert!(notes[0].contains("UNRELIABLE"), "{notes:?}");
     assert!(
         notes[1].contains("Cavitation"),
@@ -942,7 +942,7 @@ fn band_is_drawn_on_the_power_chart_and_the_screw_pane_names_the_condition() {
     assert!(!text.contains("band ±10 %"));
     keys(&mut app, "b");
     assert!(app.band_shown);
-    let view = render::chart_view(&app);
+    let view = ui::chart::chart_view(&app);
     let band: Vec<_> = view
         .series
         .iter()
@@ -1211,13 +1211,13 @@ fn full_throttle_past_the_method_is_marked_in_the_readout_and_the_chart() {
         Store::at(std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("tests/fixtures/valid"));
     let mut app = tidewright::tui::open_app(&store, Some("stubby")).expect("the fixture opens");
     app.chart = ChartKind::SpeedVsRpm;
-    let readout: String = render::readout_lines(&app)
+    let readout: String = ui::readout::readout_lines(&app)
         .iter()
         .map(ToString::to_string)
         .collect::<Vec<_>>()
         .join("\n");
     assert!(readout.contains("UNRELIABLE (Fn"), "{readout}");
-    let view = render::chart_view(&app);
+    let view = ui::chart::chart_view(&app);
     assert!(
         view.series
             .iter()

@@ -7,7 +7,7 @@ use ratatui::style::{Modifier, Style};
 use ratatui::text::{Line, Span};
 use ratatui::widgets::{Block, Borders, Paragraph, Widget, Wrap};
 
-use super::theme::Theme;
+use crate::tui::theme::Theme;
 
 /// Marker shown after a value the program estimated rather than the user gave.
 pub const ESTIMATED_MARK: &str = "~";

@@ -1,0 +1,119 @@
+//! The strips around the panes: header, chart tabs, status line and footer hints.
+
+use crate::tui::app::{App, Level};
+use crate::tui::fields::Pane;
+use crate::tui::keys::{self, Mode};
+use crate::units::UnitSystem;
+use ratatui::buffer::Buffer;
+use ratatui::layout::Rect;
+use ratatui::style::{Modifier, Style};
+use ratatui::text::{Line, Span};
+use ratatui::widgets::Widget;
+
+pub(crate) fn draw_header(app: &App, area: Rect, buf: &mut Buffer) {
+    let mut spans = vec![
+        Span::styled(
+            " tidewright ",
+            app.theme.focus.add_modifier(Modifier::REVERSED),
+        ),
+        Span::raw(" "),
+        Span::styled(
+            app.name.clone(),
+            Style::default().add_modifier(Modifier::BOLD),
+        ),
+    ];
+    if app.dirty() {
+        spans.push(Span::styled(" ● unsaved", app.theme.warning));
+    }
+    if !app.savable {
+        spans.push(Span::styled(" (demo, read-only)", app.theme.dim));
+    }
+    if app.changed_on_disk {
+        spans.push(Span::styled(" ⚠ file changed on disk", app.theme.error));
+    }
+    if let Some(cal) = &app.doc.boat.calibration {
+        spans.push(Span::styled(
+            format!(" · calibrated ×{:.3}", cal.resistance_factor),
+            app.theme.accent,
+        ));
+    }
+    let units = match app.units {
+        UnitSystem::Metric => "metric",
+        UnitSystem::Imperial => "imperial",
+    };
+    spans.push(Span::styled(format!("  · units {units}"), app.theme.dim));
+    Line::from(spans).render(area, buf);
+}
+
+pub(crate) fn draw_tabs(app: &App, area: Rect, buf: &mut Buffer) {
+    let mut spans = Vec::new();
+    for pane in Pane::ALL {
+        let style = if pane == app.focus {
+            app.theme
+                .focus
+                .add_modifier(Modifier::REVERSED | Modifier::BOLD)
+        } else {
+            app.theme.dim
+        };
+        spans.push(Span::styled(format!(" {} ", pane.title()), style));
+        spans.push(Span::raw(" "));
+    }
+    Line::from(spans).render(area, buf);
+}
+
+pub(crate) fn draw_status(app: &App, area: Rect, buf: &mut Buffer) {
+    if let Some(status) = &app.status {
+        let style = match status.level {
+            Level::Info => app.theme.accent,
+            Level::Error => app.theme.error,
+        };
+        Line::styled(status.text.clone(), style).render(area, buf);
+    } else if let Some(w) = app.solution.solved().and_then(|s| s.warnings.first()) {
+        Line::styled(format!("! {w}"), app.theme.warning).render(area, buf);
+    }
+}
+
+/// The footer's hints that fit in `width`: the table's order, but help and quit always stay.
+pub fn footer_hints_fitting(mode: Mode, width: u16) -> Vec<(&'static str, &'static str)> {
+    let hints = keys::footer_hints(mode);
+    let cost = |(k, h): &(&str, &str)| k.chars().count() + h.chars().count() + 3;
+    let kept_last: Vec<_> = hints
+        .iter()
+        .filter(|(_, h)| *h == "help" || *h == "quit")
+        .copied()
+        .collect();
+    let mut budget = (width as usize).saturating_sub(kept_last.iter().map(cost).sum());
+    let mut out = Vec::new();
+    for hint in hints.iter().filter(|(_, h)| *h != "help" && *h != "quit") {
+        if cost(hint) > budget {
+            break;
+        }
+        budget -= cost(hint);
+        out.push(*hint);
+    }
+    out.extend(kept_last);
+    out
+}
+
+pub(crate) fn draw_footer(app: &App, area: Rect, buf: &mut Buffer) {
+    let mut spans = Vec::new();
+    for (key, hint) in footer_hints_fitting(app.mode(), area.width) {
+        spans.push(Span::styled(
+            key,
+            app.theme.focus.add_modifier(Modifier::BOLD),
+        ));
+        spans.push(Span::styled(format!(" {hint}  "), app.theme.dim));
+    }
+    Line::from(spans).render(area, buf);
+}
+
+pub(crate) fn centred(area: Rect, width: u16, height: u16) -> Rect {
+    let width = width.min(area.width);
+    let height = height.min(area.height);
+    Rect {
+        x: area.x + (area.width - width) / 2,
+        y: area.y + (area.height - height) / 2,
+        width,
+        height,
+    }
+}
