@@ -14,6 +14,7 @@ pub mod engine;
 pub mod error;
 pub mod quantity;
 pub mod store;
+pub mod template;
 
 pub use boat::{
     BoatDoc, CalibrationDoc, HullDoc, InstallationDoc, InteractionDoc, LoadCase, LoadCondition,
