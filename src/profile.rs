@@ -15,6 +15,7 @@ pub mod error;
 mod fields;
 pub mod quantity;
 pub mod store;
+pub mod template;
 
 pub use boat::{
     BoatDoc, CalibrationDoc, HullDoc, InstallationDoc, InteractionDoc, LoadCase, LoadCondition,

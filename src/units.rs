@@ -5,6 +5,7 @@
 use thiserror::Error;
 
 mod table;
+mod text;
 
 pub use table::{
     CELSIUS_ZERO_K, FOOT_M, HORSEPOWER_HOUR_J, HORSEPOWER_W, HOUR_S, INCH_M, KILOGRAM_FORCE_N,
@@ -13,6 +14,9 @@ pub use table::{
     US_GALLON_M3,
 };
 use table::{DisplayUnit, KindInfo, UnitDef, info};
+pub use text::{
+    TextStyle, ascii_fallback, locale_is_utf8, locale_is_utf8_from, set_ascii, text_style,
+};
 
 /// What physical kind a quantity is; decides which units are accepted and the SI unit.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, serde::Serialize)]
@@ -47,6 +51,8 @@ pub enum Kind {
     Temperature,
     /// Density, SI kg/m³.
     Density,
+    /// A fuel's density, SI kg/m³; shown in kg/L or lb/US gal, the way fuel is weighed.
+    FuelDensity,
     /// Force, SI newton.
     Force,
     /// Angle, stored in degrees.
@@ -61,7 +67,7 @@ pub enum Kind {
 
 impl Kind {
     /// Every kind, in the order of the enum.
-    pub const ALL: [Kind; 20] = [
+    pub const ALL: [Kind; 21] = [
         Kind::Length,
         Kind::ScrewLength,
         Kind::Distance,
@@ -77,6 +83,7 @@ impl Kind {
         Kind::Rotation,
         Kind::Temperature,
         Kind::Density,
+        Kind::FuelDensity,
         Kind::Force,
         Kind::Angle,
         Kind::Torque,
@@ -139,6 +146,37 @@ pub enum UnitError {
         /// The text given.
         text: String,
     },
+    /// A number written with a comma: a decimal comma, or a thousands separator.
+    #[error("{}", comma_message(text, suggestion, thousands.as_deref()))]
+    Comma {
+        /// The text given.
+        text: String,
+        /// Character offset of the comma.
+        position: usize,
+        /// The text with the comma read as a decimal point ("22.5 in").
+        suggestion: String,
+        /// The text with the comma read as a thousands separator ("14500 lb"), when it may be
+        /// one: three digits follow it and at most three whole digits come before.
+        thousands: Option<String>,
+    },
+    /// A template's blank ("FILL IN") that was not replaced by a value.
+    #[error("{text:?} is a blank left to fill in; write {kind_name} such as {examples}")]
+    Blank {
+        /// The text given.
+        text: String,
+        /// The kind's name, e.g. "a length".
+        kind_name: &'static str,
+        /// Examples of accepted values.
+        examples: &'static str,
+    },
+    /// A gear ratio that cannot be one: not a number, zero, negative, or written inverted.
+    #[error("{text:?} is not a gear ratio: {reason}")]
+    BadRatio {
+        /// The text given.
+        text: String,
+        /// What is wrong and what was expected.
+        reason: String,
+    },
     /// Something left over after the quantity.
     #[error("unexpected {rest:?} at character {position} of {text:?}")]
     Trailing {
@@ -158,7 +196,15 @@ pub enum UnitError {
 /// number is accepted only for [`Kind::Fraction`], where it is the fraction itself.
 pub fn parse(text: &str, kind: Kind) -> Result<f64, UnitError> {
     let kind_info = info(kind);
+    if is_blank(text) {
+        return Err(UnitError::Blank {
+            text: text.to_owned(),
+            kind_name: kind_info.name,
+            examples: kind_info.examples,
+        });
+    }
     let (number, after_number) = scan_number(text, skip_space(text, 0))?;
+    refuse_comma(text, after_number)?;
     let unit_start = skip_space(text, after_number);
     let unit_end = scan_unit(text, unit_start);
     if unit_start == unit_end {
@@ -213,59 +259,157 @@ pub fn parse(text: &str, kind: Kind) -> Result<f64, UnitError> {
     finite(value, text)
 }
 
-/// Formats `value` (internal unit of `kind`) in `system` with a sensible precision and unit.
+/// Parses a gear ratio (engine turns per screw turn): "2.5", "2.5:1", "2.5 : 1" or "5:2".
 ///
-/// Non-finite values are shown as "—".
-pub fn format(value: f64, kind: Kind, system: UnitSystem) -> String {
-    let unit = info(kind).display(system);
-    let shown = to_display(value, kind, system);
-    if !shown.is_finite() {
-        return "—".to_owned();
-    }
-    let number = if shown.abs() >= 1e9 {
-        format!("{shown:.3e}")
-    } else {
-        let decimals = decimals_for(shown, unit.decimals);
-        let text = format!("{shown:.decimals$}");
-        // A value that rounds to zero is shown without a minus sign.
-        match text.strip_prefix('-') {
-            Some(unsigned) if unsigned.chars().all(|c| c == '0' || c == '.') => unsigned.to_owned(),
-            _ => text,
-        }
+/// Refuses zero, negative and inverted ratios ("1:2.5", or a plain number below 1): a marine
+/// reduction gear turns the screw slower than the engine (common practice). A decimal comma
+/// ("2,5:1") gets "use a decimal point". The ratio's upper limit is the profile's to check.
+pub fn parse_ratio(text: &str) -> Result<f64, UnitError> {
+    let bad = |reason: String| UnitError::BadRatio {
+        text: text.to_owned(),
+        reason,
     };
-    join(&number, unit)
+    let trimmed = text.trim();
+    if trimmed.is_empty() || is_blank(trimmed) {
+        return Err(bad(
+            "expected engine turns per screw turn, such as 2.5 or 2.5:1".to_owned(),
+        ));
+    }
+    let mut sides = Vec::new();
+    for side in text.split(':') {
+        let start = skip_space(text, side.as_ptr() as usize - text.as_ptr() as usize);
+        let end = start + side.trim().len();
+        let (number, after) = scan_number(text, start).map_err(|_| {
+            bad("expected a plain number, or two joined by a colon, such as 2.5 or 2.5:1".into())
+        })?;
+        refuse_comma(text, after)?;
+        if after != end {
+            return Err(bad(format!(
+                "unexpected {:?}; expected a plain number, or two joined by a colon, such as 2.5:1",
+                text[after..end].trim()
+            )));
+        }
+        sides.push(number);
+    }
+    let ratio = match sides.as_slice() {
+        [ratio] => *ratio,
+        [_, screw] if *screw <= 0.0 => {
+            return Err(bad(
+                "the screw side of the ratio must be above 0, as in 2.5:1".into(),
+            ));
+        }
+        [engine, screw] => engine / screw,
+        _ => return Err(bad("expected at most one colon, as in 2.5:1".into())),
+    };
+    if !ratio.is_finite() || ratio <= 0.0 {
+        return Err(bad("expected a ratio above 0, such as 2.5 or 2.5:1".into()));
+    }
+    if ratio < 1.0 {
+        let inverted = 1.0 / ratio;
+        return Err(bad(format!(
+            "written the wrong way round (the screw would turn faster than the engine); write \
+             engine turns per screw turn: {}:1",
+            trim_number(&format!("{inverted:.3}"))
+        )));
+    }
+    Ok(ratio)
 }
 
-/// Formats `value` of `kind` for writing into a profile file: exact enough to round-trip.
+/// Formats `value` (internal unit of `kind`) in `system` with a sensible precision and unit.
 ///
-/// Uses the shortest decimal that reads back as the same value (at most 17 significant
-/// digits), in the display unit of `system`. Non-finite values give "—", which does not parse.
+/// Uses the program's text style (see [`set_ascii`]). Non-finite values are shown as "—".
+pub fn format(value: f64, kind: Kind, system: UnitSystem) -> String {
+    format_in(value, kind, system, text_style())
+}
+
+/// Formats `value` like [`format`], in the text style `style` rather than the program's.
+///
+/// Precision per kind: the unit's usual decimals, more for small values (two significant
+/// digits), at least three significant figures for fuel per distance, and screw lengths in
+/// inches on a quarter (1.25 in, 17.75 in) with two decimals where one is usual.
+pub fn format_in(value: f64, kind: Kind, system: UnitSystem, style: TextStyle) -> String {
+    let unit = info(kind).display(system);
+    match number_text(value, kind, system, style) {
+        Some(number) => join(&number, unit, style),
+        None => not_a_value(style).to_owned(),
+    }
+}
+
+/// The number of [`format`] without its unit, e.g. "1.25" for a 1¼ in shaft in imperial.
+///
+/// For table cells whose column heading carries the unit. Non-finite values give "—".
+pub fn format_number(value: f64, kind: Kind, system: UnitSystem) -> String {
+    let style = text_style();
+    number_text(value, kind, system, style).unwrap_or_else(|| not_a_value(style).to_owned())
+}
+
+/// Formats `value` of `kind` for writing into a profile file, rounded to its unit's precision.
+///
+/// A value that some short decimal gives exactly (11.2 m, 24 in) is written so. Otherwise it
+/// is rounded, in the display unit of `system`, to the kind's file precision while keeping at
+/// least four significant figures: lengths 1 mm / 0.001 ft; screw lengths 0.1 mm / 0.01 in
+/// (a pitch of 21.334732 in saves as "21.33 in"); distances 0.1 nm; masses 1 kg / 1 lb; power
+/// 0.01 kW / 0.01 hp; speed 0.01 kn; volume 0.1 L / 0.1 US gal; area 0.001 m² / 0.01 ft²;
+/// fractions 0.01 %; fuel rate 0.01 L/h / 0.001 US gal/h; fuel per distance 0.001 L/nm or
+/// US gal/nm; specific fuel 0.1 g/kWh / 0.0001 lb/hp·h; rotation 1 rpm; temperature 0.1 °C /
+/// 0.1 °F; density 0.001 kg/m³ / 0.001 lb/ft³; fuel density 0.0001 kg/L / 0.001 lb/US gal;
+/// force 1 N / 1 lbf; angle 0.01°; torque 0.1 N·m / 0.1 lbf·ft; pressure 0.01 kPa / 0.001 psi;
+/// time 0.001 h. Files are always written in UTF-8 whatever the text style. Non-finite
+/// values give "—", which does not parse.
 pub fn format_for_file(value: f64, kind: Kind, system: UnitSystem) -> String {
     let unit = info(kind).display(system);
     let shown = to_display(value, kind, system);
     if !shown.is_finite() {
         return "—".to_owned();
     }
-    let mut best = shown;
-    for digits in 0..17 {
-        let candidate: f64 = format!("{shown:.digits$e}").parse().unwrap_or(shown);
-        if from_display(candidate, kind, system) == value {
-            best = candidate;
-            break;
+    let magnitude = shown.abs();
+    let significant = if magnitude == 0.0 {
+        0
+    } else {
+        (3.0 - magnitude.log10().floor()).clamp(0.0, 300.0) as usize
+    };
+    let decimals = unit.file_decimals.max(significant);
+    // The shortest decimal that reads back exactly, when it is no longer than the rounding.
+    let exact = (0..17).find_map(|digits| {
+        let candidate: f64 = format!("{shown:.digits$e}").parse().ok()?;
+        (from_display(candidate, kind, system) == value).then_some(candidate)
+    });
+    let best = match exact {
+        Some(candidate) if decimals_of(candidate) <= decimals => candidate,
+        _ => {
+            let rounded: f64 = format!("{shown:.decimals$}").parse().unwrap_or(shown);
+            // Rounding must not turn a tiny value into zero; keep four significant digits.
+            if rounded == 0.0 && shown != 0.0 {
+                format!("{shown:.3e}").parse().unwrap_or(shown)
+            } else {
+                rounded
+            }
         }
-    }
+    };
+    let best = if best == 0.0 { 0.0 } else { best };
     let magnitude = best.abs();
     let number = if magnitude != 0.0 && !(1e-4..1e15).contains(&magnitude) {
         format!("{best:e}")
     } else {
         format!("{best}")
     };
-    join(&number, unit)
+    join(&number, unit, TextStyle::Unicode)
 }
 
 /// The unit label `kind` is shown in under `system`, e.g. "m", "ft", "US gal/h".
+///
+/// Uses the program's text style: "ft2" rather than "ft²" when ASCII is asked for.
 pub fn unit_label(kind: Kind, system: UnitSystem) -> &'static str {
-    info(kind).display(system).label
+    unit_label_in(kind, system, text_style())
+}
+
+/// The unit label of `kind` under `system` in the text style `style`.
+pub fn unit_label_in(kind: Kind, system: UnitSystem, style: TextStyle) -> &'static str {
+    let unit = info(kind).display(system);
+    match style {
+        TextStyle::Unicode => unit.label,
+        TextStyle::Ascii => unit.ascii,
+    }
 }
 
 /// Converts `value` from the internal unit of `kind` to its display unit in `system`.
@@ -300,12 +444,121 @@ pub fn accepted_units(kind: Kind) -> &'static str {
     info(kind).accepted
 }
 
-/// Joins a number and its display unit label.
-fn join(number: &str, unit: &DisplayUnit) -> String {
-    if unit.spaced {
-        format!("{number} {}", unit.label)
+/// The shown number of `value` of `kind` in `system`, or `None` when it is not finite.
+fn number_text(value: f64, kind: Kind, system: UnitSystem, style: TextStyle) -> Option<String> {
+    let unit = info(kind).display(system);
+    let shown = to_display(value, kind, system);
+    if !shown.is_finite() {
+        return None;
+    }
+    let text = if shown.abs() >= 1e9 {
+        format!("{shown:.3e}")
     } else {
-        format!("{number}{}", unit.label)
+        let mut decimals = decimals_for(shown, unit.decimals);
+        if unit.significant > 0 && shown != 0.0 {
+            let leading = shown.abs().log10().floor();
+            let needed = (unit.significant as f64 - 1.0 - leading).clamp(0.0, 6.0) as usize;
+            decimals = decimals.max(needed);
+        }
+        if unit.quarters && decimals < 2 && is_on_quarter(shown) {
+            decimals = 2;
+        }
+        let text = format!("{shown:.decimals$}");
+        // A value that rounds to zero is shown without a minus sign.
+        match text.strip_prefix('-') {
+            Some(unsigned) if unsigned.chars().all(|c| c == '0' || c == '.') => unsigned.to_owned(),
+            _ => text,
+        }
+    };
+    Some(match style {
+        TextStyle::Unicode => text,
+        TextStyle::Ascii => ascii_fallback(&text),
+    })
+}
+
+/// Whether `shown` lies on an odd quarter (x.25 or x.75) to within a thousandth.
+fn is_on_quarter(shown: f64) -> bool {
+    let quarters = shown * 4.0;
+    (quarters - quarters.round()).abs() < 0.004 && quarters.round().rem_euclid(2.0) == 1.0
+}
+
+/// What a value that is not a number is shown as.
+fn not_a_value(style: TextStyle) -> &'static str {
+    match style {
+        TextStyle::Unicode => "—",
+        TextStyle::Ascii => "-",
+    }
+}
+
+/// Joins a number and its display unit label in `style`.
+fn join(number: &str, unit: &DisplayUnit, style: TextStyle) -> String {
+    match style {
+        TextStyle::Unicode if !unit.spaced => format!("{number}{}", unit.label),
+        TextStyle::Unicode => format!("{number} {}", unit.label),
+        // A spelled-out label ("deg") always stands apart from its number.
+        TextStyle::Ascii => format!("{number} {}", unit.ascii),
+    }
+}
+
+/// Number of decimal places `value` is written with by `{}` formatting.
+fn decimals_of(value: f64) -> usize {
+    let text = format!("{value}");
+    text.split_once('.')
+        .map_or(0, |(_, fraction)| fraction.len())
+}
+
+/// `text` without trailing zeros after a decimal point ("3.500" → "3.5", "4.000" → "4").
+fn trim_number(text: &str) -> &str {
+    if text.contains('.') {
+        text.trim_end_matches('0').trim_end_matches('.')
+    } else {
+        text
+    }
+}
+
+/// Whether `text` is a template's blank: "FILL IN", in any letter case, perhaps with more after.
+fn is_blank(text: &str) -> bool {
+    let trimmed = text.trim_start();
+    trimmed
+        .get(..7)
+        .is_some_and(|start| start.eq_ignore_ascii_case("fill in"))
+}
+
+/// Refuses a comma right after a number ending at byte `after` when a digit follows it.
+fn refuse_comma(text: &str, after: usize) -> Result<(), UnitError> {
+    let bytes = text.as_bytes();
+    if bytes.get(after) != Some(&b',') || !bytes.get(after + 1).is_some_and(u8::is_ascii_digit) {
+        return Ok(());
+    }
+    let digits = bytes[after + 1..]
+        .iter()
+        .take_while(|b| b.is_ascii_digit())
+        .count();
+    let before_digits = bytes[..after]
+        .iter()
+        .rev()
+        .take_while(|b| b.is_ascii_digit())
+        .count();
+    let integer_part = before_digits > 0 && bytes[..after - before_digits].last() != Some(&b'.');
+    let with = |mark: &str| format!("{}{mark}{}", &text[..after], &text[after + 1..]);
+    Err(UnitError::Comma {
+        text: text.to_owned(),
+        position: char_position(text, after),
+        suggestion: with(".").trim().to_owned(),
+        thousands: (digits == 3 && before_digits <= 3 && integer_part)
+            .then(|| with("").trim().to_owned()),
+    })
+}
+
+/// The message for a number written with a comma.
+fn comma_message(text: &str, suggestion: &str, thousands: Option<&str>) -> String {
+    if let Some(whole) = thousands {
+        format!(
+            "{text:?} has a comma in its number; write {whole} without a thousands separator, \
+             or use a decimal point: {suggestion}"
+        )
+    } else {
+        format!("{text:?} has a decimal comma; use a decimal point: {suggestion}")
     }
 }
 
@@ -666,6 +919,81 @@ mod tests {
                 text: "°5".into(),
                 position: 0
             }
+        );
+    }
+
+    #[test]
+    fn a_decimal_comma_is_refused_with_the_decimal_point_form() {
+        let error = parse("22,5 in", Kind::ScrewLength).unwrap_err();
+        assert!(
+            error.to_string().contains("use a decimal point: 22.5 in"),
+            "{error}"
+        );
+        assert!(matches!(error, UnitError::Comma { position: 2, .. }));
+        let error = parse("2,5", Kind::Fraction).unwrap_err();
+        assert!(
+            error.to_string().contains("use a decimal point: 2.5"),
+            "{error}"
+        );
+        let error = parse("14,500 lb", Kind::Mass).unwrap_err().to_string();
+        assert!(
+            error.contains("14500 lb") && error.contains("14.500 lb"),
+            "{error}"
+        );
+    }
+
+    #[test]
+    fn ratios_read_plain_and_with_a_colon() {
+        assert_eq!(parse_ratio("2.5"), Ok(2.5));
+        assert_eq!(parse_ratio("2.5:1"), Ok(2.5));
+        assert_eq!(parse_ratio(" 2.5 : 1 "), Ok(2.5));
+        assert_eq!(parse_ratio("5:2"), Ok(2.5));
+        assert_eq!(parse_ratio("1:1"), Ok(1.0));
+        for bad in [
+            "1:2.5", "0.4", "0", "0:1", "2.5:0", "-2", "", "2.5:1:1", "x", "2.5 to 1",
+        ] {
+            assert!(
+                matches!(parse_ratio(bad), Err(UnitError::BadRatio { .. })),
+                "{bad:?}: {:?}",
+                parse_ratio(bad)
+            );
+        }
+        let inverted = parse_ratio("1:2.5").unwrap_err().to_string();
+        assert!(
+            inverted.contains("wrong way round") && inverted.contains("2.5:1"),
+            "{inverted}"
+        );
+        let comma = parse_ratio("2,5:1").unwrap_err().to_string();
+        assert!(comma.contains("use a decimal point: 2.5:1"), "{comma}");
+    }
+
+    #[test]
+    fn a_template_blank_names_what_to_write() {
+        let error = parse("FILL IN", Kind::Length).unwrap_err().to_string();
+        assert!(
+            error.contains("blank") && error.contains("a length"),
+            "{error}"
+        );
+    }
+
+    #[test]
+    fn file_values_are_rounded_to_their_unit() {
+        let pitch = 21.334_732_161_838_904 * INCH_M;
+        assert_eq!(
+            format_for_file(pitch, Kind::ScrewLength, UnitSystem::Imperial),
+            "21.33 in"
+        );
+        assert_eq!(
+            format_for_file(0.541_234_56, Kind::ScrewLength, UnitSystem::Metric),
+            "541.2 mm"
+        );
+        assert_eq!(
+            format_for_file(14_523.7, Kind::Mass, UnitSystem::Metric),
+            "14.524 t"
+        );
+        assert_eq!(
+            format_for_file(14_523.7, Kind::Mass, UnitSystem::Imperial),
+            "32019 lb"
         );
     }
 }

@@ -74,6 +74,47 @@ pub(super) struct DisplayUnit {
     pub spaced: bool,
     /// A convenient editing step, in display units.
     pub nudge: f64,
+    /// The label in plain ASCII, for terminals without UTF-8 (the same as `label` when it is).
+    pub ascii: &'static str,
+    /// Significant figures shown at least (0: decimals only), so that rows of a table differ.
+    pub significant: usize,
+    /// Whether a value on a quarter (x.25, x.75) is shown with two decimals even where the
+    /// usual is one, so that a 1¼ in shaft reads "1.25 in" and not "1.2 in".
+    pub quarters: bool,
+    /// Decimal places a value is rounded to when written into a profile file (at least four
+    /// significant figures are kept, so a small value never rounds to zero).
+    pub file_decimals: usize,
+}
+
+impl DisplayUnit {
+    /// This unit with `ascii` as its plain-ASCII label.
+    const fn ascii(self, ascii: &'static str) -> Self {
+        Self { ascii, ..self }
+    }
+
+    /// This unit showing at least `significant` significant figures.
+    const fn significant(self, significant: usize) -> Self {
+        Self {
+            significant,
+            ..self
+        }
+    }
+
+    /// This unit showing quarters with two decimals.
+    const fn quarters(self) -> Self {
+        Self {
+            quarters: true,
+            ..self
+        }
+    }
+
+    /// This unit rounded to `file_decimals` decimals in files.
+    const fn file(self, file_decimals: usize) -> Self {
+        Self {
+            file_decimals,
+            ..self
+        }
+    }
 }
 
 /// Everything the parser and the formatter know about one kind.
@@ -120,6 +161,11 @@ const fn shown(label: &'static str, scale: f64, decimals: usize, nudge: f64) -> 
         decimals,
         spaced: true,
         nudge,
+        ascii: label,
+        significant: 0,
+        quarters: false,
+        // Two more places than shown unless a kind says otherwise.
+        file_decimals: decimals + 2,
     }
 }
 
@@ -148,8 +194,8 @@ static LENGTH: KindInfo = KindInfo {
     accepted: "m, mm, cm, km, ft, in, ', \" (or feet and inches: 36 ft 9 in)",
     examples: "11.2 m, 36 ft 9 in, 610 mm",
     units: &LENGTH_UNITS,
-    metric: shown("m", 1.0, 2, 0.1),
-    imperial: shown("ft", FOOT_M, 2, 0.5),
+    metric: shown("m", 1.0, 2, 0.1).file(3),
+    imperial: shown("ft", FOOT_M, 2, 0.5).file(3),
 };
 
 static SCREW_LENGTH: KindInfo = KindInfo {
@@ -157,8 +203,8 @@ static SCREW_LENGTH: KindInfo = KindInfo {
     accepted: "mm, cm, m, in, \", ft",
     examples: "24 in, 610 mm",
     units: &LENGTH_UNITS,
-    metric: shown("mm", 1e-3, 0, 10.0),
-    imperial: shown("in", INCH_M, 1, 0.5),
+    metric: shown("mm", 1e-3, 0, 10.0).file(1),
+    imperial: shown("in", INCH_M, 1, 0.5).quarters().file(2),
 };
 
 static DISTANCE: KindInfo = KindInfo {
@@ -166,8 +212,8 @@ static DISTANCE: KindInfo = KindInfo {
     accepted: "nm (nautical mile), nmi, km, m",
     examples: "250 nm, 460 km",
     units: &[NAUTICAL_MILE, KILOMETRE, METRE],
-    metric: shown("nm", NAUTICAL_MILE_M, 1, 10.0),
-    imperial: shown("nm", NAUTICAL_MILE_M, 1, 10.0),
+    metric: shown("nm", NAUTICAL_MILE_M, 0, 10.0).file(1),
+    imperial: shown("nm", NAUTICAL_MILE_M, 0, 10.0).file(1),
 };
 
 static FUEL_PER_DISTANCE: KindInfo = KindInfo {
@@ -184,8 +230,12 @@ static FUEL_PER_DISTANCE: KindInfo = KindInfo {
         unit(&["L/km", "l/km"], false, LITRE_M3 / 1e3),
         unit(&["m3/m"], false, 1.0),
     ],
-    metric: shown("L/nm", LITRE_M3 / NAUTICAL_MILE_M, 2, 0.1),
-    imperial: shown("US gal/nm", US_GALLON_M3 / NAUTICAL_MILE_M, 3, 0.05),
+    metric: shown("L/nm", LITRE_M3 / NAUTICAL_MILE_M, 1, 0.1)
+        .significant(3)
+        .file(3),
+    imperial: shown("US gal/nm", US_GALLON_M3 / NAUTICAL_MILE_M, 1, 0.05)
+        .significant(3)
+        .file(3),
 };
 
 static MASS: KindInfo = KindInfo {
@@ -201,8 +251,8 @@ static MASS: KindInfo = KindInfo {
         unit(&["kg", "kilogram", "kilograms"], true, 1.0),
         unit(&["lb", "lbs", "pound", "pounds"], true, POUND_KG),
     ],
-    metric: shown("t", 1e3, 2, 0.1),
-    imperial: shown("lb", POUND_KG, 0, 100.0),
+    metric: shown("t", 1e3, 2, 0.1).file(3),
+    imperial: shown("lb", POUND_KG, 0, 100.0).file(0),
 };
 
 static POWER: KindInfo = KindInfo {
@@ -215,8 +265,8 @@ static POWER: KindInfo = KindInfo {
         unit(&["hp", "bhp", "shp", "horsepower"], true, HORSEPOWER_W),
         unit(&["PS", "metrichp"], true, METRIC_HORSEPOWER_W),
     ],
-    metric: shown("kW", 1e3, 1, 1.0),
-    imperial: shown("hp", HORSEPOWER_W, 1, 1.0),
+    metric: shown("kW", 1e3, 1, 1.0).file(2),
+    imperial: shown("hp", HORSEPOWER_W, 1, 1.0).file(2),
 };
 
 static SPEED: KindInfo = KindInfo {
@@ -230,8 +280,8 @@ static SPEED: KindInfo = KindInfo {
         // Statute mile: 5280 ft (NIST SP 811 B.8: 1609.344 m exact).
         unit(&["mph", "mi/h"], true, 5280.0 * FOOT_M / HOUR_S),
     ],
-    metric: shown("kn", KNOT_MPS, 1, 0.1),
-    imperial: shown("kn", KNOT_MPS, 1, 0.1),
+    metric: shown("kn", KNOT_MPS, 1, 0.1).file(2),
+    imperial: shown("kn", KNOT_MPS, 1, 0.1).file(2),
 };
 
 static VOLUME: KindInfo = KindInfo {
@@ -248,8 +298,8 @@ static VOLUME: KindInfo = KindInfo {
         unit(&["m3"], false, 1.0),
         unit(&["ft3", "cuft"], true, FOOT_M * FOOT_M * FOOT_M),
     ],
-    metric: shown("L", LITRE_M3, 0, 10.0),
-    imperial: shown("US gal", US_GALLON_M3, 1, 5.0),
+    metric: shown("L", LITRE_M3, 0, 10.0).file(1),
+    imperial: shown("US gal", US_GALLON_M3, 1, 5.0).file(1),
 };
 
 static AREA: KindInfo = KindInfo {
@@ -262,8 +312,8 @@ static AREA: KindInfo = KindInfo {
         unit(&["in2", "sqin"], true, INCH_M * INCH_M),
         unit(&["cm2"], false, 1e-4),
     ],
-    metric: shown("m²", 1.0, 2, 0.5),
-    imperial: shown("ft²", FOOT_M * FOOT_M, 1, 5.0),
+    metric: shown("m²", 1.0, 2, 0.5).ascii("m2").file(3),
+    imperial: shown("ft²", FOOT_M * FOOT_M, 1, 5.0).ascii("ft2").file(2),
 };
 
 static FRACTION: KindInfo = KindInfo {
@@ -271,8 +321,8 @@ static FRACTION: KindInfo = KindInfo {
     accepted: "%, or a plain number such as 0.97",
     examples: "15 %, 0.97",
     units: &[unit(&["%", "percent"], true, 0.01)],
-    metric: shown("%", 0.01, 1, 1.0),
-    imperial: shown("%", 0.01, 1, 1.0),
+    metric: shown("%", 0.01, 1, 1.0).file(2),
+    imperial: shown("%", 0.01, 1, 1.0).file(2),
 };
 
 static FUEL_RATE: KindInfo = KindInfo {
@@ -290,8 +340,8 @@ static FUEL_RATE: KindInfo = KindInfo {
         unit(&["m3/h"], false, 1.0 / HOUR_S),
         unit(&["m3/s"], false, 1.0),
     ],
-    metric: shown("L/h", LITRE_M3 / HOUR_S, 1, 0.5),
-    imperial: shown("US gal/h", US_GALLON_M3 / HOUR_S, 2, 0.1),
+    metric: shown("L/h", LITRE_M3 / HOUR_S, 1, 0.5).file(2),
+    imperial: shown("US gal/h", US_GALLON_M3 / HOUR_S, 2, 0.1).file(3),
 };
 
 static SPECIFIC_FUEL: KindInfo = KindInfo {
@@ -309,8 +359,10 @@ static SPECIFIC_FUEL: KindInfo = KindInfo {
         unit(&["g/PSh"], true, 1e-3 / METRIC_HORSEPOWER_HOUR_J),
         unit(&["kg/J"], true, 1.0),
     ],
-    metric: shown("g/kWh", 1e-3 / KILOWATT_HOUR_J, 0, 1.0),
-    imperial: shown("lb/hp·h", POUND_KG / HORSEPOWER_HOUR_J, 3, 0.005),
+    metric: shown("g/kWh", 1e-3 / KILOWATT_HOUR_J, 0, 1.0).file(1),
+    imperial: shown("lb/hp·h", POUND_KG / HORSEPOWER_HOUR_J, 3, 0.005)
+        .ascii("lb/hp.h")
+        .file(4),
 };
 
 static ROTATION: KindInfo = KindInfo {
@@ -321,8 +373,8 @@ static ROTATION: KindInfo = KindInfo {
         unit(&["rpm", "r/min", "rev/min"], true, 1.0),
         unit(&["rev/s", "rps", "r/s"], true, 60.0),
     ],
-    metric: shown("rpm", 1.0, 0, 50.0),
-    imperial: shown("rpm", 1.0, 0, 50.0),
+    metric: shown("rpm", 1.0, 0, 50.0).file(0),
+    imperial: shown("rpm", 1.0, 0, 50.0).file(0),
 };
 
 static TEMPERATURE: KindInfo = KindInfo {
@@ -345,7 +397,7 @@ static TEMPERATURE: KindInfo = KindInfo {
             zero: CELSIUS_ZERO_K,
         },
     ],
-    metric: shown("°C", 1.0, 1, 1.0),
+    metric: shown("°C", 1.0, 1, 1.0).ascii("degC").file(1),
     imperial: DisplayUnit {
         label: "°F",
         scale: 1.0 / 1.8,
@@ -353,31 +405,49 @@ static TEMPERATURE: KindInfo = KindInfo {
         decimals: 1,
         spaced: true,
         nudge: 1.0,
+        ascii: "degF",
+        significant: 0,
+        quarters: false,
+        file_decimals: 1,
     },
 };
+
+static DENSITY_UNITS: [UnitDef; 6] = [
+    unit(&["kg/m3", "Kg/m3"], false, 1.0),
+    unit(&["kg/L", "kg/l", "Kg/L", "kg/dm3"], false, 1e3),
+    unit(&["g/cm3", "g/mL", "g/ml"], false, 1e3),
+    unit(&["t/m3"], false, 1e3),
+    unit(
+        &["lb/gal", "lb/USgal", "lbs/gal"],
+        true,
+        POUND_KG / US_GALLON_M3,
+    ),
+    unit(
+        &["lb/ft3", "lbs/ft3"],
+        true,
+        POUND_KG / (FOOT_M * FOOT_M * FOOT_M),
+    ),
+];
 
 static DENSITY: KindInfo = KindInfo {
     name: "a density",
     accepted: "kg/m3, kg/m³, kg/L, g/cm3, t/m3, lb/gal (US), lb/ft3",
     examples: "1025 kg/m3, 0.84 kg/L, 7.0 lb/gal",
-    units: &[
-        unit(&["kg/m3", "Kg/m3"], false, 1.0),
-        unit(&["kg/L", "kg/l", "Kg/L", "kg/dm3"], false, 1e3),
-        unit(&["g/cm3", "g/mL", "g/ml"], false, 1e3),
-        unit(&["t/m3"], false, 1e3),
-        unit(
-            &["lb/gal", "lb/USgal", "lbs/gal"],
-            true,
-            POUND_KG / US_GALLON_M3,
-        ),
-        unit(
-            &["lb/ft3", "lbs/ft3"],
-            true,
-            POUND_KG / (FOOT_M * FOOT_M * FOOT_M),
-        ),
-    ],
-    metric: shown("kg/m³", 1.0, 1, 1.0),
-    imperial: shown("lb/ft³", POUND_KG / (FOOT_M * FOOT_M * FOOT_M), 2, 0.1),
+    units: &DENSITY_UNITS,
+    metric: shown("kg/m³", 1.0, 1, 1.0).ascii("kg/m3").file(3),
+    imperial: shown("lb/ft³", POUND_KG / (FOOT_M * FOOT_M * FOOT_M), 2, 0.1)
+        .ascii("lb/ft3")
+        .file(3),
+};
+
+/// A fuel's density, shown the way fuel is bought and weighed: kg/L or lb/US gal.
+static FUEL_DENSITY: KindInfo = KindInfo {
+    name: "a fuel density",
+    accepted: "kg/L, kg/m3, kg/m³, g/cm3, t/m3, lb/gal (US), lb/ft3",
+    examples: "0.84 kg/L, 7.0 lb/gal",
+    units: &DENSITY_UNITS,
+    metric: shown("kg/L", 1e3, 3, 0.005).file(4),
+    imperial: shown("lb/US gal", POUND_KG / US_GALLON_M3, 2, 0.05).file(3),
 };
 
 static FORCE: KindInfo = KindInfo {
@@ -390,8 +460,8 @@ static FORCE: KindInfo = KindInfo {
         unit(&["lbf"], true, POUND_FORCE_N),
         unit(&["kgf"], true, KILOGRAM_FORCE_N),
     ],
-    metric: shown("kN", 1e3, 2, 0.1),
-    imperial: shown("lbf", POUND_FORCE_N, 0, 25.0),
+    metric: shown("kN", 1e3, 2, 0.1).file(3),
+    imperial: shown("lbf", POUND_FORCE_N, 0, 25.0).file(0),
 };
 
 static ANGLE: KindInfo = KindInfo {
@@ -413,6 +483,10 @@ static ANGLE: KindInfo = KindInfo {
         decimals: 1,
         spaced: false,
         nudge: 1.0,
+        ascii: "deg",
+        significant: 0,
+        quarters: false,
+        file_decimals: 2,
     },
     imperial: DisplayUnit {
         label: "°",
@@ -421,6 +495,10 @@ static ANGLE: KindInfo = KindInfo {
         decimals: 1,
         spaced: false,
         nudge: 1.0,
+        ascii: "deg",
+        significant: 0,
+        quarters: false,
+        file_decimals: 2,
     },
 };
 
@@ -437,8 +515,10 @@ static TORQUE: KindInfo = KindInfo {
             POUND_FORCE_FOOT_NM,
         ),
     ],
-    metric: shown("N·m", 1.0, 0, 10.0),
-    imperial: shown("lbf·ft", POUND_FORCE_FOOT_NM, 0, 10.0),
+    metric: shown("N·m", 1.0, 0, 10.0).ascii("N.m").file(1),
+    imperial: shown("lbf·ft", POUND_FORCE_FOOT_NM, 0, 10.0)
+        .ascii("lbf.ft")
+        .file(1),
 };
 
 static PRESSURE: KindInfo = KindInfo {
@@ -452,8 +532,8 @@ static PRESSURE: KindInfo = KindInfo {
         unit(&["bar"], true, 1e5),
         unit(&["psi", "lbf/in2"], true, PSI_PA),
     ],
-    metric: shown("kPa", 1e3, 1, 1.0),
-    imperial: shown("psi", PSI_PA, 2, 0.1),
+    metric: shown("kPa", 1e3, 1, 1.0).file(2),
+    imperial: shown("psi", PSI_PA, 2, 0.1).file(3),
 };
 
 static TIME: KindInfo = KindInfo {
@@ -465,8 +545,8 @@ static TIME: KindInfo = KindInfo {
         unit(&["min", "mins", "minute", "minutes"], true, 60.0),
         unit(&["h", "hr", "hrs", "hour", "hours"], true, HOUR_S),
     ],
-    metric: shown("h", HOUR_S, 2, 0.5),
-    imperial: shown("h", HOUR_S, 2, 0.5),
+    metric: shown("h", HOUR_S, 2, 0.5).file(3),
+    imperial: shown("h", HOUR_S, 2, 0.5).file(3),
 };
 
 /// What is known about `kind`.
@@ -487,6 +567,7 @@ pub(super) fn info(kind: Kind) -> &'static KindInfo {
         Kind::Rotation => &ROTATION,
         Kind::Temperature => &TEMPERATURE,
         Kind::Density => &DENSITY,
+        Kind::FuelDensity => &FUEL_DENSITY,
         Kind::Force => &FORCE,
         Kind::Angle => &ANGLE,
         Kind::Torque => &TORQUE,

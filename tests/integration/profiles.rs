@@ -399,7 +399,8 @@ fn an_interrupted_save_leaves_the_old_file_intact() {
     let path = store.boat_path("marram").unwrap();
     let before = std::fs::read(&path).unwrap();
     let mut doc = loaded.doc.clone();
-    doc.variants[0].pitch = Quantity::new(0.5);
+    // 20 in: a pitch the file writes exactly, so the reloaded document equals it bit for bit.
+    doc.variants[0].pitch = Quantity::new(20.0 * 0.0254);
     // The new content reaches a temporary file, but the rename never happens.
     let pending: PendingSave = store
         .prepare_boat("marram", &doc, loaded.origin.stamp(), false)

@@ -444,9 +444,10 @@ fn bad_numbers_are_errors_not_panics() {
         parse("1e308 t", Kind::Mass),
         Err(UnitError::NotFinite { .. })
     ));
+    // A decimal comma is named as such (issue 14), not taken for an unknown unit.
     assert!(matches!(
         parse("1,5 m", Kind::Length),
-        Err(UnitError::UnknownUnit { .. })
+        Err(UnitError::Comma { position: 1, .. })
     ));
     assert!(matches!(
         parse("12 m²", Kind::Length),
@@ -497,7 +498,8 @@ fn formats_with_display_units_and_precision() {
     assert_eq!(format(15.0, Kind::Temperature, Metric), "15.0 °C");
     assert_eq!(format(15.0, Kind::Temperature, Imperial), "59.0 °F"); // NIST SP 811 B.9
     assert_eq!(format(12.0, Kind::Angle, Metric), "12.0°");
-    assert_eq!(format(250.0 * 1852.0, Kind::Distance, Imperial), "250.0 nm");
+    // A range is shown in whole nautical miles: no false precision (issue 14).
+    assert_eq!(format(250.0 * 1852.0, Kind::Distance, Imperial), "250 nm");
     assert_eq!(format(14_500.0, Kind::Force, Metric), "14.50 kN");
     assert_eq!(format(101_325.0, Kind::Pressure, Metric), "101.3 kPa");
     assert_eq!(format(101_325.0, Kind::Pressure, Imperial), "14.70 psi");
@@ -553,12 +555,13 @@ fn display_conversion_and_labels_agree_with_format() {
 proptest! {
     #![proptest_config(crate::robustness::cases(400))]
 
-    // format_for_file must read back within 1e-9 relative for any magnitude and kind.
+    // format_for_file rounds to its unit's file precision but keeps four significant figures,
+    // so it reads back within 5e-4 relative (plus float noise) for any magnitude and kind.
     #[test]
     fn file_format_round_trips(
         mantissa in -10.0f64..10.0,
         exponent in -12i32..12,
-        kind_index in 0usize..20,
+        kind_index in 0usize..Kind::ALL.len(),
         imperial in any::<bool>(),
     ) {
         let kind = Kind::ALL[kind_index];
@@ -566,14 +569,15 @@ proptest! {
         let value = mantissa * 10f64.powi(exponent);
         let written = format_for_file(value, kind, system);
         let read = parse(&written, kind).map_err(|e| TestCaseError::fail(e.to_string()))?;
-        // Temperature scales are affine, so their error is relative to 1 °C near zero.
-        let scale = if kind == Kind::Temperature { value.abs().max(1.0) } else { value.abs() };
-        prop_assert!((read - value).abs() <= 1e-9 * scale, "{} -> {:?} -> {}", value, written, read);
+        // Temperature scales are affine: the rounding is of the °F reading, which lies up to
+        // 32 °F (17.8 °C) away from the internal zero, so its error is relative to that.
+        let scale = if kind == Kind::Temperature { value.abs() + 17.8 } else { value.abs() };
+        prop_assert!((read - value).abs() <= 5.0001e-4 * scale, "{} -> {:?} -> {}", value, written, read);
     }
 
     // No input text makes the parser panic.
     #[test]
-    fn parser_never_panics(text in "\\PC{0,24}", kind_index in 0usize..20) {
+    fn parser_never_panics(text in "\\PC{0,24}", kind_index in 0usize..Kind::ALL.len()) {
         if let Ok(value) = parse(&text, Kind::ALL[kind_index]) {
             prop_assert!(value.is_finite());
         }

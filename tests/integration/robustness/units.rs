@@ -82,6 +82,15 @@ fn check(text: &str, kind: Kind) -> Result<(), TestCaseError> {
                     prop_assert!(!rest.is_empty(), "{message}");
                     prop_assert_eq!(&at(*position, rest.chars().count()), rest, "{}", message);
                 }
+                UnitError::Comma { position, .. } => {
+                    prop_assert_eq!(chars.get(*position), Some(&','), "{}", message);
+                    prop_assert!(message.contains("decimal point"), "{message}");
+                }
+                // A template's blank and a gear ratio concern the text as a whole.
+                UnitError::Blank { text: quoted, .. }
+                | UnitError::BadRatio { text: quoted, .. } => {
+                    prop_assert_eq!(quoted, text, "{}", message);
+                }
                 // These two concern the text as a whole (no unit at all; a value too large),
                 // so they quote it instead of pointing into it.
                 UnitError::MissingUnit { text: quoted, .. }
