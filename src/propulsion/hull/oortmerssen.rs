@@ -11,7 +11,7 @@
 //! m = 0.14347·Cp^−2.1976, Ci = 10⁻³·Σ d_k,i·x_k over the twelve hull terms x_k.
 //!
 //! The coefficient tables are data (`data/van-oortmerssen-1971.csv`), parsed once. They rest on
-//! one public transcription of the paper (see `docs/method.md`).
+//! one public copy of the paper's tables (see `docs/method.md`).
 
 use super::friction::{ittc1957_friction_coefficient, reynolds_number};
 use super::interaction::{Interaction, ScrewAtStern};

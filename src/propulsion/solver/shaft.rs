@@ -54,12 +54,15 @@ pub struct ShaftMaterial {
     pub source: &'static str,
 }
 
-/// Source of the table values used by [`ShaftMaterial::standard`].
-const SHAFT_TABLE: &str = "shaft-material table with the 321 000 formula (electricboats.co.uk \
-    'surfprop' shaft material page; speedafloat.com 'Shaft size', 2012)";
-/// Source of the values derived from tensile yield.
+/// Source of the table values used by [`ShaftMaterial::standard`]: the torsional yield values
+/// printed beside the 321 000 formula (Gerr, *Boat Mechanical Systems Handbook*; the same
+/// values appear in several small-craft shafting tables, from memory).
+const SHAFT_TABLE: &str = "typical value: small-craft shafting table beside the 321 000 formula \
+    (Gerr, Boat Mechanical Systems Handbook)";
+/// Source of the values derived from tensile yield (typical tensile yields recalled, not read
+/// from a standard: from memory).
 const FROM_MEMORY: &str =
-    "from memory: typical tensile yield × 0.577 (distortion-energy criterion)";
+    "typical value: tensile yield × 0.577 (distortion-energy criterion)";
 
 impl ShaftMaterial {
     /// A material with a user-given torsional yield strength (Pa).
@@ -294,8 +297,8 @@ mod tests {
     #[test]
     fn us_formula_constant_is_321_000() {
         // Westlawn Masthead no. 18: d = (321 000·SHP·SF/(St·rpm))^(1/3), d in inches, St in psi.
-        // 42 SHP at 2000 rpm, SF 3, St 20 000 psi → about one inch (the worked example of the
-        // electricboats.co.uk shaft-diameter page).
+        // 42 SHP at 2000 rpm, SF 3, St 20 000 psi → about one inch, by hand:
+        // (321 000·42·3/(20 000·2000))^(1/3) = 1.011 in.
         let hp = 745.699_872; // W per mechanical horsepower (NIST SP 811 B.8)
         let torque = 42.0 * hp / (2000.0 * std::f64::consts::TAU / 60.0);
         let d = min_shaft_diameter(torque, 20_000.0 * PSI, 3.0).unwrap();
