@@ -298,7 +298,7 @@ mod tests {
     fn us_formula_constant_is_321_000() {
         // Westlawn Masthead no. 18: d = (321 000·SHP·SF/(St·rpm))^(1/3), d in inches, St in psi.
         // 42 SHP at 2000 rpm, SF 3, St 20 000 psi → about one inch, by hand:
-        // (321 000·42·3/(20 000·2000))^(1/3) = 1.011 in.
+        // (321 000·42·3/(20 000·2000))^(1/3) = 1.0112^(1/3) = 1.004 in.
         let hp = 745.699_872; // W per mechanical horsepower (NIST SP 811 B.8)
         let torque = 42.0 * hp / (2000.0 * std::f64::consts::TAU / 60.0);
         let d = min_shaft_diameter(torque, 20_000.0 * PSI, 3.0).unwrap();
