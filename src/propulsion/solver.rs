@@ -35,6 +35,12 @@ pub struct Installation {
     pub shaft_efficiency: f64,
     /// Reduction gear efficiency, fraction.
     pub gear_efficiency: f64,
+    /// Shafts fitted, 1 or 2; each has its own engine (the same sheet), gear and screw (the
+    /// same variant, handed on a twin).
+    pub shafts: u32,
+    /// Shafts whose engine is stopped and whose screw trails, 0 normally; the one-engine-out
+    /// condition sets 1 on a twin.
+    pub idle_shafts: u32,
 }
 
 /// One complete propulsion system to solve: boat, interaction, screw, installation and engine.
@@ -55,6 +61,14 @@ pub struct System<'a> {
 }
 
 impl System<'_> {
+    /// Refuses an interaction method that does not fit the shaft count: the single-screw
+    /// estimates (Holtrop 1984 single screw, Taylor, van Oortmerssen) on a twin-screw boat.
+    pub fn check_interaction_fits(&self) -> Result<(), PointFailure> {
+        self.interaction
+            .check_shafts(self.installation.shafts)
+            .map_err(PointFailure::InteractionForShafts)
+    }
+
     /// What the interaction estimate needs to know about this system's screw.
     pub fn screw_at_stern(&self) -> ScrewAtStern {
         let g = self.screw.geometry();
@@ -67,8 +81,33 @@ impl System<'_> {
     }
 }
 
+/// Most shafts an installation may have.
+pub const MAX_SHAFTS: u32 = 2;
+
 impl Installation {
-    /// Checks the gear ratio and efficiencies: ratio positive, efficiencies in (0, 1].
+    /// A single-screw installation with this gear ratio and these shaft and gear efficiencies.
+    pub fn single_screw(gear_ratio: f64, shaft_efficiency: f64, gear_efficiency: f64) -> Self {
+        Self {
+            gear_ratio,
+            shaft_efficiency,
+            gear_efficiency,
+            shafts: 1,
+            idle_shafts: 0,
+        }
+    }
+
+    /// Shafts whose engine runs and drives its screw (count).
+    pub fn driven_shafts(&self) -> u32 {
+        self.shafts.saturating_sub(self.idle_shafts)
+    }
+
+    /// Whether the boat has two screws (whatever is running).
+    pub fn is_twin_screw(&self) -> bool {
+        self.shafts == 2
+    }
+
+    /// Checks the gear ratio and efficiencies (ratio positive, efficiencies in (0, 1]), the
+    /// shaft count (1 or 2) and that at least one engine runs.
     pub fn check(&self) -> Result<(), PointFailure> {
         let bad = |field, value, expected| {
             Err(PointFailure::BadInput {
@@ -91,6 +130,20 @@ impl Installation {
             if !(value > 0.0 && value <= 1.0) {
                 return bad(field, value, "a fraction above 0 and at most 1");
             }
+        }
+        if !(1..=MAX_SHAFTS).contains(&self.shafts) {
+            return bad(
+                "shafts",
+                f64::from(self.shafts),
+                "1 (single screw) or 2 (twin screw)",
+            );
+        }
+        if self.idle_shafts >= self.shafts {
+            return bad(
+                "idle shafts",
+                f64::from(self.idle_shafts),
+                "fewer idle shafts than shafts (at least one engine running)",
+            );
         }
         Ok(())
     }
@@ -115,11 +168,7 @@ mod tests {
 
     #[test]
     fn installation_is_checked() {
-        let good = Installation {
-            gear_ratio: 2.0,
-            shaft_efficiency: 0.98,
-            gear_efficiency: 0.97,
-        };
+        let good = Installation::single_screw(2.0, 0.98, 0.97);
         assert_eq!(good.check(), Ok(()));
         let bad = Installation {
             gear_ratio: 0.0,
@@ -135,6 +184,34 @@ mod tests {
                 .unwrap_err()
                 .to_string()
                 .contains("shaft efficiency")
+        );
+        let twin = Installation { shafts: 2, ..good };
+        assert_eq!(twin.check(), Ok(()));
+        assert_eq!(twin.driven_shafts(), 2);
+        for shafts in [0, 3] {
+            let bad = Installation { shafts, ..good };
+            let message = bad.check().unwrap_err().to_string();
+            assert!(
+                message.contains("shafts = ") && message.contains("1 (single screw) or 2"),
+                "{message}"
+            );
+        }
+        let one_out = Installation {
+            idle_shafts: 1,
+            ..twin
+        };
+        assert_eq!(one_out.check(), Ok(()));
+        assert_eq!(one_out.driven_shafts(), 1);
+        let none_running = Installation {
+            idle_shafts: 1,
+            ..good
+        };
+        assert!(
+            none_running
+                .check()
+                .unwrap_err()
+                .to_string()
+                .contains("idle shafts")
         );
     }
 }

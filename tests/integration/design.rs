@@ -129,6 +129,8 @@ fn vessel_with(pitches: &[f64]) -> Vessel {
             gear_ratio: 2.5,
             shaft_efficiency: 0.98,
             gear_efficiency: 0.97,
+            shafts: 1,
+            idle_shafts: 0,
         },
         engine: engine(),
         variants: pitches

@@ -18,5 +18,6 @@ mod robustness;
 mod screw;
 mod solver;
 mod tui;
+mod twin;
 mod units;
 mod water;

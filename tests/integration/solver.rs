@@ -31,6 +31,8 @@ const GEAR: Installation = Installation {
     gear_ratio: 2.0,
     shaft_efficiency: 0.98,
     gear_efficiency: 0.97,
+    shafts: 1,
+    idle_shafts: 0,
 };
 
 const INTERACTION: Interaction = Interaction {
@@ -303,6 +305,8 @@ const EXAMPLE_GEAR: Installation = Installation {
     gear_ratio: 2.5,
     shaft_efficiency: 0.98,
     gear_efficiency: 0.97,
+    shafts: 1,
+    idle_shafts: 0,
 };
 
 fn system<'a>(

@@ -214,6 +214,8 @@ impl BoatDoc {
                 gear_ratio: self.installation.gear_ratio,
                 shaft_efficiency: self.installation.shaft_efficiency,
                 gear_efficiency: self.installation.gear_efficiency,
+                shafts: 1,
+                idle_shafts: 0,
             },
             engine: engine_sheet,
             variants,

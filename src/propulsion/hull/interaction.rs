@@ -20,7 +20,9 @@ pub struct Interaction {
 pub enum InteractionMethod {
     /// Holtrop (1984) single-screw formulas, speed dependent through CV.
     Holtrop1984SingleScrew,
-    /// Taylor's wake w = 0.5·Cb − 0.05 with Taylor's t = k·w, k = 0.6, and ηR = 1.0.
+    /// Holtrop (1984) twin-screw formulas, the wake speed dependent through CV.
+    Holtrop1984TwinScrew,
+    /// Taylor's single-screw wake w = 0.5·Cb − 0.05 with Taylor's t = k·w, k = 0.6, and ηR = 1.0.
     Taylor,
     /// Van Oortmerssen (1971) small-ship regression of t, w and ηR on Cp, Fn, lcb, L/B, L/D.
     VanOortmerssen,
@@ -73,13 +75,60 @@ impl Interaction {
     }
 }
 
+/// An interaction method refused for the boat's shaft count.
+#[derive(Debug, Clone, PartialEq, Eq, thiserror::Error)]
+pub enum InteractionShaftsError {
+    /// A single-screw estimate asked for a twin-screw boat.
+    #[error(
+        "interaction: {method} is for single-screw boats only; for a twin-screw boat use \
+         Holtrop (1984) twin screw or user values (w, t, ηR)"
+    )]
+    SingleScrewOnly {
+        /// The method's display name.
+        method: &'static str,
+    },
+    /// The twin-screw estimate asked for a single-screw boat.
+    #[error(
+        "interaction: Holtrop (1984) twin screw is for twin-screw boats only; for a single-screw \
+         boat use Holtrop (1984) single screw, van Oortmerssen, Taylor or user values"
+    )]
+    TwinScrewOnly,
+}
+
 impl InteractionMethod {
     /// The interaction method that goes with a resistance method when the boat names none:
-    /// van Oortmerssen's own factors with van Oortmerssen, Holtrop (1984) otherwise.
+    /// van Oortmerssen's own factors with van Oortmerssen, Holtrop (1984) otherwise (single
+    /// screw; see [`InteractionMethod::paired_with_shafts`] for a twin).
     pub fn paired_with(method: &super::ResistanceMethod) -> Self {
+        Self::paired_with_shafts(method, 1)
+    }
+
+    /// The interaction method that goes with a resistance method and a shaft count (1 or 2)
+    /// when the boat names none: on a twin-screw boat Holtrop (1984) twin screw whatever the
+    /// resistance method (van Oortmerssen's factors are single-screw only); on a single screw
+    /// as [`InteractionMethod::paired_with`].
+    pub fn paired_with_shafts(method: &super::ResistanceMethod, shafts: u32) -> Self {
         match method {
+            _ if shafts >= 2 => InteractionMethod::Holtrop1984TwinScrew,
             super::ResistanceMethod::VanOortmerssen => InteractionMethod::VanOortmerssen,
             _ => InteractionMethod::Holtrop1984SingleScrew,
+        }
+    }
+
+    /// Whether the method fits a boat with `shafts` shafts: the single-screw estimates
+    /// (Holtrop 1984 single screw, Taylor, van Oortmerssen) are refused for a twin, and
+    /// Holtrop's twin-screw formulas for a single screw; user values fit both.
+    pub fn check_shafts(&self, shafts: u32) -> Result<(), InteractionShaftsError> {
+        match self {
+            InteractionMethod::User(_) => Ok(()),
+            InteractionMethod::Holtrop1984TwinScrew if shafts < 2 => {
+                Err(InteractionShaftsError::TwinScrewOnly)
+            }
+            InteractionMethod::Holtrop1984TwinScrew => Ok(()),
+            single if shafts >= 2 => Err(InteractionShaftsError::SingleScrewOnly {
+                method: single.name(),
+            }),
+            _ => Ok(()),
         }
     }
 
@@ -87,6 +136,7 @@ impl InteractionMethod {
     pub fn name(&self) -> &'static str {
         match self {
             InteractionMethod::Holtrop1984SingleScrew => "Holtrop (1984) single screw",
+            InteractionMethod::Holtrop1984TwinScrew => "Holtrop (1984) twin screw",
             InteractionMethod::Taylor => "Taylor",
             InteractionMethod::VanOortmerssen => "van Oortmerssen (1971)",
             InteractionMethod::User(_) => "user values",
@@ -106,6 +156,9 @@ impl InteractionMethod {
         let raw = match self {
             InteractionMethod::Holtrop1984SingleScrew => {
                 holtrop_single_screw(hull, water, screw, speed)
+            }
+            InteractionMethod::Holtrop1984TwinScrew => {
+                holtrop_twin_screw(hull, water, screw, speed)
             }
             InteractionMethod::Taylor => {
                 // Taylor (1933, "Speed and power of ships"), as given in Principles of Naval
@@ -159,6 +212,53 @@ pub fn small_craft_warning(
         })
 }
 
+/// Holtrop's viscous resistance coefficient CV = (1+k)·CF + CA at `speed` (m/s), with 1+k the
+/// hull form factor blended with the appendage form factor by wetted area (dimensionless).
+pub fn viscous_coefficient(hull: &HullForm, water: &WaterProperties, speed: f64) -> f64 {
+    let input = &hull.input;
+    let coefficients = hull.holtrop_coefficients();
+    let rn = reynolds_number(speed, input.length_waterline, water.kinematic_viscosity);
+    let cf = ittc1957_friction_coefficient(rn);
+    let s_total = hull.wetted_surface.value + input.appendage_area;
+    let k_total = coefficients.form_factor
+        + (input.appendage_form_factor - coefficients.form_factor) * input.appendage_area / s_total;
+    k_total * cf + coefficients.correlation_allowance
+}
+
+/// Holtrop (1984) twin-screw wake, thrust deduction and ηR (unclamped).
+///
+/// Holtrop, J. (1984), "A statistical re-analysis of resistance and propulsion data",
+/// International Shipbuilding Progress 31(363), pp. 272–276 (formulas from memory, as
+/// reproduced in Molland, Turnock & Hudson, *Ship Resistance and Propulsion*, §16.3):
+///
+/// - w = 0.3095·Cb + 10·CV·Cb − 0.23·D/√(B·T)
+/// - t = 0.325·Cb − 0.1885·D/√(B·T)
+/// - ηR = 0.9737 + 0.111·(Cp − 0.0225·lcb) − 0.06325·P/D
+///
+/// with T the mean draft, lcb in % of L forward of midships and CV as in
+/// [`viscous_coefficient`]. Range: the merchant-ship sample of Holtrop & Mennen (roughly
+/// 0.55 ≤ Cp ≤ 0.85, 3.9 ≤ L/B ≤ 9.5, Fn ≤ 0.45; from memory); twin open shafts with
+/// brackets.
+pub fn holtrop_twin_screw(
+    hull: &HullForm,
+    water: &WaterProperties,
+    screw: &ScrewAtStern,
+    speed: f64,
+) -> Interaction {
+    let b = hull.input.beam_waterline;
+    let cb = hull.block_coefficient;
+    let cp = hull.prismatic_coefficient;
+    let lcb = hull.lcb_percent();
+    let cv = viscous_coefficient(hull, water, speed);
+    let diameter_over_section = screw.diameter / (b * hull.draft_mean).sqrt();
+    Interaction {
+        wake_fraction: 0.3095 * cb + 10.0 * cv * cb - 0.23 * diameter_over_section,
+        thrust_deduction: 0.325 * cb - 0.1885 * diameter_over_section,
+        relative_rotative_efficiency: 0.9737 + 0.111 * (cp - 0.0225 * lcb)
+            - 0.06325 * screw.pitch_ratio,
+    }
+}
+
 /// Holtrop (1984) single-screw wake, thrust deduction and ηR (unclamped).
 ///
 /// The wake depends on speed through the viscous coefficient CV = (1+k)·CF + CA, with 1+k the
@@ -179,14 +279,8 @@ pub fn holtrop_single_screw(
     let cm = hull.midship_coefficient.value;
     let lcb = hull.lcb_percent();
     let cstern = input.stern_coefficient;
-    let coefficients = hull.holtrop_coefficients();
 
-    let rn = reynolds_number(speed, l, water.kinematic_viscosity);
-    let cf = ittc1957_friction_coefficient(rn);
-    let s_total = s + input.appendage_area;
-    let k_total = coefficients.form_factor
-        + (input.appendage_form_factor - coefficients.form_factor) * input.appendage_area / s_total;
-    let cv = k_total * cf + coefficients.correlation_allowance;
+    let cv = viscous_coefficient(hull, water, speed);
 
     let c8 = if b / ta < 5.0 {
         b * s / (l * d * ta)

@@ -4,15 +4,18 @@ use super::OperatingPoint;
 use crate::propulsion::screw::ScrewGeometry;
 use crate::propulsion::screw::cavitation::{
     CavitationError, CavitationInput, CavitationReport, KELLER_CONSTANT_SINGLE_SCREW,
-    SMALL_CRAFT_BLADE_LOADING_LIMIT, check_cavitation,
+    KELLER_CONSTANT_TWIN_SCREW, SMALL_CRAFT_BLADE_LOADING_LIMIT, check_cavitation,
 };
 use crate::propulsion::water::{STANDARD_ATMOSPHERE, WaterProperties};
 
-/// Keller, Burrill, blade loading and tip speed of a single screw behind the hull at `point`,
-/// with the shaft centreline `shaft_immersion` m below the waterline, in standard atmosphere.
+/// Keller, Burrill, blade loading and tip speed of one screw behind the hull at `point` (each
+/// driven screw's thrust), with the shaft centreline `shaft_immersion` m below the waterline,
+/// in standard atmosphere.
 ///
-/// One boat has one screw behind its hull, hence Keller's single-screw constant; the blade
-/// loading limit is the small-craft figure of about 10 psi (common practice).
+/// Keller's constant follows the shafts fitted: the single-screw K behind a single screw, the
+/// twin-screw K on a twin (also with one engine out: the running screw still works in a
+/// twin-screw stern's wake); the blade loading limit is the small-craft figure of about
+/// 10 psi (common practice).
 pub fn cavitation_at_point(
     geometry: ScrewGeometry,
     point: &OperatingPoint,
@@ -28,7 +31,7 @@ pub fn cavitation_at_point(
         water_density: water.density,
         vapour_pressure: water.vapour_pressure,
         atmospheric_pressure: STANDARD_ATMOSPHERE,
-        keller_constant: KELLER_CONSTANT_SINGLE_SCREW,
+        keller_constant: keller_constant(point.shafts),
         blade_loading_limit: SMALL_CRAFT_BLADE_LOADING_LIMIT,
         tip_speed_limit: None,
     })?;
@@ -47,6 +50,16 @@ pub fn cavitation_at_point(
             value,
             expected: "a finite result (check the operating point's thrust and speeds)",
         }),
+    }
+}
+
+/// Keller's constant K for a boat with `shafts` shafts: twin-screw K for 2, single-screw K
+/// otherwise (dimensionless).
+pub fn keller_constant(shafts: u32) -> f64 {
+    if shafts >= 2 {
+        KELLER_CONSTANT_TWIN_SCREW
+    } else {
+        KELLER_CONSTANT_SINGLE_SCREW
     }
 }
 
@@ -69,15 +82,20 @@ mod tests {
             torque_coefficient: 0.02,
             open_water_efficiency: 0.57,
             reynolds: 0.0,
+            shafts: 1,
+            driven_shafts: 1,
             screw_rps: 10.0,
             engine_rpm: 1500.0,
             torque: 500.0,
             effective_power: 0.0,
             delivered_power: 0.0,
             brake_power: 0.0,
+            brake_power_per_engine: 0.0,
             load_fraction: 0.3,
             fuel_mass_flow: 0.0,
             fuel_volume_flow: 0.0,
+            fuel_mass_flow_per_engine: 0.0,
+            fuel_volume_flow_per_engine: 0.0,
             froude: 0.0,
             in_method_range: true,
         }

@@ -57,7 +57,43 @@ pub struct Condition {
     pub fouling: Option<f64>,
     /// Service (sea-state) margin on total resistance, fraction.
     pub service_margin: Option<f64>,
+    /// One engine out on a twin-screw boat: one engine drives its screw and the other screw
+    /// trails as given; `None` runs every engine.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub engine_out: Option<TrailingScrew>,
 }
+
+/// How the idle screw of a twin with one engine out turns.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, serde::Serialize)]
+pub enum TrailingScrew {
+    /// The gear in neutral: the screw turns freely in the flow.
+    Windmilling,
+    /// The shaft locked (gear in gear or a shaft brake): the screw does not turn.
+    Locked,
+}
+
+impl TrailingScrew {
+    /// Short description for labels, e.g. "windmilling".
+    pub fn describe(self) -> &'static str {
+        match self {
+            TrailingScrew::Windmilling => "windmilling",
+            TrailingScrew::Locked => "locked",
+        }
+    }
+}
+
+/// The warning on an outcome with one engine out: what the case leaves out.
+///
+/// The idle screw's added drag is not included: no published drag coefficient of a trailing
+/// (locked or windmilling) screw on its disc or blade area could be cited here — MacKenzie &
+/// Forrester, "Sailboat propeller drag", Ocean Engineering 35 (2008), measured full-scale
+/// screws locked and freewheeling (locked drag up to about twice the freewheeling drag), but
+/// their coefficients were not at hand. The top speed and the load on the running engine are
+/// therefore optimistic. The yaw moment of the one-sided thrust and the rudder drag that holds
+/// the course are not modelled either.
+pub const ENGINE_OUT_NOT_INCLUDED: &str = "one engine out: the trailing screw's drag is not \
+    included (no citable estimate), so top speed is optimistic and the running engine's load \
+    understated; the one-sided thrust and the rudder drag holding the course are not modelled";
 
 impl Condition {
     /// A condition with only the displacement volume (m³) changed.
@@ -67,6 +103,7 @@ impl Condition {
             displacement_volume: Some(displacement_volume),
             fouling: None,
             service_margin: None,
+            engine_out: None,
         }
     }
     /// A condition with only the fouling (fraction of friction) changed.
@@ -76,6 +113,7 @@ impl Condition {
             displacement_volume: None,
             fouling: Some(fouling),
             service_margin: None,
+            engine_out: None,
         }
     }
     /// A condition with only the sea-state margin (fraction of total resistance) changed.
@@ -85,6 +123,17 @@ impl Condition {
             displacement_volume: None,
             fouling: None,
             service_margin: Some(service_margin),
+            engine_out: None,
+        }
+    }
+    /// One engine out on a twin-screw boat, the idle screw `trailing`.
+    pub fn one_engine_out(label: impl Into<String>, trailing: TrailingScrew) -> Self {
+        Self {
+            label: label.into(),
+            displacement_volume: None,
+            fouling: None,
+            service_margin: None,
+            engine_out: Some(trailing),
         }
     }
     /// Light, half-load and full-load conditions from their displacement volumes (m³).
@@ -168,6 +217,18 @@ impl Condition {
             }
             out.resistance.margins.service = service;
         }
+        if self.engine_out.is_some() {
+            if !vessel.installation.is_twin_screw() {
+                return Err(bad(
+                    "shafts",
+                    f64::from(vessel.installation.shafts),
+                    "a twin-screw boat (2 shafts) for one engine out",
+                ));
+            }
+            // The hull, its interaction estimate and Keller's constant stay those of the
+            // twin-screw stern; only the running screw gives thrust.
+            out.installation.idle_shafts = 1;
+        }
         Ok(out)
     }
 }
@@ -189,14 +250,21 @@ pub struct ConditionOutcome {
     pub absorbed_fraction_at_rated: Option<f64>,
     /// Engine rpm at the target speed, rpm.
     pub cruise_rpm: Option<f64>,
-    /// Brake power at the target speed, W.
+    /// Brake power of the boat (every running engine) at the target speed, W.
     pub cruise_power: Option<f64>,
+    /// Load of each running engine at the target speed, fraction of its full-load power.
+    pub cruise_load_fraction: Option<f64>,
+    /// Engines running (driven shafts) in this condition.
+    pub engines_running: u32,
     /// Fuel volume flow at the target speed, m³/s.
     pub cruise_fuel_volume_flow: Option<f64>,
     /// Whether the target speed is beyond the full-load curve in this condition.
     pub cruise_beyond_full_load: Option<bool>,
     /// Why a figure is missing, if one is.
     pub problem: Option<String>,
+    /// What the outcome leaves out, e.g. the trailing screw's drag with one engine out.
+    #[serde(skip_serializing_if = "Vec::is_empty")]
+    pub warnings: Vec<Warning>,
 }
 
 fn check_variant(vessel: &Vessel, index: usize) -> Result<(), ConditionError> {
@@ -238,10 +306,20 @@ fn outcome(vessel: &Vessel, index: usize, label: &str) -> ConditionOutcome {
         absorbed_fraction_at_rated: None,
         cruise_rpm: None,
         cruise_power: None,
+        cruise_load_fraction: None,
+        engines_running: vessel.installation.driven_shafts(),
         cruise_fuel_volume_flow: None,
         cruise_beyond_full_load: None,
         problem: None,
+        warnings: Vec::new(),
     };
+    if vessel.installation.idle_shafts > 0 {
+        out.warnings.push(Warning::about(
+            Subject::Engine,
+            "one engine out",
+            ENGINE_OUT_NOT_INCLUDED,
+        ));
+    }
     match match_engine(&system, &vessel.match_criteria) {
         Ok(m) => {
             out.verdict = Some(m.verdict);
@@ -256,6 +334,7 @@ fn outcome(vessel: &Vessel, index: usize, label: &str) -> ConditionOutcome {
         Ok(c) => {
             out.cruise_rpm = Some(c.point.engine_rpm);
             out.cruise_power = Some(c.point.brake_power);
+            out.cruise_load_fraction = Some(c.point.load_fraction);
             out.cruise_fuel_volume_flow = Some(c.point.fuel_volume_flow);
             out.cruise_beyond_full_load = Some(c.beyond_full_load);
         }
@@ -307,11 +386,11 @@ impl Default for UncertaintyRanges {
 pub struct BandPoint {
     /// Engine speed, rpm.
     pub engine_rpm: f64,
-    /// Brake power of the boat as given, W.
+    /// Brake power of each engine of the boat as given, W (against the engine's envelope).
     pub nominal_power: Option<f64>,
-    /// Smallest brake power over the band's cases, W.
+    /// Smallest brake power of each engine over the band's cases, W.
     pub low_power: Option<f64>,
-    /// Largest brake power over the band's cases, W.
+    /// Largest brake power of each engine over the band's cases, W.
     pub high_power: Option<f64>,
     /// Boat speed as given, m/s.
     pub nominal_speed: Option<f64>,
@@ -442,13 +521,13 @@ pub fn uncertainty_band(
                 .filter_map(|case| {
                     point_at_engine_rpm(&case.system(index), rpm)
                         .ok()
-                        .map(|p| p.brake_power)
+                        .map(|p| p.brake_power_per_engine)
                 })
-                .chain(nominal.map(|p| p.brake_power))
+                .chain(nominal.map(|p| p.brake_power_per_engine))
                 .collect();
             BandPoint {
                 engine_rpm: rpm,
-                nominal_power: nominal.map(|p| p.brake_power),
+                nominal_power: nominal.map(|p| p.brake_power_per_engine),
                 low_power: powers.iter().copied().reduce(f64::min),
                 high_power: powers.iter().copied().reduce(f64::max),
                 nominal_speed: nominal.map(|p| p.speed),

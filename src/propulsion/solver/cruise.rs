@@ -48,7 +48,8 @@ impl Trip {
     }
 }
 
-/// A cruise point: an operating point with the fuel figures of the trip.
+/// A cruise point: an operating point with the fuel figures of the trip (range and endurance
+/// from the boat's total burn, every running engine together).
 #[derive(Debug, Clone, Copy, PartialEq, serde::Serialize)]
 pub struct CruisePoint {
     /// The solved operating point.
@@ -147,15 +148,20 @@ mod tests {
             torque_coefficient: 0.0,
             open_water_efficiency: 0.0,
             reynolds: 0.0,
+            shafts: 1,
+            driven_shafts: 1,
             screw_rps: 0.0,
             engine_rpm: 0.0,
             torque: 0.0,
             effective_power: 0.0,
             delivered_power: 0.0,
             brake_power: 0.0,
+            brake_power_per_engine: 0.0,
             load_fraction: load,
             fuel_mass_flow: flow * 840.0,
             fuel_volume_flow: flow,
+            fuel_mass_flow_per_engine: flow * 840.0,
+            fuel_volume_flow_per_engine: flow,
             froude: 0.0,
             in_method_range: true,
         }

@@ -55,10 +55,11 @@ impl PropellerCurve {
             .filter_map(|(speed, r)| r.as_ref().err().map(|e| (*speed, e)))
     }
 
-    /// (engine rpm, brake power W) of every solved point, for charts against the engine
-    /// envelope.
+    /// (engine rpm, brake power of each running engine W) of every solved point, for charts
+    /// against the engine envelope.
     pub fn brake_power_by_rpm(&self) -> impl Iterator<Item = (f64, f64)> + '_ {
-        self.solved().map(|p| (p.engine_rpm, p.brake_power))
+        self.solved()
+            .map(|p| (p.engine_rpm, p.brake_power_per_engine))
     }
 
     /// The operating point at engine rpm `engine_rpm`, interpolated linearly (every field)
@@ -108,15 +109,26 @@ fn interpolate(low: &OperatingPoint, high: &OperatingPoint, fraction: f64) -> Op
         torque_coefficient: mix(low.torque_coefficient, high.torque_coefficient),
         open_water_efficiency: mix(low.open_water_efficiency, high.open_water_efficiency),
         reynolds: mix(low.reynolds, high.reynolds),
+        shafts: low.shafts,
+        driven_shafts: low.driven_shafts,
         screw_rps: mix(low.screw_rps, high.screw_rps),
         engine_rpm: mix(low.engine_rpm, high.engine_rpm),
         torque: mix(low.torque, high.torque),
         effective_power: mix(low.effective_power, high.effective_power),
         delivered_power: mix(low.delivered_power, high.delivered_power),
         brake_power: mix(low.brake_power, high.brake_power),
+        brake_power_per_engine: mix(low.brake_power_per_engine, high.brake_power_per_engine),
         load_fraction: mix(low.load_fraction, high.load_fraction),
         fuel_mass_flow: mix(low.fuel_mass_flow, high.fuel_mass_flow),
         fuel_volume_flow: mix(low.fuel_volume_flow, high.fuel_volume_flow),
+        fuel_mass_flow_per_engine: mix(
+            low.fuel_mass_flow_per_engine,
+            high.fuel_mass_flow_per_engine,
+        ),
+        fuel_volume_flow_per_engine: mix(
+            low.fuel_volume_flow_per_engine,
+            high.fuel_volume_flow_per_engine,
+        ),
         froude: mix(low.froude, high.froude),
         // Between a valid and an invalid point only the valid side's own speed is vouched for.
         in_method_range: low.in_method_range && high.in_method_range,

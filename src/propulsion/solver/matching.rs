@@ -285,7 +285,8 @@ pub fn match_engine(
     let engine = system.engine;
     engine.validate()?;
     let rated_point = point_at_engine_rpm(system, engine.rated_rpm)?;
-    let absorbed = rated_point.brake_power / engine.rated_power();
+    // Each engine against its own envelope; identical engines give one answer.
+    let absorbed = rated_point.brake_power_per_engine / engine.rated_power();
     let overload = |p: &OperatingPoint| p.load_fraction - 1.0;
     let top_rpm = engine.full_load_power.last_rpm().max(engine.rated_rpm);
 

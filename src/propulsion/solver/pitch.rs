@@ -215,7 +215,7 @@ impl PitchTarget {
 pub struct TargetPoint {
     /// Engine speed, rpm.
     pub engine_rpm: f64,
-    /// Brake power, W.
+    /// Brake power of each engine, W (on its own envelope).
     pub brake_power: f64,
 }
 
@@ -367,7 +367,7 @@ pub(super) struct PitchSearch {
     pub(super) evaluations: u32,
 }
 
-/// Brake power (W) the propeller curve asks at `engine_rpm` with pitch `pitch`.
+/// Brake power of each engine (W) the propeller curve asks at `engine_rpm` with pitch `pitch`.
 fn absorbed_power(
     vessel: &Vessel,
     base: ScrewGeometry,
@@ -377,7 +377,7 @@ fn absorbed_power(
 ) -> Result<f64, DesignError> {
     let screw = rebuilt_screw(ScrewGeometry { pitch, ..base })?;
     let system = system_with(vessel, &screw, installation);
-    Ok(point_at_engine_rpm(&system, engine_rpm)?.brake_power)
+    Ok(point_at_engine_rpm(&system, engine_rpm)?.brake_power_per_engine)
 }
 
 /// Bracketed search of the pitch at which the curve passes through `target`.

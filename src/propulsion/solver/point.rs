@@ -11,13 +11,18 @@ use std::f64::consts::PI;
 use thiserror::Error;
 
 /// A solved operating point at one boat speed. SI units, rpm named as such.
+///
+/// On a twin-screw boat the screw, shaft and engine figures (thrust, n, Q, PD, rpm, load) are
+/// those of each driven screw and its engine, which all run alike; `brake_power` and the fuel
+/// flows are the boat's totals, with `brake_power_per_engine` and the `_per_engine` flows
+/// beside them. On a single screw the two agree.
 #[derive(Debug, Clone, Copy, PartialEq, serde::Serialize)]
 pub struct OperatingPoint {
     /// Boat speed through the water, m/s.
     pub speed: f64,
     /// Total resistance including margins, N.
     pub resistance: f64,
-    /// Required thrust T = R/(1−t), N.
+    /// Required thrust of each driven screw T = R/((1−t)·driven shafts), N.
     pub thrust: f64,
     /// Wake fraction w used.
     pub wake_fraction: f64,
@@ -37,24 +42,35 @@ pub struct OperatingPoint {
     pub open_water_efficiency: f64,
     /// Blade-section Reynolds number at 0.75R used for the correction (0 if none).
     pub reynolds: f64,
-    /// Screw speed, rev/s.
+    /// Shafts fitted (1 or 2).
+    pub shafts: u32,
+    /// Shafts driven by a running engine (1 or 2); the totals are this many times the
+    /// per-engine figures.
+    pub driven_shafts: u32,
+    /// Screw speed of each driven screw, rev/s.
     pub screw_rps: f64,
     /// Engine speed, rpm.
     pub engine_rpm: f64,
-    /// Screw torque Q, N·m.
+    /// Torque of each driven screw Q, N·m.
     pub torque: f64,
     /// Effective (towing) power R·V, W.
     pub effective_power: f64,
-    /// Delivered power at the screw PD = 2π·n·Q/ηR, W.
+    /// Delivered power at each driven screw PD = 2π·n·Q/ηR, W.
     pub delivered_power: f64,
-    /// Brake power at the engine PB = PD/(ηshaft·ηgear), W.
+    /// Brake power of the boat: every running engine's PB = PD/(ηshaft·ηgear) together, W.
     pub brake_power: f64,
-    /// Brake power as a fraction of full-load power at this rpm.
+    /// Brake power of each running engine PB = PD/(ηshaft·ηgear), W.
+    pub brake_power_per_engine: f64,
+    /// Each running engine's brake power as a fraction of its full-load power at this rpm.
     pub load_fraction: f64,
-    /// Fuel mass flow, kg/s.
+    /// Fuel mass flow of the boat (every running engine), kg/s.
     pub fuel_mass_flow: f64,
-    /// Fuel volume flow, m³/s.
+    /// Fuel volume flow of the boat (every running engine), m³/s.
     pub fuel_volume_flow: f64,
+    /// Fuel mass flow of each running engine, kg/s.
+    pub fuel_mass_flow_per_engine: f64,
+    /// Fuel volume flow of each running engine, m³/s.
+    pub fuel_volume_flow_per_engine: f64,
     /// Length Froude number V/√(g·LWL) of the point (0 when solved without a hull model).
     pub froude: f64,
     /// Whether the resistance method is valid at this speed (its Froude range and the
@@ -115,6 +131,9 @@ pub enum PointFailure {
         /// The value it came out as.
         value: f64,
     },
+    /// The interaction method does not fit the boat's shaft count.
+    #[error("{0}")]
+    InteractionForShafts(#[from] crate::propulsion::hull::interaction::InteractionShaftsError),
     /// The engine sheet is unusable.
     #[error("engine sheet: {0}")]
     Engine(#[from] crate::propulsion::engine::EngineError),
@@ -255,7 +274,7 @@ pub fn solve_with_resistance(
         relative_rotative_efficiency,
     } = interaction;
     if speed == 0.0 {
-        return Ok(OperatingPoint::at_rest(interaction));
+        return Ok(OperatingPoint::at_rest(interaction, drive.installation));
     }
     if !(resistance.is_finite() && resistance > 0.0) {
         return Err(PointFailure::Unphysical {
@@ -282,7 +301,9 @@ pub fn solve_with_resistance(
         });
     }
     let advance_speed = speed * (1.0 - wake_fraction);
-    let thrust = resistance / (1.0 - thrust_deduction);
+    // Each driven screw gives its share of R/(1 − t); the engines and screws are alike.
+    let driven_shafts = drive.installation.driven_shafts();
+    let thrust = resistance / ((1.0 - thrust_deduction) * f64::from(driven_shafts));
     let loading = thrust / (density * advance_speed * advance_speed * diameter * diameter);
 
     let chord = if drive.reynolds_correction && viscosity > 0.0 {
@@ -343,16 +364,22 @@ pub fn solve_with_resistance(
     let torque = kq * density * screw_rps * screw_rps * diameter.powi(5);
     let delivered_power = 2.0 * PI * screw_rps * torque / relative_rotative_efficiency;
     let installation = drive.installation;
-    let brake_power =
+    let brake_power_per_engine =
         delivered_power / (installation.shaft_efficiency * installation.gear_efficiency);
+    let engines = f64::from(driven_shafts);
     let engine_rpm = 60.0 * screw_rps * installation.gear_ratio;
     let full_load = drive.engine.full_load_power_at(engine_rpm);
     let load_fraction = if full_load > 0.0 {
-        brake_power / full_load
+        brake_power_per_engine / full_load
     } else {
         f64::INFINITY
     };
-    let fuel_mass_flow = drive.engine.fuel_mass_flow(engine_rpm, brake_power);
+    let fuel_mass_flow_per_engine = drive
+        .engine
+        .fuel_mass_flow(engine_rpm, brake_power_per_engine);
+    let fuel_volume_flow_per_engine = drive
+        .engine
+        .fuel_volume_flow(engine_rpm, brake_power_per_engine);
     let point = OperatingPoint {
         speed,
         resistance,
@@ -366,15 +393,20 @@ pub fn solve_with_resistance(
         torque_coefficient: kq,
         open_water_efficiency: coefficients.efficiency().unwrap_or(0.0),
         reynolds: reynolds.unwrap_or(0.0),
+        shafts: installation.shafts,
+        driven_shafts,
         screw_rps,
         engine_rpm,
         torque,
         effective_power: resistance * speed,
         delivered_power,
-        brake_power,
+        brake_power: engines * brake_power_per_engine,
+        brake_power_per_engine,
         load_fraction,
-        fuel_mass_flow,
-        fuel_volume_flow: drive.engine.fuel_volume_flow(engine_rpm, brake_power),
+        fuel_mass_flow: engines * fuel_mass_flow_per_engine,
+        fuel_volume_flow: engines * fuel_volume_flow_per_engine,
+        fuel_mass_flow_per_engine,
+        fuel_volume_flow_per_engine,
         froude: 0.0,
         in_method_range: true,
     };
@@ -438,7 +470,7 @@ fn check_interaction(interaction: &Interaction) -> Result<(), PointFailure> {
 
 impl OperatingPoint {
     /// The point of a boat at rest: every speed, force, power and flow 0.
-    fn at_rest(interaction: Interaction) -> Self {
+    fn at_rest(interaction: Interaction, installation: Installation) -> Self {
         Self {
             speed: 0.0,
             resistance: 0.0,
@@ -452,21 +484,36 @@ impl OperatingPoint {
             torque_coefficient: 0.0,
             open_water_efficiency: 0.0,
             reynolds: 0.0,
+            shafts: installation.shafts,
+            driven_shafts: installation.driven_shafts(),
             screw_rps: 0.0,
             engine_rpm: 0.0,
             torque: 0.0,
             effective_power: 0.0,
             delivered_power: 0.0,
             brake_power: 0.0,
+            brake_power_per_engine: 0.0,
             load_fraction: 0.0,
             fuel_mass_flow: 0.0,
             fuel_volume_flow: 0.0,
+            fuel_mass_flow_per_engine: 0.0,
+            fuel_volume_flow_per_engine: 0.0,
             froude: 0.0,
             in_method_range: true,
         }
     }
 
-    /// Thrust the screw gives at this point, KT·ρ·n²·D⁴, N (for checking the thrust identity).
+    /// Delivered power of the boat: every driven screw's PD together, W.
+    pub fn delivered_power_total(&self) -> f64 {
+        f64::from(self.driven_shafts) * self.delivered_power
+    }
+
+    /// Thrust of every driven screw together, N.
+    pub fn thrust_total(&self) -> f64 {
+        f64::from(self.driven_shafts) * self.thrust
+    }
+
+    /// Thrust each screw gives at this point, KT·ρ·n²·D⁴, N (for checking the thrust identity).
     pub fn screw_thrust(&self, density: f64, diameter: f64) -> f64 {
         self.thrust_coefficient * density * self.screw_rps.powi(2) * diameter.powi(4)
     }
@@ -487,9 +534,15 @@ impl OperatingPoint {
             ("effective power", self.effective_power),
             ("delivered power", self.delivered_power),
             ("brake power", self.brake_power),
+            ("brake power per engine", self.brake_power_per_engine),
             ("load fraction", self.load_fraction),
             ("fuel mass flow", self.fuel_mass_flow),
             ("fuel volume flow", self.fuel_volume_flow),
+            ("fuel mass flow per engine", self.fuel_mass_flow_per_engine),
+            (
+                "fuel volume flow per engine",
+                self.fuel_volume_flow_per_engine,
+            ),
         ];
         match fields.iter().find(|(_, value)| !value.is_finite()) {
             Some(&(quantity, value)) => Err(PointFailure::Unphysical {
@@ -510,6 +563,7 @@ pub fn solve_point(system: &System<'_>, speed: f64) -> Result<OperatingPoint, Po
     if !(speed.is_finite() && speed >= 0.0) {
         return Err(PointFailure::InvalidSpeed(speed));
     }
+    system.check_interaction_fits()?;
     let model = system.resistance;
     let interaction =
         system
@@ -634,6 +688,8 @@ mod tests {
         gear_ratio: 2.0,
         shaft_efficiency: 0.98,
         gear_efficiency: 0.97,
+        shafts: 1,
+        idle_shafts: 0,
     };
     const INTERACTION: Interaction = Interaction {
         wake_fraction: 0.2,
@@ -678,6 +734,57 @@ mod tests {
         // A table screw has no chord, so no Reynolds correction is made.
         assert_eq!(p.reynolds, 0.0);
         assert!((p.open_water_efficiency - j * (0.40 - 0.45 * j) / (2.0 * PI * kq)).abs() < 1e-9);
+    }
+
+    #[test]
+    fn twin_screws_each_run_like_one_screw_with_half_the_resistance() {
+        // The thrust identity of design §2.6 applied per screw (exact algebra): twice the
+        // resistance on two shafts turns each screw exactly as the single screw turns at the
+        // single resistance.
+        let (screw, engine) = (table_screw(), engine());
+        let single = Drive {
+            screw: &screw,
+            installation: GEAR,
+            engine: &engine,
+            water: SEA,
+            reynolds_correction: true,
+        };
+        let twin = Drive {
+            installation: Installation { shafts: 2, ..GEAR },
+            ..single
+        };
+        let one = solve_with_resistance(&single, 4.0, 5000.0, INTERACTION).unwrap();
+        let two = solve_with_resistance(&twin, 4.0, 10000.0, INTERACTION).unwrap();
+        let close = |a: f64, b: f64| (a - b).abs() <= 1e-9 * a.abs().max(1e-12);
+        assert!(close(one.thrust, two.thrust));
+        assert!(close(one.engine_rpm, two.engine_rpm));
+        assert!(close(one.torque, two.torque));
+        assert!(close(
+            one.brake_power_per_engine,
+            two.brake_power_per_engine
+        ));
+        assert!(close(one.load_fraction, two.load_fraction));
+        assert!(close(2.0 * one.brake_power, two.brake_power));
+        assert!(close(2.0 * one.fuel_volume_flow, two.fuel_volume_flow));
+        assert!(close(one.fuel_volume_flow, two.fuel_volume_flow_per_engine));
+        assert!(close(
+            2.0 * one.delivered_power_total(),
+            two.delivered_power_total()
+        ));
+        assert_eq!((two.shafts, two.driven_shafts), (2, 2));
+        // One engine out: the one running screw carries all of R/(1 − t).
+        let one_out = Drive {
+            installation: Installation {
+                shafts: 2,
+                idle_shafts: 1,
+                ..GEAR
+            },
+            ..single
+        };
+        let alone = solve_with_resistance(&one_out, 4.0, 10000.0, INTERACTION).unwrap();
+        assert!(close(alone.thrust, 10000.0 / 0.85));
+        assert!(close(alone.brake_power, alone.brake_power_per_engine));
+        assert!(alone.load_fraction > two.load_fraction);
     }
 
     #[test]

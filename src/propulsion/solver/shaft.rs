@@ -198,6 +198,10 @@ pub fn min_shaft_diameter(
 
 /// Checks the shaft: torque the engine and gear put on it, the smallest diameter for
 /// `material` and `safety_factor`, and a warning when `existing_diameter` (m) is smaller.
+///
+/// The check is per shaft: each shaft carries the torque of its own engine through its own
+/// gear, so on a twin-screw boat (same engine sheet and gear on both) it holds for each shaft
+/// and the shaft count does not enter.
 pub fn check_shaft(
     engine: &EngineSheet,
     installation: &Installation,

@@ -397,8 +397,10 @@ fn evaluate_candidate(
             candidate.top_speed_in_method_range = Some(m.top_speed_in_method_range);
             candidate.meeting_rpm = Some(m.meeting_rpm);
             candidate.open_water_efficiency_at_top = Some(m.top_point.open_water_efficiency);
-            candidate.propulsive_efficiency_at_top =
-                propulsive(m.top_point.effective_power, m.top_point.delivered_power);
+            candidate.propulsive_efficiency_at_top = propulsive(
+                m.top_point.effective_power,
+                m.top_point.delivered_power_total(),
+            );
         }
         Err(e) => problems.push(format!("top speed: {e}")),
     }
@@ -406,7 +408,7 @@ fn evaluate_candidate(
         Ok(c) => {
             candidate.open_water_efficiency_at_target = Some(c.point.open_water_efficiency);
             candidate.propulsive_efficiency_at_target =
-                propulsive(c.point.effective_power, c.point.delivered_power);
+                propulsive(c.point.effective_power, c.point.delivered_power_total());
             candidate.fuel_per_distance_at_target = Some(c.fuel_per_distance);
             if c.beyond_full_load {
                 problems

@@ -74,7 +74,8 @@ impl Vessel {
         let alternative = self.method_choice.as_ref()?.alternative.clone()?;
         let mut other = self.clone();
         if self.interaction_follows_method {
-            other.interaction = InteractionMethod::paired_with(&alternative);
+            other.interaction =
+                InteractionMethod::paired_with_shafts(&alternative, self.installation.shafts);
         }
         other.resistance.method = alternative.clone();
         other.method_choice = None;

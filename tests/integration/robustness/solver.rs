@@ -247,6 +247,8 @@ fn boat(
                         gear_ratio,
                         shaft_efficiency,
                         gear_efficiency,
+                        shafts: 1,
+                        idle_shafts: 0,
                     },
                     engine: engine(kw_per_tonne * tonnes, rated_rpm, sfc, zero_load),
                     reynolds_correction,
