@@ -218,6 +218,12 @@ pub struct InstallationDoc {
     pub max_screw_diameter: Option<Quantity>,
     /// Tip clearance to the hull kept when sizing the screw, m.
     pub tip_clearance: Option<Quantity>,
+    /// Number of shafts: 1 (single screw) or 2 (twin screw: the same engine sheet, gear and
+    /// screw variant on both, handed; a variant's `rotation` is the starboard screw's hand).
+    pub shafts: u32,
+    /// Depth of the port shaft's centreline when it differs from `shaft_immersion` (the
+    /// starboard one's), m; twin screw only.
+    pub port_shaft_immersion: Option<Quantity>,
 }
 
 /// One screw variant.

@@ -5,6 +5,10 @@
 pub const BOATS: &[(&str, &str)] = &[
     ("marram", include_str!("../../profiles/boats/marram.toml")),
     ("pintle", include_str!("../../profiles/boats/pintle.toml")),
+    (
+        "samphire",
+        include_str!("../../profiles/boats/samphire.toml"),
+    ),
     ("sorrel", include_str!("../../profiles/boats/sorrel.toml")),
 ];
 

@@ -416,7 +416,10 @@ fn an_interrupted_save_leaves_the_old_file_intact() {
         .unwrap();
     std::io::Write::write_all(&mut stray, doc.to_toml().as_bytes()).unwrap();
     let _kept = stray.keep().unwrap();
-    assert_eq!(store.list_boats().unwrap(), ["marram", "pintle", "sorrel"]);
+    assert_eq!(
+        store.list_boats().unwrap(),
+        ["marram", "pintle", "samphire", "sorrel"]
+    );
     assert_eq!(store.load_boat("marram").unwrap().doc, loaded.doc);
     // The completed save replaces the file and keeps the old one as a backup.
     let saved = store
@@ -471,7 +474,7 @@ fn init_never_overwrites_and_boats_resolve_by_name_or_path() {
     std::fs::write(dir.path().join("boats/marram.toml"), mine).unwrap();
     let report = store.init().unwrap();
     assert_eq!(report.kept, [dir.path().join("boats/marram.toml")]);
-    assert_eq!(report.created.len(), 5);
+    assert_eq!(report.created.len(), 6);
     assert_eq!(
         std::fs::read_to_string(dir.path().join("boats/marram.toml")).unwrap(),
         mine

@@ -159,6 +159,10 @@ pub(super) struct RawInstallation {
     pub(super) max_screw_diameter: Option<Spanned<String>>,
     #[serde(default, skip_serializing_if = "Option::is_none")]
     pub(super) tip_clearance: Option<Spanned<String>>,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub(super) shafts: Option<Spanned<i64>>,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub(super) port_shaft_immersion: Option<Spanned<String>>,
 }
 
 #[derive(Debug, Deserialize, Serialize)]

@@ -168,6 +168,22 @@ impl BoatDoc {
                 &inst.tip_clearance,
                 Kind::ScrewLength,
             )?,
+            shafts: match &inst.shafts {
+                None => 1,
+                Some(raw) => {
+                    let count = *raw.get_ref();
+                    r.num(
+                        "installation.shafts",
+                        &toml::Spanned::new(raw.span(), count as f64),
+                    );
+                    u32::try_from(count).unwrap_or(0)
+                }
+            },
+            port_shaft_immersion: r.opt_qty(
+                "installation.port_shaft_immersion",
+                &inst.port_shaft_immersion,
+                Kind::Length,
+            )?,
         };
         let mut variants = Vec::with_capacity(raw.variant.len());
         for (i, v) in raw.variant.iter().enumerate() {

@@ -235,6 +235,39 @@ impl BoatDoc {
             &inst.tip_clearance,
             "clearance",
         );
+        if !(1..=2).contains(&inst.shafts) {
+            v.push(
+                "installation.shafts",
+                inst.shafts.to_string(),
+                "expected 1 (single screw) or 2 (twin screw)",
+            );
+        }
+        v.opt_positive(
+            "installation.port_shaft_immersion",
+            &inst.port_shaft_immersion,
+            "depth",
+        );
+        if inst.shafts == 2 {
+            let single_only = match self.interaction {
+                InteractionDoc::VanOortmerssen => Some("van-oortmerssen"),
+                InteractionDoc::Taylor => Some("taylor"),
+                _ => None,
+            };
+            if let Some(name) = single_only {
+                v.push(
+                    "interaction.method",
+                    format!("{name:?}"),
+                    "a method for a twin-screw boat: this one is fitted to single screws; use \
+                     \"holtrop-1984\" (its twin-screw formulas), \"auto\" or user values",
+                );
+            }
+        } else if inst.port_shaft_immersion.is_some() {
+            v.push(
+                "installation.port_shaft_immersion",
+                "given",
+                "only with shafts = 2 (a single-screw boat has one shaft immersion)",
+            );
+        }
         if let Some(m) = &inst.shaft_material
             && m.trim().is_empty()
         {

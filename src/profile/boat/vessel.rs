@@ -112,8 +112,14 @@ impl BoatDoc {
         };
         let interaction_follows = matches!(self.interaction, InteractionDoc::Auto);
         let mut interaction = match self.interaction {
-            InteractionDoc::Auto => InteractionMethod::paired_with(&resistance.method),
+            InteractionDoc::Auto => {
+                InteractionMethod::paired_with_shafts(&resistance.method, self.installation.shafts)
+            }
             InteractionDoc::VanOortmerssen => InteractionMethod::VanOortmerssen,
+            // "holtrop-1984" means the paper's formulas for the boat's number of shafts.
+            InteractionDoc::Holtrop1984 if self.installation.shafts == 2 => {
+                InteractionMethod::Holtrop1984TwinScrew
+            }
             InteractionDoc::Holtrop1984 => InteractionMethod::Holtrop1984SingleScrew,
             InteractionDoc::Taylor => InteractionMethod::Taylor,
             InteractionDoc::User {
@@ -214,7 +220,7 @@ impl BoatDoc {
                 gear_ratio: self.installation.gear_ratio,
                 shaft_efficiency: self.installation.shaft_efficiency,
                 gear_efficiency: self.installation.gear_efficiency,
-                shafts: 1,
+                shafts: self.installation.shafts,
                 idle_shafts: 0,
             },
             engine: engine_sheet,

@@ -122,6 +122,10 @@ impl BoatDoc {
                 shaft_material: inst.shaft_material.as_deref().map(out_text),
                 max_screw_diameter: oq(&inst.max_screw_diameter, Kind::ScrewLength),
                 tip_clearance: oq(&inst.tip_clearance, Kind::ScrewLength),
+                // A single screw is the default and is not written.
+                shafts: (inst.shafts != 1)
+                    .then(|| toml::Spanned::new(0..0, i64::from(inst.shafts))),
+                port_shaft_immersion: oq(&inst.port_shaft_immersion, Kind::Length),
             },
             trip: RawTrip {
                 target_speed: out(&self.trip.target_speed, Kind::Speed, s),
