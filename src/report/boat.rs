@@ -3,20 +3,15 @@
 use serde::Serialize;
 
 use super::checks::{AppliedCalibration, CavitationJson, CheckInputs, DesignChecks, ShaftJson};
-use super::json::finite;
 use super::table::{Column, Table};
 use super::{CAUTION, Display, KNOT_MPS, LITRE_M3, NAUTICAL_MILE_M, percent};
 use crate::propulsion::engine::Duty;
-use crate::propulsion::hull::interaction::small_craft_warning;
 use crate::propulsion::screw::ScrewGeometry;
-use crate::propulsion::solver::cruise::{cruise_at_rpm, cruise_at_speed};
-use crate::propulsion::solver::matching::match_engine;
-use crate::propulsion::solver::shaft::duty_note;
 use crate::propulsion::solver::{CruisePoint, MatchResult, MethodSpread, Trip, Verdict, Vessel};
+use crate::study::solve::{BadStep, SolveOptions, VariantSolution, solve_variant};
 use crate::units::{Kind, UnitSystem};
 
-/// More rows than this in one operating table is a mistake in the step.
-const MAX_ROWS: usize = 400;
+pub use crate::study::solve::{RpmRow, default_step, rpm_steps};
 
 /// Why a report could not be built.
 #[derive(Debug, Clone, PartialEq, thiserror::Error)]
@@ -53,35 +48,8 @@ pub struct EngineSummary {
     pub full_throttle_limit: Option<f64>,
 }
 
-/// One row of an operating table: an engine rpm and the cruise point there, or why not.
-#[derive(Debug, Clone, PartialEq)]
-pub struct RpmRow {
-    /// Engine speed asked for, rpm.
-    pub engine_rpm: f64,
-    /// The point, or the solver's reason for not giving one.
-    pub outcome: Result<CruisePoint, String>,
-}
-
-/// Everything the report shows for one screw variant.
-#[derive(Debug, Clone, PartialEq)]
-pub struct VariantReport {
-    /// The variant's label.
-    pub label: String,
-    /// Its geometry.
-    pub geometry: ScrewGeometry,
-    /// The operating table.
-    pub rows: Vec<RpmRow>,
-    /// The match against the engine, or why it failed.
-    pub matching: Result<MatchResult, String>,
-    /// The cruise point at the trip's target speed, or why it failed.
-    pub target: Result<CruisePoint, String>,
-    /// The engine sheet's duty rating beside the load at the target speed, if solved.
-    pub duty: Option<String>,
-    /// Set when the screw is outside its model's validity range: its results are extrapolated.
-    pub extrapolated: bool,
-    /// The chosen and the alternative resistance method side by side, when both run.
-    pub method_spread: Option<MethodSpread>,
-}
+/// Everything the report shows for one screw variant: the study's solution of it.
+pub type VariantReport = VariantSolution;
 
 /// Which resistance and interaction methods were used, and why.
 #[derive(Debug, Clone, PartialEq, Serialize)]
@@ -157,34 +125,6 @@ pub struct BoatReport {
     pub methods: MethodSummary,
 }
 
-/// A round rpm step giving about ten rows between idle and rated.
-pub fn default_step(idle_rpm: f64, rated_rpm: f64) -> f64 {
-    let span = (rated_rpm - idle_rpm).max(1.0);
-    [25.0, 50.0, 100.0, 200.0, 250.0, 500.0, 1000.0]
-        .into_iter()
-        .find(|s| span / s <= 14.0)
-        .unwrap_or(1000.0)
-}
-
-/// Engine speeds from idle to rated in `step`: the round multiples of the step plus both ends.
-pub fn rpm_steps(idle_rpm: f64, rated_rpm: f64, step: f64) -> Result<Vec<f64>, ReportError> {
-    if !(step.is_finite() && step > 0.0) || (rated_rpm - idle_rpm) / step > MAX_ROWS as f64 {
-        return Err(ReportError::BadStep(step));
-    }
-    let mut steps = vec![idle_rpm];
-    let mut k = (idle_rpm / step).floor() + 1.0;
-    while k * step < rated_rpm - 1e-6 {
-        if k * step > idle_rpm + 1e-6 {
-            steps.push(k * step);
-        }
-        k += 1.0;
-    }
-    if rated_rpm > idle_rpm {
-        steps.push(rated_rpm);
-    }
-    Ok(steps)
-}
-
 /// The loud warning when a variant's full-throttle point lies outside the resistance method.
 pub fn full_throttle_warning(label: &str, m: &MatchResult, method: &str, reason: &str) -> String {
     format!(
@@ -192,43 +132,6 @@ pub fn full_throttle_warning(label: &str, m: &MatchResult, method: &str, reason:
         m.meeting_rpm,
         m.top_speed / KNOT_MPS
     )
-}
-
-/// The reason a cruise point cannot be shown, if any of its numbers is not finite.
-fn checked(point: CruisePoint) -> Result<CruisePoint, String> {
-    let p = &point.point;
-    for (value, field) in [
-        (p.speed, "speed"),
-        (p.resistance, "resistance"),
-        (p.thrust, "thrust"),
-        (p.advance_ratio, "advance ratio"),
-        (p.thrust_coefficient, "KT"),
-        (p.torque_coefficient, "KQ"),
-        (p.open_water_efficiency, "open-water efficiency"),
-        (p.screw_rps, "screw speed"),
-        (p.engine_rpm, "engine speed"),
-        (p.delivered_power, "delivered power"),
-        (p.brake_power, "brake power"),
-        (p.load_fraction, "engine load"),
-        (p.fuel_volume_flow, "fuel rate"),
-        (point.fuel_per_distance, "fuel per distance"),
-        (point.range, "range"),
-    ] {
-        finite(value, field).map_err(|e| format!("not shown: {e}"))?;
-    }
-    Ok(point)
-}
-
-fn checked_match(m: MatchResult) -> Result<MatchResult, String> {
-    for (value, field) in [
-        (m.meeting_rpm, "meeting rpm"),
-        (m.top_speed, "top speed"),
-        (m.absorbed_fraction_at_rated, "power absorbed at rated rpm"),
-        (m.rpm_margin, "rpm margin"),
-    ] {
-        finite(value, field).map_err(|e| format!("match not shown: {e}"))?;
-    }
-    Ok(m)
 }
 
 impl BoatReport {
@@ -242,7 +145,24 @@ impl BoatReport {
         let indices = variant_indices(vessel, variant)?;
         let engine = &vessel.engine;
         let step = step_rpm.unwrap_or_else(|| default_step(engine.idle_rpm, engine.rated_rpm));
-        let rpms = rpm_steps(engine.idle_rpm, engine.rated_rpm, step)?;
+        let rpms = rpm_steps(engine.idle_rpm, engine.rated_rpm, step)
+            .map_err(|BadStep(step)| ReportError::BadStep(step))?;
+        let options = SolveOptions::table(rpms);
+        let variants = indices
+            .iter()
+            .map(|&i| solve_variant(vessel, i, &options))
+            .collect();
+        Ok(Self::of_solutions(vessel, variants, extra_warnings))
+    }
+
+    /// The report of `variants` of `vessel`, already solved by the study; `extra_warnings` lead
+    /// the core's.
+    pub fn of_solutions(
+        vessel: &Vessel,
+        variants: Vec<VariantSolution>,
+        extra_warnings: &[String],
+    ) -> Self {
+        let engine = &vessel.engine;
         let mut warnings: Vec<String> = extra_warnings.to_vec();
         let mut add = |w: String| {
             if !warnings.contains(&w) {
@@ -263,40 +183,15 @@ impl BoatReport {
             Ok(ws) => ws.iter().for_each(|w| add(w.to_string())),
             Err(e) => add(format!("engine sheet {}: {e}", engine.name)),
         }
-        let mut variants = Vec::with_capacity(indices.len());
         let mut full_throttle_warnings = Vec::new();
-        for index in indices {
-            let v = &vessel.variants[index];
-            v.screw
-                .warnings()
+        for v in &variants {
+            v.warnings
                 .iter()
                 .for_each(|w| add(format!("{}: {w}", v.label)));
-            let system = vessel.system(index);
-            let factors = vessel.interaction.at_speed(
-                &vessel.resistance.hull,
-                &vessel.resistance.water,
-                &system.screw_at_stern(),
-                vessel.trip.target_speed,
-            );
-            if let Some(w) = small_craft_warning(&vessel.interaction, &factors) {
+            if let Some(w) = &v.interaction_warning {
                 add(format!("{}: {w}", v.label));
             }
-            let rows = rpms
-                .iter()
-                .map(|&rpm| RpmRow {
-                    engine_rpm: rpm,
-                    outcome: cruise_at_rpm(&system, &vessel.trip, rpm)
-                        .map_err(|e| e.to_string())
-                        .and_then(checked),
-                })
-                .collect();
-            let matching = match_engine(&system, &vessel.match_criteria)
-                .map_err(|e| e.to_string())
-                .and_then(checked_match);
-            let target = cruise_at_speed(&system, &vessel.trip, vessel.trip.target_speed)
-                .map_err(|e| e.to_string())
-                .and_then(checked);
-            if let Ok(m) = &matching
+            if let Ok(m) = &v.matched
                 && let Some(reason) = m.top_validity.reason()
             {
                 full_throttle_warnings.push(full_throttle_warning(
@@ -306,20 +201,6 @@ impl BoatReport {
                     &reason,
                 ));
             }
-            let duty = target
-                .as_ref()
-                .ok()
-                .map(|c| duty_note(engine, c.point.engine_rpm, c.point.brake_power));
-            variants.push(VariantReport {
-                label: v.label.clone(),
-                geometry: *v.screw.geometry(),
-                rows,
-                matching,
-                target,
-                duty,
-                extrapolated: !v.screw.warnings().is_empty(),
-                method_spread: vessel.method_spread(index),
-            });
         }
         // The full-throttle warnings lead: the pitch is decided there.
         for w in full_throttle_warnings.into_iter().rev() {
@@ -327,7 +208,7 @@ impl BoatReport {
                 warnings.insert(0, w);
             }
         }
-        Ok(Self {
+        Self {
             boat: vessel.name.clone(),
             engine: EngineSummary {
                 name: engine.name.clone(),
@@ -343,7 +224,7 @@ impl BoatReport {
             calibration: None,
             checks: None,
             methods: MethodSummary::of(vessel),
-        })
+        }
     }
 
     /// The report with the sea-trial correction it was solved with, shown wherever it is.
@@ -525,25 +406,7 @@ impl BoatReport {
             all.rows.extend(table.rows);
         }
         if all.columns.is_empty() {
-            all = operating_table(
-                &VariantReport {
-                    label: String::new(),
-                    geometry: ScrewGeometry {
-                        blades: 0,
-                        diameter: 0.0,
-                        pitch: 0.0,
-                        area_ratio: 0.0,
-                    },
-                    rows: vec![],
-                    matching: Err(String::new()),
-                    target: Err(String::new()),
-                    duty: None,
-                    extrapolated: false,
-                    method_spread: None,
-                },
-                &d,
-                true,
-            );
+            all = Table::new(operating_columns(&d, true));
         }
         all.to_csv()
     }
@@ -583,7 +446,7 @@ impl BoatReport {
                         area_ratio: v.geometry.area_ratio,
                         points,
                         unsolved,
-                        matching: v.matching.as_ref().ok().map(|m| MatchJson {
+                        matching: v.matched.as_ref().ok().map(|m| MatchJson {
                             meeting_rpm: m.meeting_rpm,
                             top_speed_kn: m.top_speed / KNOT_MPS,
                             absorbed_pct_at_rated: m.absorbed_fraction_at_rated * 100.0,
@@ -594,9 +457,9 @@ impl BoatReport {
                             top_speed_in_method_range: m.top_speed_in_method_range,
                             top_speed_unreliable_because: m.top_validity.reason(),
                         }),
-                        match_error: v.matching.as_ref().err().cloned(),
-                        cruise: v.target.as_ref().ok().map(PointJson::from),
-                        cruise_error: v.target.as_ref().err().cloned(),
+                        match_error: v.matched.as_ref().err().cloned(),
+                        cruise: v.cruise.as_ref().ok().map(PointJson::from),
+                        cruise_error: v.cruise.as_ref().err().cloned(),
                         duty_note: v.duty.clone(),
                         method_spread: v.method_spread.clone(),
                         cavitation: self
@@ -699,22 +562,7 @@ pub fn screw_spec(g: &ScrewGeometry, d: &Display) -> String {
 
 /// The operating table of one variant; with `with_label` a first column names the variant.
 pub fn operating_table(v: &VariantReport, d: &Display, with_label: bool) -> Table {
-    let mut columns = Vec::new();
-    if with_label {
-        columns.push(Column::text("variant"));
-    }
-    columns.extend([
-        Column::number("engine", "rpm"),
-        Column::number("screw", "rpm"),
-        Column::number("speed", &d.unit(Kind::Speed)),
-        Column::number("power", &d.unit(Kind::Power)),
-        Column::number("load", "%"),
-        Column::number("fuel/h", &d.unit(Kind::FuelRate)),
-        Column::number("fuel/nm", &d.unit(Kind::FuelPerDistance)),
-        Column::number("range", &d.unit(Kind::Distance)),
-        Column::text("note"),
-    ]);
-    let mut table = Table::new(columns);
+    let mut table = Table::new(operating_columns(d, with_label));
     let imperial = d.system == UnitSystem::Imperial;
     // A run of unsolvable rows says why once, on its first row.
     let mut previous_failed = false;
@@ -760,6 +608,26 @@ pub fn operating_table(v: &VariantReport, d: &Display, with_label: bool) -> Tabl
         table.push(cells);
     }
     table
+}
+
+/// The columns of an operating table; with `with_label` a first column names the variant.
+fn operating_columns(d: &Display, with_label: bool) -> Vec<Column> {
+    let mut columns = Vec::new();
+    if with_label {
+        columns.push(Column::text("variant"));
+    }
+    columns.extend([
+        Column::number("engine", "rpm"),
+        Column::number("screw", "rpm"),
+        Column::number("speed", &d.unit(Kind::Speed)),
+        Column::number("power", &d.unit(Kind::Power)),
+        Column::number("load", "%"),
+        Column::number("fuel/h", &d.unit(Kind::FuelRate)),
+        Column::number("fuel/nm", &d.unit(Kind::FuelPerDistance)),
+        Column::number("range", &d.unit(Kind::Distance)),
+        Column::text("note"),
+    ]);
+    columns
 }
 
 /// The note of one operating row: past full load, outside the method's range, or empty.
@@ -826,7 +694,7 @@ pub fn signed_rpm(rpm: f64) -> String {
 
 /// "Match: over-propped — …" for one variant.
 pub fn match_line(v: &VariantReport, d: &Display, rated_rpm: f64) -> String {
-    let line = match &v.matching {
+    let line = match &v.matched {
         Ok(m) => {
             let top_speed = if m.top_speed_in_method_range {
                 d.quantity(m.top_speed, Kind::Speed)
@@ -861,7 +729,7 @@ pub fn target_line(
     engine: &EngineSummary,
 ) -> String {
     let at = d.quantity(target_speed, Kind::Speed);
-    match &v.target {
+    match &v.cruise {
         Ok(c) => {
             let mut line = format!("At {at}: {}", cruise_summary(c, d));
             if !c.point.in_method_range {
@@ -1070,29 +938,4 @@ pub struct MatchJson {
     pub top_speed_in_method_range: bool,
     /// Why the top speed is unreliable, or null.
     pub top_speed_unreliable_because: Option<String>,
-}
-
-#[cfg(test)]
-mod tests {
-    use super::*;
-
-    #[test]
-    fn steps_run_from_idle_to_rated_on_round_numbers() {
-        let s = rpm_steps(750.0, 2600.0, 200.0).unwrap();
-        assert_eq!(s.first(), Some(&750.0));
-        assert_eq!(s[1], 800.0);
-        assert_eq!(s.last(), Some(&2600.0));
-        assert!(s.windows(2).all(|w| w[1] > w[0]));
-        assert_eq!(rpm_steps(800.0, 2600.0, 200.0).unwrap()[1], 1000.0);
-        assert!(rpm_steps(800.0, 2600.0, 0.0).is_err());
-        assert!(rpm_steps(800.0, 2600.0, f64::NAN).is_err());
-        assert!(rpm_steps(800.0, 2600.0, 0.5).is_err());
-    }
-
-    #[test]
-    fn default_step_gives_a_readable_table() {
-        assert_eq!(default_step(700.0, 2600.0), 200.0);
-        assert_eq!(default_step(600.0, 1800.0), 100.0);
-        assert_eq!(default_step(900.0, 3800.0), 250.0);
-    }
 }

@@ -69,10 +69,10 @@ impl DesignChecks {
                 .iter()
                 .map(|v| {
                     let mut rows = Vec::new();
-                    if let Ok(c) = &v.target {
+                    if let Ok(c) = &v.cruise {
                         rows.push((CheckPoint::Target, c.point));
                     }
-                    if let Ok(m) = &v.matching {
+                    if let Ok(m) = &v.matched {
                         rows.push((CheckPoint::Top, m.top_point));
                     }
                     VariantChecks {

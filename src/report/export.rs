@@ -92,7 +92,7 @@ pub fn charts(vessel: &Vessel, curves: &BoatReport, system: UnitSystem) -> Vec<(
     let meeting: Vec<(f64, f64)> = curves
         .variants
         .iter()
-        .filter_map(|v| v.matching.as_ref().ok())
+        .filter_map(|v| v.matched.as_ref().ok())
         .map(|m| {
             (
                 m.meeting_rpm,
