@@ -7,11 +7,14 @@
 pub mod boat;
 pub mod checks;
 pub mod design;
+pub mod documents;
 pub mod export;
 pub mod json;
+pub mod model;
 pub mod openwater;
 pub mod svg;
 pub mod table;
+pub mod text;
 pub mod what_if;
 
 use crate::units::{self, Kind, UnitSystem};

@@ -9,8 +9,9 @@ use super::{
     parse_rpm, variant_or_active,
 };
 use crate::propulsion::solver::cruise::{cruise_at_rpm, cruise_at_speed};
-use crate::report::boat::{BoatReport, PointJson, cruise_summary};
+use crate::report::documents::{cruise_json, cruise_line};
 use crate::report::export::{design_sections, export as export_files};
+use crate::report::model::BoatReport;
 use crate::report::{CAUTION, Display, json};
 use crate::units::{self, Kind};
 
@@ -28,15 +29,8 @@ pub fn report(ctx: &Context, args: &ReportArgs, out: &mut dyn Write) -> anyhow::
         .as_deref()
         .map(|s| parse_rpm(s, "--step"))
         .transpose()?;
-    let report = BoatReport::build(
-        &study.vessel,
-        args.variant.as_deref(),
-        step,
-        &study.estimated,
-    )
-    .map_err(|e| UsageError(e.to_string()))?
-    .with_calibration(study.calibration.clone())
-    .with_checks(&study.vessel, &study.inputs);
+    let report = BoatReport::of_study(&study, args.variant.as_deref(), step)
+        .map_err(|e| UsageError(e.to_string()))?;
     let text = match args.format {
         ReportFormat::Text => report.to_text(study.units),
         ReportFormat::Csv => report.to_csv(study.units),
@@ -45,17 +39,6 @@ pub fn report(ctx: &Context, args: &ReportArgs, out: &mut dyn Write) -> anyhow::
     };
     out.write_all(text.as_bytes())?;
     Ok(())
-}
-
-/// The JSON document of `cruise`.
-#[derive(Debug, serde::Serialize)]
-struct CruiseJson<'a> {
-    boat: &'a str,
-    variant: &'a str,
-    #[serde(flatten)]
-    point: PointJson,
-    calibration: Option<crate::report::checks::AppliedCalibration>,
-    caution: &'static str,
 }
 
 /// `cruise BOAT --speed S | --rpm N`.
@@ -85,51 +68,19 @@ pub fn cruise(ctx: &Context, args: &CruiseArgs, out: &mut dyn Write) -> anyhow::
             vessel.name, vessel.variants[index].label
         )
     })?;
-    let json_point = PointJson::from(&point);
-    let all_finite = [
-        json_point.engine_rpm,
-        json_point.speed_kn,
-        json_point.brake_kw,
-        json_point.load_pct,
-        json_point.fuel_lph,
-        json_point.fuel_l_per_nm,
-        json_point.range_nm,
-    ]
-    .iter()
-    .all(|v| v.is_finite());
-    if !all_finite {
+    let Some(doc) = cruise_json(&study, index, &point) else {
         anyhow::bail!(
             "the cruise point of {} has a value that is not a finite number",
             vessel.name
         );
-    }
+    };
     match args.format {
         PlainFormat::Text => {
-            let d = Display::new(study.units);
-            let mut line = cruise_summary(&point, &d);
-            if point.beyond_full_load {
-                line.push_str(" — past the engine's full-load curve: not reachable");
-            }
-            if !point.point.in_method_range {
-                line.push_str(&format!(
-                    " — UNRELIABLE: Fn {:.2}, outside the resistance method's range; a sea trial decides",
-                    point.point.froude
-                ));
-            }
-            writeln!(out, "{line}")?;
+            writeln!(out, "{}", cruise_line(&point, &Display::new(study.units)))?;
             writeln!(out, "{}", study.calibration_line())?;
             writeln!(out, "Caution: {CAUTION}")?;
         }
-        PlainFormat::Json => {
-            let doc = CruiseJson {
-                boat: &vessel.name,
-                variant: &vessel.variants[index].label,
-                point: json_point,
-                calibration: study.calibration.clone(),
-                caution: CAUTION,
-            };
-            out.write_all(json::to_string(&doc)?.as_bytes())?;
-        }
+        PlainFormat::Json => out.write_all(json::to_string(&doc)?.as_bytes())?,
     }
     Ok(())
 }
@@ -138,12 +89,10 @@ pub fn cruise(ctx: &Context, args: &CruiseArgs, out: &mut dyn Write) -> anyhow::
 pub fn export(ctx: &Context, args: &ExportArgs, out: &mut dyn Write) -> anyhow::Result<()> {
     let study = load_study(ctx, &args.boat)?;
     let vessel = &study.vessel;
-    let report = BoatReport::build(vessel, None, None, &study.estimated)?
-        .with_calibration(study.calibration.clone())
-        .with_checks(vessel, &study.inputs);
+    let report = BoatReport::of_study(&study, None, None)?;
     let engine = &vessel.engine;
     let fine_step = ((engine.rated_rpm - engine.idle_rpm) / CHART_STEPS).max(1.0);
-    let curves = BoatReport::build(vessel, None, Some(fine_step), &[])?;
+    let curves = BoatReport::curves_of_study(&study, fine_step)?;
     let sections = design_sections(&study, &Display::new(study.units));
     let files = export_files(vessel, &report, &curves, &sections, study.units);
     std::fs::create_dir_all(&args.out)

@@ -2,9 +2,6 @@
 
 use std::io::Write;
 
-use anyhow::Context as _;
-use serde::Serialize;
-
 use super::{
     Context, DesignArgs, PitchArgs, PlainFormat, RankBy, SweepArgs, SweepOver, UsageError,
     load_study, variant_or_active, variants_or_all,
@@ -14,13 +11,13 @@ use crate::profile::store::{Saved, save_boat_file};
 use crate::propulsion::solver::pitch::{PitchOptions, PitchTarget, RepitchLimit};
 use crate::propulsion::solver::sweep::{RankCriterion, SweepOptions, SweepParameter};
 use crate::propulsion::solver::trial::Calibration;
-use crate::report::design::{
-    PitchJson, comparison_text, finite_or_none, pitch_text, sweep_text, trial_text,
-};
-use crate::report::{CAUTION, Display, KNOT_MPS, json};
+use crate::report::design::{comparison_text, pitch_text, sweep_text, trial_text};
+use crate::report::documents::{pitch_json, sweep_json, trial_json};
+use crate::report::{CAUTION, Display, json};
 use crate::study::Study;
 use crate::study::design::{FittedBy, SweepInputError, SweepOver as Axis};
 use crate::units::Kind;
+use anyhow::Context as _;
 
 /// The pitch options of the command line for `study`; a `--light-running` of 0 or more also
 /// becomes the boat's light-running margin, so the verdict's band follows the target asked for.
@@ -85,20 +82,7 @@ pub fn pitch(ctx: &Context, args: &PitchArgs, out: &mut dyn Write) -> anyhow::Re
     let recs = study.recommendations(&indices, &options)?;
     match args.format {
         PlainFormat::Json => {
-            #[derive(Serialize)]
-            struct Doc {
-                boat: String,
-                calibration: Option<crate::report::checks::AppliedCalibration>,
-                variants: Vec<PitchJson>,
-                caution: &'static str,
-            }
-            let doc = Doc {
-                boat: study.vessel.name.clone(),
-                calibration: study.calibration.clone(),
-                variants: recs.iter().map(PitchJson::from).collect(),
-                caution: CAUTION,
-            };
-            out.write_all(json::to_string(&doc)?.as_bytes())?;
+            out.write_all(json::to_string(&pitch_json(&study, &recs))?.as_bytes())?;
         }
         PlainFormat::Text => {
             let d = Display::new(study.units);
@@ -152,26 +136,6 @@ fn sweep_parameter(
         })
 }
 
-/// One candidate in JSON.
-#[derive(Debug, Serialize)]
-struct CandidateJson {
-    rank: usize,
-    value: f64,
-    blades: u32,
-    diameter_m: f64,
-    area_ratio: f64,
-    gear_ratio: f64,
-    pitch_m: Option<f64>,
-    top_speed_kn: Option<f64>,
-    top_speed_in_method_range: Option<bool>,
-    meeting_rpm: Option<f64>,
-    eta0_at_target: Option<f64>,
-    eta0_at_top: Option<f64>,
-    propulsive_efficiency_at_target: Option<f64>,
-    fuel_l_per_nm_at_target: Option<f64>,
-    problem: Option<String>,
-}
-
 /// `sweep BOAT`.
 pub fn sweep(ctx: &Context, args: &SweepArgs, out: &mut dyn Write) -> anyhow::Result<()> {
     let study = load_study(ctx, &args.boat)?;
@@ -190,55 +154,7 @@ pub fn sweep(ctx: &Context, args: &SweepArgs, out: &mut dyn Write) -> anyhow::Re
     let label = &study.vessel.variants[index].label;
     match args.format {
         PlainFormat::Json => {
-            #[derive(Serialize)]
-            struct Doc<'a> {
-                boat: &'a str,
-                variant: &'a str,
-                parameter: &'static str,
-                criterion: &'static str,
-                target: String,
-                target_speed_kn: f64,
-                calibration: Option<crate::report::checks::AppliedCalibration>,
-                candidates: Vec<CandidateJson>,
-                caution: &'static str,
-            }
-            let nm_per_m = crate::report::NAUTICAL_MILE_M / crate::report::LITRE_M3;
-            let doc = Doc {
-                boat: &study.vessel.name,
-                variant: label,
-                parameter: result.parameter,
-                criterion: result.criterion,
-                target: result.target.describe(),
-                target_speed_kn: result.target_speed / KNOT_MPS,
-                calibration: study.calibration.clone(),
-                candidates: result
-                    .candidates
-                    .iter()
-                    .map(|c| CandidateJson {
-                        rank: c.rank,
-                        value: c.value,
-                        blades: c.geometry.blades,
-                        diameter_m: c.geometry.diameter,
-                        area_ratio: c.geometry.area_ratio,
-                        gear_ratio: c.gear_ratio,
-                        pitch_m: finite_or_none(c.pitch),
-                        top_speed_kn: finite_or_none(c.top_speed.map(|v| v / KNOT_MPS)),
-                        top_speed_in_method_range: c.top_speed_in_method_range,
-                        meeting_rpm: finite_or_none(c.meeting_rpm),
-                        eta0_at_target: finite_or_none(c.open_water_efficiency_at_target),
-                        eta0_at_top: finite_or_none(c.open_water_efficiency_at_top),
-                        propulsive_efficiency_at_target: finite_or_none(
-                            c.propulsive_efficiency_at_target,
-                        ),
-                        fuel_l_per_nm_at_target: finite_or_none(
-                            c.fuel_per_distance_at_target.map(|v| v * nm_per_m),
-                        ),
-                        problem: c.problem.clone(),
-                    })
-                    .collect(),
-                caution: CAUTION,
-            };
-            out.write_all(json::to_string(&doc)?.as_bytes())?;
+            out.write_all(json::to_string(&sweep_json(&study, label, &result))?.as_bytes())?;
         }
         PlainFormat::Text => {
             let d = Display::new(study.units);
@@ -291,74 +207,7 @@ pub fn trial(ctx: &Context, args: &DesignArgs, out: &mut dyn Write) -> anyhow::R
     let label = &study.vessel.variants[index].label;
     match args.format {
         PlainFormat::Json => {
-            #[derive(Serialize)]
-            struct PointJson {
-                engine_rpm: f64,
-                runs: usize,
-                two_way: bool,
-                measured_kn: f64,
-                predicted_kn: Option<f64>,
-                calibrated_kn: Option<f64>,
-                current_kn: Option<f64>,
-            }
-            #[derive(Serialize)]
-            struct SavedJson {
-                path: String,
-                backup: Option<String>,
-            }
-            #[derive(Serialize)]
-            struct Doc<'a> {
-                boat: &'a str,
-                variant: &'a str,
-                compared_with: &'static str,
-                rms_before_kn: f64,
-                rms_after_kn: f64,
-                resistance_factor_before: f64,
-                resistance_factor: f64,
-                factor_basis: &'static str,
-                service_margin: f64,
-                fouling: f64,
-                wake_fraction: Option<f64>,
-                saved_calibration: Option<crate::report::checks::AppliedCalibration>,
-                rms_with_saved_kn: Option<f64>,
-                saved: Option<SavedJson>,
-                points: Vec<PointJson>,
-                warnings: Vec<String>,
-            }
-            let kn = |v: Option<f64>| finite_or_none(v.map(|v| v / KNOT_MPS));
-            let doc = Doc {
-                boat: &study.vessel.name,
-                variant: label,
-                compared_with: "uncalibrated model",
-                rms_before_kn: cal.rms_before / KNOT_MPS,
-                rms_after_kn: cal.rms_after / KNOT_MPS,
-                resistance_factor_before: cal.resistance_factor_before,
-                resistance_factor: cal.resistance_factor,
-                factor_basis: "calm, clean-hull resistance; service margin and fouling on top",
-                service_margin: cal.service_margin,
-                fouling: cal.fouling,
-                wake_fraction: finite_or_none(cal.wake_fraction),
-                saved_calibration: study.calibration.clone(),
-                rms_with_saved_kn: kn(rms_saved),
-                saved: saved.as_ref().map(|s| SavedJson {
-                    path: s.path.display().to_string(),
-                    backup: s.backup.as_ref().map(|b| b.display().to_string()),
-                }),
-                points: cal
-                    .points
-                    .iter()
-                    .map(|p| PointJson {
-                        engine_rpm: p.engine_rpm,
-                        runs: p.runs,
-                        two_way: p.two_way,
-                        measured_kn: p.measured_speed / KNOT_MPS,
-                        predicted_kn: kn(p.predicted_before),
-                        calibrated_kn: kn(p.predicted_after),
-                        current_kn: kn(p.current),
-                    })
-                    .collect(),
-                warnings: cal.warnings.iter().map(ToString::to_string).collect(),
-            };
+            let doc = trial_json(&study, label, &cal, rms_saved, saved.as_ref());
             out.write_all(json::to_string(&doc)?.as_bytes())?;
         }
         PlainFormat::Text => {

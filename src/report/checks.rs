@@ -5,7 +5,6 @@
 
 use serde::Serialize;
 
-use super::boat::VariantReport;
 use super::table::{Column, Table};
 use super::{Display, INCH_M, KNOT_MPS};
 use crate::propulsion::screw::ScrewGeometry;
@@ -16,6 +15,7 @@ use crate::propulsion::screw::cavitation::{
 use crate::propulsion::solver::Vessel;
 use crate::propulsion::solver::shaft::ShaftCheck;
 use crate::study::checks::{cavitation, shaft_check};
+use crate::study::solve::VariantSolution as VariantReport;
 use crate::units::{Kind, UnitSystem};
 
 pub use crate::study::checks::{CheckPoint, DEFAULT_SHAFT_MATERIAL, shaft_material};
@@ -69,10 +69,10 @@ impl DesignChecks {
                 .iter()
                 .map(|v| {
                     let mut rows = Vec::new();
-                    if let Ok(c) = &v.target {
+                    if let Ok(c) = &v.cruise {
                         rows.push((CheckPoint::Target, c.point));
                     }
-                    if let Ok(m) = &v.matching {
+                    if let Ok(m) = &v.matched {
                         rows.push((CheckPoint::Top, m.top_point));
                     }
                     VariantChecks {

@@ -3,8 +3,8 @@
 
 use serde::Serialize;
 
-use super::boat::{margin_words, signed_rpm, verdict_words};
 use super::table::{Column, Table};
+use super::text::{margin_words, signed_rpm, verdict_words};
 use super::what_if::UNRELIABLE_TOP_NOTE;
 use super::{Display, INCH_M, KNOT_MPS, percent};
 use crate::propulsion::solver::pitch::{MatchSummary, PitchCure, PitchRecommendation};

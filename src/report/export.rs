@@ -1,8 +1,9 @@
 //! The printable report for the owner and the propeller shop: Markdown with SVG charts.
 
-use super::boat::{BoatReport, match_line, operating_table, screw_spec, target_line};
 use super::design::{comparison_text, pitch_text, trial_text};
+use super::model::{BoatReport, VariantReport};
 use super::svg::{Chart, Series, SeriesStyle};
+use super::text::{match_line, operating_table, screw_spec, target_line};
 use super::{CAUTION, Display};
 use crate::profile::Rotation;
 use crate::propulsion::solver::Vessel;
@@ -50,7 +51,7 @@ pub fn charts(vessel: &Vessel, curves: &BoatReport, system: UnitSystem) -> Vec<(
     let speed_unit = d.unit(Kind::Speed);
     let fuel_unit = d.unit(Kind::FuelRate);
     let distance_unit = d.unit(Kind::Distance);
-    let solved = |v: &super::boat::VariantReport| -> Vec<crate::propulsion::solver::CruisePoint> {
+    let solved = |v: &VariantReport| -> Vec<crate::propulsion::solver::CruisePoint> {
         v.rows
             .iter()
             .filter_map(|r| r.outcome.as_ref().ok().copied())
@@ -92,7 +93,7 @@ pub fn charts(vessel: &Vessel, curves: &BoatReport, system: UnitSystem) -> Vec<(
     let meeting: Vec<(f64, f64)> = curves
         .variants
         .iter()
-        .filter_map(|v| v.matching.as_ref().ok())
+        .filter_map(|v| v.matched.as_ref().ok())
         .map(|m| {
             (
                 m.meeting_rpm,

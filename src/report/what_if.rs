@@ -3,9 +3,9 @@
 
 use serde::Serialize;
 
-use super::boat::verdict_words;
 use super::checks::AppliedCalibration;
 use super::table::{Column, Table};
+use super::text::verdict_words;
 use super::{CAUTION, Display, KNOT_MPS, LITRE_M3, percent};
 use crate::propulsion::solver::Verdict;
 use crate::propulsion::solver::pitch::PitchRecommendation;

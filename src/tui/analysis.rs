@@ -339,14 +339,16 @@ mod tests {
         let boats = store.list_boats().expect("the demo fleet lists");
         assert!(boats.len() >= 2, "{boats:?}");
         for name in boats {
-            let app = demo(&name);
-            let ViewData::WhatIf(view) = ViewData::compute(
-                ViewKind::WhatIf,
-                SweepOver::Diameter,
-                &app.doc.boat,
-                &app.doc.engine,
-            ) else {
-                panic!("what-if view")
+            let mut app = demo(&name);
+            // Open the view as the user does: the `w` key → its action → App::update.
+            let w = crossterm::event::KeyEvent::new(
+                crossterm::event::KeyCode::Char('w'),
+                crossterm::event::KeyModifiers::NONE,
+            );
+            let action = app.action_for_key(&w).expect("`w` opens the what-if view");
+            app.update(action);
+            let Some(ViewData::WhatIf(view)) = app.view.clone() else {
+                panic!("{name}: `w` did not open the what-if view")
             };
             let outcomes = view.outcomes.expect("the view solves");
             let study = Study::of_documents(&app.doc.boat, &app.doc.engine).unwrap();

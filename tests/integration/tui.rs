@@ -1120,6 +1120,97 @@ fn tmux_open_change_pitch_save_quit() {
 }
 
 #[test]
+fn tmux_what_if_view_shows_the_cruise_rpm_of_conditions_json() {
+    if std::process::Command::new("tmux")
+        .arg("-V")
+        .output()
+        .is_err()
+    {
+        eprintln!("skipped: tmux is not installed (.ci/run installs it)");
+        return;
+    }
+    let bin = env!("CARGO_BIN_EXE_tidewright");
+    // No store at the path: the boat comes from the built-in demo fleet, the same for both runs.
+    let dir = tempfile::tempdir().unwrap();
+    let store = dir.path().join("no-store");
+    let conditions = std::process::Command::new(bin)
+        .args(["--profiles"])
+        .arg(&store)
+        .args(["conditions", "marram", "--format", "json"])
+        .output()
+        .expect("tidewright runs");
+    assert!(
+        conditions.status.success(),
+        "{}",
+        String::from_utf8_lossy(&conditions.stderr)
+    );
+    let doc: serde_json::Value = serde_json::from_slice(&conditions.stdout).unwrap();
+    let expected: Vec<String> = doc["conditions"]
+        .as_array()
+        .expect("conditions listed")
+        .iter()
+        .map(|c| {
+            format!(
+                "{:.0}",
+                c["cruise_rpm"].as_f64().expect("cruise rpm solved")
+            )
+        })
+        .collect();
+    assert_eq!(
+        expected.len(),
+        6,
+        "as given, three loads, fouled, sea state"
+    );
+
+    let session = format!("tidewright-whatif-{}", std::process::id());
+    let command = format!(
+        "{bin} --profiles '{}' open marram; sleep 30",
+        store.display()
+    );
+    let started = tmux_on(
+        &session,
+        &[
+            "new-session",
+            "-d",
+            "-s",
+            &session,
+            "-x",
+            "100",
+            "-y",
+            "30",
+            &command,
+        ],
+    );
+    assert!(
+        started.status.success(),
+        "tmux: {}",
+        String::from_utf8_lossy(&started.stderr)
+    );
+    let _kill = KillServer(session.clone());
+    match wait_for(&session, 5.0, |t| t.contains("At 7.0 kn")) {
+        Ok(_) => {}
+        Err(text) if cli_lacks_the_ui(&text) => {
+            eprintln!("skipped: this build's CLI does not open the terminal UI yet:\n{text}");
+            return;
+        }
+        Err(text) => panic!("the UI did not come up:\n{text}"),
+    }
+    tmux_on(&session, &["send-keys", "-t", &session, "w"]);
+    let text =
+        wait_for(&session, 5.0, |t| t.contains("cruise rpm")).expect("`w` opens the what-if view");
+    let row: Vec<String> = text
+        .lines()
+        .find_map(|l| l.trim_start_matches('│').strip_prefix("cruise rpm"))
+        .expect("a cruise rpm row")
+        .split_whitespace()
+        .map(|cell| cell.trim_end_matches('│').to_string())
+        .filter(|cell| !cell.is_empty())
+        .collect();
+    // The screen and `conditions --format json` are one definition of each case.
+    assert_eq!(row, expected, "what-if screen:\n{text}");
+}
+
+#[test]
 fn tmux_sigterm_and_sighup_restore_the_terminal() {
     if std::process::Command::new("tmux")
         .arg("-V")

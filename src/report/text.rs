@@ -1,0 +1,455 @@
+//! The text writers of the boat report: the aligned text report, Markdown and CSV, and the
+//! lines the other writers and the TUI share (match, target, verdict, margin, screw spec).
+
+use super::model::{BoatReport, EngineSummary, VariantReport};
+use super::table::{Column, Table};
+use super::{CAUTION, Display, percent};
+use crate::propulsion::engine::Duty;
+use crate::propulsion::screw::ScrewGeometry;
+use crate::propulsion::solver::{CruisePoint, MatchResult, MethodSpread, Verdict};
+use crate::units::{Kind, UnitSystem};
+
+impl BoatReport {
+    /// The text lines of one variant's checks: duty, cavitation table and its legend.
+    fn variant_check_text(&self, v: &VariantReport, d: &Display) -> String {
+        let mut out = String::new();
+        if let Some(duty) = &v.duty {
+            out.push_str(&format!("  Engine duty at the target speed: {duty}\n"));
+        }
+        if let Some(checks) = &self.checks {
+            match &checks.cavitation {
+                Err(reason) => out.push_str(&format!("  Cavitation check {reason}\n")),
+                Ok(_) => {
+                    if let Some(table) = checks.cavitation_table(&v.label, d) {
+                        out.push_str("  Cavitation and blade loading:\n");
+                        out.push_str(&table.to_text("    "));
+                        out.push_str(&format!("    {}\n", checks.cavitation_legend(&v.geometry)));
+                    }
+                }
+            }
+        }
+        out
+    }
+
+    /// The Markdown of one variant's checks.
+    fn variant_check_markdown(&self, v: &VariantReport, d: &Display) -> String {
+        let mut out = String::new();
+        if let Some(duty) = &v.duty {
+            out.push_str(&format!("\n- Engine duty at the target speed: {duty}\n"));
+        }
+        if let Some(checks) = &self.checks {
+            match &checks.cavitation {
+                Err(reason) => out.push_str(&format!("\nCavitation check {reason}.\n")),
+                Ok(_) => {
+                    if let Some(table) = checks.cavitation_table(&v.label, d) {
+                        out.push_str("\n**Cavitation and blade loading**\n\n");
+                        out.push_str(&table.to_markdown());
+                        out.push_str(&format!("\n{}.\n", checks.cavitation_legend(&v.geometry)));
+                    }
+                }
+            }
+        }
+        out
+    }
+
+    /// The cavitation and duty of one variant for the printable report.
+    pub fn variant_checks_markdown(&self, label: &str, d: &Display) -> String {
+        self.variants
+            .iter()
+            .find(|v| v.label == label)
+            .map(|v| self.variant_check_markdown(v, d))
+            .unwrap_or_default()
+    }
+
+    /// The shaft lines, if the checks were made.
+    pub fn shaft_lines(&self, d: &Display) -> Vec<String> {
+        self.checks
+            .as_ref()
+            .map(|c| c.shaft_lines(d))
+            .unwrap_or_default()
+    }
+
+    /// The aligned text report.
+    pub fn to_text(&self, system: UnitSystem) -> String {
+        let d = Display::new(system);
+        let mut out = String::new();
+        out.push_str(&format!("{}\n", self.boat));
+        out.push_str(&format!("{}\n", self.engine_line(&d)));
+        out.push_str(&format!("{}\n", self.trip_line(&d)));
+        out.push_str(&format!("{}\n", self.calibration_line()));
+        out.push_str(&format!("{}\n", self.methods.line()));
+        for v in &self.variants {
+            out.push('\n');
+            out.push_str(&format!(
+                "Screw {}: {}\n",
+                v.label,
+                screw_spec(&v.geometry, &d)
+            ));
+            out.push_str(&operating_table(v, &d, false).to_text("  "));
+            out.push_str(&format!("  {}\n", match_line(v, &d, self.engine.rated_rpm)));
+            if let Some(spread) = &v.method_spread {
+                out.push_str(&format!("  {}\n", method_spread_line(spread, &d)));
+            }
+            out.push_str(&format!(
+                "  {}\n",
+                target_line(v, &d, self.trip.target_speed, &self.engine)
+            ));
+            out.push_str(&self.variant_check_text(v, &d));
+        }
+        let shaft = self.shaft_lines(&d);
+        if !shaft.is_empty() {
+            out.push('\n');
+            for line in shaft {
+                out.push_str(&format!("{line}\n"));
+            }
+        }
+        out.push('\n');
+        if !self.warnings.is_empty() {
+            out.push_str("Warnings:\n");
+            for w in &self.warnings {
+                out.push_str(&format!("  - {w}\n"));
+            }
+        }
+        out.push_str(&format!("Caution: {CAUTION}\n"));
+        out
+    }
+
+    /// A Markdown document of the same report.
+    pub fn to_markdown(&self, system: UnitSystem) -> String {
+        let d = Display::new(system);
+        let mut out = format!("# {}\n\n", super::table::md_cell(&self.boat));
+        out.push_str(&format!(
+            "- {}\n- {}\n- {}\n",
+            self.engine_line(&d),
+            self.trip_line(&d),
+            self.calibration_line()
+        ));
+        for v in &self.variants {
+            out.push_str(&format!(
+                "\n## Screw {}\n\n{}\n\n",
+                v.label,
+                screw_spec(&v.geometry, &d)
+            ));
+            out.push_str(&operating_table(v, &d, false).to_markdown());
+            out.push_str(&format!(
+                "\n- {}\n",
+                match_line(v, &d, self.engine.rated_rpm)
+            ));
+            out.push_str(&format!(
+                "- {}\n",
+                target_line(v, &d, self.trip.target_speed, &self.engine)
+            ));
+            out.push_str(&self.variant_check_markdown(v, &d));
+        }
+        let shaft = self.shaft_lines(&d);
+        if !shaft.is_empty() {
+            out.push_str("\n## Shaft\n\n");
+            for line in shaft {
+                out.push_str(&format!("- {}\n", line.trim_start()));
+            }
+        }
+        if !self.warnings.is_empty() {
+            out.push_str("\n## Warnings\n\n");
+            for w in &self.warnings {
+                out.push_str(&format!("- {w}\n"));
+            }
+        }
+        out.push_str(&format!("\n> **Caution.** {CAUTION}\n"));
+        out
+    }
+
+    /// One CSV table of every variant's operating points (a `variant` column first).
+    pub fn to_csv(&self, system: UnitSystem) -> String {
+        let d = Display::new(system);
+        let mut all = Table::default();
+        for v in &self.variants {
+            let table = operating_table(v, &d, true);
+            if all.columns.is_empty() {
+                all.columns = table.columns.clone();
+            }
+            all.rows.extend(table.rows);
+        }
+        if all.columns.is_empty() {
+            all = Table::new(operating_columns(&d, true));
+        }
+        all.to_csv()
+    }
+
+    /// "calibration applied: …", or that none is applied.
+    pub fn calibration_line(&self) -> String {
+        match &self.calibration {
+            Some(c) => c.line(),
+            None => "calibration: none (uncalibrated model; `tidewright trial BOAT --save` fits one from a sea-trial log)".into(),
+        }
+    }
+
+    fn engine_line(&self, d: &Display) -> String {
+        let e = &self.engine;
+        let mut line = format!(
+            "Engine {}: {} at {:.0} rpm rated, idle {:.0} rpm",
+            e.name,
+            d.quantity(e.rated_power, Kind::Power),
+            e.rated_rpm,
+            e.idle_rpm
+        );
+        if let Some(duty) = e.duty {
+            line.push_str(match duty {
+                Duty::Continuous => ", continuous duty",
+                Duty::Intermittent => ", intermittent duty",
+            });
+        }
+        if let Some(limit) = e.full_throttle_limit {
+            line.push_str(&format!(
+                " (full throttle at most {})",
+                d.quantity(limit, Kind::Time)
+            ));
+        }
+        line
+    }
+
+    fn trip_line(&self, d: &Display) -> String {
+        let t = &self.trip;
+        format!(
+            "Target speed {} · tank {} ({} usable, {} reserve)",
+            d.quantity(t.target_speed, Kind::Speed),
+            d.quantity(t.tank_volume, Kind::Volume),
+            percent(t.usable_fraction, 0),
+            percent(t.reserve_fraction, 0)
+        )
+    }
+}
+
+/// "Method spread: …" comparing the two methods' top speed and target-speed resistance.
+pub fn method_spread_line(spread: &MethodSpread, d: &Display) -> String {
+    let speed = |v: Option<f64>| v.map_or("—".to_string(), |v| d.quantity(v, Kind::Speed));
+    let difference = spread
+        .resistance_difference()
+        .map_or("—".to_string(), |x| format!("{:+.0} %", x * 100.0));
+    format!(
+        "Method spread: {} top speed {} against {} by {}; resistance at the target speed {difference} (in the uncertainty band)",
+        spread.alternative,
+        speed(spread.alternative_top_speed),
+        speed(spread.top_speed),
+        spread.method,
+    )
+}
+
+/// "3 blades × 508 mm × 356 mm pitch, AE/A0 0.50".
+pub fn screw_spec(g: &ScrewGeometry, d: &Display) -> String {
+    format!(
+        "{} blades × {} diameter × {} pitch, AE/A0 {:.2} (P/D {:.3})",
+        g.blades,
+        d.quantity(g.diameter, Kind::ScrewLength),
+        d.quantity(g.pitch, Kind::ScrewLength),
+        g.area_ratio,
+        if g.diameter > 0.0 {
+            g.pitch / g.diameter
+        } else {
+            0.0
+        }
+    )
+}
+
+/// The operating table of one variant; with `with_label` a first column names the variant.
+pub fn operating_table(v: &VariantReport, d: &Display, with_label: bool) -> Table {
+    let mut table = Table::new(operating_columns(d, with_label));
+    let imperial = d.system == UnitSystem::Imperial;
+    // A run of unsolvable rows says why once, on its first row.
+    let mut previous_failed = false;
+    for row in &v.rows {
+        let mut cells = Vec::new();
+        if with_label {
+            cells.push(v.label.clone());
+        }
+        match &row.outcome {
+            Ok(c) => {
+                let p = &c.point;
+                cells.extend([
+                    format!("{:.0}", p.engine_rpm),
+                    format!("{:.0}", p.screw_rps * 60.0),
+                    d.number(p.speed, Kind::Speed, 2),
+                    d.number(p.brake_power, Kind::Power, 1),
+                    format!("{:.0}", p.load_fraction * 100.0),
+                    d.number(
+                        p.fuel_volume_flow,
+                        Kind::FuelRate,
+                        if imperial { 2 } else { 1 },
+                    ),
+                    d.number(
+                        c.fuel_per_distance,
+                        Kind::FuelPerDistance,
+                        if imperial { 3 } else { 2 },
+                    ),
+                    d.number(c.range, Kind::Distance, 0),
+                    point_note(c),
+                ]);
+            }
+            Err(reason) => {
+                cells.push(format!("{:.0}", row.engine_rpm));
+                cells.extend(std::iter::repeat_n("—".to_string(), 7));
+                cells.push(if previous_failed {
+                    "not solved (as above)".to_string()
+                } else {
+                    reason.clone()
+                });
+            }
+        }
+        previous_failed = row.outcome.is_err();
+        table.push(cells);
+    }
+    table
+}
+
+/// The columns of an operating table; with `with_label` a first column names the variant.
+fn operating_columns(d: &Display, with_label: bool) -> Vec<Column> {
+    let mut columns = Vec::new();
+    if with_label {
+        columns.push(Column::text("variant"));
+    }
+    columns.extend([
+        Column::number("engine", "rpm"),
+        Column::number("screw", "rpm"),
+        Column::number("speed", &d.unit(Kind::Speed)),
+        Column::number("power", &d.unit(Kind::Power)),
+        Column::number("load", "%"),
+        Column::number("fuel/h", &d.unit(Kind::FuelRate)),
+        Column::number("fuel/nm", &d.unit(Kind::FuelPerDistance)),
+        Column::number("range", &d.unit(Kind::Distance)),
+        Column::text("note"),
+    ]);
+    columns
+}
+
+/// The note of one operating row: past full load, outside the method's range, or empty.
+fn point_note(c: &CruisePoint) -> String {
+    let mut notes = Vec::new();
+    if c.beyond_full_load {
+        notes.push("past full load: not reachable".to_string());
+    }
+    if !c.point.in_method_range {
+        notes.push(format!(
+            "unreliable: outside the method's range (Fn {:.2})",
+            c.point.froude
+        ));
+    }
+    notes.join("; ")
+}
+
+/// The verdict in words.
+pub fn verdict_words(verdict: Verdict) -> &'static str {
+    match verdict {
+        Verdict::Over => "over-propped",
+        Verdict::Matched => "matched",
+        Verdict::Under => "under-propped",
+    }
+}
+
+/// The margin at full throttle in words, the same in every front end: "reaches rated 2600 rpm",
+/// "267 rpm short of rated 2600 rpm" or "runs free 52 rpm past rated 2600 rpm" (`rpm_margin`
+/// as in [`MatchResult::rpm_margin`]: negative a shortfall, positive headroom).
+pub fn margin_words(rpm_margin: f64, lower_bound: bool, rated_rpm: f64) -> String {
+    if lower_bound {
+        format!("runs free at least {rpm_margin:.0} rpm past rated {rated_rpm:.0} rpm")
+    } else if rpm_margin.abs() < 0.5 {
+        format!("reaches rated {rated_rpm:.0} rpm")
+    } else if rpm_margin < 0.0 {
+        format!("{:.0} rpm short of rated {rated_rpm:.0} rpm", -rpm_margin)
+    } else {
+        format!("runs free {rpm_margin:.0} rpm past rated {rated_rpm:.0} rpm")
+    }
+}
+
+/// The verdict and margin of a match, the same in every front end: "matched, margin +52 rpm
+/// (runs free 52 rpm past rated 2600 rpm)".
+pub fn verdict_and_margin(m: &MatchResult, rated_rpm: f64) -> String {
+    format!(
+        "{}, margin {} ({})",
+        verdict_words(m.verdict),
+        signed_rpm(m.rpm_margin),
+        margin_words(m.rpm_margin, m.margin_is_lower_bound, rated_rpm)
+    )
+}
+
+/// A signed rpm figure with a true minus sign and no "−0": "+52 rpm", "−267 rpm", "0 rpm".
+pub fn signed_rpm(rpm: f64) -> String {
+    let rounded = rpm.round();
+    if rounded == 0.0 {
+        "0 rpm".to_string()
+    } else if rounded > 0.0 {
+        format!("+{rounded:.0} rpm")
+    } else {
+        format!("−{:.0} rpm", -rounded)
+    }
+}
+
+/// "Match: over-propped — …" for one variant.
+pub fn match_line(v: &VariantReport, d: &Display, rated_rpm: f64) -> String {
+    let line = match &v.matched {
+        Ok(m) => {
+            let top_speed = if m.top_speed_in_method_range {
+                d.quantity(m.top_speed, Kind::Speed)
+            } else {
+                format!(
+                    "about {} (UNRELIABLE: {}; a sea trial decides)",
+                    d.quantity(m.top_speed, Kind::Speed),
+                    m.top_validity.reason().unwrap_or_default()
+                )
+            };
+            format!(
+                "Match: {} — full throttle at {:.0} rpm, top speed {top_speed}, the screw absorbs {} of rated power at rated rpm",
+                verdict_and_margin(m, rated_rpm),
+                m.meeting_rpm,
+                percent(m.absorbed_fraction_at_rated, 0)
+            )
+        }
+        Err(reason) => format!("Match: not found — {reason}"),
+    };
+    if v.extrapolated {
+        format!("{line} [extrapolated: screw outside its model's range, see warnings]")
+    } else {
+        line
+    }
+}
+
+/// "At 7.0 kn: …" for one variant.
+pub fn target_line(
+    v: &VariantReport,
+    d: &Display,
+    target_speed: f64,
+    engine: &EngineSummary,
+) -> String {
+    let at = d.quantity(target_speed, Kind::Speed);
+    match &v.cruise {
+        Ok(c) => {
+            let mut line = format!("At {at}: {}", cruise_summary(c, d));
+            if !c.point.in_method_range {
+                line.push_str(&format!(
+                    " — UNRELIABLE: Fn {:.2}, outside the resistance method's range",
+                    c.point.froude
+                ));
+            }
+            if c.beyond_full_load {
+                line.push_str(" — past the engine's full-load curve: not reachable");
+            } else if v.duty.is_none() && engine.duty == Some(Duty::Intermittent) {
+                line.push_str(" (engine rated for intermittent duty)");
+            }
+            line
+        }
+        Err(reason) => format!("At {at}: not solved — {reason}"),
+    }
+}
+
+/// rpm · speed · power · load · fuel/h · fuel/nm · range.
+pub fn cruise_summary(c: &CruisePoint, d: &Display) -> String {
+    let p = &c.point;
+    format!(
+        "{:.0} rpm · {} · {} · {} load · {} · {} · range {}",
+        p.engine_rpm,
+        d.quantity(p.speed, Kind::Speed),
+        d.quantity(p.brake_power, Kind::Power),
+        percent(p.load_fraction, 0),
+        d.quantity(p.fuel_volume_flow, Kind::FuelRate),
+        d.quantity(c.fuel_per_distance, Kind::FuelPerDistance),
+        d.quantity(c.range, Kind::Distance)
+    )
+}
