@@ -61,8 +61,7 @@ const SHAFT_TABLE: &str = "typical value: small-craft shafting table beside the 
     (Gerr, Boat Mechanical Systems Handbook)";
 /// Source of the values derived from tensile yield (typical tensile yields recalled, not read
 /// from a standard: from memory).
-const FROM_MEMORY: &str =
-    "typical value: tensile yield × 0.577 (distortion-energy criterion)";
+const FROM_MEMORY: &str = "typical value: tensile yield × 0.577 (distortion-energy criterion)";
 
 impl ShaftMaterial {
     /// A material with a user-given torsional yield strength (Pa).
