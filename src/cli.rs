@@ -7,6 +7,7 @@
 mod boat;
 mod conditions;
 mod design;
+mod new;
 mod openwater;
 mod store;
 
@@ -107,6 +108,9 @@ pub enum Command {
     List(ListArgs),
     /// Create the profile store with the demo fleet (never overwrites a file).
     Init,
+    /// Start a boat or engine sheet from a commented template in the store (metric unless
+    /// `--units imperial`); never overwrites a file.
+    New(NewArgs),
     /// Open-water table of a Wageningen B-series screw: J, KT, 10·KQ, η0.
     Openwater(OpenwaterArgs),
     /// Pitch that matches the engine, the change from the current pitch and rpm per inch.
@@ -134,7 +138,7 @@ pub struct ReportArgs {
     #[arg(long, value_name = "LABEL")]
     pub variant: Option<String>,
     /// Engine-rpm step of the operating table (default: chosen from the rpm range).
-    #[arg(long, value_name = "RPM")]
+    #[arg(long, value_name = "RPM", allow_hyphen_values = true, value_parser = rpm_step)]
     pub step: Option<String>,
 }
 
@@ -161,9 +165,29 @@ pub struct CruiseArgs {
 /// Arguments of `check`.
 #[derive(Debug, Args)]
 pub struct CheckArgs {
-    /// Profile files (boats or engine sheets, told apart by their content).
-    #[arg(required = true, value_name = "FILE")]
-    pub files: Vec<PathBuf>,
+    /// Profile files or names in the store (boats or engine sheets, told apart by their
+    /// content; a boat also by its display name).
+    #[arg(required = true, value_name = "FILE|NAME")]
+    pub files: Vec<String>,
+}
+
+/// What `new` starts.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, ValueEnum)]
+pub enum NewKind {
+    /// A boat sheet (`boats/NAME.toml`).
+    Boat,
+    /// An engine sheet (`engines/NAME.toml`).
+    Engine,
+}
+
+/// Arguments of `new`.
+#[derive(Debug, Args)]
+pub struct NewArgs {
+    /// Boat or engine sheet.
+    #[arg(value_enum)]
+    pub kind: NewKind,
+    /// The profile name: letters, digits, '-', '_' or '.' (the file is NAME.toml).
+    pub name: String,
 }
 
 /// Arguments of `list`.
@@ -239,7 +263,12 @@ pub struct PitchArgs {
     pub absorb: Option<f64>,
     /// Target: meet the full-load curve this many rpm above rated (a light-running screw;
     /// default: the boat's [match] light_running, 2 % of rated rpm; 0 asks for exactly rated rpm).
-    #[arg(long, value_name = "RPM", allow_hyphen_values = true)]
+    #[arg(
+        long,
+        value_name = "RPM",
+        allow_hyphen_values = true,
+        value_parser = rpm_margin
+    )]
     pub light_running: Option<f64>,
     /// Largest re-pitch, a length with its unit (default: the boat's, else 2in).
     #[arg(long, value_name = "LENGTH")]
@@ -457,6 +486,7 @@ pub fn run(cli: Cli, out: &mut dyn Write) -> anyhow::Result<()> {
         Some(Command::Check(args)) => store::check(&ctx, &args, out),
         Some(Command::List(args)) => store::list(&ctx, &args, out),
         Some(Command::Init) => store::init(&ctx, out),
+        Some(Command::New(args)) => new::run(&ctx, &args, out),
         Some(Command::Openwater(args)) => openwater::run(&args, out),
         Some(Command::Pitch(args)) => design::pitch(&ctx, &args, out),
         Some(Command::Sweep(args)) => design::sweep(&ctx, &args, out),
@@ -487,6 +517,32 @@ pub(crate) fn variants_or_all(study: &Study, label: Option<&str>) -> anyhow::Res
     study
         .variants(label)
         .map_err(|e| UsageError(format!("--variant: {e}")).into())
+}
+
+/// Checks an `--step` value: a positive engine speed, plain or with its unit ("100", "100rpm").
+fn rpm_step(text: &str) -> Result<String, String> {
+    match rpm_value(text) {
+        Some(v) if v > 0.0 => Ok(text.to_owned()),
+        _ => Err(format!("--step: expected a positive rpm step, got {text}")),
+    }
+}
+
+/// Parses an `--light-running` margin, rpm: plain or with its unit ("100", "100rpm"); 0 and
+/// negative margins are the command's to judge.
+fn rpm_margin(text: &str) -> Result<f64, String> {
+    rpm_value(text).ok_or_else(|| {
+        format!("--light-running: expected an rpm margin such as 50 or 50rpm, got {text}")
+    })
+}
+
+/// An engine speed, rpm, written plain or with its unit, if it is a finite number.
+fn rpm_value(text: &str) -> Option<f64> {
+    let trimmed = text.trim();
+    trimmed
+        .parse::<f64>()
+        .ok()
+        .or_else(|| crate::units::parse(trimmed, crate::units::Kind::Rotation).ok())
+        .filter(|v| v.is_finite())
 }
 
 /// Parses an engine speed given as a plain number or with its unit ("1800", "1800 rpm").

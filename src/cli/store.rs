@@ -1,13 +1,17 @@
 //! Commands on the profile store: `check`, `list`, `init`, and the store the options name.
 
 use std::io::Write;
-use std::path::Path;
+use std::path::{Path, PathBuf};
 
 use anyhow::Context as _;
 
 use super::{CheckArgs, Context, InvalidFiles, ListArgs, PlainFormat};
-use crate::profile::Store;
-use crate::profile::store::{load_boat_file, load_engine_file};
+use crate::profile::demo;
+use crate::profile::store::{
+    BOATS_DIR, ENGINES_DIR, EXTENSION, is_path_argument, read_profile_file,
+};
+use crate::profile::template::blank_errors;
+use crate::profile::{BoatDoc, EngineDoc, Loaded, Origin, ProfileError, Store};
 
 /// The store the global options point at.
 pub fn store(ctx: &Context) -> Store {
@@ -35,60 +39,167 @@ fn detect_kind(text: &str) -> Option<FileKind> {
     }
 }
 
-/// The problems of one file, each as "file:line:col: message" where the place is known.
-fn check_file(store: &Store, path: &Path) -> Vec<String> {
-    let shown = path.display().to_string();
-    let text = match std::fs::read_to_string(path) {
-        Ok(text) => text,
-        Err(e) => return vec![format!("{shown}: cannot read: {e}")],
+/// Where the text of a `check` argument comes from.
+enum Source {
+    /// A file on disk.
+    File(PathBuf),
+    /// A profile of the embedded demo fleet, under its name.
+    Demo(String),
+}
+
+/// The file (or demo profile) a `check` argument names: a path, else a boat or engine sheet
+/// name in the store (a boat also by its display name).
+fn locate(store: &Store, arg: &str) -> Result<(String, Source), String> {
+    let path = Path::new(arg);
+    if path.is_file() || is_path_argument(arg) {
+        return Ok((arg.to_owned(), Source::File(path.to_owned())));
+    }
+    for candidate in [store.boat_path(arg), store.engine_path(arg)]
+        .into_iter()
+        .flatten()
+    {
+        if !store.uses_demo() && candidate.is_file() {
+            return Ok((candidate.display().to_string(), Source::File(candidate)));
+        }
+    }
+    if store.uses_demo() {
+        if demo::boat(arg).is_some() {
+            return Ok((
+                format!("demo:{BOATS_DIR}/{arg}.{EXTENSION}"),
+                Source::Demo(arg.to_owned()),
+            ));
+        }
+        if demo::engine(arg).is_some() {
+            return Ok((
+                format!("demo:{ENGINES_DIR}/{arg}.{EXTENSION}"),
+                Source::Demo(arg.to_owned()),
+            ));
+        }
+    }
+    // A display name, or a near miss with suggestions.
+    match store.load_boat(arg) {
+        Ok(loaded) => match loaded.origin {
+            Origin::File { path, .. } => Ok((path.display().to_string(), Source::File(path))),
+            Origin::Demo { name } => Ok((
+                format!("demo:{BOATS_DIR}/{name}.{EXTENSION}"),
+                Source::Demo(name),
+            )),
+        },
+        Err(ProfileError::NotFound { .. }) => Err(format!(
+            "{arg}: no such file, and no boat or engine sheet named {arg:?} in the store"
+        )),
+        Err(e) => Err(e.to_string()),
+    }
+}
+
+/// What `check` says about one file: its problems (each "file:line:col: message" where the
+/// place is known) and its notes.
+struct Checked {
+    problems: Vec<String>,
+    notes: Vec<String>,
+}
+
+impl Checked {
+    fn problems(problems: Vec<String>) -> Self {
+        Self {
+            problems,
+            notes: Vec::new(),
+        }
+    }
+}
+
+/// Checks one file or demo profile, shown as `shown`.
+fn check_source(store: &Store, shown: &str, source: &Source) -> Checked {
+    let (text, origin) = match source {
+        Source::File(path) => match read_profile_file(path) {
+            Ok((text, stamp)) => (
+                text,
+                Origin::File {
+                    path: path.clone(),
+                    stamp,
+                },
+            ),
+            Err(e) => return Checked::problems(vec![e.to_string()]),
+        },
+        Source::Demo(name) => {
+            let text = demo::boat(name)
+                .or_else(|| demo::engine(name))
+                .unwrap_or("");
+            (text.to_owned(), Origin::Demo { name: name.clone() })
+        }
     };
+    // Every blank a template still has, at once, before any other problem.
+    let blanks = blank_errors(shown, &text);
+    if !blanks.is_empty() {
+        return Checked::problems(blanks.iter().map(ToString::to_string).collect());
+    }
     let kind = match detect_kind(&text) {
         Some(kind) => kind,
         // Not TOML, or neither kind: let the boat reader report the syntax error with its place.
         None if toml::from_str::<toml::Table>(&text).is_err() => FileKind::Boat,
         None => {
-            return vec![format!(
+            return Checked::problems(vec![format!(
                 "{shown}:1:1: cannot tell a boat from an engine sheet: expected a [hull] table and an `engine` key \
                  (boat) or `rated_rpm` and `full_load_power` (engine sheet)"
-            )];
+            )]);
         }
     };
     match kind {
-        FileKind::Engine => match load_engine_file(path) {
-            Err(e) => vec![e.to_string()],
-            Ok(engine) => match engine.doc.to_engine_sheet() {
-                Err(e) => vec![format!("{shown}: {e}")],
-                Ok(_) => Vec::new(),
+        FileKind::Engine => match EngineDoc::from_toml(&text, shown) {
+            Err(e) => Checked::problems(vec![e.to_string()]),
+            Ok(doc) => match doc.to_engine_sheet() {
+                Err(e) => Checked::problems(vec![format!("{shown}: {e}")]),
+                Ok(_) => Checked::problems(Vec::new()),
             },
         },
         FileKind::Boat => {
-            let boat = match load_boat_file(path) {
-                Ok(boat) => boat,
-                Err(e) => return vec![e.to_string()],
+            // The boat's own document first, so that its `engine` key is checked as written
+            // before the sheet it names is looked for.
+            let doc = match BoatDoc::from_toml(&text, shown) {
+                Ok(doc) => doc,
+                Err(e) => return Checked::problems(vec![e.to_string()]),
+            };
+            let boat = Loaded {
+                name: String::new(),
+                doc,
+                origin,
             };
             let engine = match store.engine_for(&boat) {
                 Ok(engine) => engine,
-                Err(e) => return vec![e.to_string()],
+                Err(e) => return Checked::problems(vec![e.to_string()]),
             };
             match boat.doc.to_default_vessel(&engine.doc) {
-                Ok(_) => Vec::new(),
-                Err(e) => vec![format!("{shown}: {e}")],
+                Ok(_) => Checked {
+                    problems: Vec::new(),
+                    notes: boat.doc.notes(),
+                },
+                Err(e) => Checked::problems(vec![format!("{shown}: {e}")]),
             }
         }
     }
 }
 
-/// `check FILE…`.
+/// `check FILE|NAME…`.
 pub fn check(ctx: &Context, args: &CheckArgs, out: &mut dyn Write) -> anyhow::Result<()> {
     let store = store(ctx);
     let mut invalid = 0;
-    for path in &args.files {
-        let problems = check_file(&store, path);
-        if problems.is_empty() {
-            writeln!(out, "{}: ok", path.display())?;
-        } else {
+    for arg in &args.files {
+        let checked = match locate(&store, arg) {
+            Ok((shown, source)) => {
+                let checked = check_source(&store, &shown, &source);
+                if checked.problems.is_empty() {
+                    writeln!(out, "{shown}: ok")?;
+                }
+                for note in &checked.notes {
+                    writeln!(out, "{shown}: note: {note}")?;
+                }
+                checked
+            }
+            Err(problem) => Checked::problems(vec![problem]),
+        };
+        if !checked.problems.is_empty() {
             invalid += 1;
-            for problem in problems {
+            for problem in &checked.problems {
                 // The error text already starts with the file (and line:column where known).
                 writeln!(out, "{problem}")?;
             }

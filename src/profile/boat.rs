@@ -374,6 +374,10 @@ pub struct BoatDoc {
     pub calibration: Option<CalibrationDoc>,
 }
 
+/// Most screw variants a boat file may hold: far more than any comparison needs, few enough
+/// that a file of thousands (a generated or corrupted one) is refused at once.
+pub const MAX_VARIANTS: usize = 64;
+
 /// Smallest screw diameter or pitch the loader accepts, m (2 in: smaller is a model, not a
 /// boat's screw).
 const MIN_SCREW_LENGTH: f64 = 0.05;
@@ -394,7 +398,21 @@ const MAX_PITCH_RATIO: f64 = 2.0;
 /// rudder behind skeg 1.5–2.0 (lower end taken).
 const DEFAULT_APPENDAGE_FORM_FACTOR: f64 = 1.5;
 
+/// The note for a boat with no service margin and no fouling (as when `[resistance]` is left
+/// out): one line for `check` and the report's warnings.
+pub const NO_MARGIN_NOTE: &str = "no service margin or fouling applied: the screw is matched to a clean hull in calm water \
+     (give [resistance] service_margin, 0.10-0.20 is common practice)";
+
 impl BoatDoc {
+    /// Notes on what the file leaves out that changes the answer (not errors), one line each.
+    pub fn notes(&self) -> Vec<String> {
+        let mut notes = Vec::new();
+        if self.resistance.service_margin == 0.0 && self.resistance.fouling == 0.0 {
+            notes.push(NO_MARGIN_NOTE.to_owned());
+        }
+        notes
+    }
+
     /// The active variant, if the index is valid.
     pub fn active(&self) -> Option<&VariantDoc> {
         self.variants.get(self.active_variant)

@@ -219,6 +219,8 @@ pub(crate) fn check_curve(
 impl EngineDoc {
     /// Reads an engine sheet from TOML `source`; `file` names it in error messages.
     pub fn from_toml(source: &str, file: &str) -> Result<Self, ProfileError> {
+        // A blank from `tidewright new` is named as such, not as a malformed value.
+        super::template::refuse_blanks(file, source)?;
         let raw: RawEngine =
             toml::from_str(source).map_err(|e| ProfileError::from_toml(file, source, &e))?;
         let mut r = Reader::new(file, source);

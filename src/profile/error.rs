@@ -144,20 +144,48 @@ pub enum ProfileError {
     #[error("the demo fleet is read-only; run `tidewright init` or give --profiles DIR to save")]
     ReadOnly,
     /// Reading a file or directory failed.
-    #[error("{}: cannot read: {source}", path.display())]
+    // The OS error is part of this message and deliberately not a `source`, so that a chain
+    // printed with `{:#}` shows it once.
+    #[error("{}: cannot read: {os_error}", path.display())]
     Read {
         /// The file or directory.
         path: PathBuf,
         /// The operating system's error.
-        source: std::io::Error,
+        os_error: std::io::Error,
     },
     /// Writing a file failed (nothing was replaced).
-    #[error("{}: cannot write: {source}", path.display())]
+    #[error("{}: cannot write: {os_error}", path.display())]
     Write {
         /// The file or directory.
         path: PathBuf,
         /// The operating system's error.
-        source: std::io::Error,
+        os_error: std::io::Error,
+    },
+    /// A boat name that is not in the store, with the names it may have meant.
+    #[error("no {kind} named {name:?} in {place}; did you mean {}?", suggestions.join(" or "))]
+    NotFoundNear {
+        /// "boat" or "engine sheet".
+        kind: &'static str,
+        /// The name asked for.
+        name: String,
+        /// Where it was looked for.
+        place: String,
+        /// Close matches, each as `name (Display Name)`.
+        suggestions: Vec<String>,
+    },
+    /// `new` would overwrite a file that is already there.
+    #[error("{}: already exists; not overwritten (choose another name, or edit that file)", path.display())]
+    AlreadyExists {
+        /// The file.
+        path: PathBuf,
+    },
+    /// Another save of the same file holds its lock.
+    #[error("{}: another save of this file is under way (lock {}); try again", path.display(), lock.display())]
+    Locked {
+        /// The file being saved.
+        path: PathBuf,
+        /// The lock file.
+        lock: PathBuf,
     },
 }
 

@@ -134,6 +134,23 @@ impl<'a> Reader<'a> {
         *raw.get_ref()
     }
 
+    /// Reads a gear ratio written as a number (2.5) or as text ("2.5:1") at `key`.
+    pub fn ratio(&mut self, key: &str, raw: &Spanned<toml::Value>) -> Result<f64, ProfileError> {
+        self.spans.insert(key.to_owned(), raw.span());
+        let found = raw.get_ref().to_string();
+        let problem = match raw.get_ref() {
+            toml::Value::Float(v) => return Ok(*v),
+            toml::Value::Integer(v) => return Ok(*v as f64),
+            toml::Value::String(text) => match units::parse_ratio(text) {
+                Ok(v) => return Ok(v),
+                Err(UnitError::BadRatio { reason, .. }) => reason,
+                Err(e) => e.to_string(),
+            },
+            _ => "expected engine turns per screw turn, such as 2.5 or \"2.5:1\"".to_owned(),
+        };
+        Err(self.error(key, raw.span(), Issue::new(key, found, problem)))
+    }
+
     /// Reads an optional plain number.
     pub fn opt_num(&mut self, key: &str, raw: &Option<Spanned<f64>>) -> Option<f64> {
         raw.as_ref().map(|r| self.num(key, r))

@@ -117,20 +117,37 @@ pub struct Store {
 }
 
 fn read_file(path: &Path) -> Result<(String, FileStamp), ProfileError> {
-    let read_error = |source| ProfileError::Read {
+    let bytes = std::fs::read(path).map_err(|os_error| ProfileError::Read {
         path: path.to_owned(),
-        source,
-    };
-    let bytes = std::fs::read(path).map_err(read_error)?;
+        os_error,
+    })?;
     let modified = std::fs::metadata(path).and_then(|m| m.modified()).ok();
     let stamp = FileStamp::of(&bytes, modified);
-    let text = String::from_utf8(bytes).map_err(|e| {
-        read_error(std::io::Error::new(
-            std::io::ErrorKind::InvalidData,
-            format!("not UTF-8 text: {e}"),
-        ))
-    })?;
+    let text =
+        String::from_utf8(bytes).map_err(|e| not_utf8(path, e.as_bytes(), e.utf8_error()))?;
     Ok((text, stamp))
+}
+
+/// "FILE:LINE:COL: not UTF-8 text (byte 0xE9); save the file as UTF-8" for the first bad byte.
+fn not_utf8(path: &Path, bytes: &[u8], error: std::str::Utf8Error) -> ProfileError {
+    let at = error.valid_up_to();
+    // Everything before the bad byte is valid UTF-8, so its lines and columns can be counted.
+    let before = std::str::from_utf8(&bytes[..at]).unwrap_or_default();
+    ProfileError::Syntax {
+        file: path.display().to_string(),
+        location: super::error::Location::of_offset(before, before.len()),
+        key: None,
+        message: format!(
+            "not UTF-8 text (byte 0x{:02X}); save the file as UTF-8",
+            bytes.get(at).copied().unwrap_or_default()
+        ),
+    }
+}
+
+/// The text of a profile file with its stamp; a byte that is not UTF-8 is named with its
+/// line and column.
+pub fn read_profile_file(path: &Path) -> Result<(String, FileStamp), ProfileError> {
+    read_file(path)
 }
 
 /// Loads a boat file from `path` (not through a store).
@@ -159,6 +176,32 @@ pub fn load_engine_file(path: &Path) -> Result<Loaded<EngineDoc>, ProfileError> 
             stamp,
         },
     })
+}
+
+/// `name` without a trailing ".toml" (a profile name written as its file's name).
+pub fn strip_extension(name: &str) -> &str {
+    name.strip_suffix(".toml").unwrap_or(name)
+}
+
+/// Largest edit distance at which a name is suggested for a mistyped one.
+const MAX_SUGGESTION_EDITS: usize = 2;
+
+/// Levenshtein distance between `a` and `b`, in characters.
+fn edit_distance(a: &str, b: &str) -> usize {
+    let b: Vec<char> = b.chars().collect();
+    let mut row: Vec<usize> = (0..=b.len()).collect();
+    for (i, ca) in a.chars().enumerate() {
+        let mut diagonal = row[0];
+        row[0] = i + 1;
+        for (j, cb) in b.iter().enumerate() {
+            let above = row[j + 1];
+            row[j + 1] = (above + 1)
+                .min(row[j] + 1)
+                .min(diagonal + usize::from(ca != *cb));
+            diagonal = above;
+        }
+    }
+    row[b.len()]
 }
 
 fn stem(path: &Path) -> String {
@@ -244,9 +287,9 @@ impl Store {
         if !dir.is_dir() {
             return Ok(Vec::new());
         }
-        let entries = std::fs::read_dir(&dir).map_err(|source| ProfileError::Read {
+        let entries = std::fs::read_dir(&dir).map_err(|os_error| ProfileError::Read {
             path: dir.clone(),
-            source,
+            os_error,
         })?;
         let mut names: Vec<String> = entries
             .filter_map(Result::ok)
@@ -269,8 +312,76 @@ impl Store {
         self.list(ENGINES_DIR, demo::engine_names())
     }
 
-    /// Loads the boat `name`.
+    /// Loads the boat `name`: its file's stem, else (ignoring case) a stem or a boat's display
+    /// name (`name = "…"` inside the file). An unknown name says which boats come close.
     pub fn load_boat(&self, name: &str) -> Result<Loaded<BoatDoc>, ProfileError> {
+        let missed = match self.load_boat_by_stem(name) {
+            Err(e @ (ProfileError::NotFound { .. } | ProfileError::UnsafeName { .. })) => e,
+            other => return other,
+        };
+        let known = self.boat_display_names();
+        let wanted = name.trim().to_lowercase();
+        let same = |text: &str| text.trim().to_lowercase() == wanted;
+        // A stem in another case first ("Marram" for marram), then a display name.
+        let by_stem: Vec<&(String, Option<String>)> =
+            known.iter().filter(|(stem, _)| same(stem)).collect();
+        let by_display: Vec<&(String, Option<String>)> = known
+            .iter()
+            .filter(|(_, display)| display.as_deref().is_some_and(same))
+            .collect();
+        for matches in [&by_stem, &by_display] {
+            if let [(stem, _)] = matches.as_slice() {
+                return self.load_boat_by_stem(stem);
+            }
+        }
+        let exact: Vec<&(String, Option<String>)> = by_stem.into_iter().chain(by_display).collect();
+        let near =
+            |text: &str| edit_distance(&text.to_lowercase(), &wanted) <= MAX_SUGGESTION_EDITS;
+        let suggestions: Vec<String> = known
+            .iter()
+            .filter(|(stem, display)| {
+                exact.iter().any(|(s, _)| s == stem)
+                    || near(stem)
+                    || display.as_deref().is_some_and(near)
+            })
+            .map(|(stem, display)| match display {
+                Some(d) if d != stem => format!("{stem} ({d})"),
+                _ => stem.clone(),
+            })
+            .collect();
+        if suggestions.is_empty() {
+            return Err(missed);
+        }
+        Err(ProfileError::NotFoundNear {
+            kind: "boat",
+            name: name.to_owned(),
+            place: self.place(),
+            suggestions,
+        })
+    }
+
+    /// Every boat's stem with the display name inside its file (`None` when it cannot be read).
+    fn boat_display_names(&self) -> Vec<(String, Option<String>)> {
+        let stems = self.list_boats().unwrap_or_default();
+        stems
+            .into_iter()
+            .map(|stem| {
+                let text = if self.uses_demo() {
+                    demo::boat(&stem).map(str::to_owned)
+                } else {
+                    self.boat_path(&stem)
+                        .ok()
+                        .and_then(|p| std::fs::read_to_string(p).ok())
+                };
+                let display = text
+                    .and_then(|t| toml::from_str::<toml::Table>(&t).ok())
+                    .and_then(|t| t.get("name").and_then(|n| n.as_str()).map(str::to_owned));
+                (stem, display)
+            })
+            .collect()
+    }
+
+    fn load_boat_by_stem(&self, name: &str) -> Result<Loaded<BoatDoc>, ProfileError> {
         check_name(name)?;
         if self.uses_demo() {
             let text = demo::boat(name).ok_or_else(|| self.not_found("boat", name))?;
@@ -326,7 +437,24 @@ impl Store {
         arg: &str,
     ) -> Result<(Loaded<BoatDoc>, Loaded<EngineDoc>), ProfileError> {
         let boat = if is_path_argument(arg) {
-            load_boat_file(Path::new(arg))?
+            let path = Path::new(arg);
+            let with_extension = PathBuf::from(format!("{arg}.{EXTENSION}"));
+            let bare = !arg.contains(['/', '\\']);
+            if path.is_file() {
+                load_boat_file(path)?
+            } else if bare {
+                // "marram.toml" and no such file here: the store's boat of that name, else
+                // the error of the file asked for.
+                match self.load_boat(strip_extension(arg)) {
+                    Err(ProfileError::NotFound { .. }) => load_boat_file(path)?,
+                    other => other?,
+                }
+            } else if with_extension.is_file() {
+                // "boats/marram": the file with its extension.
+                load_boat_file(&with_extension)?
+            } else {
+                load_boat_file(path)?
+            }
         } else {
             self.load_boat(arg)?
         };
@@ -337,7 +465,8 @@ impl Store {
     /// The engine sheet a boat names: for a boat file, first `../engines/` beside the file's
     /// folder, then the store (or the demo fleet).
     pub fn engine_for(&self, boat: &Loaded<BoatDoc>) -> Result<Loaded<EngineDoc>, ProfileError> {
-        let name = &boat.doc.engine;
+        // `engine = "x.toml"` names the sheet x.
+        let name = &strip_extension(&boat.doc.engine).to_owned();
         check_name(name)?;
         let mut searched = Vec::new();
         let file = match &boat.origin {
@@ -367,6 +496,16 @@ impl Store {
             }
             other => other,
         }
+    }
+
+    /// Writes `text` as the new boat `name`, refusing to replace a file that is there.
+    pub fn create_boat(&self, name: &str, text: &str) -> Result<PathBuf, ProfileError> {
+        create_new_file(&self.boat_path(name)?, text)
+    }
+
+    /// Writes `text` as the new engine sheet `name`, refusing to replace a file that is there.
+    pub fn create_engine(&self, name: &str, text: &str) -> Result<PathBuf, ProfileError> {
+        create_new_file(&self.engine_path(name)?, text)
     }
 
     /// Copies the demo fleet into the store, never over an existing file.
@@ -445,6 +584,42 @@ impl Store {
     }
 }
 
+/// Writes `text` to a new file at `path`, whole or not at all, never over an existing file.
+fn create_new_file(path: &Path, text: &str) -> Result<PathBuf, ProfileError> {
+    let write_error = |os_error| ProfileError::Write {
+        path: path.to_owned(),
+        os_error,
+    };
+    if path.exists() {
+        return Err(ProfileError::AlreadyExists {
+            path: path.to_owned(),
+        });
+    }
+    let dir = path
+        .parent()
+        .filter(|p| !p.as_os_str().is_empty())
+        .unwrap_or(Path::new("."));
+    std::fs::create_dir_all(dir).map_err(write_error)?;
+    let mut temp = tempfile::Builder::new()
+        .prefix(".tidewright-")
+        .suffix(".tmp")
+        .tempfile_in(dir)
+        .map_err(write_error)?;
+    temp.write_all(text.as_bytes()).map_err(write_error)?;
+    temp.as_file().sync_all().map_err(write_error)?;
+    // No-clobber rename: a file created meanwhile by someone else is kept.
+    temp.persist_noclobber(path).map_err(|e| {
+        if e.error.kind() == std::io::ErrorKind::AlreadyExists {
+            ProfileError::AlreadyExists {
+                path: path.to_owned(),
+            }
+        } else {
+            write_error(e.error)
+        }
+    })?;
+    Ok(path.to_owned())
+}
+
 /// Saves a boat to an explicit file (a boat opened by path), as [`Store::save_boat`] does.
 pub fn save_boat_file(
     path: &Path,
@@ -469,6 +644,113 @@ pub struct PendingSave {
     path: PathBuf,
     temp: tempfile::NamedTempFile,
     previous: Option<Vec<u8>>,
+    /// Held from the changed-on-disk check to the rename, so that two saves cannot both pass
+    /// the check and the later rename silently drop the earlier update.
+    _lock: SaveLock,
+}
+
+/// A lock file older than this is taken to be left by a save that died, and is taken over, s.
+pub const STALE_LOCK_SECONDS: u64 = 30;
+
+/// How long a save waits for another save of the same file to finish, ms.
+const LOCK_WAIT_MS: u64 = 5_000;
+
+/// An exclusive lock on saving one file: `.NAME.toml.lock` beside it, created with
+/// `create_new` (atomic on local file systems) and removed on drop.
+#[derive(Debug)]
+struct SaveLock {
+    path: PathBuf,
+}
+
+impl SaveLock {
+    /// The lock file of `path`.
+    fn path_for(path: &Path) -> PathBuf {
+        let mut name = std::ffi::OsString::from(".");
+        name.push(path.file_name().unwrap_or_default());
+        name.push(".lock");
+        path.with_file_name(name)
+    }
+
+    /// Takes the lock of `path`, waiting for another save to finish and taking over a lock
+    /// left by a save that died (older than [`STALE_LOCK_SECONDS`]).
+    fn acquire(path: &Path) -> Result<Self, ProfileError> {
+        let lock = Self::path_for(path);
+        let started = std::time::Instant::now();
+        loop {
+            match std::fs::OpenOptions::new()
+                .write(true)
+                .create_new(true)
+                .open(&lock)
+            {
+                Ok(mut file) => {
+                    // Who holds it, for a person looking at a lock left behind.
+                    let _ = writeln!(file, "{}", std::process::id());
+                    return Ok(Self { path: lock });
+                }
+                Err(e) if e.kind() == std::io::ErrorKind::AlreadyExists => {
+                    if let Some(left) = stale_lock(&lock) {
+                        take_over(&lock, &left);
+                        continue;
+                    }
+                    if started.elapsed().as_millis() >= u128::from(LOCK_WAIT_MS) {
+                        return Err(ProfileError::Locked {
+                            path: path.to_owned(),
+                            lock,
+                        });
+                    }
+                    std::thread::sleep(std::time::Duration::from_millis(5));
+                }
+                Err(os_error) => {
+                    return Err(ProfileError::Write {
+                        path: lock,
+                        os_error,
+                    });
+                }
+            }
+        }
+    }
+}
+
+/// The content of `lock` when it was left by a save that died: its process is gone (where the
+/// system lists processes in /proc), or it is older than [`STALE_LOCK_SECONDS`].
+fn stale_lock(lock: &Path) -> Option<String> {
+    let content = std::fs::read_to_string(lock).ok()?;
+    let owner_gone = content
+        .trim()
+        .parse::<u32>()
+        .ok()
+        .filter(|&pid| pid != std::process::id())
+        .is_some_and(|pid| {
+            Path::new("/proc/self").exists() && !Path::new(&format!("/proc/{pid}")).exists()
+        });
+    let age = std::fs::metadata(lock)
+        .and_then(|m| m.modified())
+        .ok()
+        .and_then(|t| t.elapsed().ok());
+    let old = age.is_some_and(|a| a.as_secs() >= STALE_LOCK_SECONDS);
+    (owner_gone || old).then_some(content)
+}
+
+/// Removes the stale lock whose content was `left`; moved aside first, so that a fresh lock
+/// another process took in the meantime is put back rather than deleted.
+fn take_over(lock: &Path, left: &str) {
+    let mut aside = lock.as_os_str().to_owned();
+    aside.push(format!(".stale-{}", std::process::id()));
+    let aside = PathBuf::from(aside);
+    if std::fs::rename(lock, &aside).is_err() {
+        return;
+    }
+    if std::fs::read_to_string(&aside).ok().as_deref() == Some(left) {
+        let _ = std::fs::remove_file(&aside);
+    } else {
+        let _ = std::fs::rename(&aside, lock);
+    }
+}
+
+impl Drop for SaveLock {
+    fn drop(&mut self) {
+        let _ = std::fs::remove_file(&self.path);
+    }
 }
 
 impl PendingSave {
@@ -479,21 +761,23 @@ impl PendingSave {
         loaded: Option<&FileStamp>,
         force: bool,
     ) -> Result<Self, ProfileError> {
-        let write_error = |source| ProfileError::Write {
+        let write_error = |os_error| ProfileError::Write {
             path: path.to_owned(),
-            source,
+            os_error,
         };
         let dir = path
             .parent()
             .filter(|p| !p.as_os_str().is_empty())
             .unwrap_or(Path::new("."));
+        std::fs::create_dir_all(dir).map_err(write_error)?;
+        let lock = SaveLock::acquire(path)?;
         let previous = match std::fs::read(path) {
             Ok(bytes) => Some(bytes),
             Err(e) if e.kind() == std::io::ErrorKind::NotFound => None,
-            Err(source) => {
+            Err(os_error) => {
                 return Err(ProfileError::Read {
                     path: path.to_owned(),
-                    source,
+                    os_error,
                 });
             }
         };
@@ -508,7 +792,6 @@ impl PendingSave {
                 path: path.to_owned(),
             });
         }
-        std::fs::create_dir_all(dir).map_err(write_error)?;
         let mut temp = tempfile::Builder::new()
             .prefix(".tidewright-")
             .suffix(".tmp")
@@ -520,15 +803,16 @@ impl PendingSave {
             path: path.to_owned(),
             temp,
             previous,
+            _lock: lock,
         })
     }
 
     /// Keeps the previous version as `NAME.toml.bak`, renames the new file into place and
     /// syncs the directory.
     pub fn commit(self) -> Result<Saved, ProfileError> {
-        let write_error = |path: &Path, source| ProfileError::Write {
+        let write_error = |path: &Path, os_error| ProfileError::Write {
             path: path.to_owned(),
-            source,
+            os_error,
         };
         let dir = self
             .path

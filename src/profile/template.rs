@@ -7,7 +7,11 @@
 //! density) are filled in and marked so. A blank is replaced as a whole line, as `sed` would:
 //! `sed -i 's/^length_waterline = "FILL IN"/length_waterline = "11.2 m"/' boats/NAME.toml`.
 
+use super::error::{Issue, ProfileError};
 use crate::units::UnitSystem;
+use std::ops::Range;
+use toml::Spanned;
+use toml::de::{DeTable, DeValue};
 
 /// The text of a blank left for the user to fill in.
 pub const BLANK: &str = "FILL IN";
@@ -43,47 +47,88 @@ pub fn engine_template(name: &str, system: UnitSystem) -> String {
 ///
 /// For `new` to list what to fill in, and for `check` to name every blank at once.
 pub fn unfilled_keys(text: &str) -> Vec<String> {
-    let Ok(table) = toml::from_str::<toml::Table>(text) else {
-        return Vec::new();
-    };
-    let mut keys = Vec::new();
-    collect_blanks(&toml::Value::Table(table), "", &mut keys);
-    // Sort by where each key's line stands in the file, so the list reads top to bottom.
-    let line_of = |key: &String| {
-        let leaf = key.rsplit(['.', ']']).next().unwrap_or(key);
-        let needle = format!("{leaf} = \"{BLANK}\"");
-        text.find(&needle).unwrap_or(usize::MAX)
-    };
-    keys.sort_by_key(line_of);
-    keys
+    blanks(text).into_iter().map(|(key, _)| key).collect()
 }
 
-/// Adds to `keys` every key under `value` (itself at dotted `path`) whose value is a blank.
-fn collect_blanks(value: &toml::Value, path: &str, keys: &mut Vec<String>) {
-    let join = |key: &str| {
-        if path.is_empty() {
-            key.to_owned()
-        } else {
-            format!("{path}.{key}")
-        }
+/// Each key whose value in `text` is still a blank, with the byte span of that value, in file
+/// order; empty when every blank is filled or the text is not TOML.
+pub fn blanks(text: &str) -> Vec<(String, Range<usize>)> {
+    let Ok(table) = toml::de::DeTable::parse(text) else {
+        return Vec::new();
     };
-    match value {
-        toml::Value::String(text) if text.trim().eq_ignore_ascii_case(BLANK) => {
-            keys.push(path.to_owned());
+    let mut found = Vec::new();
+    collect_table(table.get_ref(), "", &mut found);
+    found.sort_by_key(|(_, span)| span.start);
+    found
+}
+
+/// Adds to `found` every key under `table` (itself at dotted `path`) whose value is a blank.
+fn collect_table(table: &DeTable<'_>, path: &str, found: &mut Vec<(String, Range<usize>)>) {
+    for (key, value) in table {
+        let full = if path.is_empty() {
+            key.get_ref().to_string()
+        } else {
+            format!("{path}.{}", key.get_ref())
+        };
+        collect_value(value, &full, found);
+    }
+}
+
+/// Adds to `found` the blank `value` at `path`, or the blanks inside it.
+fn collect_value(
+    value: &Spanned<DeValue<'_>>,
+    path: &str,
+    found: &mut Vec<(String, Range<usize>)>,
+) {
+    match value.get_ref() {
+        DeValue::String(text) if text.trim().eq_ignore_ascii_case(BLANK) => {
+            found.push((path.to_owned(), value.span()));
         }
-        toml::Value::Table(table) => {
-            for (key, inner) in table {
-                collect_blanks(inner, &join(key), keys);
-            }
-        }
+        DeValue::Table(table) => collect_table(table, path, found),
         // An array of tables (`[[variant]]`) is numbered from 1, as in error messages.
-        toml::Value::Array(items) if items.iter().all(toml::Value::is_table) => {
+        DeValue::Array(items) => {
             for (index, item) in items.iter().enumerate() {
-                collect_blanks(item, &format!("{path}[{}]", index + 1), keys);
+                if let DeValue::Table(table) = item.get_ref() {
+                    collect_table(table, &format!("{path}[{}]", index + 1), found);
+                }
             }
         }
         _ => {}
     }
+}
+
+/// One error per blank left in `source` (shown as `file`), each at its line and column.
+pub(crate) fn blank_errors(file: &str, source: &str) -> Vec<ProfileError> {
+    blanks(source)
+        .into_iter()
+        .map(|(key, span)| {
+            let issue = Issue::new(
+                key,
+                format!("{BLANK:?}"),
+                "still the template's blank; expected your value (see the comment beside it)",
+            );
+            ProfileError::invalid(file, source, Some(span), issue)
+        })
+        .collect()
+}
+
+/// Refuses a file with a blank left, at the first blank, saying how many more there are.
+pub(crate) fn refuse_blanks(file: &str, source: &str) -> Result<(), ProfileError> {
+    let mut errors = blank_errors(file, source);
+    if errors.is_empty() {
+        return Ok(());
+    }
+    let more = errors.len() - 1;
+    let mut first = errors.swap_remove(0);
+    if let ProfileError::Invalid { issue, .. } = &mut first
+        && more > 0
+    {
+        issue.problem.push_str(&format!(
+            " ({more} more blank{}; `tidewright check` lists them all)",
+            if more == 1 { "" } else { "s" }
+        ));
+    }
+    Err(first)
 }
 
 /// `text` with the name placeholder replaced by `name`, escaped for a TOML basic string.

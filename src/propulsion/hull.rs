@@ -22,7 +22,7 @@ use thiserror::Error;
 #[derive(Debug, Clone, PartialEq, Error)]
 pub enum HullError {
     /// A particular that must be positive and finite was not.
-    #[error("{field} must be a positive finite number, got {value}")]
+    #[error("{field} must be a positive finite number, got {}", significant(*value))]
     NotPositive {
         /// The field's name, e.g. "waterline length".
         field: &'static str,
@@ -30,7 +30,7 @@ pub enum HullError {
         value: f64,
     },
     /// A quantity that may be zero but not negative (an area, a height) was negative or not finite.
-    #[error("{field} must be zero or a positive finite number, got {value}")]
+    #[error("{field} must be zero or a positive finite number, got {}", significant(*value))]
     Negative {
         /// The field's name, e.g. "appendage wetted area".
         field: &'static str,
@@ -38,7 +38,12 @@ pub enum HullError {
         value: f64,
     },
     /// A coefficient lies outside the range where it has a meaning.
-    #[error("{field} = {value} is outside the physically possible range {min}–{max}")]
+    #[error(
+        "{field} = {}; expected {}–{} (the physically possible range)",
+        significant(*value),
+        significant(*min),
+        significant(*max)
+    )]
     OutOfRange {
         /// The field's name.
         field: &'static str,
@@ -68,4 +73,20 @@ pub enum HullError {
         /// The table's highest speed, m/s.
         max: f64,
     },
+}
+
+/// `value` to three significant figures in plain decimal notation (0.0000153, 1450, 0.1), so
+/// that a message never shows a 20-digit number or an exponent.
+pub fn significant(value: f64) -> String {
+    if !value.is_finite() || value == 0.0 {
+        return format!("{value}");
+    }
+    let magnitude = value.abs().log10().floor() as i32;
+    let decimals = (2 - magnitude).clamp(0, 20) as usize;
+    let text = format!("{value:.decimals$}");
+    if text.contains('.') {
+        text.trim_end_matches('0').trim_end_matches('.').to_owned()
+    } else {
+        text
+    }
 }

@@ -286,10 +286,10 @@ fn the_locale_decides_utf8_in_posix_order() {
 // 4. Templates for `new boat` and `new engine`.
 
 /// Replacements for the blanks of one template: (key, TOML value as written).
-type Fills = Vec<(&'static str, &'static str)>;
+pub(crate) type Fills = Vec<(&'static str, &'static str)>;
 
 /// Values that fill every blank of the boat and engine templates in `system`.
-fn fills(system: UnitSystem) -> (Fills, Fills) {
+pub(crate) fn fills(system: UnitSystem) -> (Fills, Fills) {
     let boat_common = [
         ("engine", "\"harbour-diesel\""),
         ("gear_ratio", "2.5"),
@@ -343,7 +343,7 @@ fn fills(system: UnitSystem) -> (Fills, Fills) {
 }
 
 /// `text` with each blank `KEY = "FILL IN"` replaced, as `sed 's/^KEY = "FILL IN"/KEY = V/'` does.
-fn fill(text: &str, values: &[(&str, &str)]) -> String {
+pub(crate) fn fill(text: &str, values: &[(&str, &str)]) -> String {
     values.iter().fold(text.to_owned(), |text, (key, value)| {
         let blank = format!("{key} = \"{BLANK}\"");
         assert_eq!(text.matches(&blank).count(), 1, "one blank {blank}");

@@ -7,6 +7,7 @@ mod support;
 mod cli;
 mod cli_design;
 mod design;
+mod dockside;
 mod hardening;
 mod hull;
 mod instruments;

@@ -146,7 +146,8 @@ pub(super) struct RawInteraction {
 #[derive(Debug, Deserialize, Serialize)]
 #[serde(deny_unknown_fields)]
 pub(super) struct RawInstallation {
-    pub(super) gear_ratio: Spanned<f64>,
+    /// A number (2.5) or a ratio written as text ("2.5:1").
+    pub(super) gear_ratio: Spanned<toml::Value>,
     pub(super) shaft_efficiency: Spanned<f64>,
     pub(super) gear_efficiency: Spanned<f64>,
     #[serde(default, skip_serializing_if = "Option::is_none")]

@@ -1,5 +1,6 @@
 //! Reading a boat file: TOML text → raw form → typed document, then validation.
 
+use super::MAX_VARIANTS;
 use super::raw::{
     CONDITIONS, DIRECTIONS, INTERACTIONS, METHODS, ROTATIONS, RawBoat, RawCase, RawHull, RawLoad,
     RawVariant, WATERS,
@@ -12,12 +13,15 @@ use super::{
 use crate::profile::error::{Issue, ProfileError};
 use crate::profile::fields::{UNIT_SYSTEMS, check_schema};
 use crate::profile::quantity::{Reader, guess_system};
+use crate::profile::template::refuse_blanks;
 use crate::units::Kind;
 use toml::Spanned;
 
 impl BoatDoc {
     /// Reads a boat from TOML `source`; `file` names it in error messages.
     pub fn from_toml(source: &str, file: &str) -> Result<Self, ProfileError> {
+        // A blank from `tidewright new` is named as such, not as a malformed value.
+        refuse_blanks(file, source)?;
         let raw: RawBoat =
             toml::from_str(source).map_err(|e| ProfileError::from_toml(file, source, &e))?;
         let mut r = Reader::new(file, source);
@@ -141,7 +145,7 @@ impl BoatDoc {
         };
         let inst = &raw.installation;
         let installation = InstallationDoc {
-            gear_ratio: r.num("installation.gear_ratio", &inst.gear_ratio),
+            gear_ratio: r.ratio("installation.gear_ratio", &inst.gear_ratio)?,
             shaft_efficiency: r.num("installation.shaft_efficiency", &inst.shaft_efficiency),
             gear_efficiency: r.num("installation.gear_efficiency", &inst.gear_efficiency),
             shaft_immersion: r.opt_qty(
@@ -185,6 +189,21 @@ impl BoatDoc {
                 Kind::Length,
             )?,
         };
+        if let Some(extra) = raw.variant.get(MAX_VARIANTS) {
+            let key = format!("variant[{}]", MAX_VARIANTS + 1);
+            return Err(r.error(
+                &key,
+                extra.label.span(),
+                Issue::new(
+                    key.clone(),
+                    String::new(),
+                    format!(
+                        "{} [[variant]] tables; expected at most {MAX_VARIANTS} (the screws to compare on one boat)",
+                        raw.variant.len()
+                    ),
+                ),
+            ));
+        }
         let mut variants = Vec::with_capacity(raw.variant.len());
         for (i, v) in raw.variant.iter().enumerate() {
             variants.push(read_variant(&mut r, &format!("variant[{}]", i + 1), v)?);

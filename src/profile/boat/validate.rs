@@ -471,6 +471,10 @@ impl BoatDoc {
                 );
             }
         }
+        // The hull's form only once its particulars are each acceptable on their own.
+        if v.issues.is_empty() {
+            v.issues.extend(self.hull_form_issues());
+        }
         v.issues
     }
 

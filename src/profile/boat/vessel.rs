@@ -1,7 +1,7 @@
 //! Building the core's `Vessel` from a boat document and its engine sheet.
 
 use super::{
-    BoatDoc, DEFAULT_APPENDAGE_FORM_FACTOR, InteractionDoc, LoadCondition, MatchDoc,
+    BoatDoc, DEFAULT_APPENDAGE_FORM_FACTOR, InteractionDoc, LoadCase, LoadCondition, MatchDoc,
     ResistanceMethodDoc,
 };
 use crate::profile::engine::EngineDoc;
@@ -47,31 +47,7 @@ impl BoatDoc {
                     e.to_string(),
                 )
             })?;
-        let h = &self.hull;
-        let hull_input = HullInput {
-            length_waterline: h.length_waterline.value,
-            beam_waterline: h.beam_waterline.value,
-            draft_aft: case.draft_aft.as_ref().unwrap_or(&h.draft_aft).value,
-            draft_forward: case
-                .draft_forward
-                .as_ref()
-                .unwrap_or(&h.draft_forward)
-                .value,
-            displacement_volume: case.displacement.value / water.density,
-            midship_coefficient: h.midship_coefficient,
-            waterplane_coefficient: h.waterplane_coefficient,
-            lcb_fraction: h.lcb_fraction,
-            wetted_surface: h.wetted_surface.as_ref().map(|q| q.value),
-            half_entrance_angle_deg: h.half_entrance_angle.as_ref().map(|q| q.value),
-            transom_area: h.transom_area.as_ref().map(|q| q.value),
-            bulb_area: h.bulb_area.as_ref().map_or(0.0, |q| q.value),
-            bulb_centre_height: h.bulb_centre_height.as_ref().map_or(0.0, |q| q.value),
-            stern_coefficient: h.stern_coefficient.unwrap_or(0.0),
-            appendage_area: h.appendage_area.as_ref().map_or(0.0, |q| q.value),
-            appendage_form_factor: h
-                .appendage_form_factor
-                .unwrap_or(DEFAULT_APPENDAGE_FORM_FACTOR),
-        };
+        let hull_input = self.hull_input(case, water.density);
         let hull = hull_input
             .resolve()
             .map_err(|e| invalid(hull_error_key(&e, condition), String::new(), e.to_string()))?;
@@ -238,6 +214,60 @@ impl BoatDoc {
                 .map_or_else(RepitchLimit::default, MatchDoc::repitch),
             trial,
         })
+    }
+
+    /// The core's hull input for the loading `case` floating in water of `density`, kg/m³.
+    pub(super) fn hull_input(&self, case: &LoadCase, density: f64) -> HullInput {
+        let h = &self.hull;
+        HullInput {
+            length_waterline: h.length_waterline.value,
+            beam_waterline: h.beam_waterline.value,
+            draft_aft: case.draft_aft.as_ref().unwrap_or(&h.draft_aft).value,
+            draft_forward: case
+                .draft_forward
+                .as_ref()
+                .unwrap_or(&h.draft_forward)
+                .value,
+            displacement_volume: case.displacement.value / density,
+            midship_coefficient: h.midship_coefficient,
+            waterplane_coefficient: h.waterplane_coefficient,
+            lcb_fraction: h.lcb_fraction,
+            wetted_surface: h.wetted_surface.as_ref().map(|q| q.value),
+            half_entrance_angle_deg: h.half_entrance_angle.as_ref().map(|q| q.value),
+            transom_area: h.transom_area.as_ref().map(|q| q.value),
+            bulb_area: h.bulb_area.as_ref().map_or(0.0, |q| q.value),
+            bulb_centre_height: h.bulb_centre_height.as_ref().map_or(0.0, |q| q.value),
+            stern_coefficient: h.stern_coefficient.unwrap_or(0.0),
+            appendage_area: h.appendage_area.as_ref().map_or(0.0, |q| q.value),
+            appendage_form_factor: h
+                .appendage_form_factor
+                .unwrap_or(DEFAULT_APPENDAGE_FORM_FACTOR),
+        }
+    }
+
+    /// The hull-form problem of each load case the file gives (a block coefficient no hull
+    /// can have, from a displacement in the wrong unit, say), keyed to the file.
+    pub(super) fn hull_form_issues(&self) -> Vec<Issue> {
+        let Ok(water) = water::water_properties(self.water.kind, self.water.temperature.value)
+        else {
+            return Vec::new();
+        };
+        let mut issues = Vec::new();
+        for condition in LoadCondition::ALL {
+            let Some(case) = self.load.case(condition) else {
+                continue;
+            };
+            if let Err(e) = self.hull_input(case, water.density).resolve() {
+                let key = hull_error_key(&e, condition);
+                let found = if key.ends_with("displacement") {
+                    case.displacement.shown()
+                } else {
+                    String::new()
+                };
+                issues.push(Issue::new(key, found, e.to_string()));
+            }
+        }
+        issues
     }
 
     /// The `Vessel` in the boat's default load condition.

@@ -114,7 +114,7 @@ impl BoatDoc {
             },
             interaction,
             installation: RawInstallation {
-                gear_ratio: out_num(inst.gear_ratio),
+                gear_ratio: toml::Spanned::new(0..0, toml::Value::Float(inst.gear_ratio)),
                 shaft_efficiency: out_num(inst.shaft_efficiency),
                 gear_efficiency: out_num(inst.gear_efficiency),
                 shaft_immersion: oq(&inst.shaft_immersion, Kind::Length),

@@ -275,10 +275,20 @@ fn a_crash_between_writing_and_renaming_leaves_the_old_file_and_a_harmless_tempo
             .iter()
             .any(|name| name.contains("tidewright"))
     );
-    // The next save, after the "restart", works and the leftover does not get in the way.
+    // A crash also leaves the save lock, naming a process that is then gone: here one that
+    // has ended, as after a restart.
+    let lock = boats_dir.join(format!(".{BOAT}.toml.lock"));
+    assert!(lock.exists());
+    let mut ended = Command::new("true").spawn().unwrap();
+    ended.wait().unwrap();
+    std::fs::write(&lock, format!("{}\n", ended.id())).unwrap();
+    // The next save, after the "restart", works and the leftovers do not get in the way.
+    let started = Instant::now();
     let saved = store
         .save_boat(BOAT, &edited, loaded.origin.stamp(), false)
         .unwrap();
+    assert!(started.elapsed() < Duration::from_secs(1));
+    assert!(!lock.exists());
     assert_eq!(std::fs::read(saved.backup.unwrap()).unwrap(), before);
     let reloaded = store.load_boat(BOAT).unwrap().doc.trip.tank.value;
     assert!(
@@ -472,4 +482,84 @@ fn two_store_instances_saving_at_once_never_leave_a_broken_file() {
         "backup.toml",
     )
     .expect("the backup parses");
+}
+
+#[test]
+fn two_writers_adding_to_the_tank_at_once_lose_no_update() {
+    // Each writer loads, adds one litre and saves with the stamp it loaded; a change on disk
+    // in between is refused and the writer reloads and tries again, as the TUI asks a user
+    // to. With the save lock no two saves can both pass the check, so every litre arrives.
+    let (_dir, store) = demo_store();
+    let root = store.root().unwrap().to_owned();
+    let original = store.load_boat(BOAT).unwrap().doc.trip.tank.value;
+    const ADDS_PER_WRITER: u32 = 8;
+    let writers: Vec<_> = (0..2)
+        .map(|_| {
+            let root = root.clone();
+            std::thread::spawn(move || {
+                let store = Store::at(root);
+                let mut retries = 0u32;
+                for _ in 0..ADDS_PER_WRITER {
+                    loop {
+                        let loaded = store.load_boat(BOAT).unwrap();
+                        let edited = with_larger_tank(&loaded.doc, 1.0);
+                        match store.save_boat(BOAT, &edited, loaded.origin.stamp(), false) {
+                            Ok(_) => break,
+                            Err(ProfileError::ChangedOnDisk { .. }) => retries += 1,
+                            Err(other) => panic!("{other}"),
+                        }
+                    }
+                }
+                retries
+            })
+        })
+        .collect();
+    let retries: u32 = writers.into_iter().map(|w| w.join().unwrap()).sum();
+    let last = store.load_boat(BOAT).unwrap().doc.trip.tank.value;
+    let added_litres = (last - original) * 1e3;
+    assert!(
+        (added_litres - f64::from(2 * ADDS_PER_WRITER)).abs() < 0.05,
+        "{added_litres:.2} L added of {} ({retries} retries)",
+        2 * ADDS_PER_WRITER
+    );
+    let dir = store.boat_path(BOAT).unwrap().parent().unwrap().to_owned();
+    assert!(!dir.join(format!(".{BOAT}.toml.lock")).exists());
+}
+
+#[test]
+fn a_save_waits_for_a_held_lock_and_takes_over_a_stale_one() {
+    let (_dir, store) = demo_store();
+    let path = store.boat_path(BOAT).unwrap();
+    let lock = path.with_file_name(format!(".{BOAT}.toml.lock"));
+    let loaded = store.load_boat(BOAT).unwrap();
+    // A lock held by another save (of a live process, this one) that ends 300 ms later: this
+    // save waits for it.
+    std::fs::write(&lock, format!("{}\n", std::process::id())).unwrap();
+    let release = {
+        let lock = lock.clone();
+        std::thread::spawn(move || {
+            std::thread::sleep(Duration::from_millis(300));
+            std::fs::remove_file(lock).unwrap();
+        })
+    };
+    let started = Instant::now();
+    let edited = with_larger_tank(&loaded.doc, 5.0);
+    let saved = store
+        .save_boat(BOAT, &edited, loaded.origin.stamp(), false)
+        .unwrap();
+    assert!(started.elapsed() >= Duration::from_millis(250));
+    release.join().unwrap();
+    // A lock left by a save that died long ago is taken over at once.
+    let file = std::fs::File::create(&lock).unwrap();
+    let old = std::time::SystemTime::now()
+        - Duration::from_secs(tidewright::profile::store::STALE_LOCK_SECONDS + 5);
+    file.set_modified(old).unwrap();
+    drop(file);
+    let started = Instant::now();
+    let edited = with_larger_tank(&edited, 5.0);
+    store
+        .save_boat(BOAT, &edited, Some(&saved.stamp), false)
+        .unwrap();
+    assert!(started.elapsed() < Duration::from_secs(1));
+    assert!(!lock.exists());
 }
