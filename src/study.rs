@@ -193,7 +193,9 @@ impl Study {
         origin: Option<Origin>,
     ) -> Result<Self, crate::profile::ProfileError> {
         let vessel = doc.to_default_vessel(&engine_doc)?;
-        let estimated = estimated_notes(&vessel, units);
+        let mut estimated = estimated_notes(&vessel, units);
+        // "no service margin or fouling applied" when the file leaves both at zero.
+        estimated.extend(doc.notes());
         let calibration = doc.calibration.as_ref().map(|c| AppliedCalibration {
             resistance_factor: c.resistance_factor,
             wake_fraction: c.wake_fraction,
