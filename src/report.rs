@@ -8,6 +8,7 @@ pub mod boat;
 pub mod checks;
 pub mod design;
 pub mod export;
+pub mod import;
 pub mod json;
 pub mod openwater;
 pub mod svg;

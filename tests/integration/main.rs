@@ -17,6 +17,7 @@ mod published;
 mod robustness;
 mod screw;
 mod solver;
+mod trial_import;
 mod tui;
 mod units;
 mod water;
