@@ -97,6 +97,9 @@ pub enum Command {
     Open {
         /// A boat name in the profile store, or a path to a boat file.
         boat: String,
+        /// Live instruments: tcp://HOST:PORT, udp://:PORT or a log file replayed in real time.
+        #[arg(long, value_name = "FEED")]
+        nmea: Option<String>,
     },
     /// Operating table, match verdict, top speed and cruise line of a boat, per screw variant.
     Report(ReportArgs),
@@ -475,7 +478,20 @@ pub fn run(cli: Cli, out: &mut dyn Write) -> anyhow::Result<()> {
     };
     match cli.command {
         None => open_terminal_ui(&ctx, None),
-        Some(Command::Open { boat }) => open_terminal_ui(&ctx, Some(&boat)),
+        Some(Command::Open { boat, nmea: None }) => open_terminal_ui(&ctx, Some(&boat)),
+        Some(Command::Open {
+            boat,
+            nmea: Some(text),
+        }) => {
+            let source = crate::instruments::feed::FeedSource::parse(&text)
+                .map_err(|e| UsageError(format!("--nmea: {e}")))?;
+            crate::tui::run_with_feed(
+                &store::store(&ctx),
+                Some(&boat),
+                ctx.units,
+                Some((text, source)),
+            )
+        }
         Some(Command::Report(args)) => boat::report(&ctx, &args, out),
         Some(Command::Cruise(args)) => boat::cruise(&ctx, &args, out),
         Some(Command::Check(args)) => store::check(&ctx, &args, out),

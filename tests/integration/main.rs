@@ -10,6 +10,7 @@ mod design;
 mod hardening;
 mod hull;
 mod instruments;
+mod live;
 mod oortmerssen;
 mod pitch;
 mod profiles;

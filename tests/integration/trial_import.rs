@@ -7,7 +7,7 @@
 
 use assert_cmd::Command;
 use serde_json::Value;
-use tidewright::instruments::synth::{self, SynthLog, SynthSpec};
+use tidewright::instruments::synth::{self, SynthLog, SynthSpec, TimePrefix};
 use tidewright::profile::Store;
 use tidewright::propulsion::solver::matching::point_at_engine_rpm;
 use tidewright::study::Study;
@@ -26,6 +26,11 @@ fn tidewright() -> Command {
 /// the calm-water resistance ×1.2; three rpm steps out and back in a 0.3 m/s current, with GPS
 /// noise and throttle transients.
 pub fn pintle_log() -> SynthLog {
+    pintle_log_with(TimePrefix::None)
+}
+
+/// [`pintle_log`] with `time_prefix` before each sentence.
+pub fn pintle_log_with(time_prefix: TimePrefix) -> SynthLog {
     let study = Study::load(&Store::at("/nonexistent"), "pintle", None).unwrap();
     let mut vessel = study.uncalibrated_vessel().unwrap();
     vessel.resistance.margins.service = 0.0;
@@ -35,6 +40,7 @@ pub fn pintle_log() -> SynthLog {
     let system = vessel.system(index);
     let spec = SynthSpec {
         rpm_steps: vec![1400.0, 1900.0, 2400.0],
+        time_prefix,
         ..SynthSpec::default()
     };
     synth::generate(
