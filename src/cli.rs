@@ -7,6 +7,7 @@
 mod boat;
 mod conditions;
 mod design;
+mod import;
 mod new;
 mod openwater;
 mod store;
@@ -97,6 +98,9 @@ pub enum Command {
     Open {
         /// A boat name in the profile store, or a path to a boat file.
         boat: String,
+        /// Live instruments: tcp://HOST:PORT, udp://:PORT or a log file replayed in real time.
+        #[arg(long, value_name = "FEED")]
+        nmea: Option<String>,
     },
     /// Operating table, match verdict, top speed and cruise line of a boat, per screw variant.
     Report(ReportArgs),
@@ -241,12 +245,35 @@ pub struct DesignArgs {
     #[arg(long)]
     pub fit_wake: bool,
     /// Save the fitted correction in the boat's [calibration] (the previous file is kept as
-    /// NAME.toml.bak); every later prediction applies it.
+    /// NAME.toml.bak); every later prediction applies it. With `--import`, the runs found also
+    /// replace the boat's [trial] log (dated from the log).
     #[arg(long)]
     pub save: bool,
     /// Output format.
     #[arg(long, value_enum, default_value_t = PlainFormat::Text)]
     pub format: PlainFormat,
+    /// Fit the steady runs found in this instrument log (NMEA 0183 or CSV) instead of the
+    /// boat's [trial] log.
+    #[arg(long, value_name = "FILE")]
+    pub import: Option<PathBuf>,
+    /// The log's format (default: detected from its content).
+    #[arg(long, value_enum, value_name = "FORMAT", requires = "import")]
+    pub log_format: Option<LogFormatArg>,
+    /// Shortest steady run kept, seconds after the settling time (default 60).
+    #[arg(long, value_name = "SECONDS", requires = "import")]
+    pub min_run: Option<f64>,
+    /// rpm held within this many rpm of a run's mean (default 25, or 1.5 % when larger).
+    #[arg(long, value_name = "RPM", requires = "import")]
+    pub rpm_tolerance: Option<f64>,
+}
+
+/// The format of an instrument log.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, ValueEnum)]
+pub enum LogFormatArg {
+    /// NMEA 0183 sentences, one a line.
+    Nmea,
+    /// CSV with a header naming columns and units.
+    Csv,
 }
 
 /// Arguments of `pitch`.
@@ -480,7 +507,20 @@ pub fn run(cli: Cli, out: &mut dyn Write) -> anyhow::Result<()> {
     };
     match cli.command {
         None => open_terminal_ui(&ctx, None),
-        Some(Command::Open { boat }) => open_terminal_ui(&ctx, Some(&boat)),
+        Some(Command::Open { boat, nmea: None }) => open_terminal_ui(&ctx, Some(&boat)),
+        Some(Command::Open {
+            boat,
+            nmea: Some(text),
+        }) => {
+            let source = crate::instruments::feed::FeedSource::parse(&text)
+                .map_err(|e| UsageError(format!("--nmea: {e}")))?;
+            crate::tui::run_with_feed(
+                &store::store(&ctx),
+                Some(&boat),
+                ctx.units,
+                Some((text, source)),
+            )
+        }
         Some(Command::Report(args)) => boat::report(&ctx, &args, out),
         Some(Command::Cruise(args)) => boat::cruise(&ctx, &args, out),
         Some(Command::Check(args)) => store::check(&ctx, &args, out),
@@ -490,6 +530,7 @@ pub fn run(cli: Cli, out: &mut dyn Write) -> anyhow::Result<()> {
         Some(Command::Openwater(args)) => openwater::run(&args, out),
         Some(Command::Pitch(args)) => design::pitch(&ctx, &args, out),
         Some(Command::Sweep(args)) => design::sweep(&ctx, &args, out),
+        Some(Command::Trial(args)) if args.import.is_some() => import::trial(&ctx, &args, out),
         Some(Command::Trial(args)) => design::trial(&ctx, &args, out),
         Some(Command::Conditions(args)) => conditions::run(&ctx, &args, out),
         Some(Command::Export(args)) => boat::export(&ctx, &args, out),

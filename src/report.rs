@@ -9,6 +9,7 @@ pub mod checks;
 pub mod design;
 pub mod documents;
 pub mod export;
+pub mod import;
 pub mod json;
 pub mod model;
 pub mod openwater;

@@ -13,6 +13,7 @@ pub mod edit;
 pub mod fields;
 pub mod issues;
 pub mod keys;
+pub mod live;
 pub mod solve;
 pub mod theme;
 pub mod ui;
@@ -51,6 +52,8 @@ struct Session {
     target: SaveTarget,
     stamp: Option<FileStamp>,
     last_disk_check: Instant,
+    /// The live instrument feed, polled without blocking.
+    feed: Option<crate::instruments::feed::Feed>,
 }
 
 impl Session {
@@ -133,6 +136,17 @@ pub fn open_app(store: &Store, boat: Option<&str>) -> Result<App, ProfileError> 
 /// file), or the store's first boat — the embedded demo fleet's when the store does not exist.
 /// `units` sets the display units at start; `None` uses the units the boat's file is written in.
 pub fn run(store: &Store, boat: Option<&str>, units: Option<UnitSystem>) -> anyhow::Result<()> {
+    run_with_feed(store, boat, units, None)
+}
+
+/// [`run`] with a live instrument feed from `feed` (address text and source) shown under the
+/// readout and captured into the sea-trial view.
+pub fn run_with_feed(
+    store: &Store,
+    boat: Option<&str>,
+    units: Option<UnitSystem>,
+    feed: Option<(String, crate::instruments::feed::FeedSource)>,
+) -> anyhow::Result<()> {
     let (opened, target, stamp) = open(store, boat).context("opening the boat")?;
     let units = units.unwrap_or(opened.boat.units);
     let mut app = App::new(opened, units, theme::Theme::from_env());
@@ -141,7 +155,15 @@ pub fn run(store: &Store, boat: Option<&str>, units: Option<UnitSystem>) -> anyh
         target,
         stamp,
         last_disk_check: Instant::now(),
+        feed: None,
     };
+    if let Some((text, source)) = feed {
+        app.update(Action::LiveStarted(text));
+        session.feed = Some(crate::instruments::feed::Feed::start(
+            source,
+            Default::default(),
+        ));
+    }
 
     // SIGTERM and SIGHUP (a dropped SSH link) set a flag; the loop sees it within
     // SIGNAL_CHECK, leaves, and the terminal is restored below. Nothing is saved on the way
@@ -204,7 +226,15 @@ fn event_loop(
         panic!("panic requested by TIDEWRIGHT_PANIC_AFTER_DRAW after the first draw");
     }
     while !stop.load(Ordering::Relaxed) {
-        if !event::poll(SIGNAL_CHECK)? {
+        let ready = event::poll(SIGNAL_CHECK)?;
+        // The feed's thread queues what it read; taking it never blocks.
+        if let Some(events) = session.feed.as_ref().map(|f| f.drain())
+            && !events.is_empty()
+        {
+            app.update(Action::Feed(events));
+            terminal.draw(|frame| ui::render(app, frame))?;
+        }
+        if !ready {
             continue;
         }
         let action = match event::read()? {

@@ -187,7 +187,16 @@ fn save_calibration(study: &Study, index: usize, cal: &Calibration) -> anyhow::R
 /// `trial BOAT`.
 pub fn trial(ctx: &Context, args: &DesignArgs, out: &mut dyn Write) -> anyhow::Result<()> {
     let study = load_study(ctx, &args.boat)?;
-    let index = variant_or_active(&study, args.variant.as_deref())?;
+    trial_of(&study, args, out)
+}
+
+/// The fit of `study`'s trial log, as `trial` prints and saves it.
+pub(super) fn trial_of(
+    study: &Study,
+    args: &DesignArgs,
+    out: &mut dyn Write,
+) -> anyhow::Result<()> {
+    let index = variant_or_active(study, args.variant.as_deref())?;
     let cal = study.calibration(index, args.fit_wake)?;
     if !(cal.rms_before.is_finite()
         && cal.rms_after.is_finite()
@@ -200,7 +209,7 @@ pub fn trial(ctx: &Context, args: &DesignArgs, out: &mut dyn Write) -> anyhow::R
     }
     let rms_saved = study.rms_with_saved(index, &cal);
     let saved = if args.save {
-        Some(save_calibration(&study, index, &cal)?)
+        Some(save_calibration(study, index, &cal)?)
     } else {
         None
     };
@@ -217,7 +226,7 @@ pub fn trial(ctx: &Context, args: &DesignArgs, out: &mut dyn Write) -> anyhow::R
                 "{}: sea trial against the prediction (screw {label})",
                 study.vessel.name
             )?;
-            writeln!(out, "  {}", comparison_text(&study, rms_saved, &d))?;
+            writeln!(out, "  {}", comparison_text(study, rms_saved, &d))?;
             out.write_all(trial_text(&cal, &d).as_bytes())?;
             match &saved {
                 Some(s) => {
@@ -232,8 +241,12 @@ pub fn trial(ctx: &Context, args: &DesignArgs, out: &mut dyn Write) -> anyhow::R
                 }
                 None => writeln!(
                     out,
-                    "Not saved: `tidewright trial {} --save` writes it into the boat's [calibration]",
-                    args.boat
+                    "Not saved: `tidewright trial {}{} --save` writes it into the boat's [calibration]",
+                    args.boat,
+                    args.import
+                        .as_ref()
+                        .map(|f| format!(" --import {}", f.display()))
+                        .unwrap_or_default()
                 )?,
             }
         }

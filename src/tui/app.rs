@@ -45,6 +45,10 @@ pub enum Action {
     SaveConflict,
     /// Something the loop tried failed; the text says what and why.
     Failed(String),
+    /// The loop started a live instrument feed from this address.
+    LiveStarted(String),
+    /// The loop read these events from the live feed.
+    Feed(Vec<crate::instruments::feed::FeedEvent>),
 }
 
 /// A boat opened by the loop, ready to edit.
@@ -238,6 +242,8 @@ pub struct App {
     pub band_shown: bool,
     /// The uncertainty band, kept while the power chart shows it or the what-if view is open.
     pub band: Option<Result<UncertaintyBand, String>>,
+    /// The live instrument feed, when one was started (`open --nmea`).
+    pub live: Option<super::live::Live>,
 }
 
 impl App {
@@ -271,6 +277,7 @@ impl App {
             view: None,
             band_shown: false,
             band: None,
+            live: None,
         }
     }
 
@@ -349,7 +356,9 @@ impl App {
                 let (units, theme, chart) = (self.units, self.theme.clone(), self.chart);
                 let (band_shown, sweep_over) = (self.band_shown, self.sweep_over);
                 let name = opened.name.clone();
+                let live = self.live.take();
                 *self = App::new(opened, units, theme);
+                self.live = live;
                 self.chart = chart;
                 self.band_shown = band_shown;
                 self.sweep_over = sweep_over;
@@ -388,6 +397,22 @@ impl App {
             }
             Action::Failed(why) => {
                 self.set_status(Level::Error, why);
+                None
+            }
+            Action::LiveStarted(source) => {
+                self.live = Some(super::live::Live::new(source));
+                None
+            }
+            Action::Feed(events) => {
+                let new = self.live.as_mut().map_or(0, |live| live.apply(events));
+                if new > 0 {
+                    self.set_status(
+                        Level::Info,
+                        format!(
+                            "captured {new} steady run(s) from the live feed (r: sea-trial view)"
+                        ),
+                    );
+                }
                 None
             }
         }
@@ -501,6 +526,10 @@ impl App {
                 }
             }
             Command::ApplyCalibration => self.apply_calibration(),
+            Command::ToggleLiveRun
+            | Command::NextLiveRun
+            | Command::PrevLiveRun
+            | Command::UseLiveRuns => self.live_command(command),
             Command::Undo => self.undo(),
             Command::Redo => self.redo(),
             Command::ToggleUnits => self.toggle_units(),
@@ -508,6 +537,42 @@ impl App {
             _ => {}
         }
         None
+    }
+
+    fn live_command(&mut self, command: Command) {
+        let Some(live) = self.live.as_mut() else {
+            self.set_status(
+                Level::Info,
+                "no live feed: `tidewright open BOAT --nmea tcp://HOST:PORT` captures runs",
+            );
+            return;
+        };
+        match command {
+            Command::NextLiveRun => live.move_selection(1),
+            Command::PrevLiveRun => live.move_selection(-1),
+            Command::ToggleLiveRun => match live.toggle_selected() {
+                Some(kept) => {
+                    let n = live.selected + 1;
+                    let word = if kept { "kept" } else { "dropped" };
+                    self.set_status(Level::Info, format!("captured run {n} {word}"));
+                }
+                None => self.set_status(Level::Info, "no run captured yet"),
+            },
+            Command::UseLiveRuns => match live.kept_trial_doc() {
+                Some(trial) => {
+                    let runs = trial.runs.len();
+                    let mut next = self.doc.clone();
+                    next.boat.trial = Some(trial);
+                    self.commit(next);
+                    self.set_status(
+                        Level::Info,
+                        format!("{runs} captured run(s) are the trial log now (a applies the fit; u undoes)"),
+                    );
+                }
+                None => self.set_status(Level::Error, "no captured run is kept"),
+            },
+            _ => {}
+        }
     }
 
     fn apply_calibration(&mut self) {

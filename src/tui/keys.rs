@@ -101,6 +101,14 @@ pub enum Command {
     NextSweepParameter,
     /// Apply the fitted sea-trial correction to the boat.
     ApplyCalibration,
+    /// Keep or drop the highlighted run captured from the live feed.
+    ToggleLiveRun,
+    /// Highlight the next captured run.
+    NextLiveRun,
+    /// Highlight the previous captured run.
+    PrevLiveRun,
+    /// Make the kept captured runs the boat's trial log (the fit then uses them).
+    UseLiveRuns,
     /// Close the design view.
     CloseView,
     /// Save the boat through the store.
@@ -236,6 +244,10 @@ pub const BINDINGS: &[Binding] = &[
     bind(M::View, &[code(KeyCode::BackTab, "Shift-Tab"), code(KeyCode::Left, "←"), ch('h', "h")], C::PrevView, "", "previous view", false),
     bind(M::View, &[ch('n', "n")], C::NextSweepParameter, "parameter", "sweep view: sweep the next parameter (diameter, gear ratio, blade count, area ratio)", true),
     bind(M::View, &[ch('a', "a")], C::ApplyCalibration, "apply fit", "sea-trial view: apply the fitted correction to the boat (unsaved until s; u undoes)", true),
+    bind(M::View, &[ch('x', "x")], C::ToggleLiveRun, "keep/drop", "sea-trial view: keep or drop the highlighted run captured from the live feed (open --nmea)", false),
+    bind(M::View, &[ch('J', "J")], C::NextLiveRun, "", "sea-trial view: highlight the next captured run", false),
+    bind(M::View, &[ch('K', "K")], C::PrevLiveRun, "", "sea-trial view: highlight the previous captured run", false),
+    bind(M::View, &[ch('g', "g")], C::UseLiveRuns, "use runs", "sea-trial view: make the kept captured runs the boat's trial log, refit (a then applies; u undoes)", false),
     bind(M::View, &[ch('u', "u"), ctrl('z', "Ctrl-z")], C::Undo, "undo", "undo the last change", true),
     bind(M::View, &[ctrl('r', "Ctrl-r"), ch('U', "U")], C::Redo, "", "redo the last undone change", false),
     bind(M::View, &[ch('m', "m")], C::ToggleUnits, "", "toggle metric / imperial display", false),

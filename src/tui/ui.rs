@@ -9,6 +9,7 @@
 pub mod chart;
 pub mod field_list;
 pub mod layout;
+pub mod live;
 pub mod overlays;
 pub mod panes;
 pub mod readout;

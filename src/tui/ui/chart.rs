@@ -227,6 +227,15 @@ pub fn chart_view(app: &App) -> ChartView {
                 style: app.theme.accent,
             });
         }
+        if let Some(live) = app.live.as_ref().filter(|l| !l.captured.is_empty()) {
+            view.note = None;
+            view.series.push(Series {
+                name: Some(format!("{} captured runs", Glyph::Block.symbol())),
+                points: convert(&live.kept_points(), None, Kind::Speed, system),
+                shape: SeriesShape::Points(Glyph::Block),
+                style: app.theme.warning,
+            });
+        }
     }
     if let Some(failure) = solved
         .variants

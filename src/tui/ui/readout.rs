@@ -133,6 +133,9 @@ pub fn readout_lines(app: &App) -> Vec<Line<'static>> {
         };
         lines.push(line);
     }
+    if let Some(live) = &app.live {
+        lines.push(super::live::readout_line(app, live));
+    }
     lines.push(Line::styled(CAUTION, theme.dim));
     lines
 }

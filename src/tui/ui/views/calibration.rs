@@ -11,7 +11,7 @@ pub(crate) fn calibration_lines(
     view: &crate::tui::analysis::CalibrationView,
 ) -> Vec<Line<'static>> {
     let system = app.units;
-    let mut lines = Vec::new();
+    let mut lines = crate::tui::ui::live::captured_lines(app);
     let applied = match view.applied {
         Some(k) => format!("calibrated ×{k:.3} is applied to every prediction"),
         None => "no calibration applied".to_string(),

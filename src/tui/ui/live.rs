@@ -1,0 +1,142 @@
+//! The live feed drawn: the line under the readout (SOG, rpm and heading beside the model's
+//! speed at that rpm, and the feed's state) and the captured runs in the sea-trial view.
+
+use crate::instruments::feed::FeedState;
+use crate::instruments::time::clock_of;
+use crate::tui::app::App;
+use crate::tui::live::{Live, interpolate};
+use crate::units::{self, Kind};
+use ratatui::style::{Modifier, Style};
+use ratatui::text::{Line, Span};
+
+/// The model's speed at `rpm` on the active variant's solved curve, m/s.
+fn predicted_at(app: &App, rpm: f64) -> Option<f64> {
+    interpolate(&app.solution.active()?.speed_by_rpm, rpm)
+}
+
+/// The line under the readout: live values beside the model, then the feed's state.
+pub fn readout_line(app: &App, live: &Live) -> Line<'static> {
+    let system = app.units;
+    let theme = &app.theme;
+    let mut spans = vec![Span::styled(
+        "Live: ",
+        Style::default().add_modifier(Modifier::BOLD),
+    )];
+    let sample = live.last.as_ref();
+    let sog = sample.and_then(|s| s.speed_over_ground);
+    let rpm = sample.and_then(|s| s.engine_rpm);
+    let heading = sample.and_then(|s| s.heading_deg.or(s.course_over_ground_deg));
+    let mut figures = vec![
+        format!(
+            "SOG {}",
+            sog.map_or("—".into(), |v| units::format(v, Kind::Speed, system))
+        ),
+        format!("{} rpm", rpm.map_or("—".into(), |r| format!("{r:.0}"))),
+        format!(
+            "heading {}",
+            heading.map_or("—".into(), |h| format!("{h:03.0}°"))
+        ),
+    ];
+    if let Some(stw) = sample.and_then(|s| s.speed_through_water) {
+        figures.push(format!("STW {}", units::format(stw, Kind::Speed, system)));
+    }
+    spans.push(Span::styled(figures.join(" · "), theme.accent));
+    match (rpm.and_then(|r| predicted_at(app, r)), sog) {
+        (Some(model), Some(sog)) if model > 0.0 => {
+            let error = sog - model;
+            let error_text = units::format(error.abs(), Kind::Speed, system);
+            let sign = if error < 0.0 { "−" } else { "+" };
+            spans.push(Span::raw(format!(
+                " · model {} · error {sign}{error_text} ({sign}{:.1} %)",
+                units::format(model, Kind::Speed, system),
+                100.0 * error.abs() / model
+            )));
+        }
+        (None, _) if rpm.is_some() => spans.push(Span::raw(" · model: rpm outside the curve")),
+        _ => {}
+    }
+    let state_style = match live.state {
+        FeedState::Live => theme.dim,
+        _ => theme.warning,
+    };
+    spans.push(Span::styled(
+        format!(" · {} ({})", live.state, live.source),
+        state_style,
+    ));
+    let steady = live.finder.current_segment();
+    if let (Some(first), Some(last)) = (steady.first(), steady.last()) {
+        spans.push(Span::styled(
+            format!(" · steady {:.0} s", last.time_s - first.time_s),
+            theme.dim,
+        ));
+    }
+    spans.push(Span::styled(
+        format!(" · {} run(s) captured", live.captured.len()),
+        theme.dim,
+    ));
+    Line::from(spans)
+}
+
+/// The captured runs for the sea-trial view, with the keys that keep, drop and use them.
+pub fn captured_lines(app: &App) -> Vec<Line<'static>> {
+    let Some(live) = &app.live else {
+        return Vec::new();
+    };
+    let system = app.units;
+    let unit = units::unit_label(Kind::Speed, system);
+    let mut lines = vec![Line::styled(
+        format!(
+            "Live feed {} — {}: {} run(s) captured, {} kept (x keeps/drops, J/K move, g makes the kept runs the trial log)",
+            live.source,
+            live.state,
+            live.captured.len(),
+            live.captured.iter().filter(|c| c.kept).count()
+        ),
+        Style::default().add_modifier(Modifier::BOLD),
+    )];
+    if !live.captured.is_empty() {
+        lines.push(Line::styled(
+            format!(
+                "  {:>3} {:>17} {:>6} {:>7} {:>7} {:>5} {:>9} {:>7}",
+                "run", "time", "rpm", "SOG", "STW", "COG", "paired", "kept"
+            ),
+            app.theme.dim,
+        ));
+        lines.push(Line::styled(
+            format!(
+                "  {:>3} {:>17} {:>6} {:>7} {:>7} {:>5} {:>9} {:>7}",
+                "", "", "", unit, unit, "°", "", ""
+            ),
+            app.theme.dim,
+        ));
+    }
+    for (i, c) in live.captured.iter().enumerate() {
+        let r = &c.run;
+        let speed = |v: Option<f64>| {
+            v.filter(|x| x.is_finite()).map_or("—".into(), |x| {
+                format!("{:.2}", units::to_display(x, Kind::Speed, system))
+            })
+        };
+        let text = format!(
+            "{} {:>3} {:>17} {:>6.0} {:>7} {:>7} {:>5} {:>9} {:>7}",
+            if i == live.selected { "▶" } else { " " },
+            i + 1,
+            format!("{}–{}", clock_of(r.start_s), clock_of(r.end_s)),
+            r.engine_rpm,
+            speed(Some(r.speed_over_ground)),
+            speed(r.speed_through_water),
+            r.course_over_ground_deg
+                .map_or("—".into(), |d| format!("{d:03.0}")),
+            r.pair.map_or("—".into(), |p| format!("run {}", p + 1)),
+            if c.kept { "kept" } else { "dropped" },
+        );
+        let style = if c.kept {
+            Style::default()
+        } else {
+            app.theme.dim
+        };
+        lines.push(Line::styled(text, style));
+    }
+    lines.push(Line::raw(""));
+    lines
+}

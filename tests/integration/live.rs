@@ -1,0 +1,157 @@
+//! The live feed in the terminal UI: a test server on 127.0.0.1 streams a synthetic log of
+//! Pintle; the app (fed through `App::update`, drawn on TestBackend) shows the live values
+//! beside the model, captures the runs, survives the server closing, reconnects when it comes
+//! back, and the captured runs become the trial log and the fit. Loopback only.
+
+use std::io::Write;
+use std::net::TcpListener;
+use std::time::{Duration, Instant};
+
+use crossterm::event::{KeyCode, KeyEvent, KeyModifiers};
+use ratatui::Terminal;
+use ratatui::backend::TestBackend;
+use tidewright::instruments::feed::{Feed, FeedOptions, FeedSource, FeedState};
+use tidewright::instruments::synth::TimePrefix;
+use tidewright::profile::Store;
+use tidewright::tui::app::{Action, App};
+use tidewright::tui::ui;
+
+fn screen(app: &App) -> String {
+    let mut terminal = Terminal::new(TestBackend::new(140, 44)).unwrap();
+    terminal.draw(|f| ui::render(app, f)).unwrap();
+    let buffer = terminal.backend().buffer().clone();
+    let mut text = String::new();
+    for y in 0..buffer.area.height {
+        for x in 0..buffer.area.width {
+            text.push_str(buffer[(x, y)].symbol());
+        }
+        text.push('\n');
+    }
+    text
+}
+
+fn press(app: &mut App, c: char) {
+    let key = KeyEvent::new(KeyCode::Char(c), KeyModifiers::NONE);
+    if let Some(action) = app.action_for_key(&key) {
+        app.update(action);
+    }
+}
+
+/// Polls `feed` into `app` until `done` holds, at most 5 s.
+fn pump(app: &mut App, feed: &Feed, done: impl Fn(&App) -> bool) -> bool {
+    let start = Instant::now();
+    while start.elapsed() < Duration::from_secs(5) {
+        let events = feed.drain();
+        if !events.is_empty() {
+            app.update(Action::Feed(events));
+        }
+        if done(app) {
+            return true;
+        }
+        std::thread::sleep(Duration::from_millis(20));
+    }
+    false
+}
+
+/// Serves `text` to one client on `listener`, then closes the connection and the listener.
+fn serve_once(listener: TcpListener, text: String, hold: Duration) -> std::thread::JoinHandle<()> {
+    std::thread::spawn(move || {
+        if let Ok((mut stream, _)) = listener.accept() {
+            let _ = stream.write_all(text.as_bytes());
+            let _ = stream.flush();
+            std::thread::sleep(hold);
+        }
+    })
+}
+
+#[test]
+fn live_feed_shows_values_captures_runs_survives_a_drop_and_reconnects() {
+    let log = super::trial_import::pintle_log_with(TimePrefix::Iso);
+    let lines: Vec<&str> = log.nmea.lines().collect();
+    let half = lines.len() / 2;
+    let first: String = lines[..half].iter().map(|l| format!("{l}\r\n")).collect();
+    let second: String = lines[half..].iter().map(|l| format!("{l}\r\n")).collect();
+
+    let listener = TcpListener::bind("127.0.0.1:0").unwrap();
+    let address = listener.local_addr().unwrap();
+    let server = serve_once(listener, first, Duration::from_millis(50));
+
+    let store = Store::at("/nonexistent");
+    let mut app = tidewright::tui::open_app(&store, Some("pintle")).unwrap();
+    let text = format!("tcp://{address}");
+    app.update(Action::LiveStarted(text.clone()));
+    let options = FeedOptions {
+        reconnect_initial_s: 0.2,
+        reconnect_max_s: 0.4,
+        ..FeedOptions::default()
+    };
+    let feed = Feed::start(FeedSource::parse(&text).unwrap(), options);
+
+    // The first half: the values show, runs are captured, and the closed server is noticed.
+    assert!(
+        pump(&mut app, &feed, |a| {
+            let live = a.live.as_ref().unwrap();
+            live.captured.len() >= 2 && matches!(live.state, FeedState::Reconnecting { .. })
+        }),
+        "{:?}",
+        app.live.as_ref().map(|l| (&l.state, l.captured.len()))
+    );
+    server.join().unwrap();
+    let shown = screen(&app);
+    assert!(shown.contains("Live: SOG"), "{shown}");
+    assert!(shown.contains("rpm · heading"), "{shown}");
+    assert!(shown.contains("· model "), "{shown}");
+    assert!(shown.contains("error "), "{shown}");
+    assert!(shown.contains("reconnecting"), "{shown}");
+    let captured_first = app.live.as_ref().unwrap().captured.len();
+
+    // The server comes back on the same port: the feed reconnects and the capture goes on.
+    let listener = TcpListener::bind(address).unwrap();
+    let server = serve_once(listener, second, Duration::from_millis(1500));
+    assert!(
+        pump(&mut app, &feed, |a| {
+            let live = a.live.as_ref().unwrap();
+            live.state == FeedState::Live && live.captured.len() == log.legs.len()
+        }),
+        "{:?}",
+        app.live.as_ref().map(|l| (&l.state, l.captured.len()))
+    );
+    assert!(captured_first < log.legs.len());
+    let live = app.live.as_ref().unwrap();
+    for (c, leg) in live.captured.iter().zip(&log.legs) {
+        // The same bound as the import: each run's mean speed within 0.05 kn of the truth.
+        let error_kn =
+            (c.run.speed_over_ground - leg.speed_over_ground) / tidewright::units::KNOT_MPS;
+        assert!(error_kn.abs() < 0.05, "{error_kn:+.3} kn");
+        assert!(c.run.pair.is_some());
+    }
+    assert!(screen(&app).contains(&format!("live ({text})")));
+
+    // The sea-trial view lists them; drop the last, make the kept runs the log, apply the fit.
+    press(&mut app, 'r');
+    let shown = screen(&app);
+    assert!(shown.contains("6 run(s) captured, 6 kept"), "{shown}");
+    for _ in 0..5 {
+        press(&mut app, 'J');
+    }
+    press(&mut app, 'x');
+    assert!(screen(&app).contains("6 run(s) captured, 5 kept"));
+    // The run left of the broken pair counts one way.
+    let kept = app.live.as_ref().unwrap().kept_trial_runs();
+    assert_eq!(kept.len(), 5);
+    assert_eq!(kept[4].direction, None);
+    // Drop its partner too: a one-way run carries the current into the fit.
+    press(&mut app, 'K');
+    press(&mut app, 'x');
+    press(&mut app, 'g');
+    let trial = app.doc.boat.trial.as_ref().unwrap();
+    assert_eq!(trial.runs.len(), 4);
+    assert_eq!(trial.date.as_deref(), Some("2023-11-14"));
+    assert!(trial.runs.iter().all(|r| r.direction.is_some()));
+    press(&mut app, 'a');
+    let factor = app.doc.boat.calibration.as_ref().unwrap().resistance_factor;
+    // Made with ×1.2 on calm-water resistance (tests/integration/trial_import.rs).
+    assert!((factor / 1.2 - 1.0).abs() < 0.01, "{factor}");
+    feed.stop();
+    server.join().unwrap();
+}
