@@ -216,7 +216,7 @@ pub(super) fn trial_of(
     let label = &study.vessel.variants[index].label;
     match args.format {
         PlainFormat::Json => {
-            let doc = trial_json(&study, label, &cal, rms_saved, saved.as_ref());
+            let doc = trial_json(study, label, &cal, rms_saved, saved.as_ref());
             out.write_all(json::to_string(&doc)?.as_bytes())?;
         }
         PlainFormat::Text => {
