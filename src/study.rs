@@ -271,6 +271,26 @@ impl Study {
         })
     }
 
+    /// The same study without its sea-trial calibration (the plain model), to show a fit's
+    /// before and after.
+    pub fn without_calibration(&self) -> anyhow::Result<Study> {
+        let mut doc = self.doc.clone();
+        doc.calibration = None;
+        Study::from_documents(
+            doc,
+            self.engine_doc.clone(),
+            self.units,
+            self.profile_name.clone(),
+            self.origin.clone(),
+        )
+        .with_context(|| {
+            format!(
+                "cannot build boat {:?} without its calibration",
+                self.doc.name
+            )
+        })
+    }
+
     /// The default load case's name ("half") and displacement mass, kg, if the file gives it.
     pub fn default_load(&self) -> (String, Option<f64>) {
         let load = &self.doc.load;

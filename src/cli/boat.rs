@@ -93,8 +93,23 @@ pub fn export(ctx: &Context, args: &ExportArgs, out: &mut dyn Write) -> anyhow::
     let engine = &vessel.engine;
     let fine_step = ((engine.rated_rpm - engine.idle_rpm) / CHART_STEPS).max(1.0);
     let curves = BoatReport::curves_of_study(&study, fine_step)?;
+    // With a sea-trial calibration the speed chart also shows the curves before the fit.
+    let before_fit = match &study.calibration {
+        Some(_) => Some(BoatReport::curves_of_study(
+            &study.without_calibration()?,
+            fine_step,
+        )?),
+        None => None,
+    };
     let sections = design_sections(&study, &Display::new(study.units));
-    let files = export_files(vessel, &report, &curves, &sections, study.units);
+    let files = export_files(
+        vessel,
+        &report,
+        &curves,
+        before_fit.as_ref(),
+        &sections,
+        study.units,
+    );
     std::fs::create_dir_all(&args.out)
         .with_context(|| format!("cannot create {}", args.out.display()))?;
     for file in &files {

@@ -41,11 +41,22 @@ const VARIANT_LOOK: usize = 1;
 const MARKER_LOOK: usize = 5;
 /// The look of the markers over points outside the resistance method's range.
 const UNRELIABLE_LOOK: usize = 4;
+/// The look of a curve before the sea-trial fit (beside the fitted one).
+const BEFORE_FIT_LOOK: usize = 6;
 /// The legend of those markers.
 const UNRELIABLE_NAME: &str = "past the method's range: unreliable";
 
 /// The charts of the export, in display units: power, speed, fuel rate and range.
-pub fn charts(vessel: &Vessel, curves: &BoatReport, system: UnitSystem) -> Vec<(String, Chart)> {
+///
+/// `before_fit`, when the boat carries a sea-trial calibration, is the same run solved without
+/// it: the speed chart then shows the predicted curves before and after the fit under the
+/// measured runs.
+pub fn charts(
+    vessel: &Vessel,
+    curves: &BoatReport,
+    before_fit: Option<&BoatReport>,
+    system: UnitSystem,
+) -> Vec<(String, Chart)> {
     let d = Display::new(system);
     let power_unit = d.unit(Kind::Power);
     let speed_unit = d.unit(Kind::Speed);
@@ -136,6 +147,19 @@ pub fn charts(vessel: &Vessel, curves: &BoatReport, system: UnitSystem) -> Vec<(
     speed.extend(unreliable(&|c| {
         (c.point.engine_rpm, d.scaled(c.point.speed, Kind::Speed))
     }));
+    if let Some(before) = before_fit {
+        speed.extend(before.variants.iter().map(|v| {
+            Series {
+                name: format!("screw {} before the sea-trial fit", v.label),
+                points: solved(v)
+                    .iter()
+                    .map(|c| (c.point.engine_rpm, d.scaled(c.point.speed, Kind::Speed)))
+                    .collect(),
+                style: SeriesStyle::Line,
+                look: BEFORE_FIT_LOOK,
+            }
+        }));
+    }
     if !vessel.trial.is_empty() {
         speed.push(Series {
             name: "sea trial (speed over ground)".into(),
@@ -206,11 +230,12 @@ pub fn export(
     vessel: &Vessel,
     report: &BoatReport,
     curves: &BoatReport,
+    before_fit: Option<&BoatReport>,
     sections: &[Section],
     system: UnitSystem,
 ) -> Vec<ExportFile> {
     let d = Display::new(system);
-    let charts = charts(vessel, curves, system);
+    let charts = charts(vessel, curves, before_fit, system);
     let mut md = format!(
         "# Repower report: {}\n\n",
         super::table::md_cell(&report.boat)

@@ -558,3 +558,38 @@ fn the_trial_text_says_the_factor_is_on_calm_water_and_an_old_saved_fit_is_flagg
         "{report}"
     );
 }
+
+/// After a sea-trial fit is saved, the exported speed chart shows the predicted curve before and
+/// after the fit under the measured runs (issue: "the speed chart … shows the captured runs as
+/// points over the predicted curve, before and after the fit").
+#[test]
+fn the_exported_speed_chart_shows_the_curve_before_and_after_the_fit() {
+    let (dir, store) = initialised_store();
+    let out = dir.path().join("export-before");
+    tidewright()
+        .args(["--profiles", &store, "export", "pintle", "--out"])
+        .arg(&out)
+        .assert()
+        .success();
+    let plain = std::fs::read_to_string(out.join("speed.svg")).unwrap();
+    assert!(!plain.contains("before the sea-trial fit"));
+    assert!(plain.contains("sea trial (speed over ground)"));
+    run_json(&[
+        "--profiles",
+        &store,
+        "trial",
+        "pintle",
+        "--save",
+        "--format",
+        "json",
+    ]);
+    let out = dir.path().join("export-after");
+    tidewright()
+        .args(["--profiles", &store, "export", "pintle", "--out"])
+        .arg(&out)
+        .assert()
+        .success();
+    let fitted = std::fs::read_to_string(out.join("speed.svg")).unwrap();
+    assert!(fitted.contains("before the sea-trial fit"), "{fitted}");
+    assert!(fitted.contains("sea trial (speed over ground)"));
+}
