@@ -155,3 +155,78 @@ fn live_feed_shows_values_captures_runs_survives_a_drop_and_reconnects() {
     feed.stop();
     server.join().unwrap();
 }
+
+/// End to end over a terminal: `open pintle --nmea tcp://127.0.0.1:PORT` in tmux shows the live
+/// line from a loopback server, notices when the server closes, and goes live again when it
+/// comes back (loopback only; skipped without tmux).
+#[test]
+fn tmux_live_feed_shows_values_and_reconnects() {
+    use super::tui::{KillServer, tmux_on, wait_for};
+    if std::process::Command::new("tmux")
+        .arg("-V")
+        .output()
+        .is_err()
+    {
+        eprintln!("skipped: tmux is not installed (.ci/run installs it)");
+        return;
+    }
+    let log = super::trial_import::pintle_log_with(TimePrefix::Iso);
+    let text: String = log
+        .nmea
+        .lines()
+        .take(400)
+        .map(|l| format!("{l}\r\n"))
+        .collect();
+    let listener = TcpListener::bind("127.0.0.1:0").unwrap();
+    let address = listener.local_addr().unwrap();
+    let server = serve_once(listener, text.clone(), Duration::from_millis(1500));
+
+    let bin = env!("CARGO_BIN_EXE_tidewright");
+    let dir = tempfile::tempdir().unwrap();
+    let store = dir.path().join("no-store");
+    let session = format!("tidewright-live-{}", std::process::id());
+    let command = format!(
+        "{bin} --profiles '{}' open pintle --nmea tcp://{address}; sleep 30",
+        store.display()
+    );
+    let started = tmux_on(
+        &session,
+        &[
+            "new-session",
+            "-d",
+            "-s",
+            &session,
+            "-x",
+            "140",
+            "-y",
+            "44",
+            &command,
+        ],
+    );
+    assert!(
+        started.status.success(),
+        "tmux: {}",
+        String::from_utf8_lossy(&started.stderr)
+    );
+    let _kill = KillServer(session.clone());
+    let shown = wait_for(&session, 8.0, |t| {
+        t.contains("Live: SOG") && t.contains("· model ")
+    })
+    .expect("the live line with the model beside it");
+    assert!(shown.contains(&format!("tcp://{address}")), "{shown}");
+    server.join().unwrap();
+    // The server is gone: the feed says so rather than freezing.
+    wait_for(&session, 8.0, |t| {
+        t.contains("reconnecting") || t.contains("no data for") || t.contains("connecting")
+    })
+    .expect("the dropped feed is shown");
+    // Back on the same port: live again.
+    let listener = TcpListener::bind(address).unwrap();
+    let server = serve_once(listener, text, Duration::from_millis(1500));
+    wait_for(&session, 10.0, |t| {
+        t.contains(&format!("live (tcp://{address})"))
+    })
+    .expect("reconnected");
+    server.join().unwrap();
+    tmux_on(&session, &["send-keys", "-t", &session, "q"]);
+}

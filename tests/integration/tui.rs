@@ -980,7 +980,7 @@ fn every_view_draws_at_small_sizes_without_panicking() {
 
 /// Runs tmux on a server of its own for `session` (socket named after it), so tests neither
 /// race each other starting a server nor touch the user's sessions.
-fn tmux_on(session: &str, args: &[&str]) -> std::process::Output {
+pub(crate) fn tmux_on(session: &str, args: &[&str]) -> std::process::Output {
     std::process::Command::new("tmux")
         .args(["-L", session])
         .args(args)
@@ -1005,7 +1005,7 @@ fn cli_lacks_the_ui(pane: &str) -> bool {
 }
 
 /// Ends the session's tmux server when dropped, also when the test fails.
-struct KillServer(String);
+pub(crate) struct KillServer(pub(crate) String);
 
 impl Drop for KillServer {
     fn drop(&mut self) {
@@ -1014,7 +1014,11 @@ impl Drop for KillServer {
 }
 
 /// Polls the pane until `pred` holds, for at most `seconds`.
-fn wait_for(session: &str, seconds: f64, pred: impl Fn(&str) -> bool) -> Result<String, String> {
+pub(crate) fn wait_for(
+    session: &str,
+    seconds: f64,
+    pred: impl Fn(&str) -> bool,
+) -> Result<String, String> {
     let start = std::time::Instant::now();
     loop {
         let text = capture(session);
