@@ -191,10 +191,13 @@ pub fn solve_variant(vessel: &Vessel, index: usize, options: &SolveOptions) -> V
     let cruise = cruise_at_speed(&system, &trip, trip.target_speed)
         .map_err(|e| e.to_string())
         .and_then(checked);
-    let duty = cruise
-        .as_ref()
-        .ok()
-        .map(|c| duty_note(&vessel.engine, c.point.engine_rpm, c.point.brake_power));
+    let duty = cruise.as_ref().ok().map(|c| {
+        duty_note(
+            &vessel.engine,
+            c.point.engine_rpm,
+            c.point.brake_power_per_engine,
+        )
+    });
     let rows = options
         .rpm_rows
         .iter()
