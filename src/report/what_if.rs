@@ -294,9 +294,9 @@ pub struct OutcomeJson {
     pub absorbed_pct_at_rated: Option<f64>,
     /// Engine rpm at the target speed.
     pub cruise_rpm: Option<f64>,
-    /// Brake power at the target speed, kW.
+    /// Brake power of the boat (every running engine) at the target speed, kW.
     pub cruise_kw: Option<f64>,
-    /// Fuel at the target speed, L/h.
+    /// Fuel of the boat (every running engine) at the target speed, L/h.
     pub cruise_lph: Option<f64>,
     /// Whether the target speed lies past the full-load curve.
     pub cruise_beyond_full_load: Option<bool>,

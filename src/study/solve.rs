@@ -109,7 +109,8 @@ pub struct VariantSolution {
     pub duty: Option<String>,
     /// The operating table at the engine speeds asked for (empty when none were).
     pub rows: Vec<RpmRow>,
-    /// (engine rpm, brake power W) along the propeller curve.
+    /// (engine rpm, brake power of each engine W) along the propeller curve: what the engine's
+    /// own full-load curve is drawn against (the boat's on a single screw).
     pub power_by_rpm: Vec<(f64, f64)>,
     /// (engine rpm, boat speed m/s) along the propeller curve.
     pub speed_by_rpm: Vec<(f64, f64)>,
@@ -265,7 +266,7 @@ fn add_curves(solution: &mut VariantSolution, vessel: &Vessel, index: usize, poi
     for point in curve.solved() {
         solution
             .power_by_rpm
-            .push((point.engine_rpm, point.brake_power));
+            .push((point.engine_rpm, point.brake_power_per_engine));
         solution.speed_by_rpm.push((point.engine_rpm, point.speed));
         if point.engine_rpm <= meeting_rpm * 1.0001 {
             solution
