@@ -33,7 +33,9 @@ pub const CALM_WATER_NOTE: &str = "on calm-water resistance";
 /// What the checks and the diameter sweep need from the boat file beyond the vessel (SI).
 #[derive(Debug, Clone, Default, PartialEq)]
 pub struct CheckInputs {
-    /// Depth of the shaft centreline below the waterline, m (`installation.shaft_immersion`).
+    /// Depth of the shaft centreline below the waterline, m (`installation.shaft_immersion`;
+    /// on a twin the shallower of it and `installation.port_shaft_immersion`, since the
+    /// shallower screw cavitates first).
     pub shaft_immersion: Option<f64>,
     /// The existing shaft's diameter, m (`installation.shaft_diameter`).
     pub shaft_diameter: Option<f64>,
@@ -51,7 +53,13 @@ impl CheckInputs {
         let inst = &doc.installation;
         let value = |q: &Option<crate::profile::Quantity>| q.as_ref().map(|q| q.value);
         Self {
-            shaft_immersion: value(&inst.shaft_immersion),
+            shaft_immersion: match (
+                value(&inst.shaft_immersion),
+                value(&inst.port_shaft_immersion),
+            ) {
+                (Some(starboard), Some(port)) => Some(starboard.min(port)),
+                (starboard, port) => starboard.or(port),
+            },
             shaft_diameter: value(&inst.shaft_diameter),
             shaft_material: inst.shaft_material.clone(),
             max_screw_diameter: value(&inst.max_screw_diameter),

@@ -90,7 +90,7 @@ pub fn pitch(ctx: &Context, args: &PitchArgs, out: &mut dyn Write) -> anyhow::Re
             writeln!(out, "{}", study.calibration_line())?;
             for r in &recs {
                 writeln!(out)?;
-                out.write_all(pitch_text(r, &d).as_bytes())?;
+                out.write_all(pitch_text(r, &d, &study).as_bytes())?;
             }
             writeln!(out, "\nCaution: {CAUTION}")?;
         }
@@ -159,7 +159,9 @@ pub fn sweep(ctx: &Context, args: &SweepArgs, out: &mut dyn Write) -> anyhow::Re
         PlainFormat::Text => {
             let d = Display::new(study.units);
             writeln!(out, "{}", study.calibration_line())?;
-            out.write_all(sweep_text(&result, label, &d).as_bytes())?;
+            out.write_all(
+                sweep_text(&result, label, &d, study.vessel.installation.shafts).as_bytes(),
+            )?;
             writeln!(out, "\nCaution: {CAUTION}")?;
         }
     }

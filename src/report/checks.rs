@@ -9,10 +9,10 @@ use super::table::{Column, Table};
 use super::{Display, INCH_M, KNOT_MPS};
 use crate::propulsion::screw::ScrewGeometry;
 use crate::propulsion::screw::cavitation::{
-    CavitationReport, KELLER_CONSTANT_SINGLE_SCREW, PASCALS_PER_PSI,
-    SMALL_CRAFT_BLADE_LOADING_LIMIT,
+    CavitationReport, PASCALS_PER_PSI, SMALL_CRAFT_BLADE_LOADING_LIMIT,
 };
 use crate::propulsion::solver::Vessel;
+use crate::propulsion::solver::checks::keller_constant;
 use crate::propulsion::solver::shaft::ShaftCheck;
 use crate::study::checks::{cavitation, shaft_check};
 use crate::study::solve::VariantSolution as VariantReport;
@@ -54,6 +54,8 @@ pub struct DesignChecks {
     pub shaft: Result<ShaftCheck, String>,
     /// A note on the material used, when it was assumed.
     pub shaft_note: Option<String>,
+    /// Shafts fitted (1 or 2): Keller's K and the shaft check's wording follow it.
+    pub shafts: u32,
 }
 
 impl DesignChecks {
@@ -96,6 +98,7 @@ impl DesignChecks {
             cavitation,
             shaft,
             shaft_note,
+            shafts: vessel.installation.shafts,
         }
     }
 
@@ -199,13 +202,22 @@ impl DesignChecks {
 
     /// The line under the table saying what the checks compare with.
     pub fn cavitation_legend(&self, geometry: &ScrewGeometry) -> String {
+        let twin = self.shafts >= 2;
         format!(
-            "screw AE/A0 {:.2} against Keller's minimum (K = {KELLER_CONSTANT_SINGLE_SCREW}, single screw); \
+            "{} AE/A0 {:.2} against Keller's minimum (K = {}, {}); \
              thrust loading τc against Burrill's 5 % back-cavitation line at 0.7R; mean blade loading \
-             against about {:.0} psi ({:.1} kPa, common small-craft practice)",
+             against about {:.0} psi ({:.1} kPa, common small-craft practice){}",
+            if twin { "each screw's" } else { "screw" },
             geometry.area_ratio,
+            keller_constant(self.shafts),
+            if twin { "twin screw" } else { "single screw" },
             SMALL_CRAFT_BLADE_LOADING_LIMIT / PASCALS_PER_PSI,
-            SMALL_CRAFT_BLADE_LOADING_LIMIT / 1000.0
+            SMALL_CRAFT_BLADE_LOADING_LIMIT / 1000.0,
+            if twin {
+                "; each screw carries half the thrust, checked at the shallower shaft's immersion"
+            } else {
+                ""
+            }
         )
     }
 
@@ -225,8 +237,13 @@ impl DesignChecks {
                     ),
                     None => "; the boat file gives no existing shaft diameter".into(),
                 };
+                let (heading, engine) = if self.shafts >= 2 {
+                    ("Shaft (each shaft)", "each engine's torque")
+                } else {
+                    ("Shaft", "engine torque")
+                };
                 lines.push(format!(
-                    "Shaft: engine torque {} at {:.0} rpm, {} on the shaft through the gear; smallest solid shaft {} for {} with a safety factor of {:.1} (plain torsion){existing}",
+                    "{heading}: {engine} {} at {:.0} rpm, {} on the shaft through the gear; smallest solid shaft {} for {} with a safety factor of {:.1} (plain torsion){existing}",
                     d.quantity(s.engine_torque, Kind::Torque),
                     s.engine_torque_rpm,
                     d.quantity(s.shaft_torque, Kind::Torque),

@@ -4,7 +4,7 @@
 use serde::Serialize;
 
 use super::table::{Column, Table};
-use super::text::{margin_words, signed_rpm, verdict_words};
+use super::text::{condition_words, margin_words, signed_rpm, verdict_words};
 use super::what_if::UNRELIABLE_TOP_NOTE;
 use super::{Display, INCH_M, KNOT_MPS, percent};
 use crate::propulsion::solver::pitch::{MatchSummary, PitchCure, PitchRecommendation};
@@ -129,25 +129,35 @@ pub fn stop_text(stop: &crate::propulsion::solver::pitch::SearchStop) -> String 
     }
 }
 
-/// Text lines of one recommendation.
-pub fn pitch_text(r: &PitchRecommendation, d: &Display) -> String {
+/// Text lines of one recommendation for a boat of `study` (its shafts and water density
+/// decide the wording and the displacement shown as a mass). On a twin, identical engines and
+/// screws give one answer, said once for each screw.
+pub fn pitch_text(r: &PitchRecommendation, d: &Display, study: &Study) -> String {
+    let twin = study.vessel.installation.is_twin_screw();
     let mut out = format!(
-        "Screw {}: current pitch {}\n",
+        "Screw {}{}: current pitch {}\n",
         r.label,
+        if twin {
+            " (each screw: both shafts carry the same engine, gear and screw, so one answer)"
+        } else {
+            ""
+        },
         d.quantity(r.current_pitch, Kind::ScrewLength)
     );
     out.push_str(&format!(
-        "  target: {} ({:.0} rpm, {}); condition {}\n",
+        "  target: {} ({:.0} rpm, {}{}); condition {}\n",
         r.target.describe(),
         r.target_point.engine_rpm,
         d.quantity(r.target_point.brake_power, Kind::Power),
-        r.condition.describe()
+        if twin { " each engine" } else { "" },
+        condition_words(&r.condition, study.vessel.resistance.water.density, d)
     ));
     match (r.recommended_pitch, r.change) {
         (Some(p), Some(c)) if p.is_finite() && c.is_finite() => {
             let sign = if c >= -0.0005 { "+" } else { "−" };
             out.push_str(&format!(
-                "  recommended pitch {} (change {sign}{}), {}\n",
+                "  recommended pitch{} {} (change {sign}{}), {}\n",
+                if twin { " for each screw" } else { "" },
                 d.quantity(p, Kind::ScrewLength),
                 d.quantity(c.abs(), Kind::ScrewLength),
                 match r.within_repitch_limit {
@@ -234,14 +244,19 @@ fn summary_words(m: &MatchSummary, rated_rpm: f64) -> String {
     )
 }
 
-/// One sweep as text.
-pub fn sweep_text(result: &SweepResult, label: &str, d: &Display) -> String {
+/// One sweep as text; with `shafts` 2 each candidate is a pair of screws, one per shaft.
+pub fn sweep_text(result: &SweepResult, label: &str, d: &Display, shafts: u32) -> String {
     let mut out = format!(
         "Screw {label}: sweep of {} — ranked by {}\n",
         result.parameter, result.criterion
     );
     out.push_str(&format!(
-        "  each candidate pitched to {}\n",
+        "  each candidate{} pitched to {}\n",
+        if shafts >= 2 {
+            " (each screw of the pair, one per shaft)"
+        } else {
+            ""
+        },
         result.target.describe()
     ));
     let mut table = Table::new(vec![

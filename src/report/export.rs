@@ -98,7 +98,7 @@ pub fn charts(
     power.extend(per_variant(&|c| {
         (
             c.point.engine_rpm,
-            d.scaled(c.point.brake_power, Kind::Power),
+            d.scaled(c.point.brake_power_per_engine, Kind::Power),
         )
     }));
     let meeting: Vec<(f64, f64)> = curves
@@ -108,7 +108,7 @@ pub fn charts(
         .map(|m| {
             (
                 m.meeting_rpm,
-                d.scaled(m.top_point.brake_power, Kind::Power),
+                d.scaled(m.top_point.brake_power_per_engine, Kind::Power),
             )
         })
         .collect();
@@ -140,7 +140,7 @@ pub fn charts(
     power.extend(unreliable(&|c| {
         (
             c.point.engine_rpm,
-            d.scaled(c.point.brake_power, Kind::Power),
+            d.scaled(c.point.brake_power_per_engine, Kind::Power),
         )
     }));
     let mut speed = per_variant(&|c| (c.point.engine_rpm, d.scaled(c.point.speed, Kind::Speed)));
@@ -189,7 +189,16 @@ pub fn charts(
         (
             "power.svg".into(),
             Chart {
-                title: format!("{}: brake power vs engine speed", curves.boat),
+                // Against the engine's own full-load curve, so each engine's power on a twin.
+                title: format!(
+                    "{}: brake power{} vs engine speed",
+                    curves.boat,
+                    if curves.is_twin() {
+                        " of each engine"
+                    } else {
+                        ""
+                    }
+                ),
                 x_label: "engine speed (rpm)".into(),
                 y_label: format!("brake power ({power_unit})"),
                 series: power,
@@ -207,7 +216,15 @@ pub fn charts(
         (
             "fuel.svg".into(),
             Chart {
-                title: format!("{}: fuel rate vs engine speed", curves.boat),
+                title: format!(
+                    "{}: fuel rate{} vs engine speed",
+                    curves.boat,
+                    if curves.is_twin() {
+                        " of the boat (both engines)"
+                    } else {
+                        ""
+                    }
+                ),
                 x_label: "engine speed (rpm)".into(),
                 y_label: format!("fuel rate ({fuel_unit})"),
                 series: fuel,
@@ -262,6 +279,11 @@ pub fn export(
 
     md.push_str("\n## Installation and trip\n\n");
     let inst = &vessel.installation;
+    if inst.is_twin_screw() {
+        md.push_str(
+            "- 2 shafts, handed: each with its own engine of this sheet, gear and screw; power and fuel tables are the boat's with each engine's beside them\n",
+        );
+    }
     md.push_str(&format!(
         "- Reduction gear {:.2}:1, shaft efficiency {}, gear efficiency {}\n",
         inst.gear_ratio,
@@ -289,7 +311,7 @@ pub fn export(
             "- {}\n\n",
             target_line(v, &d, report.trip.target_speed, &report.engine)
         ));
-        md.push_str(&operating_table(v, &d, false).to_markdown());
+        md.push_str(&operating_table(v, &d, false, report.shafts).to_markdown());
         md.push_str(&report.variant_checks_markdown(&v.label, &d));
         md.push('\n');
     }
@@ -366,7 +388,7 @@ pub fn design_sections(study: &Study, d: &Display) -> Vec<Section> {
             }
             for rec in &recs {
                 body.push_str("```text\n");
-                body.push_str(&pitch_text(rec, d));
+                body.push_str(&pitch_text(rec, d, study));
                 body.push_str("```\n\n");
             }
             sections.push(Section {

@@ -40,6 +40,9 @@ impl BoatReport {
                 rated_kw: self.engine.rated_power / 1e3,
                 idle_rpm: self.engine.idle_rpm,
             },
+            installation: InstallationJson {
+                shafts: self.shafts,
+            },
             target_speed_kn: self.trip.target_speed / KNOT_MPS,
             variants: self
                 .variants
@@ -114,6 +117,8 @@ pub struct BoatJson {
     pub units: &'static str,
     /// The engine sheet.
     pub engine: EngineJson,
+    /// The installation: how many shafts (each with its own engine of this sheet).
+    pub installation: InstallationJson,
     /// The trip's target speed, kn.
     pub target_speed_kn: f64,
     /// The variants.
@@ -132,6 +137,13 @@ pub struct BoatJson {
     pub warnings: Vec<String>,
     /// The caution.
     pub caution: &'static str,
+}
+
+/// The installation in JSON.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct InstallationJson {
+    /// Shafts fitted, 1 or 2 (a twin has two engines of the sheet, two handed screws).
+    pub shafts: u32,
 }
 
 /// The engine sheet in JSON.
@@ -202,14 +214,20 @@ pub struct PointJson {
     pub kq: f64,
     /// Open-water efficiency.
     pub eta0: f64,
-    /// Delivered power, kW.
+    /// Delivered power at each driven screw, kW.
     pub delivered_kw: f64,
-    /// Brake power, kW.
+    /// Brake power of the boat (every running engine together), kW.
     pub brake_kw: f64,
-    /// Engine load, % of full-load power at this rpm.
+    /// Brake power of each running engine, kW.
+    pub brake_kw_per_engine: f64,
+    /// Each running engine's load, % of its full-load power at this rpm.
     pub load_pct: f64,
-    /// Fuel rate, L/h.
+    /// Fuel rate of the boat (every running engine), L/h.
     pub fuel_lph: f64,
+    /// Fuel rate of each running engine, L/h.
+    pub fuel_lph_per_engine: f64,
+    /// Shafts driven by a running engine (1 or 2).
+    pub driven_shafts: u32,
     /// Fuel per nautical mile, L/nm.
     pub fuel_l_per_nm: f64,
     /// Range with usable fuel less reserve, nm.
@@ -237,8 +255,11 @@ impl From<&CruisePoint> for PointJson {
             eta0: p.open_water_efficiency,
             delivered_kw: p.delivered_power / 1e3,
             brake_kw: p.brake_power / 1e3,
+            brake_kw_per_engine: p.brake_power_per_engine / 1e3,
             load_pct: p.load_fraction * 100.0,
             fuel_lph: p.fuel_volume_flow / LITRE_M3 * 3600.0,
+            fuel_lph_per_engine: p.fuel_volume_flow_per_engine / LITRE_M3 * 3600.0,
+            driven_shafts: p.driven_shafts,
             fuel_l_per_nm: c.fuel_per_distance / LITRE_M3 * NAUTICAL_MILE_M,
             range_nm: c.range / NAUTICAL_MILE_M,
             beyond_full_load: c.beyond_full_load,

@@ -125,6 +125,8 @@ pub struct BoatReport {
     pub checks: Option<DesignChecks>,
     /// The methods used and why.
     pub methods: MethodSummary,
+    /// Shafts fitted (1 or 2): on a twin each has its own engine, gear and screw, handed.
+    pub shafts: u32,
 }
 
 /// The loud warning when a variant's full-throttle point lies outside the resistance method.
@@ -137,6 +139,11 @@ pub fn full_throttle_warning(label: &str, m: &MatchResult, method: &str, reason:
 }
 
 impl BoatReport {
+    /// Whether the boat has two engines on two shafts.
+    pub fn is_twin(&self) -> bool {
+        self.shafts >= 2
+    }
+
     /// Solves `vessel` for the report: every variant, or only the one labelled `variant`.
     pub fn build(
         vessel: &Vessel,
@@ -251,6 +258,7 @@ impl BoatReport {
             calibration: None,
             checks: None,
             methods: MethodSummary::of(vessel),
+            shafts: vessel.installation.shafts,
         }
     }
 

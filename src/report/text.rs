@@ -6,6 +6,7 @@ use super::table::{Column, Table};
 use super::{CAUTION, Display, percent};
 use crate::propulsion::engine::Duty;
 use crate::propulsion::screw::ScrewGeometry;
+use crate::propulsion::solver::pitch::ConditionSummary;
 use crate::propulsion::solver::{CruisePoint, MatchResult, MethodSpread, Verdict};
 use crate::units::{Kind, UnitSystem};
 
@@ -14,7 +15,10 @@ impl BoatReport {
     fn variant_check_text(&self, v: &VariantReport, d: &Display) -> String {
         let mut out = String::new();
         if let Some(duty) = &v.duty {
-            out.push_str(&format!("  Engine duty at the target speed: {duty}\n"));
+            out.push_str(&format!(
+                "  Engine duty at the target speed{}: {duty}\n",
+                self.each_engine()
+            ));
         }
         if let Some(checks) = &self.checks {
             match &checks.cavitation {
@@ -35,7 +39,10 @@ impl BoatReport {
     fn variant_check_markdown(&self, v: &VariantReport, d: &Display) -> String {
         let mut out = String::new();
         if let Some(duty) = &v.duty {
-            out.push_str(&format!("\n- Engine duty at the target speed: {duty}\n"));
+            out.push_str(&format!(
+                "\n- Engine duty at the target speed{}: {duty}\n",
+                self.each_engine()
+            ));
         }
         if let Some(checks) = &self.checks {
             match &checks.cavitation {
@@ -59,6 +66,11 @@ impl BoatReport {
             .find(|v| v.label == label)
             .map(|v| self.variant_check_markdown(v, d))
             .unwrap_or_default()
+    }
+
+    /// " (each engine)" on a twin, else nothing: what a per-engine figure is labelled with.
+    pub fn each_engine(&self) -> &'static str {
+        if self.is_twin() { " (each engine)" } else { "" }
     }
 
     /// The shaft lines, if the checks were made.
@@ -85,7 +97,7 @@ impl BoatReport {
                 v.label,
                 screw_spec(&v.geometry, &d)
             ));
-            out.push_str(&operating_table(v, &d, false).to_text("  "));
+            out.push_str(&operating_table(v, &d, false, self.shafts).to_text("  "));
             out.push_str(&format!("  {}\n", match_line(v, &d, self.engine.rated_rpm)));
             if let Some(spread) = &v.method_spread {
                 out.push_str(&format!("  {}\n", method_spread_line(spread, &d)));
@@ -130,7 +142,7 @@ impl BoatReport {
                 v.label,
                 screw_spec(&v.geometry, &d)
             ));
-            out.push_str(&operating_table(v, &d, false).to_markdown());
+            out.push_str(&operating_table(v, &d, false, self.shafts).to_markdown());
             out.push_str(&format!(
                 "\n- {}\n",
                 match_line(v, &d, self.engine.rated_rpm)
@@ -163,14 +175,14 @@ impl BoatReport {
         let d = Display::new(system);
         let mut all = Table::default();
         for v in &self.variants {
-            let table = operating_table(v, &d, true);
+            let table = operating_table(v, &d, true, self.shafts);
             if all.columns.is_empty() {
                 all.columns = table.columns.clone();
             }
             all.rows.extend(table.rows);
         }
         if all.columns.is_empty() {
-            all = Table::new(operating_columns(&d, true));
+            all = Table::new(operating_columns(&d, true, self.shafts));
         }
         all.to_csv()
     }
@@ -192,6 +204,15 @@ impl BoatReport {
             e.rated_rpm,
             e.idle_rpm
         );
+        if self.is_twin() {
+            line = format!(
+                "Engines 2 × {}: {} each at {:.0} rpm rated, idle {:.0} rpm; 2 shafts, handed (one engine, gear and screw each)",
+                e.name,
+                d.quantity(e.rated_power, Kind::Power),
+                e.rated_rpm,
+                e.idle_rpm
+            );
+        }
         if let Some(duty) = e.duty {
             line.push_str(match duty {
                 Duty::Continuous => ", continuous duty",
@@ -250,9 +271,11 @@ pub fn screw_spec(g: &ScrewGeometry, d: &Display) -> String {
     )
 }
 
-/// The operating table of one variant; with `with_label` a first column names the variant.
-pub fn operating_table(v: &VariantReport, d: &Display, with_label: bool) -> Table {
-    let mut table = Table::new(operating_columns(d, with_label));
+/// The operating table of one variant; with `with_label` a first column names the variant. On
+/// a twin (`shafts` 2) power and fuel are the boat's, with each engine's power and load beside.
+pub fn operating_table(v: &VariantReport, d: &Display, with_label: bool, shafts: u32) -> Table {
+    let twin = shafts >= 2;
+    let mut table = Table::new(operating_columns(d, with_label, shafts));
     let imperial = d.system == UnitSystem::Imperial;
     // A run of unsolvable rows says why once, on its first row.
     let mut previous_failed = false;
@@ -269,6 +292,11 @@ pub fn operating_table(v: &VariantReport, d: &Display, with_label: bool) -> Tabl
                     format!("{:.0}", p.screw_rps * 60.0),
                     d.number(p.speed, Kind::Speed, 2),
                     d.number(p.brake_power, Kind::Power, 1),
+                ]);
+                if twin {
+                    cells.push(d.number(p.brake_power_per_engine, Kind::Power, 1));
+                }
+                cells.extend([
                     format!("{:.0}", p.load_fraction * 100.0),
                     d.number(
                         p.fuel_volume_flow,
@@ -286,7 +314,10 @@ pub fn operating_table(v: &VariantReport, d: &Display, with_label: bool) -> Tabl
             }
             Err(reason) => {
                 cells.push(format!("{:.0}", row.engine_rpm));
-                cells.extend(std::iter::repeat_n("—".to_string(), 7));
+                cells.extend(std::iter::repeat_n(
+                    "—".to_string(),
+                    if twin { 8 } else { 7 },
+                ));
                 cells.push(if previous_failed {
                     "not solved (as above)".to_string()
                 } else {
@@ -301,7 +332,7 @@ pub fn operating_table(v: &VariantReport, d: &Display, with_label: bool) -> Tabl
 }
 
 /// The columns of an operating table; with `with_label` a first column names the variant.
-fn operating_columns(d: &Display, with_label: bool) -> Vec<Column> {
+fn operating_columns(d: &Display, with_label: bool, shafts: u32) -> Vec<Column> {
     let mut columns = Vec::new();
     if with_label {
         columns.push(Column::text("variant"));
@@ -310,9 +341,22 @@ fn operating_columns(d: &Display, with_label: bool) -> Vec<Column> {
         Column::number("engine", "rpm"),
         Column::number("screw", "rpm"),
         Column::number("speed", &d.unit(Kind::Speed)),
-        Column::number("power", &d.unit(Kind::Power)),
-        Column::number("load", "%"),
-        Column::number("fuel/h", &d.unit(Kind::FuelRate)),
+    ]);
+    if shafts >= 2 {
+        columns.extend([
+            Column::number("boat power", &d.unit(Kind::Power)),
+            Column::number("each engine", &d.unit(Kind::Power)),
+            Column::number("load each", "%"),
+            Column::number("boat fuel/h", &d.unit(Kind::FuelRate)),
+        ]);
+    } else {
+        columns.extend([
+            Column::number("power", &d.unit(Kind::Power)),
+            Column::number("load", "%"),
+            Column::number("fuel/h", &d.unit(Kind::FuelRate)),
+        ]);
+    }
+    columns.extend([
         Column::number("fuel/nm", &d.unit(Kind::FuelPerDistance)),
         Column::number("range", &d.unit(Kind::Distance)),
         Column::text("note"),
@@ -333,6 +377,25 @@ fn point_note(c: &CruisePoint) -> String {
         ));
     }
     notes.join("; ")
+}
+
+/// A pitch recommendation's condition in the display units: "full load: displacement 17.0 t,
+/// service margin 15 %, fouling 5 %" (`water_density` turns the core's volume into a mass).
+pub fn condition_words(c: &ConditionSummary, water_density: f64, d: &Display) -> String {
+    let mut text = format!(
+        "{}: displacement {}, service margin {:.0} %, fouling {:.0} %",
+        c.label,
+        d.quantity(c.displacement_volume * water_density, Kind::Mass),
+        c.service_margin * 100.0,
+        c.fouling * 100.0
+    );
+    if (c.resistance_factor - 1.0).abs() > 1e-9 {
+        text.push_str(&format!(
+            ", sea-trial resistance factor {:.3} applied",
+            c.resistance_factor
+        ));
+    }
+    text
 }
 
 /// The verdict in words.
@@ -395,11 +458,21 @@ pub fn match_line(v: &VariantReport, d: &Display, rated_rpm: f64) -> String {
                     m.top_validity.reason().unwrap_or_default()
                 )
             };
+            let absorbs = if m.top_point.shafts >= 2 {
+                "each screw absorbs {} of its engine's rated power at rated rpm"
+            } else {
+                "the screw absorbs {} of rated power at rated rpm"
+            }
+            .replace("{}", &percent(m.absorbed_fraction_at_rated, 0));
             format!(
-                "Match: {} — full throttle at {:.0} rpm, top speed {top_speed}, the screw absorbs {} of rated power at rated rpm",
+                "Match{}: {} — full throttle at {:.0} rpm, top speed {top_speed}, {absorbs}",
+                if m.top_point.shafts >= 2 {
+                    " (each shaft; identical engines and screws)"
+                } else {
+                    ""
+                },
                 verdict_and_margin(m, rated_rpm),
                 m.meeting_rpm,
-                percent(m.absorbed_fraction_at_rated, 0)
             )
         }
         Err(reason) => format!("Match: not found — {reason}"),
@@ -439,16 +512,35 @@ pub fn target_line(
     }
 }
 
-/// rpm · speed · power · load · fuel/h · fuel/nm · range.
+/// rpm · speed · power · load · fuel/h · fuel/nm · range; with two engines running, the boat's
+/// power and fuel with each engine's beside them.
 pub fn cruise_summary(c: &CruisePoint, d: &Display) -> String {
     let p = &c.point;
+    let (power, load, fuel) = if p.driven_shafts >= 2 {
+        (
+            format!(
+                "{} ({} each engine)",
+                d.quantity(p.brake_power, Kind::Power),
+                d.quantity(p.brake_power_per_engine, Kind::Power)
+            ),
+            format!("{} load each engine", percent(p.load_fraction, 0)),
+            format!(
+                "{} ({} each engine)",
+                d.quantity(p.fuel_volume_flow, Kind::FuelRate),
+                d.quantity(p.fuel_volume_flow_per_engine, Kind::FuelRate)
+            ),
+        )
+    } else {
+        (
+            d.quantity(p.brake_power, Kind::Power),
+            format!("{} load", percent(p.load_fraction, 0)),
+            d.quantity(p.fuel_volume_flow, Kind::FuelRate),
+        )
+    };
     format!(
-        "{:.0} rpm · {} · {} · {} load · {} · {} · range {}",
+        "{:.0} rpm · {} · {power} · {load} · {fuel} · {} · range {}",
         p.engine_rpm,
         d.quantity(p.speed, Kind::Speed),
-        d.quantity(p.brake_power, Kind::Power),
-        percent(p.load_fraction, 0),
-        d.quantity(p.fuel_volume_flow, Kind::FuelRate),
         d.quantity(c.fuel_per_distance, Kind::FuelPerDistance),
         d.quantity(c.range, Kind::Distance)
     )

@@ -5,13 +5,17 @@ use serde::Serialize;
 
 use super::checks::AppliedCalibration;
 use super::table::{Column, Table};
-use super::text::verdict_words;
+use super::text::{condition_words, verdict_words};
 use super::{CAUTION, Display, KNOT_MPS, LITRE_M3, percent};
 use crate::propulsion::solver::Verdict;
 use crate::propulsion::solver::pitch::PitchRecommendation;
 use crate::study::Study;
 pub use crate::study::what_if::{WhatIf, WhatIfSettings};
 use crate::units::Kind;
+
+/// The mark of a case that leaves something out (one engine out: the trailing screw's drag),
+/// explained under the table.
+pub const OMITTED_MARK: &str = "†";
 
 /// The note of a row whose top speed (marked ≈) lies outside the resistance method's range.
 pub const UNRELIABLE_TOP_NOTE: &str = "≈ top speed unreliable: outside the method's range";
@@ -27,6 +31,7 @@ fn recommended(p: &Result<PitchRecommendation, String>) -> Option<f64> {
 impl WhatIf {
     /// The side-by-side table of the conditions.
     pub fn conditions_table(&self, d: &Display) -> Table {
+        let twin = self.shafts >= 2;
         let mut table = Table::new(vec![
             Column::text("condition"),
             Column::number("displacement", &d.unit(Kind::Mass)),
@@ -34,8 +39,14 @@ impl WhatIf {
             Column::number("full throttle", "rpm"),
             Column::number("top speed", &d.unit(Kind::Speed)),
             Column::number("cruise", "rpm"),
-            Column::number("power", &d.unit(Kind::Power)),
-            Column::number("fuel/h", &d.unit(Kind::FuelRate)),
+            Column::number(
+                if twin { "boat power" } else { "power" },
+                &d.unit(Kind::Power),
+            ),
+            Column::number(
+                if twin { "boat fuel/h" } else { "fuel/h" },
+                &d.unit(Kind::FuelRate),
+            ),
             Column::number("pitch for it", &d.unit(Kind::ScrewLength)),
             Column::text("note"),
         ]);
@@ -56,6 +67,12 @@ impl WhatIf {
             }
             if let Some(problem) = &o.problem {
                 note.push(problem.clone());
+            }
+            if !o.warnings.is_empty() {
+                note.push(format!(
+                    "{} engine running{OMITTED_MARK}",
+                    o.engines_running
+                ));
             }
             if let Err(e) = p {
                 note.push(format!("pitch: {e}"));
@@ -93,24 +110,61 @@ impl WhatIf {
         table
     }
 
-    /// "pitch for it" column: which condition each recommendation was made for.
-    pub fn pitch_conditions(&self) -> Vec<String> {
+    /// "pitch for it" column: which condition each recommendation was made for, the
+    /// displacement as a mass in the display units.
+    pub fn pitch_conditions(&self, d: &Display) -> Vec<String> {
         self.pitches
             .iter()
             .filter_map(|p| p.as_ref().ok())
-            .map(|r| r.condition.describe())
+            .map(|r| condition_words(&r.condition, self.water_density, d))
             .collect()
+    }
+
+    /// "Each pitch is made to <its target> for its own condition" (each screw's on a twin).
+    pub fn pitch_target_line(&self) -> String {
+        let target = self
+            .pitches
+            .iter()
+            .find_map(|p| p.as_ref().ok())
+            .map(|r| r.target.describe())
+            .unwrap_or_else(|| "meet the full-load curve at rated rpm".into());
+        format!(
+            "Each pitch{} is made to {target} for its own condition",
+            if self.shafts >= 2 {
+                " (each screw)"
+            } else {
+                ""
+            }
+        )
+    }
+
+    /// What the marked cases leave out, one line each, without repeats ("† …").
+    pub fn omitted_lines(&self) -> Vec<String> {
+        let mut lines: Vec<String> = Vec::new();
+        for w in self.outcomes.iter().flat_map(|o| &o.warnings) {
+            let line = format!("{OMITTED_MARK} {}", w.message);
+            if !lines.contains(&line) {
+                lines.push(line);
+            }
+        }
+        lines
     }
 
     /// The band as a table: power as given and its least and greatest over the cases.
     pub fn band_table(&self, d: &Display) -> Option<Table> {
         let band = self.band.as_ref().ok()?;
+        let twin = self.shafts >= 2;
+        let (power, least, greatest) = if twin {
+            ("power each engine", "least each", "greatest each")
+        } else {
+            ("power", "least", "greatest")
+        };
         let mut table = Table::new(vec![
             Column::number("engine", "rpm"),
             Column::number("speed", &d.unit(Kind::Speed)),
-            Column::number("power", &d.unit(Kind::Power)),
-            Column::number("least", &d.unit(Kind::Power)),
-            Column::number("greatest", &d.unit(Kind::Power)),
+            Column::number(power, &d.unit(Kind::Power)),
+            Column::number(least, &d.unit(Kind::Power)),
+            Column::number(greatest, &d.unit(Kind::Power)),
         ]);
         let opt = |v: Option<f64>, kind, decimals| {
             finite(v).map_or("—".to_string(), |x| d.number(x, kind, decimals))
@@ -142,7 +196,7 @@ impl WhatIf {
                     .pitches
                     .first()
                     .and_then(|p| p.as_ref().ok())
-                    .map(|r| r.condition.describe())
+                    .map(|r| condition_words(&r.condition, self.water_density, d))
                     .unwrap_or_else(|| "the boat as given".into());
                 lines.push(match (finite(band.pitch_nominal), finite(band.pitch_low), finite(band.pitch_high)) {
                     (Some(p), Some(lo), Some(hi)) => format!(
@@ -163,8 +217,11 @@ impl WhatIf {
     pub fn to_text(&self, d: &Display) -> String {
         let mut out = format!("Screw {}: what-if conditions side by side\n", self.label);
         out.push_str(&self.conditions_table(d).to_text("  "));
-        out.push_str("  Each pitch is made to absorb 100 % of rated power at rated rpm for its own condition:\n");
-        for c in self.pitch_conditions() {
+        for line in self.omitted_lines() {
+            out.push_str(&format!("  {line}\n"));
+        }
+        out.push_str(&format!("  {}:\n", self.pitch_target_line()));
+        for c in self.pitch_conditions(d) {
             out.push_str(&format!("    {c}\n"));
         }
         out.push('\n');
@@ -188,8 +245,11 @@ impl WhatIf {
             self.label
         );
         out.push_str(&self.conditions_table(d).to_markdown());
-        out.push_str("\nEach pitch is made to absorb 100 % of rated power at rated rpm for its own condition:\n\n");
-        for c in self.pitch_conditions() {
+        for line in self.omitted_lines() {
+            out.push_str(&format!("\n{line}\n"));
+        }
+        out.push_str(&format!("\n{}:\n\n", self.pitch_target_line()));
+        for c in self.pitch_conditions(d) {
             out.push_str(&format!("- {c}\n"));
         }
         let lines = self.band_lines(d);
@@ -234,9 +294,9 @@ pub struct OutcomeJson {
     pub absorbed_pct_at_rated: Option<f64>,
     /// Engine rpm at the target speed.
     pub cruise_rpm: Option<f64>,
-    /// Brake power at the target speed, kW.
+    /// Brake power of the boat (every running engine) at the target speed, kW.
     pub cruise_kw: Option<f64>,
-    /// Fuel at the target speed, L/h.
+    /// Fuel of the boat (every running engine) at the target speed, L/h.
     pub cruise_lph: Option<f64>,
     /// Whether the target speed lies past the full-load curve.
     pub cruise_beyond_full_load: Option<bool>,
@@ -246,6 +306,10 @@ pub struct OutcomeJson {
     pub pitch_condition: Option<String>,
     /// Why something could not be solved.
     pub problem: Option<String>,
+    /// Engines running in this condition (1 with one engine out on a twin).
+    pub engines_running: u32,
+    /// What the case leaves out (e.g. the trailing screw's drag with one engine out).
+    pub warnings: Vec<String>,
 }
 
 /// One rpm of the band in JSON.
@@ -312,6 +376,8 @@ pub fn what_if_json(study: &Study, result: &WhatIf) -> WhatIfJson {
             recommended_pitch_m: recommended(p),
             pitch_condition: p.as_ref().ok().map(|r| r.condition.describe()),
             problem: o.problem.clone().or_else(|| p.as_ref().err().cloned()),
+            engines_running: o.engines_running,
+            warnings: o.warnings.iter().map(ToString::to_string).collect(),
         })
         .collect();
     let band = result.band.as_ref().ok().map(|b| BandJson {

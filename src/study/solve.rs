@@ -109,7 +109,8 @@ pub struct VariantSolution {
     pub duty: Option<String>,
     /// The operating table at the engine speeds asked for (empty when none were).
     pub rows: Vec<RpmRow>,
-    /// (engine rpm, brake power W) along the propeller curve.
+    /// (engine rpm, brake power of each engine W) along the propeller curve: what the engine's
+    /// own full-load curve is drawn against (the boat's on a single screw).
     pub power_by_rpm: Vec<(f64, f64)>,
     /// (engine rpm, boat speed m/s) along the propeller curve.
     pub speed_by_rpm: Vec<(f64, f64)>,
@@ -191,10 +192,13 @@ pub fn solve_variant(vessel: &Vessel, index: usize, options: &SolveOptions) -> V
     let cruise = cruise_at_speed(&system, &trip, trip.target_speed)
         .map_err(|e| e.to_string())
         .and_then(checked);
-    let duty = cruise
-        .as_ref()
-        .ok()
-        .map(|c| duty_note(&vessel.engine, c.point.engine_rpm, c.point.brake_power));
+    let duty = cruise.as_ref().ok().map(|c| {
+        duty_note(
+            &vessel.engine,
+            c.point.engine_rpm,
+            c.point.brake_power_per_engine,
+        )
+    });
     let rows = options
         .rpm_rows
         .iter()
@@ -262,7 +266,7 @@ fn add_curves(solution: &mut VariantSolution, vessel: &Vessel, index: usize, poi
     for point in curve.solved() {
         solution
             .power_by_rpm
-            .push((point.engine_rpm, point.brake_power));
+            .push((point.engine_rpm, point.brake_power_per_engine));
         solution.speed_by_rpm.push((point.engine_rpm, point.speed));
         if point.engine_rpm <= meeting_rpm * 1.0001 {
             solution

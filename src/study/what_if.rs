@@ -11,8 +11,8 @@ use anyhow::Context as _;
 use super::Study;
 use crate::profile::LoadCondition;
 use crate::propulsion::solver::conditions::{
-    Condition, ConditionOutcome, UncertaintyBand, UncertaintyRanges, compare_conditions,
-    recommend_pitch_under, uncertainty_band,
+    Condition, ConditionOutcome, TrailingScrew, UncertaintyBand, UncertaintyRanges,
+    compare_conditions, recommend_pitch_under, uncertainty_band,
 };
 use crate::propulsion::solver::pitch::{PitchOptions, PitchRecommendation, recommend_pitch};
 
@@ -82,10 +82,14 @@ pub struct WhatIf {
     pub water_density: f64,
     /// The boat file's default load condition ("half"), which "as given" is.
     pub default_load: String,
+    /// Shafts fitted (1 or 2): on a twin the power columns are labelled for the boat or each
+    /// engine.
+    pub shafts: u32,
 }
 
 impl Study {
-    /// The cases compared: the boat file's load cases, a fouled hull and a seaway.
+    /// The cases compared: the boat file's load cases, a fouled hull, a seaway and, on a
+    /// twin-screw boat, one engine out with the other screw windmilling.
     pub fn what_if_cases(&self, settings: &WhatIfSettings) -> Vec<WhatIfCase> {
         let density = self.vessel.resistance.water.density;
         let mut list: Vec<WhatIfCase> = LoadCondition::ALL
@@ -120,6 +124,15 @@ impl Study {
             ),
             short: "sea state",
         });
+        if self.vessel.installation.is_twin_screw() {
+            list.push(WhatIfCase {
+                condition: Condition::one_engine_out(
+                    "one engine out (other screw windmilling)",
+                    TrailingScrew::Windmilling,
+                ),
+                short: "1 engine",
+            });
+        }
         list
     }
 
@@ -174,6 +187,7 @@ impl Study {
             band: self.band(index, settings),
             water_density: vessel.resistance.water.density,
             default_load: self.doc.load.default.name().to_string(),
+            shafts: vessel.installation.shafts,
         })
     }
 }

@@ -58,6 +58,14 @@ fn set_number(field: FieldId, boat: &mut BoatDoc, typed: Quantity) -> Result<(),
             Some(w) => w.headwind = Some(typed.clone()),
             None => return not_here(),
         },
+        F::Shafts => {
+            // Only 1 and 2 are meaningful; a nudge past either end stays put with the reason.
+            if value == 1.0 || value == 2.0 {
+                boat.installation.shafts = value as u32;
+            } else {
+                return Err("expected 1 or 2 shafts".into());
+            }
+        }
         F::GearRatio => boat.installation.gear_ratio = value,
         F::ShaftEfficiency => boat.installation.shaft_efficiency = value,
         F::GearEfficiency => boat.installation.gear_efficiency = value,

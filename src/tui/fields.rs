@@ -96,6 +96,8 @@ pub enum FieldId {
     RatedRpm,
     /// Rated power of the engine sheet, W.
     RatedPower,
+    /// Shafts fitted, 1 or 2 (each with its own engine of the sheet, gear and screw).
+    Shafts,
     /// Reduction gear ratio.
     GearRatio,
     /// Shaft line efficiency, fraction.
@@ -186,6 +188,7 @@ pub fn fields_of(pane: Pane, boat: &BoatDoc) -> Vec<FieldId> {
             F::EngineSheet,
             F::RatedRpm,
             F::RatedPower,
+            F::Shafts,
             F::GearRatio,
             F::ShaftEfficiency,
             F::GearEfficiency,
@@ -229,6 +232,7 @@ pub fn label(field: FieldId) -> &'static str {
         F::EngineSheet => "Engine sheet",
         F::RatedRpm => "Rated rpm",
         F::RatedPower => "Rated power",
+        F::Shafts => "Shafts",
         F::GearRatio => "Gear ratio",
         F::ShaftEfficiency => "Shaft eff.",
         F::GearEfficiency => "Gear eff.",
@@ -266,6 +270,7 @@ pub fn about(field: FieldId) -> &'static str {
         F::Headwind => "wind against the boat, for air drag",
         F::EngineSheet => "Enter or e: choose an engine sheet from the store",
         F::RatedRpm | F::RatedPower | F::FuelDensity => "from the engine sheet",
+        F::Shafts => "1 or 2; two: one engine, gear and screw each, handed",
         F::GearRatio => "engine rpm / screw rpm",
         F::ShaftEfficiency => "bearings and seals of the shaft line",
         F::GearEfficiency => "reduction gear",
@@ -305,6 +310,7 @@ pub fn file_key(field: FieldId, boat: &BoatDoc) -> String {
         F::Headwind => "windage.headwind".into(),
         F::EngineSheet => "engine".into(),
         F::RatedRpm | F::RatedPower | F::FuelDensity => "engine sheet".into(),
+        F::Shafts => "installation.shafts".into(),
         F::GearRatio => "installation.gear_ratio".into(),
         F::ShaftEfficiency => "installation.shaft_efficiency".into(),
         F::GearEfficiency => "installation.gear_efficiency".into(),
@@ -397,6 +403,10 @@ pub fn value(field: FieldId, boat: &BoatDoc) -> FieldValue {
         F::RatedRpm | F::RatedPower | F::FuelDensity | F::PitchRatio => {
             FieldValue::ReadOnly(String::new())
         }
+        F::Shafts => FieldValue::Number {
+            value: f64::from(boat.installation.shafts),
+            kind: FieldKind::Count,
+        },
         F::GearRatio => plain(boat.installation.gear_ratio, 2),
         F::ShaftEfficiency => num(boat.installation.shaft_efficiency, Kind::Fraction),
         F::GearEfficiency => num(boat.installation.gear_efficiency, Kind::Fraction),
@@ -488,7 +498,7 @@ pub fn kind_of(field: FieldId) -> Option<FieldKind> {
         F::Tank => FieldKind::Unit(Kind::Volume),
         F::Diameter | F::Pitch => FieldKind::Unit(Kind::ScrewLength),
         F::GearRatio | F::AreaRatio => FieldKind::Plain(2),
-        F::Blades => FieldKind::Count,
+        F::Blades | F::Shafts => FieldKind::Count,
         _ => return None,
     })
 }

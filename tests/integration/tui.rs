@@ -1337,3 +1337,28 @@ fn full_throttle_past_the_method_is_marked_in_the_readout_and_the_chart() {
     assert!(text.contains("••• unreliable"), "{text}");
     insta::assert_snapshot!("stubby_unreliable_100x30", text);
 }
+
+#[test]
+fn twin_powerplant_pane_at_80x24_shows_shafts_and_each_engine() {
+    let mut app = tidewright::tui::open_app(&demo_store(), Some("samphire"))
+        .expect("the twin demo boat opens");
+    while app.focus != Pane::Powerplant {
+        key(&mut app, KeyCode::Tab);
+    }
+    let power = screen(&app, 80, 24);
+    for label in ["Powerplant", "Shafts", "brindmoor-3b40", "each engine"] {
+        assert!(power.contains(label), "{label} missing:\n{power}");
+    }
+    // The Shafts field nudges between 1 and 2 only, and writes installation.shafts.
+    assert_eq!(
+        tidewright::tui::fields::file_key(FieldId::Shafts, &app.doc.boat),
+        "installation.shafts"
+    );
+    let mut boat = app.doc.boat.clone();
+    tidewright::tui::edit::nudge(FieldId::Shafts, &mut boat, 1.0, UnitSystem::Metric)
+        .expect_err("3 shafts refused");
+    assert_eq!(boat.installation.shafts, 2);
+    tidewright::tui::edit::nudge(FieldId::Shafts, &mut boat, -1.0, UnitSystem::Metric).unwrap();
+    assert_eq!(boat.installation.shafts, 1);
+    insta::assert_snapshot!("powerplant_twin_80x24", power);
+}

@@ -192,3 +192,141 @@ fn one_engine_out_is_slower_and_loads_the_running_engine_harder() {
     let error = compare_conditions(&single, single.active_variant, &cases).unwrap_err();
     assert!(error.to_string().contains("shafts"), "{error}");
 }
+
+// ---- The twin demo boat everywhere: report, JSON, pitch, conditions (issue 13 §3–5) ----
+
+use tidewright::propulsion::solver::checks::keller_constant;
+use tidewright::report::Display;
+use tidewright::report::design::pitch_text;
+use tidewright::report::model::BoatReport;
+use tidewright::report::what_if::WhatIfSettings;
+use tidewright::study::Study;
+use tidewright::units::UnitSystem;
+
+fn samphire_study() -> Study {
+    Study::load(&Store::at("/nonexistent"), "samphire", None).expect("the twin demo boat loads")
+}
+
+#[test]
+fn twin_report_text_labels_boat_and_each_engine_and_the_duty_is_per_engine() {
+    let study = samphire_study();
+    let report = BoatReport::of_study(&study, None, None).unwrap();
+    let text = report.to_text(UnitSystem::Metric);
+    for needle in [
+        "2 shafts, handed",
+        "boat power",
+        "each engine",
+        "each screw absorbs",
+        "Shaft (each shaft)",
+        // Keller's K for two screws (the core's keller_constant, not the single-screw 0.2).
+        &format!("K = {}, twin screw", keller_constant(2)),
+    ] {
+        assert!(text.contains(needle), "{needle:?} missing:\n{text}");
+    }
+    assert!(!text.contains("single screw"), "{text}");
+    // The duty note quotes each engine's load, the same figure as the cruise point's load
+    // (the boat's power against one engine's curve would double it).
+    let v = &report.variants[0];
+    let cruise = v.cruise.as_ref().unwrap();
+    let load = format!("{:.0} % load", cruise.point.load_fraction * 100.0);
+    assert!(v.duty.as_ref().unwrap().starts_with(&load), "{:?}", v.duty);
+    let duty_line = text
+        .lines()
+        .find(|l| l.contains("Engine duty at the target speed (each engine)"))
+        .expect("duty line");
+    assert!(duty_line.contains(&load), "{duty_line}");
+    // CSV and Markdown carry the boat and per-engine columns too.
+    let csv = report.to_csv(UnitSystem::Metric);
+    assert!(
+        csv.contains("boat power (kW)") && csv.contains("each engine (kW)"),
+        "{csv}"
+    );
+    assert!(
+        report
+            .to_markdown(UnitSystem::Metric)
+            .contains("each engine")
+    );
+}
+
+#[test]
+fn twin_report_json_carries_shafts_and_per_engine_figures_at_half_the_boat() {
+    let study = samphire_study();
+    let report = BoatReport::of_study(&study, None, None).unwrap();
+    let json = serde_json::to_value(report.to_json()).unwrap();
+    assert_eq!(json["installation"]["shafts"], 2);
+    let points = json["variants"][0]["points"].as_array().unwrap();
+    assert!(!points.is_empty());
+    for p in points
+        .iter()
+        .chain(std::iter::once(&json["variants"][0]["cruise"]))
+    {
+        let f = |k: &str| {
+            p[k].as_f64()
+                .unwrap_or_else(|| panic!("{k} missing in {p}"))
+        };
+        // Two identical engines running: each carries exactly half (exact algebra).
+        assert!(
+            (f("brake_kw_per_engine") - f("brake_kw") / 2.0).abs() < 1e-9,
+            "{p}"
+        );
+        assert!(
+            (f("fuel_lph_per_engine") - f("fuel_lph") / 2.0).abs() < 1e-9,
+            "{p}"
+        );
+        assert_eq!(p["driven_shafts"], 2);
+    }
+    // A single-screw boat: the per-engine figures are the boat's, and shafts is 1.
+    let single = Study::load(&Store::at("/nonexistent"), "marram", None).unwrap();
+    let json =
+        serde_json::to_value(BoatReport::of_study(&single, None, None).unwrap().to_json()).unwrap();
+    assert_eq!(json["installation"]["shafts"], 1);
+    let p = &json["variants"][0]["points"][0];
+    assert_eq!(p["brake_kw_per_engine"], p["brake_kw"]);
+}
+
+#[test]
+fn twin_pitch_is_one_answer_for_each_screw() {
+    let study = samphire_study();
+    let recs = study
+        .recommendations(&[0], &Default::default())
+        .expect("pitch for the twin");
+    let d = Display::new(UnitSystem::Metric);
+    let text = pitch_text(&recs[0], &d, &study);
+    assert!(text.contains("each screw"), "{text}");
+    assert!(text.contains("each engine"), "{text}");
+    // The displacement is shown as a mass in the boat's units, not the core's m³.
+    assert!(text.contains("displacement 17.00 t"), "{text}");
+    assert!(!text.contains("m³"), "{text}");
+}
+
+#[test]
+fn twin_conditions_add_one_engine_out_slower_with_its_warning_marked() {
+    let study = samphire_study();
+    let index = study.vessel.active_variant;
+    let result = study.what_if(index, &WhatIfSettings::default()).unwrap();
+    let out = result
+        .outcomes
+        .iter()
+        .find(|o| o.engines_running == 1)
+        .expect("a one-engine-out case on the twin");
+    let both = &result.outcomes[0];
+    assert_eq!(both.engines_running, 2);
+    // Half the thrust available: the top speed drops (physics, not a published figure).
+    assert!(out.top_speed.unwrap() < both.top_speed.unwrap());
+    assert!(!out.warnings.is_empty());
+    let d = Display::new(UnitSystem::Metric);
+    let text = result.to_text(&d);
+    assert!(text.contains("one engine out"), "{text}");
+    assert!(
+        text.contains("† one engine out: the trailing screw's drag is not included"),
+        "{text}"
+    );
+    // The pitch line says the real target (rated rpm plus the light-running margin).
+    assert!(text.contains("light-running margin"), "{text}");
+    assert!(!text.contains("absorb 100 %"), "{text}");
+    assert!(text.contains("power each engine"), "{text}");
+    // A single-screw boat has no such case.
+    let single = Study::load(&Store::at("/nonexistent"), "marram", None).unwrap();
+    let cases = single.what_if_cases(&WhatIfSettings::default());
+    assert!(cases.iter().all(|c| c.short != "1 engine"));
+}

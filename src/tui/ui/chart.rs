@@ -185,7 +185,7 @@ pub fn chart_view(app: &App) -> ChartView {
             let point = match kind {
                 ChartKind::PowerVsRpm => (
                     p.engine_rpm,
-                    units::to_display(p.brake_power, Kind::Power, system),
+                    units::to_display(p.brake_power_per_engine, Kind::Power, system),
                 ),
                 ChartKind::SpeedVsRpm => (
                     p.engine_rpm,

@@ -36,7 +36,13 @@ pub fn readout_lines(app: &App) -> Vec<Line<'static>> {
             let p = &c.point;
             let figures = [
                 format!("{:.0} rpm", p.engine_rpm),
-                units::format(p.brake_power, Kind::Power, system),
+                if p.driven_shafts >= 2 {
+                    // Load is each engine's too; fuel and range stay the boat's.
+                    let each = units::format(p.brake_power_per_engine, Kind::Power, system);
+                    format!("{each} each engine")
+                } else {
+                    units::format(p.brake_power, Kind::Power, system)
+                },
                 match app
                     .solution
                     .solved()

@@ -162,6 +162,10 @@ fn outcome_table(app: &App, outcomes: &[ConditionOutcome], width: usize) -> Vec<
                 app.theme.warning,
             ));
         }
+        // What a case leaves out (one engine out: the trailing screw's drag).
+        for w in &o.warnings {
+            lines.push(Line::styled(format!("† {}", w.message), app.theme.warning));
+        }
     }
     lines
 }
