@@ -525,13 +525,20 @@ fn help_overlay_lists_every_key() {
     key(&mut app, KeyCode::Char('?'));
     assert_eq!(app.mode(), Mode::Help);
     let text = screen(&app, 120, 40);
+    // The first page and, scrolled with j, the rest of the longer left column.
+    let mut scrolled = app.clone();
+    for _ in 0..12 {
+        key(&mut scrolled, KeyCode::Char('j'));
+    }
+    let rest = screen(&scrolled, 120, 40);
     for b in keys::BINDINGS {
         assert!(
-            text.contains(b.keys[0].label),
-            "{} missing from help:\n{text}",
+            text.contains(b.keys[0].label) || rest.contains(b.keys[0].label),
+            "{} missing from help:\n{text}\n{rest}",
             b.keys[0].label
         );
     }
+    assert!(rest.contains("reload the boat's file"), "{rest}");
     assert!(text.contains("Markers"));
     insta::assert_snapshot!("help_120x40", text);
     let small = screen(&app, 80, 24);
@@ -1235,4 +1242,29 @@ fn full_throttle_past_the_method_is_marked_in_the_readout_and_the_chart() {
     let text = screen(&app, 100, 30);
     assert!(text.contains("••• unreliable"), "{text}");
     insta::assert_snapshot!("stubby_unreliable_100x30", text);
+}
+
+#[test]
+fn at_120x40_the_power_and_speed_charts_are_on_screen_together() {
+    let app = demo_app();
+    let wide = screen(&app, 120, 40);
+    for kind in [ChartKind::PowerVsRpm, ChartKind::SpeedVsRpm] {
+        assert!(
+            wide.contains(kind.title()),
+            "{} missing:\n{wide}",
+            kind.title()
+        );
+    }
+    insta::assert_snapshot!("two_charts_120x40", wide);
+    // Smaller, one chart; the other is a key (c) away.
+    let small = screen(&app, 100, 30);
+    assert!(small.contains(ChartKind::PowerVsRpm.title()));
+    assert!(!small.contains(ChartKind::SpeedVsRpm.title()), "{small}");
+    // The rpm axis starts at a round value, not at the first solved point.
+    let axis = wide
+        .lines()
+        .find(|l| l.contains("1340"))
+        .unwrap_or_default();
+    let chart_part = axis.split("││").nth(1).unwrap_or_default();
+    assert!(chart_part.trim_start().starts_with("0 "), "{axis}");
 }
