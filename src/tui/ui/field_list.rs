@@ -155,7 +155,11 @@ impl Widget for FieldList<'_> {
             let label: String = row.label.chars().take(label_width).collect();
             let used = 1 + label_width + 1 + 2;
             let value_width = width.saturating_sub(used);
-            let value: String = if value.chars().count() > value_width {
+            let typing_here = self.typing.is_some() && selected;
+            let value: String = if value.chars().count() <= value_width {
+                value
+            } else if typing_here {
+                // While typing the end (with the cursor) is what matters: cut from the left.
                 value
                     .chars()
                     .rev()
@@ -165,7 +169,9 @@ impl Widget for FieldList<'_> {
                     .rev()
                     .collect()
             } else {
-                value
+                // A long value (a variant's label) reads from its start: cut at the right.
+                let kept: String = value.chars().take(value_width.saturating_sub(1)).collect();
+                format!("{kept}…")
             };
             let mut value_style = if row.warning.is_some() {
                 self.theme.warning

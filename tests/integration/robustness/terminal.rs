@@ -181,7 +181,7 @@ fn temporaries(boats: &Path) -> Vec<PathBuf> {
         .collect()
 }
 
-/// Starts the UI, waits for it and makes one unsaved edit (pitch nudged up).
+/// Starts the UI, waits for it and makes one unsaved edit (a screw variant added).
 fn start_and_edit(name: &str, env: &str) -> Option<(Tmux, tempfile::TempDir, PathBuf, Vec<u8>)> {
     let (dir, store, command) = store_and_command(env);
     let tmux = Tmux::start(name, &command)?;
@@ -195,7 +195,10 @@ fn start_and_edit(name: &str, env: &str) -> Option<(Tmux, tempfile::TempDir, Pat
     );
     let path = store.boat_path("marram").unwrap();
     let before = std::fs::read(&path).unwrap();
-    tmux.send("+");
+    tmux.send("a");
+    if let Err(text) = tmux.wait_for(3.0, |t| t.contains("unsaved")) {
+        panic!("{name}: the edit did not show:\n{text}");
+    }
     Some((tmux, dir, path, before))
 }
 
@@ -221,6 +224,12 @@ fn the_terminal_is_restored_after_sigterm_and_sighup_and_nothing_is_half_written
             "SIG{signal}: unsaved edit written"
         );
         assert!(temporaries(path.parent().unwrap()).is_empty());
+        let kept = std::fs::read(tidewright::tui::recovery::beside(&path))
+            .unwrap_or_else(|e| panic!("SIG{signal}: no recovery file: {e}"));
+        assert_ne!(
+            kept, before,
+            "SIG{signal}: the recovery file lacks the edit"
+        );
     }
 }
 
@@ -286,11 +295,6 @@ fn a_closed_terminal_ends_the_program_at_once_and_keeps_the_edit_for_the_next_op
     };
     let recover = tidewright::tui::recovery::beside(&path);
     let pid = tmux.program_pid();
-    // A sure edit (a new screw variant); it has been taken (the header marks it unsaved)
-    // before the terminal goes.
-    tmux.send("a");
-    tmux.wait_for(3.0, |t| t.contains("unsaved"))
-        .unwrap_or_else(|t| panic!("the edit did not show:\n{t}"));
     let ticks_before = cpu_ticks(pid);
     tmux.run(&["kill-session", "-t", "main"]);
     let took = wait_gone(pid, 3.0).expect("the program still runs 3 s after its terminal closed");
