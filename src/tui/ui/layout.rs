@@ -68,10 +68,10 @@ pub(crate) fn draw_status(app: &App, area: Rect, buf: &mut Buffer) {
             Level::Error => app.theme.error,
         };
         Line::styled(status.text.clone(), style).render(area, buf);
-    } else if let Some(warnings) = app.solution.solved().map(|s| &s.warnings) {
-        if let Some(line) = warning_line(warnings, area.width as usize) {
-            Line::styled(line, app.theme.warning).render(area, buf);
-        }
+    } else if let Some(warnings) = app.solution.solved().map(|s| &s.warnings)
+        && let Some(line) = warning_line(warnings, area.width as usize)
+    {
+        Line::styled(line, app.theme.warning).render(area, buf);
     }
 }
 
