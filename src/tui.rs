@@ -101,6 +101,21 @@ impl Session {
     }
 }
 
+/// The most screw variants the terminal UI opens a boat with: far more than any boat is
+/// compared over (each is solved on every edit, so thousands would freeze the screen).
+pub const MAX_VARIANTS: usize = 64;
+
+/// Why `opened` is refused, if it has more variants than [`MAX_VARIANTS`].
+fn too_many_variants(opened: &Opened) -> Option<String> {
+    let count = opened.boat.variants.len();
+    (count > MAX_VARIANTS).then(|| {
+        format!(
+            "{}: {count} screw variants ([[variant]] tables); the terminal UI opens at most {MAX_VARIANTS}: keep the ones worth comparing (`tidewright sweep` explores many sizes without listing them)",
+            opened.name
+        )
+    })
+}
+
 /// Opens `arg` (a boat name in the store or a path), or the store's first boat when `None`.
 fn open(
     store: &Store,
@@ -158,6 +173,9 @@ pub fn open_app(store: &Store, boat: Option<&str>) -> Result<App, ProfileError> 
 /// `units` sets the display units at start; `None` uses the units the boat's file is written in.
 pub fn run(store: &Store, boat: Option<&str>, units: Option<UnitSystem>) -> anyhow::Result<()> {
     let (opened, target, stamp) = open(store, boat).context("opening the boat")?;
+    if let Some(why) = too_many_variants(&opened) {
+        return Err(anyhow!(why));
+    }
     let units = units.unwrap_or(opened.boat.units);
     let name = opened.name.clone();
     let mut app = App::new(opened, units, theme::Theme::from_env());
@@ -479,6 +497,9 @@ fn carry_out(effect: Effect, session: &mut Session) -> Action {
             Err(e) => failed("cannot list the engine sheets", &e),
         },
         Effect::OpenBoat(name) => match open(&session.store, Some(&name)) {
+            Ok((opened, ..)) if too_many_variants(&opened).is_some() => {
+                Action::Failed(too_many_variants(&opened).unwrap_or_default())
+            }
             Ok((opened, target, stamp)) => {
                 session.target = target;
                 session.stamp = stamp;
@@ -512,6 +533,9 @@ fn carry_out(effect: Effect, session: &mut Session) -> Action {
                 SaveTarget::Demo => session.name.clone(),
             };
             match open(&session.store, Some(&again)) {
+                Ok((opened, ..)) if too_many_variants(&opened).is_some() => {
+                    Action::Failed(too_many_variants(&opened).unwrap_or_default())
+                }
                 Ok((opened, target, stamp)) => {
                     session.target = target;
                     session.stamp = stamp;

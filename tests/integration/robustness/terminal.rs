@@ -375,3 +375,44 @@ fn under_lc_all_c_every_cell_is_ascii_and_the_charts_still_draw() {
     assert!(marks > 40, "only {marks} chart marks:\n{screen}");
     drop(dir);
 }
+
+#[test]
+fn a_boat_with_thousands_of_variants_is_refused_at_once_with_the_reason() {
+    let (_dir, store, _) = store_and_command("");
+    let path = store.boat_path("marram").unwrap();
+    let mut text = std::fs::read_to_string(&path).unwrap();
+    for i in 0..2000 {
+        text.push_str(&format!(
+            "\n[[variant]]\nlabel = \"extra {i}\"\nblades = 3\ndiameter = \"26 in\"\npitch = \"18 in\"\narea_ratio = 0.55\n"
+        ));
+    }
+    std::fs::write(
+        store
+            .boat_path("marram")
+            .unwrap()
+            .with_file_name("big.toml"),
+        text,
+    )
+    .unwrap();
+    let started = Instant::now();
+    let out = Command::new(env!("CARGO_BIN_EXE_tidewright"))
+        .args([
+            "--profiles",
+            &store.root().unwrap().display().to_string(),
+            "open",
+            "big",
+        ])
+        .output()
+        .unwrap();
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert!(!out.status.success(), "{err}");
+    assert!(
+        err.contains("2003 screw variants") && err.contains("at most 64"),
+        "{err}"
+    );
+    assert!(
+        started.elapsed() < Duration::from_secs(3),
+        "took {:?}",
+        started.elapsed()
+    );
+}
