@@ -1269,3 +1269,21 @@ fn at_120x40_the_power_and_speed_charts_are_on_screen_together() {
     let chart_part = axis.split("││").nth(1).unwrap_or_default();
     assert!(chart_part.trim_start().starts_with("0 "), "{axis}");
 }
+
+#[test]
+fn a_change_on_disk_is_shown_and_r_reloads_asking_first_when_unsaved() {
+    let mut app = demo_app();
+    app.update(tidewright::tui::app::Action::FileChanged);
+    assert!(screen(&app, 100, 30).contains("file changed on disk"));
+    // Clean: R asks the loop to reload at once.
+    assert_eq!(key(&mut app, KeyCode::Char('R')), Some(Effect::Reload));
+    // Unsaved edits: R asks first; n keeps them, y reloads.
+    keys(&mut app, "a");
+    assert!(app.dirty());
+    assert_eq!(key(&mut app, KeyCode::Char('R')), None);
+    assert_eq!(app.mode(), Mode::Confirm);
+    assert_eq!(key(&mut app, KeyCode::Char('n')), None);
+    assert!(app.dirty());
+    key(&mut app, KeyCode::Char('R'));
+    assert_eq!(key(&mut app, KeyCode::Char('y')), Some(Effect::Reload));
+}
