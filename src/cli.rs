@@ -46,6 +46,10 @@ pub struct Cli {
     /// always SI or the unit in the field's name).
     #[arg(long, global = true, value_enum)]
     pub units: Option<Units>,
+    /// Plain ASCII output: "deg", "m2", "1/2", `+-|` borders and ASCII chart marks (also
+    /// chosen when the locale is not UTF-8, e.g. LANG=C).
+    #[arg(long, global = true)]
+    pub ascii: bool,
     /// What to do; none opens the terminal UI.
     #[command(subcommand)]
     pub command: Option<Command>,
@@ -496,6 +500,8 @@ fn is_broken_pipe(err: &anyhow::Error) -> bool {
 
 /// Runs one parsed command line, writing its output to `out`.
 pub fn run(cli: Cli, out: &mut dyn Write) -> anyhow::Result<()> {
+    // Set once, before anything is formatted (the terminal UI also follows the locale).
+    crate::units::set_ascii(cli.ascii);
     let profiles = cli.profiles.or_else(|| {
         std::env::var_os(PROFILES_ENV)
             .filter(|v| !v.is_empty())
@@ -538,6 +544,10 @@ pub fn run(cli: Cli, out: &mut dyn Write) -> anyhow::Result<()> {
 }
 
 fn open_terminal_ui(ctx: &Context, boat: Option<&str>) -> anyhow::Result<()> {
+    // A terminal whose locale is not UTF-8 cannot show box drawing, braille or "°".
+    if !crate::units::locale_is_utf8() {
+        crate::units::set_ascii(true);
+    }
     crate::tui::run(&store::store(ctx), boat, ctx.units)
 }
 

@@ -14,6 +14,7 @@ pub mod fields;
 pub mod issues;
 pub mod keys;
 pub mod live;
+pub mod recovery;
 pub mod solve;
 pub mod theme;
 pub mod ui;
@@ -25,8 +26,8 @@ use anyhow::{Context, anyhow};
 use app::{Action, App, Effect, Opened};
 use crossterm::event::{self, Event};
 use std::path::PathBuf;
-use std::sync::Arc;
 use std::sync::atomic::{AtomicBool, Ordering};
+use std::sync::{Arc, Mutex};
 use std::time::{Duration, Instant};
 
 /// How long the loop blocks waiting for a key before it looks at the signal flag; the only
@@ -54,9 +55,32 @@ struct Session {
     last_disk_check: Instant,
     /// The live instrument feed, polled without blocking.
     feed: Option<crate::instruments::feed::Feed>,
+    /// The boat's name, for the demo's recovery file.
+    name: String,
 }
 
 impl Session {
+    /// Where this boat's unsaved edits are kept when the session ends without a save.
+    fn recovery_path(&self) -> Option<PathBuf> {
+        match &self.target {
+            SaveTarget::Demo => recovery::for_demo(&self.name),
+            _ => self.path().map(|p| recovery::beside(&p)),
+        }
+    }
+
+    /// The recovery file, if one is waiting to be offered.
+    fn waiting_recovery(&self) -> Option<PathBuf> {
+        self.recovery_path().filter(|p| p.is_file())
+    }
+
+    /// Removes the recovery file (after a save or a clean quit); a failure is only reported.
+    fn drop_recovery(&self) -> Option<String> {
+        let path = self.recovery_path()?;
+        recovery::remove(&path)
+            .err()
+            .map(|e| format!("cannot remove {}: {e}", path.display()))
+    }
+
     fn path(&self) -> Option<PathBuf> {
         match &self.target {
             SaveTarget::Store(name) => self.store.boat_path(name).ok(),
@@ -149,6 +173,7 @@ pub fn run_with_feed(
 ) -> anyhow::Result<()> {
     let (opened, target, stamp) = open(store, boat).context("opening the boat")?;
     let units = units.unwrap_or(opened.boat.units);
+    let name = opened.name.clone();
     let mut app = App::new(opened, units, theme::Theme::from_env());
     let mut session = Session {
         store: store.clone(),
@@ -156,6 +181,7 @@ pub fn run_with_feed(
         stamp,
         last_disk_check: Instant::now(),
         feed: None,
+        name,
     };
     if let Some((text, source)) = feed {
         app.update(Action::LiveStarted(text));
@@ -164,102 +190,280 @@ pub fn run_with_feed(
             Default::default(),
         ));
     }
+    if let Some(path) = session.waiting_recovery() {
+        app.update(Action::RecoveryFound(path.display().to_string()));
+    }
 
     // SIGTERM and SIGHUP (a dropped SSH link) set a flag; the loop sees it within
-    // SIGNAL_CHECK, leaves, and the terminal is restored below. Nothing is saved on the way
-    // out, so no file can be left half-written.
+    // SIGNAL_CHECK, writes unsaved edits to the recovery file and leaves. The boat's own file
+    // is never written on the way out.
     let stop = Arc::new(AtomicBool::new(false));
     for signal in [signal_hook::consts::SIGTERM, signal_hook::consts::SIGHUP] {
         signal_hook::flag::register(signal, Arc::clone(&stop))
             .context("installing the signal handler")?;
     }
-    watch_for_a_stuck_loop(Arc::clone(&stop));
+    // A resize comes as SIGWINCH, not as terminal input: its own flag asks for a redraw.
+    let resized = Arc::new(AtomicBool::new(false));
+    signal_hook::flag::register(signal_hook::consts::SIGWINCH, Arc::clone(&resized))
+        .context("installing the signal handler")?;
+    let pending = Arc::new(Mutex::new(None));
+    let alive = Arc::new(AtomicBool::new(true));
+    watch_for_a_stuck_loop(Arc::clone(&pending), Arc::clone(&alive));
     // `init` installs a panic hook that restores the terminal before the default hook prints.
     let mut terminal = ratatui::try_init().context("setting up the terminal (the terminal UI needs an interactive terminal; `tidewright --help` lists the headless commands)")?;
-    let result = event_loop(&mut terminal, &mut app, &mut session, &stop);
-    ratatui::restore();
-    result
+    let input = TerminalInput::open();
+    let flags = Flags {
+        stop: &stop,
+        resized: &resized,
+    };
+    let ended = event_loop(
+        &mut terminal,
+        &mut app,
+        &mut session,
+        flags,
+        &input,
+        &pending,
+    );
+    alive.store(false, Ordering::Relaxed);
+    match ended {
+        Ok(Ended::Quit) => {
+            ratatui::restore();
+            if let Some(why) = session.drop_recovery() {
+                eprintln!("tidewright: {why}");
+            }
+            Ok(())
+        }
+        Ok(Ended::Dropped) => {
+            keep_unsaved(&app, &session);
+            // The terminal may be gone: restoring it can only fail, and printing that failure
+            // to a closed stderr would panic, so the error is dropped.
+            let _ = ratatui::try_restore();
+            Ok(())
+        }
+        Err(e) => {
+            keep_unsaved(&app, &session);
+            let _ = ratatui::try_restore();
+            Err(e)
+        }
+    }
+}
+
+/// Writes the unsaved edits, if any, to the recovery file.
+fn keep_unsaved(app: &App, session: &Session) {
+    if !app.dirty() {
+        return;
+    }
+    if let Some(path) = session.recovery_path() {
+        // Nobody may be left to read a message: the recovery file is the whole report.
+        let _ = recovery::write(&path, &app.doc.boat);
+    }
+}
+
+/// How the event loop ended.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+enum Ended {
+    /// The user quit.
+    Quit,
+    /// The terminal hung up or reads failed, or SIGHUP/SIGTERM came.
+    Dropped,
+}
+
+/// What waiting on the terminal found.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+enum Input {
+    /// Bytes to read.
+    Ready,
+    /// Nothing within the time.
+    Timeout,
+    /// The terminal hung up (a dropped link, a closed terminal) or the wait failed.
+    HungUp,
+}
+
+/// The terminal's input, watched with poll(2) before crossterm reads it: crossterm's reader
+/// spins without returning once a terminal reads EOF or EIO (it retries a zero-byte read
+/// forever), so the hang-up is seen here first and crossterm is never asked again.
+struct TerminalInput {
+    /// `/dev/tty` when standard input is not the terminal (crossterm reads it then too).
+    tty: Option<std::fs::File>,
+}
+
+impl TerminalInput {
+    fn open() -> Self {
+        use std::io::IsTerminal;
+        let tty = if std::io::stdin().is_terminal() {
+            None
+        } else {
+            std::fs::File::open("/dev/tty").ok()
+        };
+        Self { tty }
+    }
+
+    fn wait(&self, timeout: Duration) -> Input {
+        match &self.tty {
+            Some(file) => wait_on(file, timeout),
+            None => wait_on(&std::io::stdin(), timeout),
+        }
+    }
+}
+
+/// Waits up to `timeout` for `fd` to be readable or hung up.
+fn wait_on(fd: &impl std::os::fd::AsFd, timeout: Duration) -> Input {
+    use rustix::event::{PollFd, PollFlags, Timespec, poll};
+    let mut fds = [PollFd::new(fd, PollFlags::IN)];
+    let time = Timespec {
+        tv_sec: timeout.as_secs() as _,
+        tv_nsec: timeout.subsec_nanos() as _,
+    };
+    match poll(&mut fds, Some(&time)) {
+        Ok(0) => Input::Timeout,
+        Ok(_) => {
+            let got = fds[0].revents();
+            if got.intersects(PollFlags::HUP | PollFlags::ERR | PollFlags::NVAL) {
+                Input::HungUp
+            } else {
+                Input::Ready
+            }
+        }
+        Err(rustix::io::Errno::INTR) => Input::Timeout,
+        Err(_) => Input::HungUp,
+    }
 }
 
 /// How often the watchdog of [`watch_for_a_stuck_loop`] looks.
 const WATCHDOG_PERIOD: Duration = Duration::from_millis(500);
-/// How long the loop may take to leave after a stop signal before the watchdog ends it.
+/// How long the loop may take to leave after the terminal hung up before the watchdog ends it.
 const STOP_GRACE: Duration = Duration::from_secs(1);
 
-/// Ends the program when the event loop cannot: once the terminal is gone (a dropped SSH
-/// link), crossterm's event poll spins without ever returning (crossterm issue #793), so the
-/// loop sees neither the signal flag nor an error. The watchdog leaves for it when a stop was
-/// asked more than [`STOP_GRACE`] ago or the terminal no longer answers. Nothing can be
-/// half-written: saves are atomic and none is started on the way out.
-fn watch_for_a_stuck_loop(stop: Arc<AtomicBool>) {
+/// The recovery file and the unsaved document's text, kept current by the loop for the
+/// watchdog.
+type Pending = Arc<Mutex<Option<(PathBuf, BoatDocText)>>>;
+/// A boat document written out as its TOML text.
+type BoatDocText = String;
+
+/// A backstop for the one case the loop cannot see: a hang-up in the instant between the
+/// poll and crossterm's read, which leaves crossterm spinning. When the terminal has hung up
+/// and the loop has not left [`STOP_GRACE`] later, the watchdog writes the recovery file and
+/// ends the program. It starts no process and touches no terminal.
+fn watch_for_a_stuck_loop(pending: Pending, alive: Arc<AtomicBool>) {
     std::thread::spawn(move || {
-        let mut asked: Option<Instant> = None;
-        loop {
+        let input = TerminalInput::open();
+        let mut hung_up: Option<Instant> = None;
+        while alive.load(Ordering::Relaxed) {
             std::thread::sleep(WATCHDOG_PERIOD);
-            if stop.load(Ordering::Relaxed) {
-                asked.get_or_insert_with(Instant::now);
+            if input.wait(Duration::ZERO) == Input::HungUp {
+                hung_up.get_or_insert_with(Instant::now);
             }
-            if crossterm::terminal::size().is_err() {
+            if hung_up.is_some_and(|at| at.elapsed() >= STOP_GRACE) && alive.load(Ordering::Relaxed)
+            {
+                if let Ok(guard) = pending.lock()
+                    && let Some((path, text)) = guard.as_ref()
+                {
+                    let _ = recovery::write_text(path, text);
+                }
                 // 128 + SIGHUP: the terminal hung up.
                 std::process::exit(129);
             }
-            if asked.is_some_and(|at| at.elapsed() >= STOP_GRACE) {
-                ratatui::restore();
-                // 128 + SIGTERM: stopped by a signal.
-                std::process::exit(143);
-            }
         }
     });
+}
+
+/// The flags the signal handlers set.
+#[derive(Clone, Copy)]
+struct Flags<'a> {
+    /// SIGTERM or SIGHUP came.
+    stop: &'a AtomicBool,
+    /// SIGWINCH came: the terminal changed size.
+    resized: &'a AtomicBool,
 }
 
 fn event_loop(
     terminal: &mut ratatui::DefaultTerminal,
     app: &mut App,
     session: &mut Session,
-    stop: &AtomicBool,
-) -> anyhow::Result<()> {
-    terminal.draw(|frame| ui::render(app, frame))?;
+    flags: Flags,
+    input: &TerminalInput,
+    pending: &Pending,
+) -> anyhow::Result<Ended> {
+    if terminal.draw(|frame| ui::render(app, frame)).is_err() {
+        return Ok(Ended::Dropped);
+    }
     // Debug builds only: a panic on demand, so that the robustness tests can prove in tmux
     // that the terminal is restored after one (tests/integration/robustness/terminal.rs).
     #[cfg(debug_assertions)]
     if std::env::var_os("TIDEWRIGHT_PANIC_AFTER_DRAW").is_some() {
         panic!("panic requested by TIDEWRIGHT_PANIC_AFTER_DRAW after the first draw");
     }
-    while !stop.load(Ordering::Relaxed) {
-        let ready = event::poll(SIGNAL_CHECK)?;
+    while !flags.stop.load(Ordering::Relaxed) {
+        let mut redraw = flags.resized.swap(false, Ordering::Relaxed);
+        match input.wait(SIGNAL_CHECK) {
+            Input::HungUp => return Ok(Ended::Dropped),
+            Input::Timeout => {}
+            Input::Ready => {
+                // Every event crossterm has read is handled now: one read of the terminal can
+                // hold several keys, and the terminal will not wake the poll for them again.
+                // A read error is a terminal gone bad: leave at once rather than retry.
+                loop {
+                    match event::poll(Duration::ZERO) {
+                        Ok(true) => {}
+                        Ok(false) => break,
+                        Err(_) => return Ok(Ended::Dropped),
+                    }
+                    let Ok(event) = event::read() else {
+                        return Ok(Ended::Dropped);
+                    };
+                    let action = match event {
+                        Event::Key(key) => app.action_for_key(&key),
+                        Event::Resize(..) => Some(Action::Resize),
+                        _ => None,
+                    };
+                    let Some(action) = action else { continue };
+                    let mut effect = app.update(action);
+                    while let Some(e) = effect.take() {
+                        if e == Effect::Quit {
+                            return Ok(Ended::Quit);
+                        }
+                        let reply = carry_out(e, session);
+                        effect = app.update(reply);
+                    }
+                    redraw = true;
+                }
+                note_pending(app, session, pending);
+            }
+        }
         // The feed's thread queues what it read; taking it never blocks.
         if let Some(events) = session.feed.as_ref().map(|f| f.drain())
             && !events.is_empty()
         {
             app.update(Action::Feed(events));
-            terminal.draw(|frame| ui::render(app, frame))?;
+            redraw = true;
         }
-        if !ready {
-            continue;
-        }
-        let action = match event::read()? {
-            Event::Key(key) => app.action_for_key(&key),
-            Event::Resize(..) => Some(Action::Resize),
-            _ => None,
-        };
-        let Some(action) = action else { continue };
-        let mut effect = app.update(action);
-        while let Some(e) = effect.take() {
-            if e == Effect::Quit {
-                return Ok(());
-            }
-            let reply = carry_out(e, session);
-            effect = app.update(reply);
-        }
+        // On the timer too, so that a change by another program shows without a key press.
         if session.last_disk_check.elapsed() >= DISK_CHECK {
             session.last_disk_check = Instant::now();
             if !app.changed_on_disk && session.changed_on_disk() {
                 app.update(Action::FileChanged);
+                redraw = true;
             }
         }
-        terminal.draw(|frame| ui::render(app, frame))?;
+        if redraw && terminal.draw(|frame| ui::render(app, frame)).is_err() {
+            return Ok(Ended::Dropped);
+        }
     }
-    Ok(())
+    Ok(Ended::Dropped)
+}
+
+/// Keeps the watchdog's copy of the unsaved document current.
+fn note_pending(app: &App, session: &Session, pending: &Pending) {
+    let next = if app.dirty() {
+        session
+            .recovery_path()
+            .map(|path| (path, app.doc.boat.to_toml()))
+    } else {
+        None
+    };
+    if let Ok(mut guard) = pending.lock() {
+        *guard = next;
+    }
 }
 
 /// Carries out one effect and reports back as an action.
@@ -283,6 +487,8 @@ fn carry_out(effect: Effect, session: &mut Session) -> Action {
             match result {
                 Ok(saved) => {
                     session.stamp = Some(saved.stamp);
+                    // The edits are in the boat's file now: nothing is left to recover.
+                    let _ = session.drop_recovery();
                     let backup = saved
                         .backup
                         .map(|b| format!(" (previous kept as {})", b.display()))
@@ -305,6 +511,7 @@ fn carry_out(effect: Effect, session: &mut Session) -> Action {
             Ok((opened, target, stamp)) => {
                 session.target = target;
                 session.stamp = stamp;
+                session.name = opened.name.clone();
                 Action::BoatOpened(Box::new(opened))
             }
             Err(e) => failed(&format!("cannot open {name}"), &e),
@@ -314,5 +521,33 @@ fn carry_out(effect: Effect, session: &mut Session) -> Action {
             Err(e) => failed(&format!("cannot load engine sheet {name}"), &e),
         },
         Effect::Quit => Action::Resize,
+        Effect::RestoreRecovery => {
+            let Some(path) = session.recovery_path() else {
+                return Action::Failed("no recovery file".into());
+            };
+            match recovery::read(&path) {
+                Ok(boat) => Action::Recovered(Box::new(boat)),
+                Err(why) => Action::Failed(format!("not restored: {why}")),
+            }
+        }
+        Effect::DiscardRecovery => match session.drop_recovery() {
+            None => Action::Notice("the recovery file was discarded".into()),
+            Some(why) => Action::Failed(why),
+        },
+        Effect::Reload => {
+            let again = match &session.target {
+                SaveTarget::Store(name) => name.clone(),
+                SaveTarget::File(path) => path.display().to_string(),
+                SaveTarget::Demo => session.name.clone(),
+            };
+            match open(&session.store, Some(&again)) {
+                Ok((opened, target, stamp)) => {
+                    session.target = target;
+                    session.stamp = stamp;
+                    Action::Reloaded(Box::new(opened))
+                }
+                Err(e) => failed(&format!("cannot reload {again}"), &e),
+            }
+        }
     }
 }

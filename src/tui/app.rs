@@ -49,6 +49,14 @@ pub enum Action {
     LiveStarted(String),
     /// The loop read these events from the live feed.
     Feed(Vec<crate::instruments::feed::FeedEvent>),
+    /// The loop found a recovery file (unsaved edits from a dropped session); the text names it.
+    RecoveryFound(String),
+    /// The loop read the recovery file back: it becomes the document, unsaved.
+    Recovered(Box<BoatDoc>),
+    /// The loop reloaded the boat's file from disk (the reload key).
+    Reloaded(Box<Opened>),
+    /// Something the loop did that is worth a line of news.
+    Notice(String),
 }
 
 /// A boat opened by the loop, ready to edit.
@@ -84,6 +92,12 @@ pub enum Effect {
     LoadEngine(String),
     /// Leave the program.
     Quit,
+    /// Read the recovery file back into the document.
+    RestoreRecovery,
+    /// Remove the recovery file.
+    DiscardRecovery,
+    /// Read the boat's file again from disk, dropping unsaved edits.
+    Reload,
 }
 
 /// A question waiting for y/n.
@@ -95,6 +109,10 @@ pub enum Question {
     OverwriteChanged,
     /// Open another boat although there are unsaved changes?
     OpenUnsaved,
+    /// Restore the unsaved edits of a session that ended without a save (y), or discard them?
+    RestoreRecovery,
+    /// Reload the boat's file from disk although there are unsaved changes?
+    ReloadUnsaved,
 }
 
 impl Question {
@@ -106,6 +124,12 @@ impl Question {
                 "The boat's file was changed by another program since it was opened. Overwrite it?"
             }
             Question::OpenUnsaved => "There are unsaved changes. Open another boat and drop them?",
+            Question::RestoreRecovery => {
+                "Unsaved edits from a session that ended without saving (terminal dropped or stopped) were kept. Restore them (y), or discard them (n)?"
+            }
+            Question::ReloadUnsaved => {
+                "There are unsaved changes. Reload the boat's file from disk and drop them?"
+            }
         }
     }
 }
@@ -413,6 +437,31 @@ impl App {
                         ),
                     );
                 }
+                None
+            }
+            Action::RecoveryFound(path) => {
+                self.overlay = Overlay::Confirm(Question::RestoreRecovery);
+                self.set_status(Level::Info, format!("recovery file {path}"));
+                None
+            }
+            Action::Recovered(boat) => {
+                let mut next = self.doc.clone();
+                next.boat = *boat;
+                self.commit(next);
+                self.set_status(
+                    Level::Info,
+                    "unsaved edits restored (s saves them, u undoes back to the file)",
+                );
+                None
+            }
+            Action::Notice(text) => {
+                self.set_status(Level::Info, text);
+                None
+            }
+            Action::Reloaded(opened) => {
+                let name = opened.name.clone();
+                self.update(Action::BoatOpened(opened));
+                self.set_status(Level::Info, format!("reloaded {name} from disk"));
                 None
             }
         }
@@ -756,6 +805,13 @@ impl App {
                 return Some(Effect::ListBoats);
             }
             Command::SwitchEngine => return Some(Effect::ListEngines),
+            Command::Reload => {
+                if self.dirty() {
+                    self.overlay = Overlay::Confirm(Question::ReloadUnsaved);
+                    return None;
+                }
+                return Some(Effect::Reload);
+            }
             Command::ToggleHelp => self.overlay = Overlay::Help { scroll: 0 },
             Command::Quit => {
                 if self.dirty() {
@@ -817,6 +873,9 @@ impl App {
                 None
             }
             (Question::OpenUnsaved, Command::Yes) => Some(Effect::ListBoats),
+            (Question::RestoreRecovery, Command::Yes) => Some(Effect::RestoreRecovery),
+            (Question::RestoreRecovery, _) => Some(Effect::DiscardRecovery),
+            (Question::ReloadUnsaved, Command::Yes) => Some(Effect::Reload),
             _ => None,
         }
     }

@@ -78,6 +78,15 @@ impl Glyph {
 
     /// The character drawn, also written in the legend.
     pub fn symbol(self) -> &'static str {
+        if crate::units::text_style() == crate::units::TextStyle::Ascii {
+            // The marks the ASCII chart draws (crate::tui::ui::ascii::plot_mark).
+            return match self {
+                Glyph::Dot => "o",
+                Glyph::Bar => "x",
+                Glyph::Block => "#",
+                Glyph::Quarter => "+",
+            };
+        }
         match self {
             Glyph::Dot => "•",
             Glyph::Bar => "▄",
@@ -137,6 +146,11 @@ impl ChartView {
         }
         if !(x[0].is_finite() && x[1] > x[0]) {
             x = [0.0, 1.0];
+        } else {
+            // Start at a round value at or below the first point (a curve from 229 rpm on a
+            // 3000 rpm axis starts at 0, one from 640 on a 900 rpm span at 600).
+            let step = 10f64.powf((x[1] - x[0]).log10().floor());
+            x[0] = (x[0] / step).floor() * step;
         }
         if !(y[1].is_finite() && y[1] > y[0]) {
             y = [0.0, 1.0];

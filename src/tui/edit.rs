@@ -111,6 +111,10 @@ pub fn set_from_text(field: FieldId, boat: &mut BoatDoc, text: &str) -> Result<(
             Some(FieldKind::Unit(kind)) => {
                 Some(Quantity::from_text(text, kind).map_err(|e| e.to_string())?)
             }
+            // A gear ratio is read as the trade writes it: "2.5", "2.5:1" or "2.5 : 1".
+            Some(FieldKind::Plain(_)) if field == FieldId::GearRatio => Some(Quantity::new(
+                crate::units::parse_ratio(text).map_err(|e| e.to_string())?,
+            )),
             Some(FieldKind::Plain(_)) | Some(FieldKind::Count) => Some(Quantity::new(
                 text.trim()
                     .parse::<f64>()
@@ -338,6 +342,19 @@ mod tests {
             .expect("demo boat opens")
             .doc
             .boat
+    }
+
+    #[test]
+    fn a_gear_ratio_is_taken_as_the_trade_writes_it() {
+        let mut boat = demo_boat("marram");
+        for (typed, want) in [("2.5:1", 2.5), ("3 : 1", 3.0), ("2.25", 2.25), ("5:2", 2.5)] {
+            set_from_text(FieldId::GearRatio, &mut boat, typed).unwrap();
+            assert_eq!(boat.installation.gear_ratio, want, "{typed}");
+        }
+        // An inverted ratio (screw faster than the engine) and a decimal comma are refused.
+        assert!(set_from_text(FieldId::GearRatio, &mut boat, "1:2.5").is_err());
+        let comma = set_from_text(FieldId::GearRatio, &mut boat, "2,5:1").unwrap_err();
+        assert!(comma.contains("decimal point"), "{comma}");
     }
 
     #[test]

@@ -117,6 +117,8 @@ pub enum Command {
     OpenBoat,
     /// Switch the engine sheet from the store.
     SwitchEngine,
+    /// Read the boat's file again from disk (asks first when there are unsaved changes).
+    Reload,
     /// Open or close the help overlay.
     ToggleHelp,
     /// Quit (asks first when there are unsaved changes).
@@ -236,6 +238,7 @@ pub const BINDINGS: &[Binding] = &[
     bind(M::Browse, &[ch('w', "w")], C::OpenWhatIf, "", "open the what-if view: loads, fouling, sea state, uncertainty band, cavitation, shaft", false),
     bind(M::Browse, &[ch('b', "b")], C::ToggleBand, "", "show or hide the uncertainty band (displacement ±10 %, wake ±0.05) on the power chart", false),
     bind(M::Browse, &[ch('s', "s"), ctrl('s', "Ctrl-s")], C::Save, "save", "save the boat through the store (atomic, keeps a backup)", true),
+    bind(M::Browse, &[ch('R', "R")], C::Reload, "", "reload the boat's file from disk (asks first if unsaved)", false),
     bind(M::Browse, &[ch('o', "o")], C::OpenBoat, "", "open another boat from the store", false),
     bind(M::Browse, &[ch('e', "e")], C::SwitchEngine, "", "switch the engine sheet from the store", false),
     bind(M::Browse, &[ch('?', "?"), code(KeyCode::F(1), "F1")], C::ToggleHelp, "help", "show every key", true),

@@ -6,6 +6,7 @@
 //! pickers, questions) and [`views`] (one file per design view). Drawing reads `app`, `edit`,
 //! `fields` and the solved results; nothing outside `ui` imports it but the event loop.
 
+pub mod ascii;
 pub mod chart;
 pub mod field_list;
 pub mod layout;
@@ -16,8 +17,9 @@ pub mod readout;
 pub mod views;
 
 use crate::tui::app::{App, Overlay};
+use crate::tui::chart::ChartKind;
 use crate::tui::fields::Pane;
-use chart::{ChartWidget, chart_view};
+use chart::{ChartWidget, chart_view_of};
 use layout::{draw_footer, draw_header, draw_status, draw_tabs};
 use overlays::{draw_help, draw_picker, draw_question};
 use panes::draw_pane;
@@ -37,6 +39,11 @@ pub const MIN_HEIGHT: u16 = 24;
 pub const CAUTION: &str = "Estimates only: the engine maker's installation limits, local codes and a licensed \
                            marine surveyor or naval architect decide.";
 
+/// Width from which two charts are shown, one above the other.
+pub const TWO_CHARTS_WIDTH: u16 = 120;
+/// Height from which two charts are shown, one above the other.
+pub const TWO_CHARTS_HEIGHT: u16 = 40;
+
 /// Width from which all three panes are shown at once.
 const WIDE: u16 = 110;
 /// Height from which all three panes are shown at once.
@@ -47,8 +54,16 @@ pub fn render(app: &App, frame: &mut Frame) {
     draw(app, frame.area(), frame.buffer_mut());
 }
 
-/// Draws the whole screen for `app` into `buf` over `area`.
+/// Draws the whole screen for `app` into `buf` over `area`; in ASCII mode every cell ends
+/// up plain ASCII (see [`ascii`]).
 pub fn draw(app: &App, area: Rect, buf: &mut Buffer) {
+    draw_screen(app, area, buf);
+    if ascii::active() {
+        ascii::to_ascii(area, buf);
+    }
+}
+
+fn draw_screen(app: &App, area: Rect, buf: &mut Buffer) {
     if area.width < MIN_WIDTH || area.height < MIN_HEIGHT {
         too_small(area, buf);
         return;
@@ -88,12 +103,30 @@ pub fn draw(app: &App, area: Rect, buf: &mut Buffer) {
         draw_tabs(app, tabs, buf);
         draw_pane(app, app.focus, body, buf);
     }
-    let view = chart_view(app);
-    ChartWidget {
-        view: &view,
-        frame_style: app.theme.dim,
+    // With room for two, the speed chart sits under the chosen one (the power chart unless
+    // cycled), so power and speed are seen together; the others are still a key away.
+    let charts: Vec<(ChartKind, Rect)> = if area.width >= TWO_CHARTS_WIDTH
+        && area.height >= TWO_CHARTS_HEIGHT
+    {
+        let second = if app.chart == ChartKind::SpeedVsRpm {
+            ChartKind::PowerVsRpm
+        } else {
+            ChartKind::SpeedVsRpm
+        };
+        let [top, bottom] =
+            Layout::vertical([Constraint::Percentage(50), Constraint::Percentage(50)]).areas(right);
+        vec![(app.chart, top), (second, bottom)]
+    } else {
+        vec![(app.chart, right)]
+    };
+    for (kind, rect) in charts {
+        let view = chart_view_of(app, kind);
+        ChartWidget {
+            view: &view,
+            frame_style: app.theme.dim,
+        }
+        .render(rect, buf);
     }
-    .render(right, buf);
     Paragraph::new(readout_text)
         .wrap(Wrap { trim: true })
         .render(readout, buf);

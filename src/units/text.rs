@@ -120,7 +120,10 @@ fn ascii_of(c: char) -> &'static str {
         '↑' => "^",
         '↓' => "v",
         '↔' => "<->",
-        '▶' | '▸' | '►' => ">",
+        '▶' | '▸' | '►' | '›' => ">",
+        '‹' => "<",
+        // A thin vertical bar: the typing cursor.
+        '▏' | '▕' => "|",
         '◀' | '◂' | '◄' => "<",
         '▲' => "^",
         '▼' => "v",
@@ -164,7 +167,7 @@ mod tests {
 
     #[test]
     fn every_character_the_program_prints_has_an_ascii_spelling() {
-        let printed = "· ½ ² ³ ° − × → ← ↑ ↓ ▶ ◀ ✓ ✗ ⚠ ≈ ≥ ≤ — – ηD η0 ─│┌┐└┘├┤┬┴┼╭╮╰╯═║ ⣿⠀█▄";
+        let printed = "· ½ ² ³ ° − × → ← ↑ ↓ ▶ ◀ › ▏ ✓ ✗ ⚠ ≈ ≥ ≤ — – ηD η0 ─│┌┐└┘├┤┬┴┼╭╮╰╯═║ ⣿⠀█▄";
         let plain = ascii_fallback(printed);
         assert!(plain.is_ascii(), "{plain}");
         assert!(
@@ -173,6 +176,8 @@ mod tests {
         );
         assert_eq!(ascii_fallback("1½ in · 15 °C"), "1 1/2 in - 15 degC");
         assert_eq!(ascii_fallback("plain"), "plain");
+        // The TUI's selection pointer and typing cursor.
+        assert_eq!(ascii_fallback("›Pitch 17▏"), ">Pitch 17|");
     }
 
     #[test]

@@ -525,13 +525,20 @@ fn help_overlay_lists_every_key() {
     key(&mut app, KeyCode::Char('?'));
     assert_eq!(app.mode(), Mode::Help);
     let text = screen(&app, 120, 40);
+    // The first page and, scrolled with j, the rest of the longer left column.
+    let mut scrolled = app.clone();
+    for _ in 0..12 {
+        key(&mut scrolled, KeyCode::Char('j'));
+    }
+    let rest = screen(&scrolled, 120, 40);
     for b in keys::BINDINGS {
         assert!(
-            text.contains(b.keys[0].label),
-            "{} missing from help:\n{text}",
+            text.contains(b.keys[0].label) || rest.contains(b.keys[0].label),
+            "{} missing from help:\n{text}\n{rest}",
             b.keys[0].label
         );
     }
+    assert!(rest.contains("reload the boat's file"), "{rest}");
     // The marker legend closes the help: on screen, or after scrolling down to it.
     let mut scrolled = app.clone();
     for _ in 0..20 {
@@ -936,15 +943,16 @@ fn band_is_drawn_on_the_power_chart_and_the_screw_pane_names_the_condition() {
         text.contains("for half load"),
         "recommendation condition:\n{text}"
     );
-    // Pintle's full throttle lies past the method's range, so the recommendation carries its
-    // unreliable note first and the cavitation line, next in the pane's notes, is cut from the
-    // bottom at this size; it is still the second note.
+    // The checks line (cavitation, shaft) is the pane's first note, so it is the last to go
+    // when the pane is short; pintle's full throttle lies past the method's range, so the
+    // recommendation after it carries its unreliable note (cut at a word with "…" here).
     let notes = ui::panes::pane_notes(Pane::Screw, &app);
-    assert!(notes[0].contains("UNRELIABLE"), "{notes:?}");
     assert!(
-        notes[1].contains("Cavitation"),
+        notes[0].contains("Cavitation"),
         "cavitation line: {notes:?}"
     );
+    assert!(notes[1].contains("UNRELIABLE"), "{notes:?}");
+    assert!(text.contains("Cavitation"), "{text}");
     assert!(!text.contains("band ±10 %"));
     keys(&mut app, "b");
     assert!(app.band_shown);
@@ -1361,4 +1369,47 @@ fn twin_powerplant_pane_at_80x24_shows_shafts_and_each_engine() {
     tidewright::tui::edit::nudge(FieldId::Shafts, &mut boat, -1.0, UnitSystem::Metric).unwrap();
     assert_eq!(boat.installation.shafts, 1);
     insta::assert_snapshot!("powerplant_twin_80x24", power);
+}
+
+#[test]
+fn at_120x40_the_power_and_speed_charts_are_on_screen_together() {
+    let app = demo_app();
+    let wide = screen(&app, 120, 40);
+    for kind in [ChartKind::PowerVsRpm, ChartKind::SpeedVsRpm] {
+        assert!(
+            wide.contains(kind.title()),
+            "{} missing:\n{wide}",
+            kind.title()
+        );
+    }
+    insta::assert_snapshot!("two_charts_120x40", wide);
+    // Smaller, one chart; the other is a key (c) away.
+    let small = screen(&app, 100, 30);
+    assert!(small.contains(ChartKind::PowerVsRpm.title()));
+    assert!(!small.contains(ChartKind::SpeedVsRpm.title()), "{small}");
+    // The rpm axis starts at a round value, not at the first solved point.
+    let axis = wide
+        .lines()
+        .find(|l| l.contains("1340"))
+        .unwrap_or_default();
+    let chart_part = axis.split("││").nth(1).unwrap_or_default();
+    assert!(chart_part.trim_start().starts_with("0 "), "{axis}");
+}
+
+#[test]
+fn a_change_on_disk_is_shown_and_r_reloads_asking_first_when_unsaved() {
+    let mut app = demo_app();
+    app.update(tidewright::tui::app::Action::FileChanged);
+    assert!(screen(&app, 100, 30).contains("file changed on disk"));
+    // Clean: R asks the loop to reload at once.
+    assert_eq!(key(&mut app, KeyCode::Char('R')), Some(Effect::Reload));
+    // Unsaved edits: R asks first; n keeps them, y reloads.
+    keys(&mut app, "a");
+    assert!(app.dirty());
+    assert_eq!(key(&mut app, KeyCode::Char('R')), None);
+    assert_eq!(app.mode(), Mode::Confirm);
+    assert_eq!(key(&mut app, KeyCode::Char('n')), None);
+    assert!(app.dirty());
+    key(&mut app, KeyCode::Char('R'));
+    assert_eq!(key(&mut app, KeyCode::Char('y')), Some(Effect::Reload));
 }

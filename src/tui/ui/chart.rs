@@ -41,8 +41,12 @@ const UNRELIABLE_LEGEND: &str = "••• unreliable";
 
 /// The chart for the app's current chart kind, in display units.
 pub fn chart_view(app: &App) -> ChartView {
+    chart_view_of(app, app.chart)
+}
+
+/// The chart of `kind` for the app, in display units.
+pub fn chart_view_of(app: &App, kind: ChartKind) -> ChartView {
     let system = app.units;
-    let kind = app.chart;
     let (x_kind, y_kind, x_title, y_title) = match kind {
         ChartKind::PowerVsRpm => (
             None,
@@ -348,6 +352,16 @@ impl Widget for ChartWidget<'_> {
             )
             .legend_position(None);
         chart.render(chart_area, buf);
+        if super::ascii::active() {
+            // A character-cell chart: line dots and point glyphs as ASCII marks.
+            for y in chart_area.top()..chart_area.bottom() {
+                for x in chart_area.left()..chart_area.right() {
+                    if let Some(mark) = super::ascii::plot_mark(buf[(x, y)].symbol()) {
+                        buf[(x, y)].set_symbol(mark);
+                    }
+                }
+            }
+        }
         if below_height > 0 {
             Paragraph::new(below)
                 .wrap(Wrap { trim: true })

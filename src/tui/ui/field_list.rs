@@ -76,7 +76,8 @@ impl FieldList<'_> {
         if let Some(e) = &row.estimated_by {
             return Some((format!("{ESTIMATED_MARK} estimated: {e}"), self.theme.dim));
         }
-        (!row.about.is_empty()).then(|| (row.about.clone(), self.theme.dim))
+        // Named, so that it never reads as the end of the note above it.
+        (!row.about.is_empty()).then(|| (format!("{}: {}", row.label, row.about), self.theme.dim))
     }
 }
 
@@ -101,20 +102,30 @@ impl Widget for FieldList<'_> {
         if inner.height == 0 || inner.width < 4 {
             return;
         }
-        let reason = self.reason();
+        let mut reason = self.reason();
+        let notes_height: u16 = self
+            .footer_lines
+            .iter()
+            .map(|l| wrapped_height(l, inner.width))
+            .sum();
+        let min_rows = (self.rows.len() as u16).clamp(1, 6);
+        // What a field is gives way to the notes (checks, recommendation) when both do not
+        // fit: a problem, warning or estimate always stays.
+        if let (Some((text, _)), Some(row)) = (&reason, self.rows.get(self.selected))
+            && self.typing.is_none()
+            && row.warning.is_none()
+            && row.estimated_by.is_none()
+            && notes_height + wrapped_height(text, inner.width).min(3) + min_rows > inner.height
+        {
+            reason = None;
+        }
         let reason_height = match &reason {
             Some((text, _)) => wrapped_height(text, inner.width)
                 .min(3)
                 .min(inner.height.saturating_sub(1)),
             None => 0,
         };
-        let notes_height: u16 = self
-            .footer_lines
-            .iter()
-            .map(|l| wrapped_height(l, inner.width))
-            .sum();
         // The notes give way to the list when space is short, keeping at least six rows.
-        let min_rows = (self.rows.len() as u16).clamp(1, 6);
         let extra = notes_height.min(inner.height.saturating_sub(reason_height + min_rows));
         let list_height = inner.height.saturating_sub(reason_height + extra) as usize;
 
@@ -155,7 +166,11 @@ impl Widget for FieldList<'_> {
             let label: String = row.label.chars().take(label_width).collect();
             let used = 1 + label_width + 1 + 2;
             let value_width = width.saturating_sub(used);
-            let value: String = if value.chars().count() > value_width {
+            let typing_here = self.typing.is_some() && selected;
+            let value: String = if value.chars().count() <= value_width {
+                value
+            } else if typing_here {
+                // While typing the end (with the cursor) is what matters: cut from the left.
                 value
                     .chars()
                     .rev()
@@ -165,7 +180,9 @@ impl Widget for FieldList<'_> {
                     .rev()
                     .collect()
             } else {
-                value
+                // A long value (a variant's label) reads from its start: cut at the right.
+                let kept: String = value.chars().take(value_width.saturating_sub(1)).collect();
+                format!("{kept}…")
             };
             let mut value_style = if row.warning.is_some() {
                 self.theme.warning
@@ -199,10 +216,25 @@ impl Widget for FieldList<'_> {
         };
         Paragraph::new(lines).render(list_area, buf);
         if extra > 0 {
-            let notes: Vec<Line> = self
-                .footer_lines
-                .iter()
-                .map(|l| Line::styled(l.clone(), self.theme.accent))
+            // Whole notes while they fit; the first that does not is cut at a word and
+            // marked "…" in the rows left, never cut silently mid-sentence.
+            let mut left = extra;
+            let mut shown: Vec<String> = Vec::new();
+            for note in self.footer_lines {
+                let height = wrapped_height(note, inner.width);
+                if height <= left {
+                    shown.push(note.clone());
+                    left -= height;
+                    continue;
+                }
+                if left > 0 {
+                    shown.push(cut_at_word(note, inner.width, left));
+                }
+                break;
+            }
+            let notes: Vec<Line> = shown
+                .into_iter()
+                .map(|l| Line::styled(l, self.theme.accent))
                 .collect();
             let notes_area = Rect {
                 y: inner.y + list_height as u16,
@@ -224,6 +256,24 @@ impl Widget for FieldList<'_> {
                 .render(reason_area, buf);
         }
     }
+}
+
+/// The longest start of `text`, cut at a word and ended with "…", that wraps into `rows`
+/// rows of `width`.
+fn cut_at_word(text: &str, width: u16, rows: u16) -> String {
+    let mut kept = String::new();
+    for word in text.split_whitespace() {
+        let next = if kept.is_empty() {
+            word.to_string()
+        } else {
+            format!("{kept} {word}")
+        };
+        if wrapped_height(&format!("{next}…"), width) > rows {
+            break;
+        }
+        kept = next;
+    }
+    format!("{}…", kept.trim_end_matches([',', ';', ':']))
 }
 
 /// How many lines `text` takes when wrapped to `width` columns (a close upper estimate).

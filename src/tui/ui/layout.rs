@@ -68,9 +68,33 @@ pub(crate) fn draw_status(app: &App, area: Rect, buf: &mut Buffer) {
             Level::Error => app.theme.error,
         };
         Line::styled(status.text.clone(), style).render(area, buf);
-    } else if let Some(w) = app.solution.solved().and_then(|s| s.warnings.first()) {
-        Line::styled(format!("! {w}"), app.theme.warning).render(area, buf);
+    } else if let Some(warnings) = app.solution.solved().map(|s| &s.warnings)
+        && let Some(line) = warning_line(warnings, area.width as usize)
+    {
+        Line::styled(line, app.theme.warning).render(area, buf);
     }
+}
+
+/// The first of `warnings` fitted to `width`, cut at a word with "…", and a count of the
+/// others ("+3 more") that is always kept in view.
+pub fn warning_line(warnings: &[impl std::fmt::Display], width: usize) -> Option<String> {
+    let first = warnings.first()?.to_string();
+    let more = match warnings.len() - 1 {
+        0 => String::new(),
+        n => format!(" (+{n} more)"),
+    };
+    let room = width.saturating_sub(2 + more.chars().count());
+    let text = if first.chars().count() <= room {
+        first
+    } else {
+        let cut: String = first.chars().take(room.saturating_sub(1)).collect();
+        let at_word = cut
+            .rfind(' ')
+            .filter(|&i| i > 0)
+            .map_or(cut.as_str(), |i| &cut[..i]);
+        format!("{}…", at_word.trim_end_matches([',', ':', ';', ' ']))
+    };
+    Some(format!("! {text}{more}"))
 }
 
 /// The footer's hints that fit in `width`: the table's order, but help and quit always stay.
@@ -115,5 +139,33 @@ pub(crate) fn centred(area: Rect, width: u16, height: u16) -> Rect {
         y: area.y + (area.height - height) / 2,
         width,
         height,
+    }
+}
+
+#[cfg(test)]
+mod warning_tests {
+    use super::warning_line;
+
+    #[test]
+    fn a_long_warning_is_cut_at_a_word_and_the_others_are_counted() {
+        let warnings = vec![
+            "waterplane coefficient not given: estimated 0.572, the weakest input".to_string(),
+            "b".into(),
+            "c".into(),
+            "d".into(),
+        ];
+        let line = warning_line(&warnings, 50).unwrap();
+        assert!(line.chars().count() <= 50, "{line}");
+        assert!(line.ends_with("… (+3 more)"), "{line}");
+        assert!(
+            line.contains("estimated…") || line.contains("given…"),
+            "{line}"
+        );
+        assert_eq!(
+            warning_line(&warnings[..1], 200).unwrap(),
+            format!("! {}", warnings[0])
+        );
+        let none: &[String] = &[];
+        assert_eq!(warning_line(none, 80), None);
     }
 }

@@ -107,7 +107,12 @@ pub(crate) fn draw_help(app: &App, scroll: u16, area: Rect, buf: &mut Buffer) {
         let [left, right] =
             Layout::horizontal([Constraint::Percentage(55), Constraint::Percentage(45)])
                 .areas(inner);
-        let left_lines = help_lines(app, &[Mode::Browse], left.width as usize);
+        // A cell short of the column, so its text never runs into the right column.
+        let left_lines = help_lines(
+            app,
+            &[Mode::Browse],
+            (left.width as usize).saturating_sub(1),
+        );
         let mut right_lines = help_lines(app, &others, right.width as usize);
         right_lines.extend(marker_lines(app));
         Paragraph::new(left_lines)

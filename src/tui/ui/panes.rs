@@ -136,13 +136,15 @@ pub fn pane_notes(pane: Pane, app: &App) -> Vec<String> {
             format!("{} {}{active}", variant_glyph(i).symbol(), v.label).replace(' ', "\u{a0}")
         })
         .collect();
-    // Most important first: the notes are cut from the bottom when the pane is short.
+    // Most important first: the notes are dropped from the bottom, whole, when the pane is
+    // short. The checks (cavitation, "shaft too small") come before the recommendation so that
+    // a safety line is the last to go at 80x24.
     let mut notes = Vec::new();
-    if let Some(line) = app.solution.recommendation_line(app.units) {
-        notes.push(line);
-    }
     if let Some(solved) = app.solution.solved() {
         notes.push(super::views::screw_pane_check_line(&solved.checks));
+    }
+    if let Some(line) = app.solution.recommendation_line(app.units) {
+        notes.push(line);
     }
     notes.push(format!("Variants: {}", variants.join("  ")));
     notes

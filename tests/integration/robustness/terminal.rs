@@ -181,7 +181,7 @@ fn temporaries(boats: &Path) -> Vec<PathBuf> {
         .collect()
 }
 
-/// Starts the UI, waits for it and makes one unsaved edit (pitch nudged up).
+/// Starts the UI, waits for it and makes one unsaved edit (a screw variant added).
 fn start_and_edit(name: &str, env: &str) -> Option<(Tmux, tempfile::TempDir, PathBuf, Vec<u8>)> {
     let (dir, store, command) = store_and_command(env);
     let tmux = Tmux::start(name, &command)?;
@@ -195,7 +195,10 @@ fn start_and_edit(name: &str, env: &str) -> Option<(Tmux, tempfile::TempDir, Pat
     );
     let path = store.boat_path("marram").unwrap();
     let before = std::fs::read(&path).unwrap();
-    tmux.send("+");
+    tmux.send("a");
+    if let Err(text) = tmux.wait_for(3.0, |t| t.contains("unsaved")) {
+        panic!("{name}: the edit did not show:\n{text}");
+    }
     Some((tmux, dir, path, before))
 }
 
@@ -221,6 +224,12 @@ fn the_terminal_is_restored_after_sigterm_and_sighup_and_nothing_is_half_written
             "SIG{signal}: unsaved edit written"
         );
         assert!(temporaries(path.parent().unwrap()).is_empty());
+        let kept = std::fs::read(tidewright::tui::recovery::beside(&path))
+            .unwrap_or_else(|e| panic!("SIG{signal}: no recovery file: {e}"));
+        assert_ne!(
+            kept, before,
+            "SIG{signal}: the recovery file lacks the edit"
+        );
     }
 }
 
@@ -249,32 +258,162 @@ fn the_terminal_is_restored_after_a_panic() {
     assert_restored(&tmux, &screen, "panic");
 }
 
+/// Waits up to `seconds` for process `pid` to be gone (or a zombie); how long it took.
+fn wait_gone(pid: u32, seconds: f64) -> Option<Duration> {
+    let started = Instant::now();
+    while started.elapsed() < Duration::from_secs_f64(seconds) {
+        let state = std::fs::read_to_string(format!("/proc/{pid}/stat")).unwrap_or_default();
+        // A zombie has left already; only a live process counts.
+        if state.is_empty() || state.split_whitespace().nth(2) == Some("Z") {
+            return Some(started.elapsed());
+        }
+        std::thread::sleep(Duration::from_millis(10));
+    }
+    None
+}
+
+/// The CPU time process `pid` has used so far, in clock ticks (utime + stime).
+fn cpu_ticks(pid: u32) -> u64 {
+    let stat = std::fs::read_to_string(format!("/proc/{pid}/stat")).unwrap_or_default();
+    // Fields after the command name in parentheses: state is 3rd, utime 14th, stime 15th.
+    let after = stat.rsplit_once(')').map_or("", |(_, rest)| rest);
+    let fields: Vec<&str> = after.split_whitespace().collect();
+    let get = |i: usize| {
+        fields
+            .get(i)
+            .and_then(|f| f.parse::<u64>().ok())
+            .unwrap_or(0)
+    };
+    get(11) + get(12)
+}
+
 #[test]
-fn a_closed_terminal_ends_the_program_without_writing() {
+fn a_closed_terminal_ends_the_program_at_once_and_keeps_the_edit_for_the_next_open() {
     // A dropped SSH link: the terminal itself goes away and the kernel hangs up the program.
-    let Some((tmux, _dir, path, before)) = start_and_edit("closed", "") else {
+    let Some((tmux, dir, path, before)) = start_and_edit("closed", "") else {
         return;
     };
+    let recover = tidewright::tui::recovery::beside(&path);
     let pid = tmux.program_pid();
+    let ticks_before = cpu_ticks(pid);
     tmux.run(&["kill-session", "-t", "main"]);
-    let deadline = Instant::now() + Duration::from_secs(3);
-    while Path::new(&format!("/proc/{pid}")).exists() && Instant::now() < deadline {
-        // A zombie has left already; only a live process counts.
-        let state = std::fs::read_to_string(format!("/proc/{pid}/stat")).unwrap_or_default();
-        if state.split_whitespace().nth(2) == Some("Z") {
-            break;
-        }
-        std::thread::sleep(Duration::from_millis(40));
-    }
-    let state = std::fs::read_to_string(format!("/proc/{pid}/stat")).unwrap_or_default();
+    let took = wait_gone(pid, 3.0).expect("the program still runs 3 s after its terminal closed");
     assert!(
-        state.is_empty() || state.split_whitespace().nth(2) == Some("Z"),
-        "the program still runs 3 s after its terminal closed: {state}"
+        took < Duration::from_secs(1),
+        "the program took {took:?} to leave after its terminal closed"
+    );
+    // No spin on the way out: a busy loop for the time it took would show as many ticks.
+    let ticks_after = cpu_ticks(pid).max(ticks_before);
+    println!(
+        "closed terminal: gone after {took:?}, {} CPU ticks since the hang-up",
+        ticks_after - ticks_before
+    );
+    assert!(
+        ticks_after - ticks_before <= 20,
+        "{} clock ticks of CPU after the hang-up",
+        ticks_after - ticks_before
     );
     assert_eq!(
         std::fs::read(&path).unwrap(),
         before,
-        "unsaved edit written"
+        "the boat's own file was written"
     );
     assert!(temporaries(path.parent().unwrap()).is_empty());
+    let kept = std::fs::read(&recover).expect("the recovery file holds the unsaved edit");
+    assert_ne!(kept, before, "the recovery file does not hold the edit");
+
+    // The next open offers it; y restores it as an unsaved document.
+    let bin = env!("CARGO_BIN_EXE_tidewright");
+    let store = dir.path().join("profiles");
+    let command = format!(
+        "{bin} --profiles '{}' open marram; sleep 30",
+        store.display()
+    );
+    let Some(again) = Tmux::start("closed-again", &command) else {
+        return;
+    };
+    again
+        .wait_for(8.0, |t| t.contains("Restore them"))
+        .unwrap_or_else(|t| panic!("the next open does not offer the recovery file:\n{t}"));
+    again.send("y");
+    again
+        .wait_for(3.0, |t| t.contains("restored") && t.contains("unsaved"))
+        .unwrap_or_else(|t| panic!("y did not restore the edits:\n{t}"));
+    // A clean quit (dropping the edits when asked) removes the recovery file.
+    again.send("q");
+    again
+        .wait_for(3.0, |t| t.contains("Quit without saving"))
+        .unwrap_or_else(|t| panic!("quit did not ask:\n{t}"));
+    again.send("y");
+    let deadline = Instant::now() + Duration::from_secs(3);
+    while recover.exists() && Instant::now() < deadline {
+        std::thread::sleep(Duration::from_millis(40));
+    }
+    assert!(!recover.exists(), "a clean quit left the recovery file");
+}
+
+#[test]
+fn under_lc_all_c_every_cell_is_ascii_and_the_charts_still_draw() {
+    let (dir, store, _) = store_and_command("");
+    let bin = env!("CARGO_BIN_EXE_tidewright");
+    let command = format!(
+        "LC_ALL=C {bin} --profiles '{}' open marram; sleep 30",
+        store.root().unwrap().display()
+    );
+    let Some(tmux) = Tmux::start("ascii", &command) else {
+        return;
+    };
+    let screen = tmux
+        .wait_for(8.0, |t| t.contains(UI_DRAWN) && t.contains("kn"))
+        .unwrap_or_else(|t| panic!("the UI did not come up under LC_ALL=C:\n{t}"));
+    let odd: String = screen.chars().filter(|c| !c.is_ascii()).collect();
+    assert!(odd.is_empty(), "non-ASCII cells {odd:?} in\n{screen}");
+    assert!(screen.contains("Power vs engine rpm"), "{screen}");
+    // Borders are +-| and the curves are drawn with ASCII marks.
+    assert!(screen.contains("+-") && screen.contains('|'), "{screen}");
+    let marks = screen.matches(['.', 'o', 'x', '+', '#']).count();
+    assert!(marks > 40, "only {marks} chart marks:\n{screen}");
+    drop(dir);
+}
+
+#[test]
+fn a_boat_with_thousands_of_variants_is_refused_at_once_with_the_reason() {
+    let (_dir, store, _) = store_and_command("");
+    let path = store.boat_path("marram").unwrap();
+    let mut text = std::fs::read_to_string(&path).unwrap();
+    for i in 0..2000 {
+        text.push_str(&format!(
+            "\n[[variant]]\nlabel = \"extra {i}\"\nblades = 3\ndiameter = \"26 in\"\npitch = \"18 in\"\narea_ratio = 0.55\n"
+        ));
+    }
+    std::fs::write(
+        store
+            .boat_path("marram")
+            .unwrap()
+            .with_file_name("big.toml"),
+        text,
+    )
+    .unwrap();
+    let started = Instant::now();
+    let out = Command::new(env!("CARGO_BIN_EXE_tidewright"))
+        .args([
+            "--profiles",
+            &store.root().unwrap().display().to_string(),
+            "open",
+            "big",
+        ])
+        .output()
+        .unwrap();
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert!(!out.status.success(), "{err}");
+    assert!(
+        // The loader refuses it (profile::boat::MAX_VARIANTS) before the screen opens.
+        err.contains("2003 [[variant]] tables") && err.contains("at most 64"),
+        "{err}"
+    );
+    assert!(
+        started.elapsed() < Duration::from_secs(3),
+        "took {:?}",
+        started.elapsed()
+    );
 }

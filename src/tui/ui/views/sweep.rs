@@ -74,7 +74,7 @@ pub(crate) fn sweep_lines(app: &App, view: &crate::tui::analysis::SweepView) -> 
     let speed_unit = units::unit_label(Kind::Speed, system);
     lines.push(Line::styled(
         format!(
-            "{:>4} {:>10} {:>8} {:>5} {:>6} {:>6} {:>6} {:>9}",
+            "{:>4} {:>10} {:>8} {:>5} {:>6} {:>6} {:>6} {:>6} {:>9}",
             "rank",
             match view.over {
                 SweepOver::Diameter => "diameter",
@@ -85,6 +85,8 @@ pub(crate) fn sweep_lines(app: &App, view: &crate::tui::analysis::SweepView) -> 
             format!("pitch {len_unit}"),
             "P/D",
             format!("top {speed_unit}"),
+            // The ranking is by ηD (propulsive efficiency), so it is shown first.
+            "ηD tgt",
             "η0 tgt",
             "η0 top",
             fuel_unit,
@@ -123,12 +125,13 @@ fn candidate_line(app: &App, over: SweepOver, c: &SweepCandidate) -> Line<'stati
     let pitch_ratio = c.pitch.map(|p| p / c.geometry.diameter);
     let eta = |v: Option<f64>| v.map_or_else(dash, |v| format!("{v:.3}"));
     let text = format!(
-        "{:>4} {:>10} {:>8} {:>5} {:>6} {:>6} {:>6} {:>9}",
+        "{:>4} {:>10} {:>8} {:>5} {:>6} {:>6} {:>6} {:>6} {:>9}",
         c.rank,
         sweep_value(over, c.value, system),
         number(c.pitch, Kind::ScrewLength, system, 1),
         pitch_ratio.map_or_else(dash, |r| format!("{r:.2}")),
         top_speed(c.top_speed, c.top_speed_in_method_range, system, 1),
+        eta(c.propulsive_efficiency_at_target),
         eta(c.open_water_efficiency_at_target),
         eta(c.open_water_efficiency_at_top),
         number(
