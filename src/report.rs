@@ -12,6 +12,7 @@ pub mod export;
 pub mod json;
 pub mod model;
 pub mod openwater;
+pub mod shortlist;
 pub mod svg;
 pub mod table;
 pub mod text;

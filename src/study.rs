@@ -10,6 +10,7 @@
 
 pub mod checks;
 pub mod design;
+pub mod shortlist;
 pub mod solve;
 pub mod what_if;
 

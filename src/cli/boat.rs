@@ -93,8 +93,11 @@ pub fn export(ctx: &Context, args: &ExportArgs, out: &mut dyn Write) -> anyhow::
     let engine = &vessel.engine;
     let fine_step = ((engine.rated_rpm - engine.idle_rpm) / CHART_STEPS).max(1.0);
     let curves = BoatReport::curves_of_study(&study, fine_step)?;
-    let sections = design_sections(&study, &Display::new(study.units));
-    let files = export_files(vessel, &report, &curves, &sections, study.units);
+    let mut sections = design_sections(&study, &Display::new(study.units));
+    let shortlist = crate::report::shortlist::export_of_store(&study, &super::store::store(ctx));
+    sections.push(shortlist.0);
+    let mut files = export_files(vessel, &report, &curves, &sections, study.units);
+    files.extend(shortlist.1);
     std::fs::create_dir_all(&args.out)
         .with_context(|| format!("cannot create {}", args.out.display()))?;
     for file in &files {

@@ -17,6 +17,7 @@ mod profiles;
 mod published;
 mod robustness;
 mod screw;
+mod shortlist;
 mod solver;
 mod tui;
 mod twin;
