@@ -247,7 +247,20 @@ fn trip_profile_fractions_must_sum_to_one() {
             .any(|i| i.key == "trip.profile" && i.problem.contains("sum to 1")),
         "{issues:?}"
     );
-    // Read from a file: the row's position is named.
+    // Read from a file: the sum is placed at the profile's line.
+    let text = doc.to_toml();
+    let err = BoatDoc::from_toml(&text, "p.toml").unwrap_err().to_string();
+    let profile_line = text
+        .lines()
+        .position(|l| l.trim_start().starts_with("profile"))
+        .unwrap()
+        + 1;
+    let line: usize = err.split(':').nth(1).unwrap().parse().unwrap();
+    assert!(
+        err.contains("trip.profile:") && line >= profile_line && line <= profile_line + 3,
+        "{err} (profile at line {profile_line})"
+    );
+    // The row's position is named.
     let text = doc.to_toml().replace("0.3", "1.5");
     let err = BoatDoc::from_toml(&text, "p.toml").unwrap_err().to_string();
     assert!(err.contains("trip.profile[2].fraction"), "{err}");
@@ -380,4 +393,72 @@ fn an_empty_store_says_so() {
         .code(2);
     let err = String::from_utf8_lossy(&out.get_output().stderr).into_owned();
     assert!(err.contains("--gears"), "{err}");
+}
+
+#[test]
+fn export_has_the_shortlist_section_and_its_chart() {
+    let dir = tempfile::tempdir().unwrap();
+    let out = dir.path().join("out");
+    tidewright()
+        .args([
+            "--profiles",
+            "/nonexistent-tidewright-store",
+            "export",
+            "pintle",
+            "--out",
+            &out.display().to_string(),
+        ])
+        .assert()
+        .success();
+    let md = std::fs::read_to_string(out.join("report.md")).unwrap();
+    assert!(md.contains("## Repower shortlist"), "{md}");
+    assert!(md.contains("](shortlist.svg)"));
+    // One row per demo candidate: 3 + 2 + 3 + 3 offered gears.
+    let section = &md[md.find("## Repower shortlist").unwrap()..];
+    let rows = section
+        .lines()
+        .take_while(|l| !l.starts_with("## ") || l.starts_with("## Repower"))
+        .filter(|l| l.starts_with("| ") && l.chars().nth(2).is_some_and(|c| c.is_ascii_digit()))
+        .count();
+    assert_eq!(rows, 11, "{section}");
+    let svg = std::fs::read_to_string(out.join("shortlist.svg")).unwrap();
+    assert!(svg.starts_with("<?xml") && svg.contains("against top speed"));
+}
+
+#[test]
+fn near_ties_are_marked_within_the_resolution_and_only_there() {
+    let study = demo_study("pintle");
+    let offers = offers_from_store(&demo(), None).unwrap();
+    let list = study
+        .shortlist(&offers, &ShortlistOptions::default())
+        .unwrap();
+    // The resolution is the band's power spread at the target speed: a few per cent to tens.
+    let resolution = list.resolution.unwrap();
+    assert!(resolution > 0.0 && resolution < 1.0, "{resolution}");
+    let mut candidates = list.candidates.clone();
+    for r in [0.0, 0.02, resolution, 10.0] {
+        rank_candidates(&mut candidates, ShortlistRank::Fuel, false, Some(r));
+        for i in 1..candidates.len() {
+            let above = candidates[i - 1].fuel_per_distance;
+            let here = candidates[i].fuel_per_distance;
+            let want = match (above, here) {
+                (Some(x), Some(y)) => (x - y).abs() <= r * x,
+                _ => false,
+            };
+            assert_eq!(
+                candidates[i].tie_with == Some(i),
+                want,
+                "resolution {r}, #{}",
+                i + 1
+            );
+            assert!(candidates[i].tie_with.is_none() || want);
+        }
+    }
+    // With a resolution of 10 (1000 %) every solved candidate after the first is tied.
+    let solved = candidates
+        .iter()
+        .filter(|c| c.fuel_per_distance.is_some())
+        .count();
+    let tied = candidates.iter().filter(|c| c.tie_with.is_some()).count();
+    assert_eq!(tied, solved - 1);
 }

@@ -238,6 +238,9 @@ impl BoatDoc {
             }
         };
         let t = &raw.trip;
+        if let Some((speed, _)) = t.profile.as_ref().and_then(|p| p.first()) {
+            r.spans.insert("trip.profile".into(), speed.span());
+        }
         let trip = TripDoc {
             target_speed: r.qty("trip.target_speed", &t.target_speed, Kind::Speed)?,
             tank: r.qty("trip.tank", &t.tank, Kind::Volume)?,
