@@ -181,9 +181,9 @@ pub fn offers_from_store(store: &Store, names: Option<&[String]>) -> anyhow::Res
         None => store.list_engines()?,
     };
     if names.is_empty() {
-        let place = store
-            .root()
-            .map_or("(demo fleet)".to_string(), |p| p.display().to_string());
+        let place = store.root().map_or("the demo fleet".to_string(), |p| {
+            format!("the profile store {}", p.display())
+        });
         return Err(ShortlistError::NoEngines(place).into());
     }
     names
@@ -206,7 +206,9 @@ impl Study {
         options: &ShortlistOptions,
     ) -> Result<Shortlist, ShortlistError> {
         if offers.is_empty() {
-            return Err(ShortlistError::NoEngines("given".into()));
+            return Err(ShortlistError::NoEngines(
+                "the list of engines given".into(),
+            ));
         }
         if let Some(bad) = options
             .gears
