@@ -10,6 +10,7 @@ mod design;
 mod import;
 mod new;
 mod openwater;
+mod shortlist;
 mod store;
 
 use clap::{Args, Parser, Subcommand, ValueEnum};
@@ -132,6 +133,8 @@ pub enum Command {
     Conditions(ConditionsArgs),
     /// Write a Markdown report with SVG charts for the owner and the propeller shop.
     Export(ExportArgs),
+    /// Every candidate engine sheet and gear with its screw sized and pitched, ranked.
+    Shortlist(shortlist::ShortlistArgs),
 }
 
 /// Arguments of `report`.
@@ -540,6 +543,7 @@ pub fn run(cli: Cli, out: &mut dyn Write) -> anyhow::Result<()> {
         Some(Command::Trial(args)) => design::trial(&ctx, &args, out),
         Some(Command::Conditions(args)) => conditions::run(&ctx, &args, out),
         Some(Command::Export(args)) => boat::export(&ctx, &args, out),
+        Some(Command::Shortlist(args)) => shortlist::run(&ctx, &args, out),
     }
 }
 

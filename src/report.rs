@@ -13,6 +13,7 @@ pub mod import;
 pub mod json;
 pub mod model;
 pub mod openwater;
+pub mod shortlist;
 pub mod svg;
 pub mod table;
 pub mod text;

@@ -101,8 +101,10 @@ pub fn export(ctx: &Context, args: &ExportArgs, out: &mut dyn Write) -> anyhow::
         )?),
         None => None,
     };
-    let sections = design_sections(&study, &Display::new(study.units));
-    let files = export_files(
+    let mut sections = design_sections(&study, &Display::new(study.units));
+    let shortlist = crate::report::shortlist::export_of_store(&study, &super::store::store(ctx));
+    sections.push(shortlist.0);
+    let mut files = export_files(
         vessel,
         &report,
         &curves,
@@ -110,6 +112,7 @@ pub fn export(ctx: &Context, args: &ExportArgs, out: &mut dyn Write) -> anyhow::
         &sections,
         study.units,
     );
+    files.extend(shortlist.1);
     std::fs::create_dir_all(&args.out)
         .with_context(|| format!("cannot create {}", args.out.display()))?;
     for file in &files {

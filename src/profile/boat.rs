@@ -296,6 +296,9 @@ pub struct TripDoc {
     pub usable_fraction: f64,
     /// Reserve kept back, fraction of usable fuel.
     pub reserve: f64,
+    /// The owner's trip profile: (speed m/s, fraction of engine hours at it); empty when the
+    /// file gives none.
+    pub profile: Vec<(Quantity, f64)>,
 }
 
 /// One measured sea-trial run.

@@ -23,6 +23,10 @@ pub const ENGINES: &[(&str, &str)] = &[
         include_str!("../../profiles/engines/brindmoor-4b62.toml"),
     ),
     (
+        "harrowby-h48",
+        include_str!("../../profiles/engines/harrowby-h48.toml"),
+    ),
+    (
         "quellan-qd90",
         include_str!("../../profiles/engines/quellan-qd90.toml"),
     ),

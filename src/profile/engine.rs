@@ -68,6 +68,9 @@ pub struct EngineDoc {
     pub max_continuous_power: Option<Quantity>,
     /// Free notes (source of the sheet, conditions).
     pub notes: Option<String>,
+    /// Reduction gear ratios the maker offers with the engine (engine rpm / shaft rpm, each
+    /// above 1 and at most 6); empty when the sheet lists none.
+    pub gears: Vec<f64>,
 }
 
 type RawCurve = Vec<(Spanned<String>, Spanned<String>)>;
@@ -86,6 +89,8 @@ struct RawEngine {
     max_continuous_power: Option<Spanned<String>>,
     #[serde(default, skip_serializing_if = "Option::is_none")]
     notes: Option<String>,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    gears: Option<Vec<Spanned<f64>>>,
     full_load_power: RawCurve,
     #[serde(default, skip_serializing_if = "Option::is_none")]
     propeller_law: Option<RawCurve>,
@@ -347,7 +352,17 @@ impl EngineDoc {
                 Kind::Power,
             )?,
             notes: raw.notes.clone(),
+            gears: raw
+                .gears
+                .iter()
+                .flatten()
+                .enumerate()
+                .map(|(i, g)| r.num(&format!("gears[{}]", i + 1), g))
+                .collect(),
         };
+        if let Some(first) = raw.gears.as_ref().and_then(|g| g.first()) {
+            r.spans.insert("gears".into(), first.span());
+        }
         match doc.validate().into_iter().next() {
             Some(issue) => Err(r.locate(issue)),
             None => Ok(doc),
@@ -394,6 +409,8 @@ impl EngineDoc {
                 .as_ref()
                 .map(|q| out(q, Kind::Power, s)),
             notes: self.notes.clone(),
+            gears: (!self.gears.is_empty())
+                .then(|| self.gears.iter().map(|&g| out_num(g)).collect()),
             full_load_power: write_curve(&self.full_load_power, Kind::Power, s),
             propeller_law: self
                 .propeller_law
@@ -551,6 +568,17 @@ impl EngineDoc {
                 p.shown(),
                 "expected a positive power",
             ));
+        }
+        for (i, &gear) in self.gears.iter().enumerate() {
+            // A ratio of 1 or less is no reduction; above 6 no marine gearbox of the
+            // displacement trade is offered (`common practice`).
+            if !(gear > 1.0 && gear <= 6.0) {
+                issues.push(Issue::new(
+                    format!("gears[{}]", i + 1),
+                    gear.to_string(),
+                    "expected a reduction ratio above 1 and at most 6",
+                ));
+            }
         }
         issues
     }

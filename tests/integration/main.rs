@@ -18,6 +18,7 @@ mod profiles;
 mod published;
 mod robustness;
 mod screw;
+mod shortlist;
 mod solver;
 mod trial_import;
 mod tui;

@@ -474,14 +474,19 @@ fn init_never_overwrites_and_boats_resolve_by_name_or_path() {
     std::fs::write(dir.path().join("boats/marram.toml"), mine).unwrap();
     let report = store.init().unwrap();
     assert_eq!(report.kept, [dir.path().join("boats/marram.toml")]);
-    assert_eq!(report.created.len(), 6);
+    assert_eq!(report.created.len(), 7);
     assert_eq!(
         std::fs::read_to_string(dir.path().join("boats/marram.toml")).unwrap(),
         mine
     );
     assert_eq!(
         store.list_engines().unwrap(),
-        ["brindmoor-3b40", "brindmoor-4b62", "quellan-qd90"]
+        [
+            "brindmoor-3b40",
+            "brindmoor-4b62",
+            "harrowby-h48",
+            "quellan-qd90"
+        ]
     );
 
     // A boat file outside the store finds its engine beside its folder, then in the store.

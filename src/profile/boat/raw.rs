@@ -189,6 +189,8 @@ pub(super) struct RawTrip {
     pub(super) tank: Spanned<String>,
     pub(super) usable_fraction: Spanned<f64>,
     pub(super) reserve: Spanned<f64>,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub(super) profile: Option<Vec<(Spanned<String>, Spanned<f64>)>>,
 }
 
 #[derive(Debug, Deserialize, Serialize)]

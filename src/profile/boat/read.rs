@@ -238,11 +238,27 @@ impl BoatDoc {
             }
         };
         let t = &raw.trip;
+        if let Some((speed, _)) = t.profile.as_ref().and_then(|p| p.first()) {
+            r.spans.insert("trip.profile".into(), speed.span());
+        }
         let trip = TripDoc {
             target_speed: r.qty("trip.target_speed", &t.target_speed, Kind::Speed)?,
             tank: r.qty("trip.tank", &t.tank, Kind::Volume)?,
             usable_fraction: r.num("trip.usable_fraction", &t.usable_fraction),
             reserve: r.num("trip.reserve", &t.reserve),
+            profile: t
+                .profile
+                .iter()
+                .flatten()
+                .enumerate()
+                .map(|(i, (speed, share))| {
+                    let row = format!("trip.profile[{}]", i + 1);
+                    Ok((
+                        r.qty(&format!("{row}.speed"), speed, Kind::Speed)?,
+                        r.num(&format!("{row}.fraction"), share),
+                    ))
+                })
+                .collect::<Result<_, ProfileError>>()?,
         };
         let match_criteria = match raw.match_criteria.as_ref() {
             None => None,

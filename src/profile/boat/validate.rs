@@ -405,6 +405,26 @@ impl BoatDoc {
             1.0,
             "a reserve fraction from 0 up to (not including) 1",
         );
+        for (i, (speed, share)) in self.trip.profile.iter().enumerate() {
+            let row = format!("trip.profile[{}]", i + 1);
+            v.positive(&format!("{row}.speed"), speed, "speed");
+            if !(*share > 0.0 && *share <= 1.0) {
+                v.push(
+                    format!("{row}.fraction"),
+                    share.to_string(),
+                    "expected a fraction of engine hours above 0 and at most 1",
+                );
+            }
+        }
+        let hours: f64 = self.trip.profile.iter().map(|(_, share)| share).sum();
+        // Fractions as typed rarely add to exactly 1; 1 % is what rounding to two places gives.
+        if !self.trip.profile.is_empty() && (hours - 1.0).abs() > 0.01 {
+            v.push(
+                "trip.profile",
+                format!("fractions summing to {hours}"),
+                "expected fractions of engine hours that sum to 1 (within 1 %)",
+            );
+        }
         if let Some(m) = &self.match_criteria {
             v.range(
                 "match.light_running",

@@ -132,6 +132,13 @@ impl BoatDoc {
                 tank: out(&self.trip.tank, Kind::Volume, s),
                 usable_fraction: out_num(self.trip.usable_fraction),
                 reserve: out_num(self.trip.reserve),
+                profile: (!self.trip.profile.is_empty()).then(|| {
+                    self.trip
+                        .profile
+                        .iter()
+                        .map(|(speed, share)| (out(speed, Kind::Speed, s), out_num(*share)))
+                        .collect()
+                }),
             },
             match_criteria: self.match_criteria.as_ref().map(|m| RawMatch {
                 light_running: m.light_running.map(out_num),
