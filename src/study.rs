@@ -270,14 +270,7 @@ impl Study {
     /// The vessel without the saved sea-trial correction, so that a new fit compares against
     /// the plain model and never compounds an earlier one.
     pub fn uncalibrated_vessel(&self) -> anyhow::Result<Vessel> {
-        let mut doc = self.doc.clone();
-        doc.calibration = None;
-        doc.to_default_vessel(&self.engine_doc).with_context(|| {
-            format!(
-                "cannot build boat {:?} without its calibration",
-                self.doc.name
-            )
-        })
+        Ok(self.without_calibration()?.vessel)
     }
 
     /// The same study without its sea-trial calibration (the plain model), to show a fit's
