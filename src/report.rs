@@ -52,6 +52,12 @@ impl Display {
         }
     }
 
+    /// `value` (SI) of `kind` as a table cell at the unit's own display precision (the same
+    /// figure the TUI and `cruise` show, e.g. three significant figures of fuel per distance).
+    pub fn figure(&self, value: f64, kind: Kind) -> String {
+        units::format_number(value, kind, self.system)
+    }
+
     /// `value` (SI) of `kind` in the display unit, as a plain number for charts.
     pub fn scaled(&self, value: f64, kind: Kind) -> f64 {
         units::to_display(value, kind, self.system)

@@ -76,7 +76,18 @@ pub fn cruise(ctx: &Context, args: &CruiseArgs, out: &mut dyn Write) -> anyhow::
     };
     match args.format {
         PlainFormat::Text => {
-            writeln!(out, "{}", cruise_line(&point, &Display::new(study.units)))?;
+            // Name the screw: the file's active variant can change with a save from the TUI.
+            let label = &vessel.variants[index].label;
+            let screw = if args.variant.is_some() {
+                format!("Screw {label}")
+            } else {
+                format!("Screw {label} (the boat file's active variant)")
+            };
+            writeln!(
+                out,
+                "{}",
+                cruise_line(&screw, &point, &Display::new(study.units))
+            )?;
             writeln!(out, "{}", study.calibration_line())?;
             writeln!(out, "Caution: {CAUTION}")?;
         }

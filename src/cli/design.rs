@@ -111,18 +111,30 @@ fn sweep_parameter(
     };
     // A diameter sweep runs up to the aperture and takes no list of values.
     let values = match (&args.values, axis) {
-        (None, _) | (_, Axis::Diameter) => None,
+        (None, _) => None,
+        (Some(text), Axis::Diameter) => {
+            return Err(UsageError(format!(
+                "--values {text:?}: a diameter sweep runs from the current screw up to the aperture \
+                 (installation.max_screw_diameter less tip_clearance) and takes no list; leave --values out"
+            ))
+            .into());
+        }
         (Some(text), _) => {
-            let list: Result<Vec<f64>, _> = text
+            // Gear ratios may be written "2.5:1" as on a gearbox plate.
+            let parse = |item: &str| match axis {
+                Axis::GearRatio => crate::units::parse_ratio(item).ok(),
+                _ => item.parse::<f64>().ok(),
+            };
+            let list: Option<Vec<f64>> = text
                 .split(',')
                 .map(str::trim)
                 .filter(|s| !s.is_empty())
-                .map(str::parse::<f64>)
+                .map(parse)
                 .collect();
             match list {
-                Ok(v) if !v.is_empty() && v.iter().all(|x| x.is_finite() && *x > 0.0) => Some(v),
+                Some(v) if !v.is_empty() && v.iter().all(|x| x.is_finite() && *x > 0.0) => Some(v),
                 _ => return Err(UsageError(format!(
-                    "--values: expected a comma-separated list of positive numbers, got {text:?}"
+                    "--values: expected a comma-separated list of positive numbers (gear ratios as 2.5 or 2.5:1), got {text:?}"
                 ))
                 .into()),
             }

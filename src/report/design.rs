@@ -298,7 +298,7 @@ pub fn sweep_text(result: &SweepResult, label: &str, d: &Display, shafts: u32) -
             opt(c.open_water_efficiency_at_target, &|v| format!("{v:.3}")),
             opt(c.open_water_efficiency_at_top, &|v| format!("{v:.3}")),
             opt(c.fuel_per_distance_at_target, &|v| {
-                d.number(v, Kind::FuelPerDistance, 2)
+                d.figure(v, Kind::FuelPerDistance)
             }),
             [
                 (c.top_speed_in_method_range == Some(false))

@@ -53,9 +53,10 @@ pub fn cruise_json<'a>(
     })
 }
 
-/// The text line of `cruise`: the point, past full load, or outside the method's range.
-pub fn cruise_line(point: &CruisePoint, d: &Display) -> String {
-    let mut line = cruise_summary(point, d);
+/// The text line of `cruise`: which screw, the point, past full load, or outside the method's
+/// range. `screw` names the variant ("screw re-pitched 26x17.5 (the boat file's active one)").
+pub fn cruise_line(screw: &str, point: &CruisePoint, d: &Display) -> String {
+    let mut line = format!("{screw}: {}", cruise_summary(point, d));
     if point.beyond_full_load {
         line.push_str(" — past the engine's full-load curve: not reachable");
     }

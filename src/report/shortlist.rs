@@ -144,10 +144,14 @@ pub fn shortlist_table(list: &Shortlist, d: &Display) -> Table {
             c.cruise_load
                 .map_or("—".into(), |l| format!("{:.0}", l * 100.0)),
             cell(c.fuel_rate, Kind::FuelRate, 2, d),
-            cell(c.fuel_per_distance, Kind::FuelPerDistance, 2, d),
+            c.fuel_per_distance
+                .map_or("—".into(), |v| d.figure(v, Kind::FuelPerDistance)),
         ];
         if trip {
-            row.push(cell(c.trip_fuel_per_distance, Kind::FuelPerDistance, 2, d));
+            row.push(
+                c.trip_fuel_per_distance
+                    .map_or("—".into(), |v| d.figure(v, Kind::FuelPerDistance)),
+            );
         }
         row.push(cell(c.range, Kind::Distance, 0, d));
         row.push(c.tie_with.map_or(String::new(), |t| format!("= #{t}")));

@@ -303,11 +303,7 @@ pub fn operating_table(v: &VariantReport, d: &Display, with_label: bool, shafts:
                         Kind::FuelRate,
                         if imperial { 2 } else { 1 },
                     ),
-                    d.number(
-                        c.fuel_per_distance,
-                        Kind::FuelPerDistance,
-                        if imperial { 3 } else { 2 },
-                    ),
+                    d.figure(c.fuel_per_distance, Kind::FuelPerDistance),
                     d.number(c.range, Kind::Distance, 0),
                     point_note(c),
                 ]);

@@ -309,3 +309,79 @@ fn more_variants_than_any_boat_needs_are_refused_at_the_first_extra() {
         "{out}"
     );
 }
+
+/// `sweep --values` that cannot be read is refused (exit 2) instead of running the default list;
+/// a diameter sweep refuses a list it would ignore; gear ratios may be written as on a gearbox
+/// plate ("2.5:1").
+#[test]
+fn sweep_values_are_read_or_refused_never_ignored() {
+    let demo = "/nonexistent-tidewright-store";
+    for (over, values) in [
+        ("gear", "banana"),
+        ("blades", "three"),
+        ("diameter", "24in"),
+    ] {
+        tidewright()
+            .args([
+                "--profiles",
+                demo,
+                "sweep",
+                "marram",
+                "--over",
+                over,
+                "--values",
+                values,
+            ])
+            .assert()
+            .code(2)
+            .stderr(predicates::str::contains("--values"));
+    }
+    let out = tidewright()
+        .args([
+            "--profiles",
+            demo,
+            "sweep",
+            "marram",
+            "--over",
+            "gear",
+            "--values",
+            "2.5:1,3:1",
+        ])
+        .assert()
+        .success();
+    let text = String::from_utf8_lossy(&out.get_output().stdout).to_string();
+    assert!(text.contains("2.50") && text.contains("3.00"), "{text}");
+    // Fuel per distance at the unit's own precision, so close rows differ (three figures).
+    assert!(text.contains("US gal/nm"), "{text}");
+}
+
+/// `cruise` names the screw it answered for, and says when it is the file's active variant
+/// (a save from the terminal UI can change which one that is).
+#[test]
+fn cruise_names_the_screw_it_answers_for() {
+    let demo = "/nonexistent-tidewright-store";
+    let out = tidewright()
+        .args(["--profiles", demo, "cruise", "marram", "--speed", "7kn"])
+        .assert()
+        .success();
+    let text = String::from_utf8_lossy(&out.get_output().stdout).to_string();
+    assert!(
+        text.starts_with("Screw re-pitched 26x17.5 (the boat file's active variant): "),
+        "{text}"
+    );
+    let out = tidewright()
+        .args([
+            "--profiles",
+            demo,
+            "cruise",
+            "marram",
+            "--speed",
+            "7kn",
+            "--variant",
+            "flat 26x15",
+        ])
+        .assert()
+        .success();
+    let text = String::from_utf8_lossy(&out.get_output().stdout).to_string();
+    assert!(text.starts_with("Screw flat 26x15: "), "{text}");
+}
