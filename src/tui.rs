@@ -507,6 +507,13 @@ fn carry_out(effect: Effect, session: &mut Session) -> Action {
             Ok(list) => Action::EngineList(list),
             Err(e) => failed("cannot list the engine sheets", &e),
         },
+        // Only the sheets are read here; the view solves its shortlist from them in update.
+        Effect::LoadEngineSheets => {
+            match crate::study::shortlist::offers_from_store(&session.store, None) {
+                Ok(offers) => Action::EngineSheets(offers),
+                Err(e) => Action::Failed(format!("no shortlist: {e:#}")),
+            }
+        }
         Effect::OpenBoat(name) => match open(&session.store, Some(&name)) {
             Ok((opened, target, stamp)) => {
                 session.target = target;

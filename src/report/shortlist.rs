@@ -200,7 +200,7 @@ pub fn rank_line(list: &Shortlist, d: &Display) -> String {
 }
 
 /// Each candidate's checks and problems, one block per candidate.
-fn candidate_notes(c: &Candidate, d: &Display) -> Vec<String> {
+pub fn candidate_notes(c: &Candidate, d: &Display) -> Vec<String> {
     let mut lines = Vec::new();
     if c.pitch.is_none() {
         lines.extend(c.problems.iter().map(|p| format!("problem: {p}")));

@@ -609,6 +609,10 @@ pub fn rank_candidates(
         },
     );
     let resolution = resolution.unwrap_or(0.0);
+    // Ranked again (the terminal UI re-sorts), the first has no one above it to tie with.
+    if let Some(first) = candidates.first_mut() {
+        first.tie_with = None;
+    }
     for i in 1..candidates.len() {
         let (above, here) = (&candidates[i - 1], &candidates[i]);
         let tie = match (

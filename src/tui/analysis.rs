@@ -1,4 +1,5 @@
-//! The design views' results — sweep, sea-trial calibration and what-if conditions — computed
+//! The design views' results — sweep, sea-trial calibration, what-if conditions and the repower
+//! shortlist (over the engine sheets the loop read from the store) — computed
 //! by the solver when a view opens (and again after an edit while it is open) and cached in the
 //! app state; drawing only reads them. All values are SI (rpm as rpm).
 
@@ -9,6 +10,9 @@ use crate::propulsion::solver::trial::Calibration;
 use crate::study::Study;
 use crate::study::design::FittedBy;
 pub use crate::study::design::SweepOver;
+use crate::study::shortlist::{
+    Candidate, Offer, Shortlist, ShortlistOptions, ShortlistRank, rank_candidates,
+};
 use crate::study::what_if::WhatIfSettings;
 
 /// Fouling of the "fouled" what-if, fraction of friction: the study's one definition (the
@@ -30,11 +34,18 @@ pub enum ViewKind {
     Calibration,
     /// The boat under other loads, fouling and sea state; the uncertainty band; the checks.
     WhatIf,
+    /// Every engine sheet of the store with its offered gears and a screw sized for each, ranked.
+    Shortlist,
 }
 
 impl ViewKind {
     /// Every view, in the order Tab cycles them.
-    pub const ALL: [ViewKind; 3] = [ViewKind::Sweep, ViewKind::Calibration, ViewKind::WhatIf];
+    pub const ALL: [ViewKind; 4] = [
+        ViewKind::Sweep,
+        ViewKind::Calibration,
+        ViewKind::WhatIf,
+        ViewKind::Shortlist,
+    ];
 
     /// The view's title.
     pub fn title(self) -> &'static str {
@@ -42,6 +53,7 @@ impl ViewKind {
             ViewKind::Sweep => "Sweep",
             ViewKind::Calibration => "Sea-trial calibration",
             ViewKind::WhatIf => "What-if conditions",
+            ViewKind::Shortlist => "Repower shortlist",
         }
     }
 
@@ -105,6 +117,50 @@ pub struct WhatIfView {
     pub outcomes: Result<Vec<ConditionOutcome>, String>,
 }
 
+/// The repower shortlist of the boat over the store's engine sheets.
+#[derive(Debug, Clone, PartialEq)]
+pub struct ShortlistView {
+    /// The ranked candidates, or why there is no shortlist.
+    pub result: Result<Shortlist, String>,
+}
+
+impl ShortlistView {
+    /// The candidate at `row`, if the shortlist has one there.
+    pub fn candidate(&self, row: usize) -> Option<&Candidate> {
+        self.result.as_ref().ok()?.candidates.get(row)
+    }
+
+    /// The row of the candidate with this engine sheet and gear ratio, if it is listed.
+    pub fn row_of(&self, engine: &str, gear_ratio: f64) -> Option<usize> {
+        self.result
+            .as_ref()
+            .ok()?
+            .candidates
+            .iter()
+            .position(|c| c.engine == engine && (c.gear_ratio - gear_ratio).abs() < 1e-9)
+    }
+
+    /// Sorts the candidates again by `rank` (no re-solving: only the order and ties change).
+    pub fn rank_by(&mut self, rank: ShortlistRank) {
+        if let Ok(list) = &mut self.result {
+            let trip = !list.trip_profile.is_empty();
+            rank_candidates(&mut list.candidates, rank, trip, list.resolution);
+            list.rank = rank;
+        }
+    }
+}
+
+/// What the design views are solved with besides the document.
+#[derive(Debug, Clone, Copy)]
+pub struct ViewInputs<'a> {
+    /// The parameter the sweep view sweeps.
+    pub over: SweepOver,
+    /// The engine sheets the loop read from the store for the shortlist (empty: not read).
+    pub offers: &'a [Offer],
+    /// The shortlist's ranking.
+    pub rank: ShortlistRank,
+}
+
 /// The results of the open view.
 #[derive(Debug, Clone, PartialEq)]
 pub enum ViewData {
@@ -114,15 +170,26 @@ pub enum ViewData {
     Calibration(CalibrationView),
     /// The what-if comparison.
     WhatIf(WhatIfView),
+    /// The repower shortlist.
+    Shortlist(ShortlistView),
 }
 
 impl ViewData {
-    /// Solves `kind` for the active variant of `boat` (sweeping `over` for a sweep).
-    pub fn compute(kind: ViewKind, over: SweepOver, boat: &BoatDoc, engine: &EngineDoc) -> Self {
+    /// Solves `kind` for the active variant of `boat` (sweeping `inputs.over` for a sweep,
+    /// over `inputs.offers` for the shortlist).
+    pub fn compute(
+        kind: ViewKind,
+        inputs: ViewInputs<'_>,
+        boat: &BoatDoc,
+        engine: &EngineDoc,
+    ) -> Self {
         match kind {
-            ViewKind::Sweep => ViewData::Sweep(sweep_view(over, boat, engine)),
+            ViewKind::Sweep => ViewData::Sweep(sweep_view(inputs.over, boat, engine)),
             ViewKind::Calibration => ViewData::Calibration(calibration_view(boat, engine)),
             ViewKind::WhatIf => ViewData::WhatIf(what_if_view(boat, engine)),
+            ViewKind::Shortlist => ViewData::Shortlist(ShortlistView {
+                result: shortlist(boat, engine, inputs.offers, inputs.rank),
+            }),
         }
     }
 
@@ -132,6 +199,7 @@ impl ViewData {
             ViewData::Sweep(_) => ViewKind::Sweep,
             ViewData::Calibration(_) => ViewKind::Calibration,
             ViewData::WhatIf(_) => ViewKind::WhatIf,
+            ViewData::Shortlist(_) => ViewKind::Shortlist,
         }
     }
 }
@@ -212,6 +280,22 @@ fn calibration_view(boat: &BoatDoc, engine: &EngineDoc) -> CalibrationView {
         applied,
         doc,
     }
+}
+
+/// The shortlist of `boat` over `offers` (each sheet's offered gears, else the boat's own),
+/// ranked by `rank`: the study's one definition, as `tidewright shortlist` gives it.
+fn shortlist(
+    boat: &BoatDoc,
+    engine: &EngineDoc,
+    offers: &[Offer],
+    rank: ShortlistRank,
+) -> Result<Shortlist, String> {
+    if offers.is_empty() {
+        return Err("no engine sheets were read from the store (S reads them)".into());
+    }
+    let study = Study::of_documents(boat, engine)?;
+    let options = ShortlistOptions { gears: None, rank };
+    study.shortlist(offers, &options).map_err(|e| e.to_string())
 }
 
 /// The what-if conditions of `study`: the study's one definition of the cases.
@@ -307,9 +391,14 @@ mod tests {
     #[test]
     fn a_correction_is_offered_only_when_the_fit_improves() {
         let app = demo("pintle");
+        let inputs = ViewInputs {
+            over: SweepOver::Diameter,
+            offers: &[],
+            rank: ShortlistRank::Fuel,
+        };
         let ViewData::Calibration(view) = ViewData::compute(
             ViewKind::Calibration,
-            SweepOver::Diameter,
+            inputs,
             &app.doc.boat,
             &app.doc.engine,
         ) else {

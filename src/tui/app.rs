@@ -4,7 +4,7 @@
 //! vessel and re-solves every variant at once (see [`super::solve`]); anything that touches
 //! files comes back as an [`Effect`] for the event loop to carry out.
 
-use super::analysis::{self, SweepOver, ViewData, ViewKind};
+use super::analysis::{self, SweepOver, ViewData, ViewInputs, ViewKind};
 use super::chart::ChartKind;
 use super::edit;
 use super::fields::{self, FieldId, FieldValue, Pane};
@@ -14,6 +14,7 @@ use super::solve::Solution;
 use super::theme::Theme;
 use crate::profile::{BoatDoc, EngineDoc};
 use crate::propulsion::solver::conditions::UncertaintyBand;
+use crate::study::shortlist::{Offer, ShortlistRank};
 use crate::units::{self, UnitSystem};
 use crossterm::event::{KeyCode, KeyEvent, KeyEventKind, KeyModifiers};
 
@@ -33,6 +34,8 @@ pub enum Action {
     BoatList(Vec<String>),
     /// The loop read the store's engine list for the engine picker.
     EngineList(Vec<String>),
+    /// The loop read every engine sheet of the store for the shortlist view.
+    EngineSheets(Vec<Offer>),
     /// The loop opened a boat (with its engine sheet).
     BoatOpened(Box<Opened>),
     /// The loop loaded an engine sheet to use for this boat.
@@ -90,6 +93,8 @@ pub enum Effect {
     ListEngines,
     /// Load the named engine sheet.
     LoadEngine(String),
+    /// Read every engine sheet of the store, for the shortlist.
+    LoadEngineSheets,
     /// Leave the program.
     Quit,
     /// Read the recovery file back into the document.
@@ -268,6 +273,12 @@ pub struct App {
     pub band: Option<Result<UncertaintyBand, String>>,
     /// The live instrument feed, when one was started (`open --nmea`).
     pub live: Option<super::live::Live>,
+    /// The store's engine sheets, as the loop last read them for the shortlist (empty: not yet).
+    pub offers: Vec<Offer>,
+    /// The shortlist view's ranking.
+    pub shortlist_rank: ShortlistRank,
+    /// The highlighted row of the shortlist view (0 = the first candidate).
+    pub shortlist_row: usize,
 }
 
 impl App {
@@ -302,6 +313,9 @@ impl App {
             band_shown: false,
             band: None,
             live: None,
+            offers: Vec::new(),
+            shortlist_rank: ShortlistRank::default(),
+            shortlist_row: 0,
         }
     }
 
@@ -375,10 +389,17 @@ impl App {
                 self.open_picker(PickKind::Engine, entries);
                 None
             }
+            Action::EngineSheets(offers) => {
+                self.offers = offers;
+                self.shortlist_row = 0;
+                self.open_view(ViewKind::Shortlist);
+                None
+            }
             Action::BoatOpened(opened) => {
                 let opened = *opened;
                 let (units, theme, chart) = (self.units, self.theme.clone(), self.chart);
                 let (band_shown, sweep_over) = (self.band_shown, self.sweep_over);
+                let (offers, rank) = (std::mem::take(&mut self.offers), self.shortlist_rank);
                 let name = opened.name.clone();
                 let live = self.live.take();
                 *self = App::new(opened, units, theme);
@@ -386,6 +407,8 @@ impl App {
                 self.chart = chart;
                 self.band_shown = band_shown;
                 self.sweep_over = sweep_over;
+                self.offers = offers;
+                self.shortlist_rank = rank;
                 self.refresh_analysis();
                 self.set_status(Level::Info, format!("opened {name}"));
                 None
@@ -511,7 +534,7 @@ impl App {
                 if let Overlay::Help { scroll } = &mut self.overlay {
                     match command {
                         Command::ToggleHelp => self.overlay = Overlay::None,
-                        Command::ListDown => *scroll = (*scroll + 1).min(60),
+                        Command::ListDown => *scroll = (*scroll + 1).min(120),
                         Command::ListUp => *scroll = scroll.saturating_sub(1),
                         _ => {}
                     }
@@ -538,13 +561,142 @@ impl App {
         self.refresh_analysis();
     }
 
-    /// Re-solves the open view and the uncertainty band, when they are wanted.
+    /// Re-solves the open view and the uncertainty band, when they are wanted. The shortlist's
+    /// highlight stays on the same engine and gear when it is still listed.
     fn refresh_analysis(&mut self) {
         let kind = self.view_kind();
-        self.view = kind
-            .map(|kind| ViewData::compute(kind, self.sweep_over, &self.doc.boat, &self.doc.engine));
+        let highlighted = self.highlighted_candidate();
+        let inputs = ViewInputs {
+            over: self.sweep_over,
+            offers: &self.offers,
+            rank: self.shortlist_rank,
+        };
+        self.view =
+            kind.map(|kind| ViewData::compute(kind, inputs, &self.doc.boat, &self.doc.engine));
+        self.keep_highlight(highlighted);
         let band_wanted = self.band_shown || kind == Some(ViewKind::WhatIf);
         self.band = band_wanted.then(|| analysis::band(&self.doc.boat, &self.doc.engine));
+    }
+
+    /// The engine sheet and gear of the highlighted shortlist candidate, if the view shows one.
+    fn highlighted_candidate(&self) -> Option<(String, f64)> {
+        match &self.view {
+            Some(ViewData::Shortlist(view)) => view
+                .candidate(self.shortlist_row)
+                .map(|c| (c.engine.clone(), c.gear_ratio)),
+            _ => None,
+        }
+    }
+
+    /// Moves the shortlist's highlight to `candidate` (engine, gear) when listed, else keeps
+    /// the row within the list.
+    fn keep_highlight(&mut self, candidate: Option<(String, f64)>) {
+        let Some(ViewData::Shortlist(view)) = &self.view else {
+            return;
+        };
+        let count = view.result.as_ref().map_or(0, |l| l.candidates.len());
+        let row = candidate.and_then(|(engine, gear)| view.row_of(&engine, gear));
+        self.shortlist_row = row
+            .unwrap_or(self.shortlist_row)
+            .min(count.saturating_sub(1));
+    }
+
+    /// Ranks the shortlist by the next figure, the highlight staying on its candidate.
+    fn next_ranking(&mut self) {
+        let all = ShortlistRank::ALL;
+        let i = all
+            .iter()
+            .position(|r| *r == self.shortlist_rank)
+            .unwrap_or(0);
+        self.shortlist_rank = all[(i + 1) % all.len()];
+        let highlighted = self.highlighted_candidate();
+        match &mut self.view {
+            Some(ViewData::Shortlist(view)) => view.rank_by(self.shortlist_rank),
+            _ => {
+                self.set_status(Level::Info, "r ranks the shortlist in the shortlist view");
+                return;
+            }
+        }
+        self.keep_highlight(highlighted);
+        let name = self.shortlist_rank.name();
+        self.set_status(Level::Info, format!("shortlist ranked by {name}"));
+    }
+
+    /// Makes the highlighted candidate the boat's engine, gear and a new active screw variant:
+    /// one edit, undone by `u` and saved by `s`.
+    fn take_candidate(&mut self) {
+        let Some(ViewData::Shortlist(view)) = &self.view else {
+            self.set_status(
+                Level::Info,
+                "Enter takes the highlighted candidate in the shortlist view",
+            );
+            return;
+        };
+        let candidate = match &view.result {
+            Err(why) => {
+                let why = format!("no candidate to take: {why}");
+                self.set_status(Level::Error, why);
+                return;
+            }
+            Ok(_) => match view.candidate(self.shortlist_row) {
+                Some(c) => c.clone(),
+                None => return,
+            },
+        };
+        let what = format!(
+            "{} with {}",
+            candidate.engine,
+            edit::gear_label(candidate.gear_ratio)
+        );
+        if candidate.pitch.is_none() {
+            let why = candidate
+                .problems
+                .first()
+                .cloned()
+                .unwrap_or_else(|| "no pitch meets the target".into());
+            self.set_status(Level::Error, format!("{what} not taken: {why}"));
+            return;
+        }
+        let Some(offer) = self.offers.iter().find(|o| o.name == candidate.engine) else {
+            self.set_status(
+                Level::Error,
+                format!(
+                    "{what} not taken: its engine sheet is no longer read (S reads them again)"
+                ),
+            );
+            return;
+        };
+        if self.doc.boat.variants.len() >= crate::profile::boat::MAX_VARIANTS {
+            self.set_status(
+                Level::Error,
+                format!(
+                    "{what} not taken: the boat has {} screw variants, the most a boat file holds",
+                    crate::profile::boat::MAX_VARIANTS
+                ),
+            );
+            return;
+        }
+        let Some(screw) = candidate
+            .boat
+            .variants
+            .get(candidate.boat.active_variant)
+            .cloned()
+        else {
+            return;
+        };
+        let mut next = self.doc.clone();
+        let label = edit::add_shortlist_variant(
+            &mut next.boat,
+            &candidate.engine,
+            candidate.gear_ratio,
+            screw,
+        );
+        next.engine = offer.doc.clone();
+        self.commit(next);
+        self.set_status(
+            Level::Info,
+            format!("{what} and screw variant {label} in use (unsaved: s saves, u undoes)"),
+        );
     }
 
     fn in_view(&mut self, command: Command) -> Option<Effect> {
@@ -559,10 +711,35 @@ impl App {
                 self.view = None;
                 self.refresh_analysis();
             }
-            Command::NextView => self.open_view(kind.next()),
-            Command::PrevView => self.open_view(kind.prev()),
+            Command::NextView | Command::PrevView => {
+                let to = if command == Command::NextView {
+                    kind.next()
+                } else {
+                    kind.prev()
+                };
+                // The shortlist needs the store's engine sheets: the loop reads them first.
+                if to == ViewKind::Shortlist && self.offers.is_empty() {
+                    return Some(Effect::LoadEngineSheets);
+                }
+                self.open_view(to);
+            }
+            Command::ListDown | Command::ListUp if kind == ViewKind::Shortlist => {
+                let count = match &self.view {
+                    Some(ViewData::Shortlist(v)) => {
+                        v.result.as_ref().map_or(0, |l| l.candidates.len())
+                    }
+                    _ => 0,
+                };
+                self.shortlist_row = if command == Command::ListDown {
+                    (self.shortlist_row + 1).min(count.saturating_sub(1))
+                } else {
+                    self.shortlist_row.saturating_sub(1)
+                };
+            }
             Command::ListDown => *scroll = (*scroll + 1).min(80),
             Command::ListUp => *scroll = scroll.saturating_sub(1),
+            Command::NextRanking => self.next_ranking(),
+            Command::TakeCandidate => self.take_candidate(),
             Command::NextSweepParameter => {
                 if kind == ViewKind::Sweep {
                     self.sweep_over = self.sweep_over.next();
@@ -784,6 +961,7 @@ impl App {
             Command::OpenSweep => self.open_view(ViewKind::Sweep),
             Command::OpenCalibration => self.open_view(ViewKind::Calibration),
             Command::OpenWhatIf => self.open_view(ViewKind::WhatIf),
+            Command::OpenShortlist => return Some(Effect::LoadEngineSheets),
             Command::ToggleBand => {
                 self.band_shown = !self.band_shown;
                 self.refresh_analysis();

@@ -326,6 +326,38 @@ pub fn add_variant_with_pitch(boat: &mut BoatDoc, pitch: f64, system: UnitSystem
     label
 }
 
+/// A gear ratio as a label writes it: "2.5:1", "2.47:1", "2.0:1".
+pub fn gear_label(gear_ratio: f64) -> String {
+    let text = format!("{gear_ratio:.2}");
+    let text = text.trim_end_matches('0');
+    let text = if text.ends_with('.') {
+        format!("{text}0")
+    } else {
+        text.to_string()
+    };
+    format!("{text}:1")
+}
+
+/// Points the boat at engine sheet `engine` with `gear_ratio` and adds `screw` as a new active
+/// variant labelled "shortlist ENGINE G:1"; returns its label.
+pub fn add_shortlist_variant(
+    boat: &mut BoatDoc,
+    engine: &str,
+    gear_ratio: f64,
+    screw: VariantDoc,
+) -> String {
+    let base = format!("shortlist {engine} {}", gear_label(gear_ratio));
+    let label = unused_label(boat, &base);
+    set_engine_name(boat, engine);
+    boat.installation.gear_ratio = gear_ratio;
+    boat.variants.push(VariantDoc {
+        label: label.clone(),
+        ..screw
+    });
+    boat.active_variant = boat.variants.len() - 1;
+    label
+}
+
 /// Points the boat at the engine sheet `name`.
 pub fn set_engine_name(boat: &mut BoatDoc, name: &str) {
     boat.engine = name.to_string();

@@ -16,7 +16,7 @@ pub enum Mode {
     Pick,
     /// Asking a yes/no question (quit with unsaved changes, overwrite a changed file).
     Confirm,
-    /// A design view is open: sweep, sea-trial calibration or what-if.
+    /// A design view is open: sweep, sea-trial calibration, what-if or the shortlist.
     View,
 }
 
@@ -29,7 +29,7 @@ impl Mode {
             Mode::Help => "Help overlay",
             Mode::Pick => "Choosing a boat or engine sheet",
             Mode::Confirm => "Questions",
-            Mode::View => "Design views (sweep, sea trial, what-if)",
+            Mode::View => "Design views (sweep, sea trial, what-if, shortlist)",
         }
     }
 
@@ -91,6 +91,12 @@ pub enum Command {
     OpenCalibration,
     /// Open the what-if conditions view.
     OpenWhatIf,
+    /// Open the repower shortlist over the store's engine sheets.
+    OpenShortlist,
+    /// Rank the shortlist by the next figure (fuel → range → top → margin).
+    NextRanking,
+    /// Make the highlighted shortlist candidate the boat's engine, gear and a new screw variant.
+    TakeCandidate,
     /// Show or hide the uncertainty band on the power chart.
     ToggleBand,
     /// Show the next design view.
@@ -236,6 +242,7 @@ pub const BINDINGS: &[Binding] = &[
     bind(M::Browse, &[ch('v', "v")], C::OpenSweep, "sweep", "open the sweep view: diameter, gear, blades or area, each with its matching pitch, ranked", true),
     bind(M::Browse, &[ch('r', "r")], C::OpenCalibration, "", "open the sea-trial view: measured vs predicted speed, fitted resistance factor", false),
     bind(M::Browse, &[ch('w', "w")], C::OpenWhatIf, "", "open the what-if view: loads, fouling, sea state, uncertainty band, cavitation, shaft", false),
+    bind(M::Browse, &[ch('S', "S")], C::OpenShortlist, "", "open the repower shortlist: every engine sheet in the store with its offered gears and a screw sized for each, ranked", false),
     bind(M::Browse, &[ch('b', "b")], C::ToggleBand, "", "show or hide the uncertainty band (displacement ±10 %, wake ±0.05) on the power chart", false),
     bind(M::Browse, &[ch('s', "s"), ctrl('s', "Ctrl-s")], C::Save, "save", "save the boat through the store (atomic, keeps a backup)", true),
     bind(M::Browse, &[ch('R', "R")], C::Reload, "", "reload the boat's file from disk (asks first if unsaved)", false),
@@ -243,7 +250,7 @@ pub const BINDINGS: &[Binding] = &[
     bind(M::Browse, &[ch('e', "e")], C::SwitchEngine, "", "switch the engine sheet from the store", false),
     bind(M::Browse, &[ch('?', "?"), code(KeyCode::F(1), "F1")], C::ToggleHelp, "help", "show every key", true),
     bind(M::Browse, &[ch('q', "q"), ctrl('c', "Ctrl-c")], C::Quit, "quit", "quit (asks first when there are unsaved changes)", true),
-    bind(M::View, &[code(KeyCode::Tab, "Tab"), code(KeyCode::Right, "→"), ch('l', "l")], C::NextView, "view", "next view: sweep → sea trial → what-if", true),
+    bind(M::View, &[code(KeyCode::Tab, "Tab"), code(KeyCode::Right, "→"), ch('l', "l")], C::NextView, "view", "next view: sweep → sea trial → what-if → shortlist", true),
     bind(M::View, &[code(KeyCode::BackTab, "Shift-Tab"), code(KeyCode::Left, "←"), ch('h', "h")], C::PrevView, "", "previous view", false),
     bind(M::View, &[ch('n', "n")], C::NextSweepParameter, "parameter", "sweep view: sweep the next parameter (diameter, gear ratio, blade count, area ratio)", true),
     bind(M::View, &[ch('a', "a")], C::ApplyCalibration, "apply fit", "sea-trial view: apply the fitted correction to the boat (unsaved until s; u undoes)", true),
@@ -251,12 +258,14 @@ pub const BINDINGS: &[Binding] = &[
     bind(M::View, &[ch('J', "J")], C::NextLiveRun, "", "sea-trial view: highlight the next captured run", false),
     bind(M::View, &[ch('K', "K")], C::PrevLiveRun, "", "sea-trial view: highlight the previous captured run", false),
     bind(M::View, &[ch('g', "g")], C::UseLiveRuns, "use runs", "sea-trial view: make the kept captured runs the boat's trial log, refit (a then applies; u undoes)", false),
+    bind(M::View, &[ch('r', "r")], C::NextRanking, "rank", "shortlist view: rank by the next figure (fuel → range → top → margin)", false),
+    bind(M::View, &[code(KeyCode::Enter, "Enter")], C::TakeCandidate, "take", "shortlist view: make the highlighted candidate the boat's engine, gear and a new screw variant (unsaved until s; u undoes)", false),
     bind(M::View, &[ch('u', "u"), ctrl('z', "Ctrl-z")], C::Undo, "undo", "undo the last change", true),
     bind(M::View, &[ctrl('r', "Ctrl-r"), ch('U', "U")], C::Redo, "", "redo the last undone change", false),
     bind(M::View, &[ch('m', "m")], C::ToggleUnits, "", "toggle metric / imperial display", false),
     bind(M::View, &[ch('s', "s"), ctrl('s', "Ctrl-s")], C::Save, "", "save the boat through the store", false),
-    bind(M::View, &[code(KeyCode::Down, "↓"), ch('j', "j")], C::ListDown, "scroll", "scroll the view down", true),
-    bind(M::View, &[code(KeyCode::Up, "↑"), ch('k', "k")], C::ListUp, "", "scroll the view up", false),
+    bind(M::View, &[code(KeyCode::Down, "↓"), ch('j', "j")], C::ListDown, "scroll", "scroll the view down (shortlist view: highlight the next candidate)", true),
+    bind(M::View, &[code(KeyCode::Up, "↑"), ch('k', "k")], C::ListUp, "", "scroll the view up (shortlist view: highlight the previous candidate)", false),
     bind(M::View, &[code(KeyCode::Esc, "Esc"), ch('q', "q")], C::CloseView, "close", "close the view", true),
     bind(M::Edit, &[code(KeyCode::Enter, "Enter")], C::Accept, "apply", "apply the typed value (only when it is valid)", true),
     bind(M::Edit, &[code(KeyCode::Esc, "Esc")], C::Cancel, "cancel", "leave the field unchanged", true),

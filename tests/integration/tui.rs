@@ -541,7 +541,7 @@ fn help_overlay_lists_every_key() {
     assert!(rest.contains("reload the boat's file"), "{rest}");
     // The marker legend closes the help: on screen, or after scrolling down to it.
     let mut scrolled = app.clone();
-    for _ in 0..20 {
+    for _ in 0..30 {
         key(&mut scrolled, KeyCode::Down);
     }
     let scrolled_text = screen(&scrolled, 120, 40);
@@ -553,7 +553,7 @@ fn help_overlay_lists_every_key() {
     insta::assert_snapshot!("help_80x24", small);
     // At 80×24 the list scrolls: the later sections come into view.
     let mut scrolled = String::new();
-    for _ in 0..60 {
+    for _ in 0..120 {
         key(&mut app, KeyCode::Char('j'));
         scrolled.push_str(&screen(&app, 80, 24));
     }
@@ -1412,4 +1412,139 @@ fn a_change_on_disk_is_shown_and_r_reloads_asking_first_when_unsaved() {
     assert!(app.dirty());
     key(&mut app, KeyCode::Char('R'));
     assert_eq!(key(&mut app, KeyCode::Char('y')), Some(Effect::Reload));
+}
+
+/// The demo trawler with the shortlist view open over the demo fleet's engine sheets, as the
+/// loop opens it: `S` asks for the sheets, the loop reads them, the view solves.
+fn shortlist_app() -> App {
+    let mut app = demo_app();
+    let effect = key(&mut app, KeyCode::Char('S'));
+    assert_eq!(effect, Some(Effect::LoadEngineSheets));
+    let offers = tidewright::study::shortlist::offers_from_store(&demo_store(), None)
+        .expect("the demo fleet has engine sheets");
+    assert!(app.update(Action::EngineSheets(offers)).is_none());
+    app
+}
+
+fn shortlist_of(app: &App) -> tidewright::study::shortlist::Shortlist {
+    match &app.view {
+        Some(tidewright::tui::analysis::ViewData::Shortlist(v)) => {
+            v.result.clone().expect("the demo shortlist solves")
+        }
+        other => panic!("not the shortlist view: {other:?}"),
+    }
+}
+
+#[test]
+fn shortlist_view_sorts_and_takes_a_candidate_in_one_undoable_edit() {
+    let mut app = shortlist_app();
+    assert_eq!(app.mode(), Mode::View);
+    let list = shortlist_of(&app);
+    // The view's candidates are the study's, as `tidewright shortlist` ranks them by fuel.
+    let study = tidewright::study::Study::of_documents(&app.doc.boat, &app.doc.engine).unwrap();
+    let offers = tidewright::study::shortlist::offers_from_store(&demo_store(), None).unwrap();
+    let cli = study
+        .shortlist(&offers, &Default::default())
+        .expect("the study's shortlist");
+    assert_eq!(list.candidates, cli.candidates);
+    assert!(list.candidates.len() >= 4, "{}", list.candidates.len());
+
+    // r cycles fuel → range → top → margin; each order is the ranked figure's.
+    for (rank, higher_first) in [
+        ("range", true),
+        ("top", true),
+        ("margin", true),
+        ("fuel", false),
+    ] {
+        key(&mut app, KeyCode::Char('r'));
+        let list = shortlist_of(&app);
+        assert_eq!(list.rank.name(), rank);
+        let values: Vec<f64> = list
+            .candidates
+            .iter()
+            .filter_map(|c| c.ranked_value(list.rank, false))
+            .collect();
+        assert!(values.len() >= 2, "{rank}");
+        for pair in values.windows(2) {
+            if higher_first {
+                assert!(pair[0] >= pair[1], "{rank}: {values:?}");
+            } else {
+                assert!(pair[0] <= pair[1], "{rank}: {values:?}");
+            }
+        }
+        assert_eq!(list.candidates[0].tie_with, None, "{rank}");
+    }
+
+    // Highlight the first candidate on another engine than the boat's, then take it.
+    let before = app.doc.clone();
+    let list = shortlist_of(&app);
+    let row = list
+        .candidates
+        .iter()
+        .position(|c| c.engine != app.doc.boat.engine && c.pitch.is_some())
+        .expect("a candidate on another engine");
+    for _ in 0..row {
+        key(&mut app, KeyCode::Char('j'));
+    }
+    assert_eq!(app.shortlist_row, row);
+    let chosen = list.candidates[row].clone();
+    assert!(key(&mut app, KeyCode::Enter).is_none());
+    let boat = &app.doc.boat;
+    assert_eq!(boat.engine, chosen.engine);
+    assert!((boat.installation.gear_ratio - chosen.gear_ratio).abs() < 1e-12);
+    assert_eq!(boat.variants.len(), before.boat.variants.len() + 1);
+    let active = &boat.variants[boat.active_variant];
+    assert!(
+        active
+            .label
+            .starts_with(&format!("shortlist {} ", chosen.engine)),
+        "{}",
+        active.label
+    );
+    assert!((active.diameter.value - chosen.diameter).abs() < 1e-12);
+    assert!((active.pitch.value - chosen.pitch.unwrap()).abs() < 1e-12);
+    assert!((active.area_ratio - chosen.area_ratio).abs() < 1e-12);
+    assert_ne!(
+        app.doc.engine, before.engine,
+        "the candidate's engine sheet is in use"
+    );
+    assert!(app.dirty());
+    // The highlight stays on the candidate taken, though the shortlist was solved again.
+    let again = shortlist_of(&app);
+    assert_eq!(again.candidates[app.shortlist_row].engine, chosen.engine);
+
+    // s saves it through the store (a store boat; the demo itself is read-only).
+    app.savable = true;
+    match key(&mut app, KeyCode::Char('s')) {
+        Some(Effect::Save { boat, .. }) => assert_eq!(*boat, app.doc.boat),
+        other => panic!("s did not save: {other:?}"),
+    }
+    // u undoes the whole take at once.
+    key(&mut app, KeyCode::Char('u'));
+    assert_eq!(app.doc, before);
+}
+
+#[test]
+fn shortlist_view_draws_at_both_sizes_and_small_ones() {
+    let mut app = shortlist_app();
+    key(&mut app, KeyCode::Char('j'));
+    let big = screen(&app, 120, 40);
+    assert!(big.contains("Repower shortlist for"), "{big}");
+    assert!(
+        big.contains("▶  2 "),
+        "the second row is highlighted:\n{big}"
+    );
+    assert!(big.contains("naval architect"), "the caution stays:\n{big}");
+    insta::assert_snapshot!("shortlist_120x40", big);
+    let small = screen(&app, 80, 24);
+    assert!(
+        small.contains("▶  2 "),
+        "the highlighted row stays on screen:\n{small}"
+    );
+    insta::assert_snapshot!("shortlist_80x24", small);
+    for (w, h) in [(40, 10), (20, 5), (1, 1)] {
+        screen(&app, w, h);
+    }
+    // An empty store is said so, not a crash.
+    app.update(Action::Failed("no shortlist: the store is empty".into()));
 }

@@ -2,10 +2,12 @@
 //! check lines (also summed up in the Screw pane). One file per view below.
 
 pub mod calibration;
+pub mod shortlist;
 pub mod sweep;
 pub mod what_if;
 
 use calibration::calibration_lines;
+use shortlist::shortlist_lines;
 use sweep::sweep_lines;
 use what_if::what_if_lines;
 
@@ -93,12 +95,21 @@ pub fn draw_view(app: &App, kind: ViewKind, scroll: u16, area: Rect, buf: &mut B
         .title(format!(" {} ", tabs.join(" · ")));
     let inner = block.inner(area);
     block.render(area, buf);
-    let lines = view_lines(app, inner.width as usize);
-    let wrapped: u16 = lines
+    let (lines, highlighted) = view_lines_marked(app, inner.width as usize);
+    let heights: Vec<u16> = lines
         .iter()
         .map(|l| super::field_list::wrapped_height(&l.to_string(), inner.width))
-        .sum();
+        .collect();
+    let wrapped: u16 = heights.iter().sum();
     let last_top = wrapped.saturating_sub(inner.height);
+    // The shortlist scrolls just far enough to keep its highlighted row on screen.
+    let scroll = match highlighted {
+        Some(row) => {
+            let bottom: u16 = heights[..=row].iter().sum();
+            bottom.saturating_sub(inner.height)
+        }
+        None => scroll,
+    };
     Paragraph::new(lines)
         .wrap(Wrap { trim: false })
         .scroll((scroll.min(last_top), 0))
@@ -107,15 +118,21 @@ pub fn draw_view(app: &App, kind: ViewKind, scroll: u16, area: Rect, buf: &mut B
 
 /// The open view's lines for a width of `width` columns.
 pub fn view_lines(app: &App, width: usize) -> Vec<Line<'static>> {
-    let mut lines = match &app.view {
-        Some(ViewData::Sweep(v)) => sweep_lines(app, v),
-        Some(ViewData::Calibration(v)) => calibration_lines(app, v),
-        Some(ViewData::WhatIf(v)) => what_if_lines(app, v, width),
-        None => vec![Line::raw("nothing solved for this view")],
+    view_lines_marked(app, width).0
+}
+
+/// The open view's lines and the index of the highlighted one (the shortlist's row), if any.
+fn view_lines_marked(app: &App, width: usize) -> (Vec<Line<'static>>, Option<usize>) {
+    let (mut lines, highlighted) = match &app.view {
+        Some(ViewData::Sweep(v)) => (sweep_lines(app, v), None),
+        Some(ViewData::Calibration(v)) => (calibration_lines(app, v), None),
+        Some(ViewData::WhatIf(v)) => (what_if_lines(app, v, width), None),
+        Some(ViewData::Shortlist(v)) => shortlist_lines(app, v),
+        None => (vec![Line::raw("nothing solved for this view")], None),
     };
     lines.push(Line::default());
     lines.push(Line::styled(CAUTION, app.theme.dim));
-    lines
+    (lines, highlighted)
 }
 
 fn mark(passed: bool) -> &'static str {

@@ -1,0 +1,192 @@
+//! The shortlist view: every engine sheet × offered gear with its screw, ranked, one row
+//! highlighted; the highlighted candidate's checks under the table.
+
+use super::{UNRELIABLE_TOP_LEGEND, dash, heading, number, top_speed};
+use crate::report::Display;
+use crate::report::shortlist::{candidate_notes, rank_line};
+use crate::study::shortlist::{Candidate, ShortlistRank};
+use crate::tui::analysis::ShortlistView;
+use crate::tui::app::App;
+use crate::tui::edit::gear_label;
+use crate::units::{self, Kind, UnitSystem};
+use ratatui::style::{Modifier, Style};
+use ratatui::text::{Line, Span};
+
+/// The widest engine name the table gives room to, characters.
+const ENGINE_WIDTH: usize = 16;
+
+/// The view's lines and the index of the highlighted candidate's line, if any.
+pub(crate) fn shortlist_lines(
+    app: &App,
+    view: &ShortlistView,
+) -> (Vec<Line<'static>>, Option<usize>) {
+    let system = app.units;
+    let choices: Vec<String> = ShortlistRank::ALL
+        .iter()
+        .map(|r| {
+            if *r == app.shortlist_rank {
+                format!("[{}]", r.name())
+            } else {
+                r.name().to_string()
+            }
+        })
+        .collect();
+    let mut lines = vec![Line::from(vec![
+        Span::styled("r ranks: ", app.theme.dim),
+        Span::raw(choices.join(" · ")),
+        Span::styled(
+            "   Enter takes the highlighted candidate as engine, gear and a new screw variant",
+            app.theme.dim,
+        ),
+    ])];
+    let list = match &view.result {
+        Ok(list) => list,
+        Err(why) => {
+            lines.push(Line::styled(
+                format!("No shortlist: {why}"),
+                app.theme.error,
+            ));
+            return (lines, None);
+        }
+    };
+    lines.push(heading(
+        app,
+        format!(
+            "Repower shortlist for {} ({} candidates)",
+            list.boat,
+            list.candidates.len()
+        ),
+    ));
+    let d = Display::new(system);
+    lines.push(Line::styled(rank_line(list, &d), app.theme.dim));
+    let width = list
+        .candidates
+        .iter()
+        .map(|c| c.engine.chars().count())
+        .max()
+        .unwrap_or(6)
+        .clamp(6, ENGINE_WIDTH);
+    let len_unit = units::unit_label(Kind::ScrewLength, system);
+    lines.push(Line::styled(
+        format!(
+            "  {:>2} {:<width$} {:>6} {:>11} {:>2} {:>5} {:>6} {:>6} {:>6} {:>4} {:>9} {:>9} {:>6} {:>4} {}",
+            "#",
+            "engine",
+            "gear",
+            format!("D×P {len_unit}"),
+            "bl",
+            "AE/A0",
+            format!("top {}", units::unit_label(Kind::Speed, system)),
+            "margin",
+            "cruise",
+            "load",
+            units::unit_label(Kind::FuelRate, system),
+            units::unit_label(Kind::FuelPerDistance, system),
+            format!("rng {}", units::unit_label(Kind::Distance, system)),
+            "prob",
+            "tie",
+        ),
+        Style::default().add_modifier(Modifier::BOLD),
+    ));
+    let mut highlighted = None;
+    for (i, c) in list.candidates.iter().enumerate() {
+        let here = i == app.shortlist_row;
+        if here {
+            highlighted = Some(lines.len());
+        }
+        let text = candidate_row(i, c, width, system);
+        lines.push(if here {
+            Line::styled(
+                format!("▶ {text}"),
+                app.theme.accent.add_modifier(Modifier::REVERSED),
+            )
+        } else {
+            Line::raw(format!("  {text}"))
+        });
+    }
+    if list
+        .candidates
+        .iter()
+        .any(|c| c.top_speed_in_method_range == Some(false))
+    {
+        lines.push(Line::styled(UNRELIABLE_TOP_LEGEND, app.theme.warning));
+    }
+    if let Some(c) = list.candidates.get(app.shortlist_row) {
+        lines.push(Line::default());
+        lines.push(heading(
+            app,
+            format!(
+                "#{} {} ({}) with {}",
+                app.shortlist_row + 1,
+                c.engine,
+                c.engine_name,
+                gear_label(c.gear_ratio)
+            ),
+        ));
+        for note in candidate_notes(c, &d) {
+            let style = if note.starts_with("problem") {
+                app.theme.warning
+            } else {
+                Style::default()
+            };
+            lines.push(Line::styled(format!("  {note}"), style));
+        }
+    }
+    (lines, highlighted)
+}
+
+fn candidate_row(i: usize, c: &Candidate, width: usize, system: UnitSystem) -> String {
+    let mut engine: String = c.engine.chars().take(width).collect();
+    if c.engine.chars().count() > width {
+        engine.pop();
+        engine.push('…');
+    }
+    let screw = match c.pitch {
+        Some(p) => format!(
+            "{}×{}",
+            number(
+                Some(c.diameter),
+                Kind::ScrewLength,
+                system,
+                screw_decimals(system)
+            ),
+            number(Some(p), Kind::ScrewLength, system, screw_decimals(system))
+        ),
+        None => "no pitch".into(),
+    };
+    format!(
+        "{:>2} {:<width$} {:>6} {:>11} {:>2} {:>5.2} {:>6} {:>6} {:>6} {:>4} {:>9} {:>9} {:>6} {:>4} {}",
+        i + 1,
+        engine,
+        gear_label(c.gear_ratio),
+        screw,
+        c.blades,
+        c.area_ratio,
+        top_speed(c.top_speed, c.top_speed_in_method_range, system, 1),
+        c.rpm_margin
+            .filter(|m| m.is_finite())
+            .map_or_else(dash, |m| format!("{m:+.0}")),
+        c.cruise_rpm
+            .filter(|r| r.is_finite())
+            .map_or_else(dash, |r| format!("{r:.0}")),
+        c.cruise_load
+            .filter(|l| l.is_finite())
+            .map_or_else(dash, |l| format!("{:.0}%", l * 100.0)),
+        number(c.fuel_rate, Kind::FuelRate, system, 2),
+        number(c.fuel_per_distance, Kind::FuelPerDistance, system, 2),
+        number(c.range, Kind::Distance, system, 0),
+        if c.problems.is_empty() {
+            dash()
+        } else {
+            c.problems.len().to_string()
+        },
+        c.tie_with.map_or(String::new(), |t| format!("= #{t}")),
+    )
+}
+
+fn screw_decimals(system: UnitSystem) -> usize {
+    match system {
+        UnitSystem::Metric => 0,
+        UnitSystem::Imperial => 1,
+    }
+}
