@@ -113,9 +113,9 @@ pub fn readout_lines(app: &App) -> Vec<Line<'static>> {
                 } else {
                     spans.push(Span::styled(
                         format!(
-                            "≈{} UNRELIABLE (Fn {:.2})",
+                            "≈{} UNRELIABLE ({})",
                             units::format(m.top_speed, Kind::Speed, system),
-                            m.top_validity.froude
+                            short_reason(&m.top_validity)
                         ),
                         theme.warning.add_modifier(Modifier::BOLD),
                     ));
@@ -144,4 +144,14 @@ pub fn readout_lines(app: &App) -> Vec<Line<'static>> {
     }
     lines.push(Line::styled(CAUTION, theme.dim));
     lines
+}
+
+/// Why a speed is out of range, in a few words for the strip: the Froude number past the
+/// method's range, or the speed/length ratio past the displacement-hull limit.
+fn short_reason(v: &crate::propulsion::hull::SpeedValidity) -> String {
+    match (v.froude_in_range, v.speed_length_limit) {
+        (false, _) => format!("Fn {:.2}", v.froude),
+        (true, Some(limit)) => format!("S/L {:.2} > {limit:.2}", v.speed_length_ratio),
+        (true, None) => format!("Fn {:.2}", v.froude),
+    }
 }
