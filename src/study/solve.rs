@@ -65,6 +65,9 @@ pub struct SolveOptions {
     pub rpm_rows: Vec<f64>,
     /// Speeds solved per propeller curve (0: no curve).
     pub curve_points: usize,
+    /// Whether the other resistance method's figures are solved for the active variant only
+    /// (the screen shows them for that one; each costs a second match).
+    pub spread_for_active_only: bool,
 }
 
 impl SolveOptions {
@@ -73,6 +76,7 @@ impl SolveOptions {
         Self {
             rpm_rows: Vec::new(),
             curve_points: CURVE_POINTS,
+            spread_for_active_only: true,
         }
     }
 
@@ -81,6 +85,7 @@ impl SolveOptions {
         Self {
             rpm_rows,
             curve_points: 0,
+            spread_for_active_only: false,
         }
     }
 }
@@ -232,7 +237,9 @@ pub fn solve_variant(vessel: &Vessel, index: usize, options: &SolveOptions) -> V
         interaction_warning: small_craft_warning(&vessel.interaction, &factors),
         curve_failure: None,
         unreliable_from: None,
-        method_spread: vessel.method_spread(index),
+        method_spread: (!options.spread_for_active_only || index == vessel.active_variant)
+            .then(|| vessel.method_spread(index))
+            .flatten(),
     };
     if options.curve_points > 0 {
         add_curves(&mut solution, vessel, index, options.curve_points);
