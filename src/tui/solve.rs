@@ -75,8 +75,8 @@ impl Solution {
         };
         let Some(pitch) = rec.recommended_pitch else {
             return Some(format!(
-                "No pitch found for rated power at rated rpm ({:?})",
-                rec.stop
+                "No pitch found for the target: {}",
+                crate::report::design::stop_text(&rec.stop)
             ));
         };
         let change = rec.change.unwrap_or(0.0);
@@ -86,13 +86,19 @@ impl Solution {
             Some(false) => "BEYOND re-pitch limit: new screw",
             None => "",
         };
+        // The slope the shop will see (one-sided, on the load-limited side), as in `pitch`.
+        let slope = rec
+            .rpm_per_inch
+            .filter(|s| s.is_finite())
+            .map(|s| format!("; {}/in", crate::report::boat::signed_rpm(s)))
+            .unwrap_or_default();
         let unreliable = if rec.in_method_range == Some(false) {
             " UNRELIABLE, a sea trial decides;"
         } else {
             ""
         };
         Some(format!(
-            "Recommended pitch {} ({sign}{}, {limit}) for {} load;{unreliable} p adds it",
+            "Recommended pitch {} ({sign}{}, {limit}{slope}) for {} load;{unreliable} p adds it",
             units::format(pitch, Kind::ScrewLength, system),
             units::format(change.abs(), Kind::ScrewLength, system),
             self.solved()?.recommendation_load,

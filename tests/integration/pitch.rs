@@ -152,3 +152,23 @@ fn every_front_end_shows_the_same_verdict_and_margin_for_every_demo_variant() {
         }
     }
 }
+
+/// The Screw pane's recommendation line shows the same rpm per inch as `pitch` (one number
+/// from the core's recommendation, never a second computation).
+#[test]
+fn the_screw_pane_shows_the_pitch_commands_rpm_per_inch() {
+    let store = Store::at("/nonexistent");
+    for name in ["marram", "pintle", "sorrel"] {
+        let app = tidewright::tui::open_app(&store, Some(name)).unwrap();
+        let vessel = demo_vessel(name);
+        let rec =
+            recommend_pitch(&vessel, vessel.active_variant, &PitchOptions::default()).unwrap();
+        let slope = rec.rpm_per_inch.expect("a slope");
+        let line = app
+            .solution
+            .recommendation_line(tidewright::units::UnitSystem::Metric)
+            .unwrap();
+        let words = format!("{}/in", signed_rpm(slope));
+        assert!(line.contains(&words), "{name}: {line} lacks {words}");
+    }
+}
