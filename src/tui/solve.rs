@@ -16,6 +16,10 @@ pub use crate::study::solve::{CURVE_POINTS, Checks, Solved, VariantSolution};
 pub struct Solution {
     /// The results, or the reason there are none.
     pub result: Result<Solved, String>,
+    /// (engine rpm, speed m/s) of the active variant without the boat's sea-trial calibration,
+    /// when it has one: the speed chart shows the curve before and after the fit. Empty
+    /// otherwise.
+    pub before_fit: Vec<(f64, f64)>,
 }
 
 impl Solution {
@@ -23,7 +27,21 @@ impl Solution {
     pub fn solve(boat: &BoatDoc, engine: &EngineDoc) -> Self {
         let result = Study::of_documents(boat, engine)
             .map(|study| study.into_solved(&SolveOptions::curves()));
-        Self { result }
+        let before_fit = match &boat.calibration {
+            None => Vec::new(),
+            Some(_) => {
+                let mut plain = boat.clone();
+                plain.calibration = None;
+                Study::of_documents(&plain, engine)
+                    .map(|study| {
+                        study
+                            .solve_variant(study.vessel.active_variant, &SolveOptions::curves())
+                            .speed_by_rpm
+                    })
+                    .unwrap_or_default()
+            }
+        };
+        Self { result, before_fit }
     }
 
     /// The solved results, if the document built.

@@ -1548,3 +1548,33 @@ fn shortlist_view_draws_at_both_sizes_and_small_ones() {
     // An empty store is said so, not a crash.
     app.update(Action::Failed("no shortlist: the store is empty".into()));
 }
+
+/// After the sea-trial fit is applied, the speed chart shows the curve before the fit beside the
+/// fitted one, under the trial points (issue: "before and after the fit").
+#[test]
+fn the_speed_chart_shows_the_curve_before_the_fit_once_one_is_applied() {
+    let mut app = pintle_app();
+    app.chart = ChartKind::SpeedVsRpm;
+    assert!(app.solution.before_fit.is_empty());
+    assert!(!screen(&app, 120, 40).contains("before the fit"));
+    keys(&mut app, "r");
+    keys(&mut app, "a");
+    assert!(app.doc.boat.calibration.is_some());
+    assert!(!app.solution.before_fit.is_empty());
+    // The plain model is faster than the calibrated one (factor above 1) at every rpm shown.
+    let fitted = &app.solution.active().unwrap().speed_by_rpm;
+    let (rpm, plain) = app.solution.before_fit[app.solution.before_fit.len() / 2];
+    let calibrated = fitted
+        .iter()
+        .min_by(|a, b| (a.0 - rpm).abs().total_cmp(&(b.0 - rpm).abs()))
+        .unwrap()
+        .1;
+    assert!(
+        plain > calibrated,
+        "{plain} vs {calibrated} m/s at {rpm} rpm"
+    );
+    keys(&mut app, "q");
+    let text = screen(&app, 120, 40);
+    assert!(text.contains("before the fit"), "{text}");
+    assert!(text.contains("sea trial"), "{text}");
+}

@@ -221,6 +221,14 @@ pub fn chart_view_of(app: &App, kind: ChartKind) -> ChartView {
         });
     }
     if kind == ChartKind::SpeedVsRpm {
+        if !app.solution.before_fit.is_empty() {
+            view.series.push(Series {
+                name: Some(format!("{} before the fit", Glyph::Quarter.symbol())),
+                points: convert(&app.solution.before_fit, None, Kind::Speed, system),
+                shape: SeriesShape::Points(Glyph::Quarter),
+                style: app.theme.dim,
+            });
+        }
         if solved.trial.is_empty() {
             view.note = Some("no sea-trial log for this boat".into());
         } else {
