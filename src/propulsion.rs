@@ -14,6 +14,23 @@ pub mod water;
 /// Standard acceleration of gravity, m/s² (CGPM 1901; NIST SP 811).
 pub const STANDARD_GRAVITY: f64 = 9.80665;
 
+/// One knot, m/s (1852 m per hour, by definition; NIST SP 811).
+const KNOT: f64 = 1852.0 / 3600.0;
+/// One inch, m (exact; NIST SP 811).
+const INCH: f64 = 0.0254;
+
+/// A speed (m/s) for a message the user reads: SI with knots beside it, "3.60 m/s (7.0 kn)".
+/// The core's messages reach both front ends as text, so they carry the trade's unit too.
+pub fn speed_words(speed: f64) -> String {
+    format!("{speed:.2} m/s ({:.1} kn)", speed / KNOT)
+}
+
+/// A screw length (m) for a message the user reads: metres with inches beside it,
+/// "0.457 m (18.0 in)".
+pub fn screw_length_words(length: f64) -> String {
+    format!("{length:.3} m ({:.1} in)", length / INCH)
+}
+
 /// The input or derived quantity a [`Warning`] is about, so a screen can place the warning
 /// beside the field it concerns without reading its words.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, serde::Serialize)]
@@ -155,5 +172,18 @@ impl Resolved {
     /// Whether the value was estimated rather than given.
     pub fn is_estimated(&self) -> bool {
         self.estimated_by.is_some()
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn message_words_carry_the_trades_units() {
+        // 1 kn = 1852/3600 m/s and 1 in = 0.0254 m, both exact (NIST SP 811, appendix B).
+        assert_eq!(speed_words(3.6), "3.60 m/s (7.0 kn)");
+        assert_eq!(speed_words(1852.0 / 3600.0 * 8.0), "4.12 m/s (8.0 kn)");
+        assert_eq!(screw_length_words(0.4572), "0.457 m (18.0 in)");
     }
 }

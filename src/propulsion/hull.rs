@@ -64,7 +64,12 @@ pub enum HullError {
     #[error("coefficient table damaged: {0}")]
     BadCoefficients(String),
     /// The speed lies outside the user resistance table.
-    #[error("speed {speed:.3} m/s is outside the resistance table ({min:.3}–{max:.3} m/s)")]
+    #[error(
+        "speed {} is outside the resistance table ({}–{})",
+        crate::propulsion::speed_words(*speed),
+        crate::propulsion::speed_words(*min),
+        crate::propulsion::speed_words(*max)
+    )]
     OutsideTable {
         /// The speed asked for, m/s.
         speed: f64,

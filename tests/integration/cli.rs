@@ -944,6 +944,11 @@ fn report_of_a_far_too_coarse_screw_says_why_once() {
     assert!(as_above >= 1, "{text}");
     // Once in the table (the first unsolved row) and once in the match line.
     assert!(reasons <= 2, "{text}");
+    // The speed in the reason carries knots beside m/s (1 kn = 1852/3600 m/s, NIST SP 811).
+    assert!(
+        text.contains("m/s (") && text.contains(" kn) with this screw"),
+        "{text}"
+    );
 }
 
 /// The pitch `pitch` recommends, written into the boat file as a variant, reads "matched" in

@@ -412,7 +412,10 @@ pub(super) fn search_pitch(
         Ok(f) => f,
         Err(e) => {
             return lost(
-                format!("the current pitch {:.4} m could not be solved: {e}", start),
+                format!(
+                    "the current pitch {} could not be solved: {e}",
+                    crate::propulsion::screw_length_words(start)
+                ),
                 evaluations,
             );
         }
@@ -439,10 +442,12 @@ pub(super) fn search_pitch(
             };
             return lost(
                 format!(
-                    "no pitch between P/D {:.2} and {:.2} meets the target: the {bound} searched pitch {:.3} m absorbs only {:.1} % of the target power",
+                    "no pitch between P/D {:.2} and {:.2} meets the target: the {bound} searched pitch {} absorbs {} {:.0} % of the target power",
                     options.min_pitch_ratio,
                     options.max_pitch_ratio,
-                    limit,
+                    crate::propulsion::screw_length_words(limit),
+                    // Short of the target only below 100 %; past it, still too much.
+                    if f_near < 0.0 { "only" } else { "still" },
                     (1.0 + f_near) * 100.0
                 ),
                 evaluations,
@@ -462,7 +467,10 @@ pub(super) fn search_pitch(
             }
             Err(e) => {
                 return lost(
-                    format!("pitch {next:.4} m could not be solved while bracketing: {e}"),
+                    format!(
+                        "pitch {} could not be solved while bracketing: {e}",
+                        crate::propulsion::screw_length_words(next)
+                    ),
                     evaluations,
                 );
             }

@@ -92,7 +92,8 @@ pub enum PointFailure {
     Resistance(#[from] crate::propulsion::hull::HullError),
     /// No advance ratio in (0, J at KT = 0) gives the required thrust loading.
     #[error(
-        "the screw cannot give {thrust:.0} N at {speed:.2} m/s: no advance ratio satisfies the thrust identity"
+        "the screw cannot give {thrust:.0} N at {}: no advance ratio satisfies the thrust identity",
+        crate::propulsion::speed_words(*speed)
     )]
     NoRoot {
         /// The boat speed, m/s.
@@ -101,7 +102,10 @@ pub enum PointFailure {
         thrust: f64,
     },
     /// The root finder ran out of iterations before converging.
-    #[error("thrust identity did not converge at {speed:.2} m/s after {iterations} iterations")]
+    #[error(
+        "thrust identity did not converge at {} after {iterations} iterations",
+        crate::propulsion::speed_words(*speed)
+    )]
     NotConverged {
         /// The boat speed, m/s.
         speed: f64,
@@ -122,7 +126,10 @@ pub enum PointFailure {
         expected: &'static str,
     },
     /// A result came out non-finite or with an impossible sign (a defect in a model's data).
-    #[error("{quantity} came out as {value} at {speed:.2} m/s, which is not physical")]
+    #[error(
+        "{quantity} came out as {value} at {}, which is not physical",
+        crate::propulsion::speed_words(*speed)
+    )]
     Unphysical {
         /// The boat speed, m/s.
         speed: f64,
@@ -139,8 +146,8 @@ pub enum PointFailure {
     Engine(#[from] crate::propulsion::engine::EngineError),
     /// No boat speed up to the largest considered turns the engine at the requested rpm.
     #[error(
-        "the engine does not reach {engine_rpm:.0} rpm at any speed up to {max_speed:.2} m/s \
-         with this screw"
+        "the engine does not reach {engine_rpm:.0} rpm at any speed up to {} with this screw",
+        crate::propulsion::speed_words(*max_speed)
     )]
     RpmOutOfReach {
         /// The engine rpm asked for.
