@@ -69,6 +69,12 @@ impl Display {
     }
 }
 
+/// `value` when it is a finite number; `None` for a missing or non-finite one (JSON never
+/// carries NaN).
+pub fn finite_or_none(value: Option<f64>) -> Option<f64> {
+    value.filter(|v| v.is_finite())
+}
+
 /// `fraction` as a percentage with `decimals` places ("—" when not finite).
 pub fn percent(fraction: f64, decimals: usize) -> String {
     if fraction.is_finite() {

@@ -13,10 +13,7 @@ use crate::propulsion::solver::trial::Calibration;
 use crate::study::Study;
 use crate::units::Kind;
 
-/// `value` when it is a finite number.
-pub fn finite_or_none(value: Option<f64>) -> Option<f64> {
-    value.filter(|v| v.is_finite())
-}
+pub use super::finite_or_none;
 
 /// One variant's recommendation in JSON.
 #[derive(Debug, Serialize)]

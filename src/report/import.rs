@@ -191,7 +191,7 @@ impl ImportJson {
             }) => (Vec::new(), rejected.clone(), *transients, 0),
             Err(_) => (Vec::new(), Vec::new(), 0, 0),
         };
-        let finite = |v: Option<f64>| v.filter(|x| x.is_finite());
+        let finite = super::finite_or_none;
         Self {
             file: imported.source.clone(),
             format: log.format,

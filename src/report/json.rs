@@ -18,15 +18,6 @@ pub fn to_string<T: Serialize>(value: &T) -> anyhow::Result<String> {
     Ok(text)
 }
 
-/// `value` if finite, otherwise an error naming `field`.
-pub fn finite(value: f64, field: &str) -> Result<f64, String> {
-    if value.is_finite() {
-        Ok(value)
-    } else {
-        Err(format!("{field} is not a finite number ({value})"))
-    }
-}
-
 /// The JSON document of the boat report (SI or named units, whatever the display system).
 impl BoatReport {
     /// The JSON document (SI or named units, whatever the display system).
@@ -305,13 +296,6 @@ pub struct MatchJson {
 #[cfg(test)]
 mod tests {
     use super::*;
-
-    #[test]
-    fn finite_rejects_nan_and_infinity() {
-        assert_eq!(finite(1.5, "kt"), Ok(1.5));
-        assert!(finite(f64::NAN, "kt").unwrap_err().contains("kt"));
-        assert!(finite(f64::INFINITY, "kq").is_err());
-    }
 
     #[test]
     fn output_ends_with_newline() {

@@ -55,9 +55,7 @@ pub struct CandidateJson {
     pub tie_with: Option<usize>,
 }
 
-fn finite(v: Option<f64>) -> Option<f64> {
-    v.filter(|x| x.is_finite())
-}
+use super::finite_or_none as finite;
 
 /// The JSON document of `shortlist`.
 pub fn shortlist_json(list: &Shortlist) -> ShortlistJson {

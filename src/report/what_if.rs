@@ -20,9 +20,7 @@ pub const OMITTED_MARK: &str = "†";
 /// The note of a row whose top speed (marked ≈) lies outside the resistance method's range.
 pub const UNRELIABLE_TOP_NOTE: &str = "≈ top speed unreliable: outside the method's range";
 
-fn finite(v: Option<f64>) -> Option<f64> {
-    v.filter(|x| x.is_finite())
-}
+use super::finite_or_none as finite;
 
 fn recommended(p: &Result<PitchRecommendation, String>) -> Option<f64> {
     p.as_ref().ok().and_then(|r| finite(r.recommended_pitch))

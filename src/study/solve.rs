@@ -181,7 +181,8 @@ fn finite(value: f64, field: &str) -> Result<f64, String> {
     if value.is_finite() {
         Ok(value)
     } else {
-        Err(format!("{field} is not a finite number ({value})"))
+        // Named, never printed: the screen and the report never show NaN.
+        Err(format!("{field} is not a finite number"))
     }
 }
 
@@ -487,6 +488,14 @@ impl Study {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn finite_rejects_nan_and_infinity_without_printing_them() {
+        assert_eq!(finite(1.5, "kt"), Ok(1.5));
+        let why = finite(f64::NAN, "kt").unwrap_err();
+        assert!(why.contains("kt") && !why.contains("NaN"), "{why}");
+        assert!(finite(f64::INFINITY, "kq").is_err());
+    }
 
     #[test]
     fn steps_run_from_idle_to_rated_on_round_numbers() {
