@@ -161,7 +161,7 @@ fn live_feed_shows_values_captures_runs_survives_a_drop_and_reconnects() {
 /// comes back (loopback only; skipped without tmux).
 #[test]
 fn tmux_live_feed_shows_values_and_reconnects() {
-    use super::tui::{KillServer, tmux_on, wait_for};
+    use super::tui::{start_session, tmux_on, wait_for};
     if std::process::Command::new("tmux")
         .arg("-V")
         .output()
@@ -189,26 +189,7 @@ fn tmux_live_feed_shows_values_and_reconnects() {
         "{bin} --profiles '{}' open pintle --nmea tcp://{address}; sleep 30",
         store.display()
     );
-    let started = tmux_on(
-        &session,
-        &[
-            "new-session",
-            "-d",
-            "-s",
-            &session,
-            "-x",
-            "140",
-            "-y",
-            "44",
-            &command,
-        ],
-    );
-    assert!(
-        started.status.success(),
-        "tmux: {}",
-        String::from_utf8_lossy(&started.stderr)
-    );
-    let _kill = KillServer(session.clone());
+    let _kill = start_session(&session, 140, 44, &command);
     let shown = wait_for(&session, 8.0, |t| {
         t.contains("Live: SOG") && t.contains("· model ")
     })

@@ -1021,6 +1021,32 @@ impl Drop for KillServer {
     }
 }
 
+/// Starts `command` in a detached tmux session `session` of `width`×`height` cells, and the
+/// guard that kills its server when the test ends.
+pub(crate) fn start_session(session: &str, width: u16, height: u16, command: &str) -> KillServer {
+    let (w, h) = (width.to_string(), height.to_string());
+    let started = tmux_on(
+        session,
+        &[
+            "new-session",
+            "-d",
+            "-s",
+            session,
+            "-x",
+            &w,
+            "-y",
+            &h,
+            command,
+        ],
+    );
+    assert!(
+        started.status.success(),
+        "tmux: {}",
+        String::from_utf8_lossy(&started.stderr)
+    );
+    KillServer(session.to_string())
+}
+
 /// Polls the pane until `pred` holds, for at most `seconds`.
 pub(crate) fn wait_for(
     session: &str,
@@ -1072,26 +1098,7 @@ fn tmux_open_change_pitch_save_quit() {
         "{bin} --profiles '{}' open marram; sleep 30",
         store.path().display()
     );
-    let started = tmux_on(
-        &session,
-        &[
-            "new-session",
-            "-d",
-            "-s",
-            &session,
-            "-x",
-            "100",
-            "-y",
-            "30",
-            &command,
-        ],
-    );
-    assert!(
-        started.status.success(),
-        "tmux: {}",
-        String::from_utf8_lossy(&started.stderr)
-    );
-    let _kill = KillServer(session.clone());
+    let _kill = start_session(&session, 100, 30, &command);
 
     let opened = wait_for(&session, 5.0, |t| {
         t.contains("Screw") && t.contains("At 7.0 kn")
@@ -1185,26 +1192,7 @@ fn tmux_what_if_view_shows_the_cruise_rpm_of_conditions_json() {
         "{bin} --profiles '{}' open marram; sleep 30",
         store.display()
     );
-    let started = tmux_on(
-        &session,
-        &[
-            "new-session",
-            "-d",
-            "-s",
-            &session,
-            "-x",
-            "100",
-            "-y",
-            "30",
-            &command,
-        ],
-    );
-    assert!(
-        started.status.success(),
-        "tmux: {}",
-        String::from_utf8_lossy(&started.stderr)
-    );
-    let _kill = KillServer(session.clone());
+    let _kill = start_session(&session, 100, 30, &command);
     match wait_for(&session, 5.0, |t| t.contains("At 7.0 kn")) {
         Ok(_) => {}
         Err(text) if cli_lacks_the_ui(&text) => {
@@ -1248,26 +1236,7 @@ fn tmux_sigterm_and_sighup_restore_the_terminal() {
             "{bin} --profiles '{}' open marram; echo EXIT=$?; stty -a | grep -o -- '-\\?icanon' | head -1; sleep 30",
             store.display()
         );
-        let started = tmux_on(
-            &session,
-            &[
-                "new-session",
-                "-d",
-                "-s",
-                &session,
-                "-x",
-                "100",
-                "-y",
-                "30",
-                &command,
-            ],
-        );
-        assert!(
-            started.status.success(),
-            "tmux: {}",
-            String::from_utf8_lossy(&started.stderr)
-        );
-        let _kill = KillServer(session.clone());
+        let _kill = start_session(&session, 100, 30, &command);
         match wait_for(&session, 5.0, |t| t.contains("At 7.0 kn")) {
             Ok(_) => {}
             Err(text) if cli_lacks_the_ui(&text) => {
