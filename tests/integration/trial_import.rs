@@ -68,25 +68,30 @@ fn write_log(dir: &tempfile::TempDir, name: &str, content: &[u8]) -> String {
     path.display().to_string()
 }
 
-#[test]
-fn import_recovers_each_run_pairs_them_and_fits_the_factor() {
-    let (dir, store, _) = store();
-    let log = pintle_log();
-    let file = write_log(&dir, "trial.nmea", log.nmea.as_bytes());
+/// `trial pintle --import FILE --format json` on `store`, which must succeed: its document.
+fn import_json(store: &str, file: &str) -> Value {
     let assert = tidewright()
         .args([
             "--profiles",
-            &store,
+            store,
             "trial",
             "pintle",
             "--import",
-            &file,
+            file,
             "--format",
             "json",
         ])
         .assert()
         .success();
-    let doc: Value = serde_json::from_slice(&assert.get_output().stdout).unwrap();
+    serde_json::from_slice(&assert.get_output().stdout).unwrap()
+}
+
+#[test]
+fn import_recovers_each_run_pairs_them_and_fits_the_factor() {
+    let (dir, store, _) = store();
+    let log = pintle_log();
+    let file = write_log(&dir, "trial.nmea", log.nmea.as_bytes());
+    let doc = import_json(&store, &file);
     let runs = doc["log"]["runs"].as_array().unwrap();
     assert_eq!(runs.len(), log.legs.len(), "{}", doc["log"]);
     assert_eq!(doc["log"]["pairs"], 3);
@@ -259,20 +264,7 @@ fn a_damaged_but_usable_log_is_fitted_with_its_bad_lines_counted() {
         })
         .collect();
     let file = write_log(&dir, "cut.nmea", text.join("\n").as_bytes());
-    let assert = tidewright()
-        .args([
-            "--profiles",
-            &store,
-            "trial",
-            "pintle",
-            "--import",
-            &file,
-            "--format",
-            "json",
-        ])
-        .assert()
-        .success();
-    let doc: Value = serde_json::from_slice(&assert.get_output().stdout).unwrap();
+    let doc = import_json(&store, &file);
     assert!(
         doc["log"]["lines"]["bad"]["missing_checksum"]
             .as_u64()
