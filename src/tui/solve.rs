@@ -108,7 +108,7 @@ impl Solution {
         let slope = rec
             .rpm_per_inch
             .filter(|s| s.is_finite())
-            .map(|s| format!("; {}/in", crate::report::boat::signed_rpm(s)))
+            .map(|s| format!("; {}/in", crate::report::text::signed_rpm(s)))
             .unwrap_or_default();
         let unreliable = if rec.in_method_range == Some(false) {
             " UNRELIABLE, a sea trial decides;"

@@ -6,7 +6,8 @@ use tidewright::propulsion::screw::{BSeriesScrew, ScrewGeometry, ScrewModel};
 use tidewright::propulsion::solver::matching::{DEFAULT_LIGHT_RUNNING, match_engine};
 use tidewright::propulsion::solver::pitch::{INCH, PitchOptions, recommend_pitch};
 use tidewright::propulsion::solver::{Variant, Verdict, Vessel};
-use tidewright::report::boat::{BoatReport, signed_rpm, verdict_words};
+use tidewright::report::model::BoatReport;
+use tidewright::report::text::{signed_rpm, verdict_words};
 use tidewright::tui::ui;
 
 fn demo_vessel(name: &str) -> Vessel {

@@ -575,7 +575,7 @@ fn demo_screw_variants_get_their_intended_verdicts() {
 /// 0.5–1.4, Oosterveld & van Oossanen 1975) loads, is warned about and its results are marked.
 #[test]
 fn a_screw_outside_the_bseries_range_loads_with_a_warning_and_marked_results() {
-    use tidewright::report::boat::BoatReport;
+    use tidewright::report::model::BoatReport;
     let path = fixtures().join("valid/boats/pitch-ratio-1.5.toml");
     let boat = store::load_boat_file(&path).expect("P/D 1.5 is physical");
     let engine = store::load_engine_file(&fixtures().join("valid/engines/small.toml")).unwrap();

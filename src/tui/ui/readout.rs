@@ -2,7 +2,7 @@
 
 use super::CAUTION;
 use crate::propulsion::solver::Verdict;
-use crate::report::boat::signed_rpm;
+use crate::report::text::signed_rpm;
 use crate::tui::app::{App, EditTarget};
 use crate::tui::edit;
 use crate::units::{self, Kind};
