@@ -13,7 +13,7 @@ use crate::propulsion::solver::trial::Calibration;
 use crate::study::Study;
 use crate::units::Kind;
 
-pub use super::finite_or_none;
+use super::finite_or_none;
 
 /// One variant's recommendation in JSON.
 #[derive(Debug, Serialize)]

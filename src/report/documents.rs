@@ -4,7 +4,8 @@
 use serde::Serialize;
 
 use super::checks::AppliedCalibration;
-use super::design::{PitchJson, finite_or_none};
+use super::design::PitchJson;
+use super::finite_or_none;
 use super::json::PointJson;
 use super::text::cruise_summary;
 use super::{CAUTION, Display, KNOT_MPS, LITRE_M3, NAUTICAL_MILE_M};
