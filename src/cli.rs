@@ -135,6 +135,25 @@ pub enum Command {
     Export(ExportArgs),
     /// Every candidate engine sheet and gear with its screw sized and pitched, ranked.
     Shortlist(shortlist::ShortlistArgs),
+    /// The hull's resistance curve: speed, Froude numbers, resistance and its parts,
+    /// effective power and the formula at each speed.
+    Resistance(ResistanceArgs),
+}
+
+/// Arguments of `resistance`.
+#[derive(Debug, Args)]
+pub struct ResistanceArgs {
+    /// A boat name in the profile store, or a path to a boat file.
+    pub boat: String,
+    /// Highest speed with its unit, e.g. 14kn (default: Froude number 1.0 on the waterline).
+    #[arg(long, value_name = "SPEED")]
+    pub to: Option<String>,
+    /// Speed step with its unit (default: 0.5kn).
+    #[arg(long, value_name = "SPEED")]
+    pub step: Option<String>,
+    /// Output format.
+    #[arg(long, value_enum, default_value_t = ReportFormat::Text)]
+    pub format: ReportFormat,
 }
 
 /// Arguments of `report`.
@@ -537,6 +556,7 @@ pub fn run(cli: Cli, out: &mut dyn Write) -> anyhow::Result<()> {
         Some(Command::Init) => store::init(&ctx, out),
         Some(Command::New(args)) => new::run(&ctx, &args, out),
         Some(Command::Openwater(args)) => openwater::run(&args, out),
+        Some(Command::Resistance(args)) => boat::resistance(&ctx, &args, out),
         Some(Command::Pitch(args)) => design::pitch(&ctx, &args, out),
         Some(Command::Sweep(args)) => design::sweep(&ctx, &args, out),
         Some(Command::Trial(args)) if args.import.is_some() => import::trial(&ctx, &args, out),

@@ -12,6 +12,7 @@ pub mod import;
 pub mod json;
 pub mod model;
 pub mod openwater;
+pub mod resistance;
 pub mod shortlist;
 pub mod svg;
 pub mod table;

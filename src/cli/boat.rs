@@ -41,6 +41,40 @@ pub fn report(ctx: &Context, args: &ReportArgs, out: &mut dyn Write) -> anyhow::
     Ok(())
 }
 
+/// `resistance BOAT [--to SPEED] [--step SPEED]`.
+pub fn resistance(
+    ctx: &Context,
+    args: &super::ResistanceArgs,
+    out: &mut dyn Write,
+) -> anyhow::Result<()> {
+    let speed = |text: &Option<String>, option: &str| -> anyhow::Result<Option<f64>> {
+        let Some(text) = text else { return Ok(None) };
+        let value =
+            units::parse(text, Kind::Speed).map_err(|e| UsageError(format!("{option}: {e}")))?;
+        if !(value.is_finite() && value > 0.0) {
+            return Err(UsageError(format!(
+                "{option}: expected a positive boat speed such as 12kn, got {text:?}"
+            ))
+            .into());
+        }
+        Ok(Some(value))
+    };
+    let (to, step) = (speed(&args.to, "--to")?, speed(&args.step, "--step")?);
+    let study = load_study(ctx, &args.boat)?;
+    let curve = study
+        .resistance_curve(to, step)
+        .map_err(|e| UsageError(format!("{}: {e}", study.vessel.name)))?;
+    use crate::report::resistance as writer;
+    let text = match args.format {
+        ReportFormat::Text => writer::text(&curve, study.units),
+        ReportFormat::Csv => writer::csv(&curve, study.units),
+        ReportFormat::Md => writer::markdown(&curve, study.units),
+        ReportFormat::Json => json::to_string(&writer::json(&curve))?,
+    };
+    out.write_all(text.as_bytes())?;
+    Ok(())
+}
+
 /// `cruise BOAT --speed S | --rpm N`.
 pub fn cruise(ctx: &Context, args: &CruiseArgs, out: &mut dyn Write) -> anyhow::Result<()> {
     let study = load_study(ctx, &args.boat)?;

@@ -5,11 +5,13 @@ pub mod holtrop;
 pub mod interaction;
 pub mod oortmerssen;
 pub mod particulars;
+pub mod regime;
 pub mod resistance;
 pub mod selection;
 
 pub use interaction::{Interaction, InteractionMethod};
 pub use particulars::{HullForm, HullInput};
+pub use regime::{CurveShape, Regime};
 pub use resistance::{
     AirDrag, Margins, ResistanceComponents, ResistanceMethod, ResistanceModel, ResistanceTable,
     SpeedValidity,

@@ -101,27 +101,27 @@ fn engine() -> EngineSheet {
 fn vessel_with(pitches: &[f64]) -> Vessel {
     Vessel {
         name: "fixture cruiser".into(),
-        resistance: ResistanceModel {
-            hull: hull(13.0).resolve().expect("fixture hull"),
-            method: ResistanceMethod::HoltropMennen,
+        resistance: ResistanceModel::new(
+            hull(13.0).resolve().expect("fixture hull"),
+            ResistanceMethod::HoltropMennen,
             // Sea water at 15 °C (ITTC 7.5-02-01-03 table values).
-            water: WaterProperties {
+            WaterProperties {
                 density: 1025.9,
                 kinematic_viscosity: 1.1892e-6,
                 vapour_pressure: 1705.0,
             },
-            air: Some(AirDrag {
+            Some(AirDrag {
                 air_density: 1.225,
                 drag_coefficient: 0.8,
                 frontal_area: 6.0,
                 headwind: 0.0,
             }),
-            margins: Margins {
+            Margins {
                 service: 0.15,
                 fouling: 0.0,
                 resistance_factor: 1.0,
             },
-        },
+        ),
         interaction: InteractionMethod::Holtrop1984SingleScrew,
         method_choice: None,
         interaction_follows_method: false,

@@ -190,22 +190,22 @@ fn wave_branches_join_without_a_jump_on_a_small_boat() {
 }
 
 fn model(method: ResistanceMethod) -> ResistanceModel {
-    ResistanceModel {
-        hull: motorboat().resolve().unwrap(),
+    ResistanceModel::new(
+        motorboat().resolve().unwrap(),
         method,
-        water: example_water(),
-        air: Some(AirDrag {
+        example_water(),
+        Some(AirDrag {
             air_density: 1.225,
             drag_coefficient: 0.8,
             frontal_area: 6.0,
             headwind: 2.0,
         }),
-        margins: Margins {
+        Margins {
             service: 0.15,
             fouling: 0.2,
             resistance_factor: 1.1,
         },
-    }
+    )
 }
 
 #[test]
@@ -246,11 +246,9 @@ fn components_sum_to_total_with_margins_and_air() {
     }
     // Margins by hand: the factor on calm water, then fouling on the calibrated friction and
     // service on calibrated calm water + air (issue 9; docs/method.md §2.4).
-    let bare = ResistanceModel {
-        air: None,
-        margins: Margins::default(),
-        ..m.clone()
-    };
+    let mut bare = m.clone();
+    bare.air = None;
+    bare.margins = Margins::default();
     let v = 3.0;
     let (b, r) = (bare.resistance(v).unwrap(), m.resistance(v).unwrap());
     let air = 0.5 * 1.225 * 0.8 * 6.0 * (v + 2.0) * (v + 2.0);
@@ -263,32 +261,32 @@ fn resistance_table_is_interpolated_and_guarded() {
     let table = ResistanceTable {
         rows: vec![(1.0, 500.0), (2.0, 1800.0), (3.0, 4200.0)],
     };
-    let m = ResistanceModel {
-        air: None,
-        margins: Margins::default(),
-        ..model(ResistanceMethod::Table(table))
-    };
+    let mut m = model(ResistanceMethod::Table(table));
+    m.air = None;
+    m.margins = Margins::default();
     assert_close!(m.resistance(2.5).unwrap().total, 3000.0, 1e-12);
     assert_close!(m.resistance(1.0).unwrap().total, 500.0, 1e-12);
-    assert!(matches!(
-        m.resistance(3.5),
-        Err(HullError::OutsideTable { .. })
-    ));
+    // Past the last row the curve is continued with the last segment's log-slope
+    // ln(4200/1800)/ln(3/2), as a power law; below the first row as V².
+    let slope = (4200.0_f64 / 1800.0).ln() / 1.5_f64.ln();
+    assert_close!(
+        m.resistance(3.5).unwrap().total,
+        4200.0 * (3.5_f64 / 3.0).powf(slope),
+        1e-12
+    );
+    assert_close!(m.resistance(0.5).unwrap().total, 500.0 * 0.25, 1e-12);
+    assert!(!m.validity_at(3.5).in_method_range);
+    assert!(m.validity_at(2.5).in_method_range);
+    assert!(m.warnings_at(3.5)[0].message.contains("continued"));
     let unsorted = ResistanceTable {
         rows: vec![(1.0, 500.0), (1.0, 600.0)],
     };
-    let m2 = ResistanceModel {
-        method: ResistanceMethod::Table(unsorted),
-        ..m.clone()
-    };
+    let m2 = m.clone().with_method(ResistanceMethod::Table(unsorted));
     assert!(matches!(m2.resistance(1.0), Err(HullError::BadTable(_))));
     let short = ResistanceTable {
         rows: vec![(1.0, 500.0)],
     };
-    let m3 = ResistanceModel {
-        method: ResistanceMethod::Table(short),
-        ..m
-    };
+    let m3 = m.with_method(ResistanceMethod::Table(short));
     let err = m3.resistance(1.0).unwrap_err();
     assert!(err.to_string().contains("at least two rows"), "{err}");
 }

@@ -50,13 +50,7 @@ fn both_ranges_hull() -> HullForm {
 }
 
 fn model(hull: HullForm, method: ResistanceMethod) -> ResistanceModel {
-    ResistanceModel {
-        hull,
-        method,
-        water: sea(),
-        air: None,
-        margins: Margins::default(),
-    }
+    ResistanceModel::new(hull, method, sea(), None, Margins::default())
 }
 
 fn speed_at(hull: &HullForm, fn_l: f64) -> f64 {

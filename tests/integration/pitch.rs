@@ -27,7 +27,9 @@ fn boats() -> Vec<(String, Vessel)> {
     geared.installation.gear_ratio = 2.5;
     out.push(("marram at 2.5:1".into(), geared));
     let mut heavy = demo_vessel("sorrel");
-    heavy.resistance.hull.input.displacement_volume *= 1.3;
+    let mut hull = heavy.resistance.hull.clone();
+    hull.input.displacement_volume *= 1.3;
+    heavy.resistance = heavy.resistance.with_hull(hull);
     out.push(("sorrel +30 %".into(), heavy));
     out
 }

@@ -50,12 +50,18 @@ fn twin_with_twice_the_resistance_runs_each_screw_like_the_single() {
         relative_rotative_efficiency: 1.01,
     });
     single.interaction = users;
-    single.resistance.method = ResistanceMethod::Table(ResistanceTable { rows: rows.clone() });
+    single.resistance = single
+        .resistance
+        .with_method(ResistanceMethod::Table(ResistanceTable {
+            rows: rows.clone(),
+        }));
     let mut double = single.clone();
     double.installation.shafts = 2;
-    double.resistance.method = ResistanceMethod::Table(ResistanceTable {
-        rows: rows.iter().map(|&(v, r)| (v, 2.0 * r)).collect(),
-    });
+    double.resistance = double
+        .resistance
+        .with_method(ResistanceMethod::Table(ResistanceTable {
+            rows: rows.iter().map(|&(v, r)| (v, 2.0 * r)).collect(),
+        }));
     let close = |a: f64, b: f64| (a - b).abs() <= 1e-9 * a.abs();
     for speed in [1.5, 2.5, 3.3, 4.1] {
         let one = solve_point(&single.active_system(), speed).unwrap();

@@ -75,17 +75,17 @@ impl BoatDoc {
             headwind: w.headwind.as_ref().map_or(0.0, |q| q.value),
         });
         let calibration = self.calibration.as_ref();
-        let resistance = ResistanceModel {
+        let resistance = ResistanceModel::new(
             hull,
             method,
             water,
             air,
-            margins: Margins {
+            Margins {
                 service: self.resistance.service_margin,
                 fouling: self.resistance.fouling,
                 resistance_factor: calibration.map_or(1.0, |c| c.resistance_factor),
             },
-        };
+        );
         let interaction_follows = matches!(self.interaction, InteractionDoc::Auto);
         let mut interaction = match self.interaction {
             InteractionDoc::Auto => {

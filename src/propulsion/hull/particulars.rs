@@ -228,6 +228,11 @@ impl HullForm {
         speed / (STANDARD_GRAVITY * self.input.length_waterline).sqrt()
     }
 
+    /// The speed at length Froude number `froude`, m/s (the inverse of `froude_number`).
+    pub fn speed_at_froude(&self, froude: f64) -> f64 {
+        froude * (STANDARD_GRAVITY * self.input.length_waterline.max(0.0)).sqrt()
+    }
+
     /// Holtrop & Mennen (1982) length of run LR = L·(1 − Cp + 0.06·Cp·lcb/(4·Cp − 1)), m.
     ///
     /// Floored at 5 % of L: combinations of a far-aft LCB and a full Cp drive the regression

@@ -1,11 +1,11 @@
 //! The resistance model of a boat: a method, air drag and margins, evaluated at any speed.
 
-use super::friction::{ittc1957_friction_coefficient, reynolds_number};
 use super::holtrop::{self, Edition};
-use super::oortmerssen::{self, OortmerssenCoefficients};
+use super::oortmerssen;
+use super::regime::{self, CurveShape, Regime};
 use super::{HullError, HullForm};
 use crate::propulsion::water::WaterProperties;
-use crate::propulsion::{Subject, Warning};
+use crate::propulsion::{STANDARD_GRAVITY, Subject, Warning};
 
 /// Resistance at one speed split into its components, all in newtons.
 #[derive(Debug, Clone, Copy, PartialEq, Default, serde::Serialize)]
@@ -86,6 +86,11 @@ impl Default for Margins {
 }
 
 /// Everything needed to evaluate a boat's resistance at any speed.
+///
+/// Built by [`ResistanceModel::new`], which also finds the shape of the physical curve
+/// (hand-over and continuation, [`CurveShape`]); a new hull, method or water goes through
+/// [`ResistanceModel::with_hull`], [`ResistanceModel::with_method`] or
+/// [`ResistanceModel::with_water`] so the shape follows.
 #[derive(Debug, Clone, PartialEq, serde::Serialize)]
 pub struct ResistanceModel {
     /// The resolved hull.
@@ -98,6 +103,9 @@ pub struct ResistanceModel {
     pub air: Option<AirDrag>,
     /// Margins and calibration.
     pub margins: Margins,
+    /// Where the method hands over and where the continuation starts, found once.
+    #[serde(skip)]
+    shape: CurveShape,
 }
 
 impl ResistanceTable {
@@ -218,7 +226,17 @@ pub struct SpeedValidity {
     pub froude_in_range: bool,
     /// Whether the speed/length ratio is at or below the limit (true without a limit).
     pub speed_length_in_range: bool,
-    /// Both: the prediction at this speed is within the method's range and the displacement regime.
+    /// Which formula gives the resistance at this speed (the method, a hand-over, Holtrop
+    /// 1984 past the method, or the power-law continuation).
+    pub regime: Regime,
+    /// That formula in a few words ("van Oortmerssen", "power-law continuation", …).
+    pub regime_words: &'static str,
+    /// Exponent n of the continuation R ∝ Vⁿ when `regime` is the continuation (dimensionless).
+    pub continuation_exponent: Option<f64>,
+    /// Froude number on volume V/√(g·∇^⅓) at the speed (dimensionless).
+    pub froude_volume: f64,
+    /// All three: the prediction at this speed comes from the method itself, within its
+    /// range and the displacement regime.
     pub in_method_range: bool,
 }
 
@@ -248,7 +266,36 @@ impl SpeedValidity {
                 self.speed_length_ratio
             ));
         }
+        if let Some(regime) = self.regime_phrase() {
+            parts.push(regime);
+        }
         Some(parts.join("; "))
+    }
+
+    /// What gives the resistance here when it is not the method itself, as a phrase
+    /// ("resistance continued as R ∝ V^2.4, an extrapolation"); `None` for the method.
+    pub fn regime_phrase(&self) -> Option<String> {
+        match self.regime {
+            Regime::Method => None,
+            Regime::Bridge => Some(
+                "the method's curve hollows here and is carried across by a rising power law"
+                    .to_owned(),
+            ),
+            Regime::HandOver => Some(format!(
+                "resistance handed over to Holtrop (1984) between Fn {:.2} and {:.2}",
+                regime::HAND_OVER_START,
+                regime::HAND_OVER_START + regime::HAND_OVER_WIDTH
+            )),
+            Regime::Holtrop1984 => Some(format!(
+                "resistance from Holtrop (1984)'s high-speed branch (published to Fn {:.1})",
+                regime::HOLTROP_1984_FROUDE_MAX
+            )),
+            Regime::Continuation => Some(format!(
+                "resistance continued as R ∝ V^{:.1} past the methods' reach, an extrapolation",
+                self.continuation_exponent
+                    .unwrap_or(regime::MIN_CONTINUATION_EXPONENT)
+            )),
+        }
     }
 }
 
@@ -266,6 +313,45 @@ pub fn speed_length_limit(displacement_length: f64) -> f64 {
 }
 
 impl ResistanceModel {
+    /// The model of `hull` by `method` in `water`, with `air` drag and `margins`.
+    pub fn new(
+        hull: HullForm,
+        method: ResistanceMethod,
+        water: WaterProperties,
+        air: Option<AirDrag>,
+        margins: Margins,
+    ) -> Self {
+        let shape = CurveShape::new(&hull, &method, &water);
+        Self {
+            hull,
+            method,
+            water,
+            air,
+            margins,
+            shape,
+        }
+    }
+
+    /// The same model on another hull (a new load, say); the curve's shape is found anew.
+    pub fn with_hull(self, hull: HullForm) -> Self {
+        Self::new(hull, self.method, self.water, self.air, self.margins)
+    }
+
+    /// The same model by another method; the curve's shape is found anew.
+    pub fn with_method(self, method: ResistanceMethod) -> Self {
+        Self::new(self.hull, method, self.water, self.air, self.margins)
+    }
+
+    /// The same model in other water; the curve's shape is found anew.
+    pub fn with_water(self, water: WaterProperties) -> Self {
+        Self::new(self.hull, self.method, water, self.air, self.margins)
+    }
+
+    /// The shape of the physical curve: hand-over window and continuation.
+    pub fn shape(&self) -> &CurveShape {
+        &self.shape
+    }
+
     /// The same model for a calm sea and a clean hull: service margin and fouling at zero, the
     /// sea-trial factor kept. A trial is fitted and compared on this model; the margins are
     /// allowances that go on top of it for predictions.
@@ -312,6 +398,8 @@ impl ResistanceModel {
         });
         let speed_length_in_range =
             speed_length_limit.is_none_or(|limit| speed_length_ratio <= limit);
+        let regime = self.shape.regime_at(&self.hull, speed);
+        let volume_length = self.hull.input.displacement_volume.max(0.0).cbrt();
         SpeedValidity {
             froude,
             froude_range,
@@ -319,7 +407,15 @@ impl ResistanceModel {
             speed_length_limit,
             froude_in_range,
             speed_length_in_range,
-            in_method_range: froude.is_finite() && froude_in_range && speed_length_in_range,
+            regime,
+            regime_words: regime.words(&self.method),
+            continuation_exponent: (regime == Regime::Continuation)
+                .then_some(self.shape.continuation_exponent),
+            froude_volume: speed / (STANDARD_GRAVITY * volume_length).sqrt(),
+            in_method_range: froude.is_finite()
+                && froude_in_range
+                && speed_length_in_range
+                && !regime.is_extrapolation(),
         }
     }
 
@@ -331,7 +427,9 @@ impl ResistanceModel {
     /// calibrated friction) and the service margin (service × (calibrated calm water + air)).
     /// For a table, `friction` is the ITTC-1957 friction
     /// of the resolved wetted surface (form factor 1) and `wave` the rest of the table's value
-    /// (the residuary resistance). No allocation.
+    /// (the residuary resistance). The calm water follows the physical curve of
+    /// [`CurveShape`]: past the method's reach the hand-over and the continuation, where
+    /// `wave` holds all but the viscous parts. No allocation.
     pub fn resistance(&self, speed: f64) -> Result<ResistanceComponents, HullError> {
         if !speed.is_finite() || speed < 0.0 {
             return Err(HullError::InvalidSpeed(speed));
@@ -346,46 +444,9 @@ impl ResistanceModel {
                 ..Default::default()
             });
         }
-        let mut parts = match &self.method {
-            ResistanceMethod::HoltropMennen => {
-                let r = self
-                    .hull
-                    .holtrop_coefficients()
-                    .at_speed(speed, &self.water);
-                ResistanceComponents {
-                    friction: r.friction,
-                    form_factor: r.form_factor,
-                    appendages: r.appendages,
-                    wave: r.wave,
-                    bulb: r.bulb,
-                    transom: r.transom,
-                    correlation: r.correlation,
-                    ..Default::default()
-                }
-            }
-            ResistanceMethod::VanOortmerssen => {
-                let coefficients = OortmerssenCoefficients::new(&self.hull)?;
-                let r = oortmerssen::at_speed(&self.hull, &coefficients, speed, &self.water);
-                ResistanceComponents {
-                    friction: r.friction,
-                    form_factor: 1.0,
-                    appendages: r.appendages,
-                    wave: r.residuary,
-                    correlation: r.correlation,
-                    ..Default::default()
-                }
-            }
-            ResistanceMethod::Table(table) => {
-                let tabulated = table.interpolate(speed)?;
-                let friction = self.ittc_friction(speed);
-                ResistanceComponents {
-                    friction,
-                    form_factor: 1.0,
-                    wave: tabulated - friction,
-                    ..Default::default()
-                }
-            }
-        };
+        let mut parts = self
+            .shape
+            .components(&self.hull, &self.method, &self.water, speed)?;
         // The sea-trial factor calibrates the calm, clean-hull water resistance only; air drag
         // is computed from the windage, and fouling and the service margin go on top of the
         // calibrated resistance, so a factor fitted on a calm clean model (trial.rs) is never
@@ -401,23 +462,11 @@ impl ResistanceModel {
         ] {
             *force *= factor;
         }
-        let calm_water = parts.friction * parts.form_factor
-            + parts.appendages
-            + parts.wave
-            + parts.bulb
-            + parts.transom
-            + parts.correlation;
+        let calm_water = regime::calm_total(&parts);
         parts.air = self.air.map_or(0.0, |air| air.force(speed));
         parts.margin =
             self.margins.fouling * parts.friction + self.margins.service * (calm_water + parts.air);
-        parts.total = parts.friction * parts.form_factor
-            + parts.appendages
-            + parts.wave
-            + parts.bulb
-            + parts.transom
-            + parts.correlation
-            + parts.air
-            + parts.margin;
+        parts.total = calm_water + parts.air + parts.margin;
         Ok(parts)
     }
 
@@ -478,13 +527,26 @@ impl ResistanceModel {
                 warnings.extend(oortmerssen::froude_warning(self.hull.froude_number(speed)));
             }
             ResistanceMethod::Table(table) => match table.interpolate(speed) {
+                Err(HullError::OutsideTable { .. }) => warnings.push(Warning::about(
+                    Subject::ResistanceTable,
+                    SOURCE,
+                    format!(
+                        "{} is outside the resistance table's speeds; the resistance there is continued as R ∝ V^{:.1}, an extrapolation",
+                        crate::propulsion::speed_words(speed),
+                        if speed > table.rows[table.rows.len() - 1].0 {
+                            self.shape.continuation_exponent
+                        } else {
+                            2.0
+                        }
+                    ),
+                )),
                 Err(e) => warnings.push(Warning::about(
                     Subject::ResistanceTable,
                     SOURCE,
                     e.to_string(),
                 )),
                 Ok(tabulated) => {
-                    let friction = self.ittc_friction(speed);
+                    let friction = regime::ittc_friction(&self.hull, &self.water, speed);
                     if speed > 0.0 && tabulated < friction {
                         warnings.push(Warning::about(
                             Subject::ResistanceTable,
@@ -499,20 +561,6 @@ impl ResistanceModel {
             },
         }
         warnings
-    }
-
-    /// ITTC-1957 frictional resistance of the resolved bare hull at `speed` m/s, N.
-    fn ittc_friction(&self, speed: f64) -> f64 {
-        let rn = reynolds_number(
-            speed,
-            self.hull.input.length_waterline,
-            self.water.kinematic_viscosity,
-        );
-        0.5 * self.water.density
-            * speed
-            * speed
-            * self.hull.wetted_surface.value
-            * ittc1957_friction_coefficient(rn)
     }
 }
 

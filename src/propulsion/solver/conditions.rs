@@ -192,10 +192,11 @@ impl Condition {
             if let Some(s) = input.wetted_surface {
                 input.wetted_surface = Some(s * (volume / old).powf(2.0 / 3.0));
             }
-            out.resistance.hull = input.resolve().map_err(|source| ConditionError::Hull {
+            let hull = input.resolve().map_err(|source| ConditionError::Hull {
                 label: self.label.clone(),
                 source,
             })?;
+            out.resistance = out.resistance.with_hull(hull);
         }
         if let Some(fouling) = self.fouling {
             if !(fouling.is_finite() && (0.0..=3.0).contains(&fouling)) {

@@ -139,9 +139,11 @@ pub struct MatchResult {
 }
 
 /// The largest boat speed any search here considers, as a length Froude number
-/// V/√(g·LWL). Displacement hulls live below about Fn 0.5 (common practice); 1.0 leaves room
-/// for a light boat with a big engine while keeping the search bounded.
-pub const MAX_FROUDE_NUMBER: f64 = 1.0;
+/// V/√(g·LWL). Displacement hulls live below about Fn 0.5 (common practice) and
+/// semi-displacement ones below about 1.0; the resistance curve rises at every speed
+/// (`hull::regime`), so the searches go on to 2.0 — where the screw, not the hull, decides
+/// whether an rpm is reached — while staying bounded.
+pub const MAX_FROUDE_NUMBER: f64 = 2.0;
 
 /// Froude number of the first probe when bracketing a speed (about hull speed).
 const FIRST_PROBE_FROUDE_NUMBER: f64 = 0.3;

@@ -77,7 +77,7 @@ impl Vessel {
             other.interaction =
                 InteractionMethod::paired_with_shafts(&alternative, self.installation.shafts);
         }
-        other.resistance.method = alternative.clone();
+        other.resistance = other.resistance.with_method(alternative.clone());
         other.method_choice = None;
         Some(other)
     }

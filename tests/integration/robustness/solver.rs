@@ -227,18 +227,18 @@ fn boat(
                 let (drag_coefficient, frontal_share, headwind) = air.unwrap_or((0.0, 0.0, 0.0));
                 let beam = hull.input.beam_waterline;
                 Boat {
-                    resistance: ResistanceModel {
-                        method: ResistanceMethod::HoltropMennen,
+                    resistance: ResistanceModel::new(
+                        hull,
+                        ResistanceMethod::HoltropMennen,
                         water,
-                        air: air.map(|_| AirDrag {
+                        air.map(|_| AirDrag {
                             air_density: 1.225,
                             drag_coefficient,
                             frontal_area: frontal_share * beam * beam * 2.0,
                             headwind,
                         }),
                         margins,
-                        hull,
-                    },
+                    ),
                     interaction,
                     screw: ScrewModel::BSeries(
                         BSeriesScrew::new(geometry).expect("generated screws are physical"),
