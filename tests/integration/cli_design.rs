@@ -593,3 +593,167 @@ fn the_exported_speed_chart_shows_the_curve_before_and_after_the_fit() {
     assert!(fitted.contains("before the sea-trial fit"), "{fitted}");
     assert!(fitted.contains("sea trial (speed over ground)"));
 }
+
+/// A temporary store with the demo engine sheets and the heavy short hull of
+/// `tests/fixtures/past-hull-speed/hefty.toml` (invented: 9.2 m waterline, 11.5 t, L/B 2.7).
+fn past_hull_speed_store() -> tempfile::TempDir {
+    let dir = tempfile::tempdir().unwrap();
+    let demo = tidewright::profile::Store::at("/nonexistent");
+    std::fs::create_dir_all(dir.path().join("engines")).unwrap();
+    std::fs::create_dir_all(dir.path().join("boats")).unwrap();
+    for name in demo.list_engines().unwrap() {
+        let text = demo.load_engine(&name).unwrap().doc.to_toml();
+        std::fs::write(dir.path().join(format!("engines/{name}.toml")), text).unwrap();
+    }
+    std::fs::copy(
+        concat!(
+            env!("CARGO_MANIFEST_DIR"),
+            "/tests/fixtures/past-hull-speed/hefty.toml"
+        ),
+        dir.path().join("boats/hefty.toml"),
+    )
+    .unwrap();
+    dir
+}
+
+/// Past hull speed every demo engine gets an answer on the heavy short hull: `pitch` gives a
+/// pitch or a reason of the screw's own (P/D past the series' range), top speed rises with
+/// rated power, and no two neighbouring rpm rows differ in speed by more than about 10 %.
+#[test]
+fn past_hull_speed_every_engine_gets_an_answer_and_speed_rises_with_power() {
+    let dir = past_hull_speed_store();
+    let store = dir.path().display().to_string();
+    let demo = tidewright::profile::Store::at("/nonexistent");
+    let mut tops = Vec::new();
+    for engine in demo.list_engines().unwrap() {
+        let boat = dir.path().join("boats/hefty.toml");
+        let text = std::fs::read_to_string(concat!(
+            env!("CARGO_MANIFEST_DIR"),
+            "/tests/fixtures/past-hull-speed/hefty.toml"
+        ))
+        .unwrap();
+        let text = text.replace(
+            "engine = \"quellan-qd90\"",
+            &format!("engine = \"{engine}\""),
+        );
+        std::fs::write(&boat, text).unwrap();
+        let out = tidewright()
+            .args(["--profiles", &store, "report", "hefty", "--format", "json"])
+            .assert()
+            .success();
+        let doc: serde_json::Value = serde_json::from_slice(&out.get_output().stdout).unwrap();
+        let variant = &doc["variants"][0];
+        let top = variant["match"]["top_speed_kn"]
+            .as_f64()
+            .expect("a top speed");
+        let rated = doc["engine"]["rated_kw"].as_f64().expect("rated power");
+        tops.push((rated, top));
+        // (engine rpm, speed kn) of each row; speed follows rpm about in proportion, so a
+        // row's speed may rise by at most ~10 % more than its rpm did.
+        let rows: Vec<(f64, f64)> = variant["points"]
+            .as_array()
+            .unwrap()
+            .iter()
+            .filter_map(|p| Some((p["engine_rpm"].as_f64()?, p["speed_kn"].as_f64()?)))
+            .collect();
+        assert!(rows.len() >= 5, "{engine}: {rows:?}");
+        for pair in rows.windows(2) {
+            let ((n0, v0), (n1, v1)) = (pair[0], pair[1]);
+            assert!(
+                v1 > v0 && v1 / v0 <= 1.10 * n1 / n0,
+                "{engine}: rows jump from {v0} kn at {n0} rpm to {v1} kn at {n1} rpm"
+            );
+        }
+        let pitch = tidewright()
+            .args(["--profiles", &store, "pitch", "hefty"])
+            .assert()
+            .success();
+        let text = String::from_utf8_lossy(&pitch.get_output().stdout).to_string();
+        assert!(
+            text.contains("recommended pitch") || text.contains("no pitch between P/D"),
+            "{engine}: {text}"
+        );
+        assert!(!text.contains("at any speed up to"), "{engine}: {text}");
+    }
+    tops.sort_by(|a, b| a.0.total_cmp(&b.0));
+    for pair in tops.windows(2) {
+        assert!(pair[1].1 > pair[0].1, "top speed by rated power: {tops:?}");
+    }
+    // The shortlist ranks every engine × gear with a pitch: none reads "no pitch".
+    let out = tidewright()
+        .args(["--profiles", &store, "shortlist", "hefty"])
+        .assert()
+        .success();
+    let text = String::from_utf8_lossy(&out.get_output().stdout).to_string();
+    assert!(!text.contains("no pitch"), "{text}");
+}
+
+/// `resistance` rises on a dense grid up to Fn 1.0 for every demo boat, names the formula at
+/// each speed, and carries the fields of its JSON.
+#[test]
+fn resistance_rises_for_every_demo_boat_and_names_its_formula() {
+    let dir = past_hull_speed_store();
+    let store = dir.path().display().to_string();
+    for boat in ["marram", "pintle", "samphire", "sorrel", "hefty"] {
+        let args: Vec<&str> = if boat == "hefty" {
+            vec![
+                "--profiles",
+                &store,
+                "resistance",
+                boat,
+                "--step",
+                "0.1kn",
+                "--format",
+                "json",
+            ]
+        } else {
+            vec!["resistance", boat, "--step", "0.1kn", "--format", "json"]
+        };
+        let out = tidewright().args(&args).assert().success();
+        let doc: serde_json::Value = serde_json::from_slice(&out.get_output().stdout).unwrap();
+        let points = doc["points"].as_array().unwrap();
+        let last = points.last().unwrap();
+        assert!(
+            (last["froude"].as_f64().unwrap() - 1.0).abs() < 1e-6,
+            "{boat}"
+        );
+        let mut previous = (0.0, 0.0);
+        for p in points {
+            for field in [
+                "speed_kn",
+                "froude",
+                "froude_volume",
+                "speed_length",
+                "resistance_n",
+                "effective_kw",
+            ] {
+                assert!(
+                    p[field].as_f64().is_some_and(f64::is_finite),
+                    "{boat}: {field} in {p}"
+                );
+            }
+            assert!(
+                p["method"].is_string() && p["in_method_range"].is_boolean(),
+                "{p}"
+            );
+            let (r, pe) = (
+                p["resistance_n"].as_f64().unwrap(),
+                p["effective_kw"].as_f64().unwrap(),
+            );
+            assert!(r > previous.0 && pe > previous.1, "{boat}: falls at {p}");
+            previous = (r, pe);
+        }
+        // Past every method's reach the rows say so.
+        assert!(!last["in_method_range"].as_bool().unwrap(), "{boat}");
+        assert!(
+            last["method"].as_str().unwrap().contains("continuation"),
+            "{boat}: {last}"
+        );
+    }
+    // A speed past the solver's reach is refused with the limit named.
+    let out = tidewright()
+        .args(["resistance", "marram", "--to", "90kn"])
+        .assert()
+        .failure();
+    assert!(String::from_utf8_lossy(&out.get_output().stderr).contains("Fn 2"));
+}
