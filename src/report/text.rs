@@ -367,8 +367,13 @@ fn point_note(c: &CruisePoint) -> String {
         notes.push("past full load: not reachable".to_string());
     }
     if !c.point.in_method_range {
+        let regime = if c.point.regime.is_extrapolation() {
+            format!("; {}", c.point.regime.phrase())
+        } else {
+            String::new()
+        };
         notes.push(format!(
-            "unreliable: outside the method's range (Fn {:.2})",
+            "unreliable: outside the method's range (Fn {:.2}{regime})",
             c.point.froude
         ));
     }

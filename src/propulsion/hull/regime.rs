@@ -54,6 +54,17 @@ impl Regime {
         }
     }
 
+    /// The regime as a short phrase for a table row's note ("power-law continuation").
+    pub fn phrase(self) -> &'static str {
+        match self {
+            Regime::Method => "the method",
+            Regime::HandOver => "hand-over to Holtrop 1984",
+            Regime::Holtrop1984 => "Holtrop 1984 past the method",
+            Regime::Bridge => "bridged hollow",
+            Regime::Continuation => "power-law continuation",
+        }
+    }
+
     /// Whether the regime is an extrapolation past the model's own method (a bridge repairs
     /// the method's own curve and is not).
     pub fn is_extrapolation(self) -> bool {

@@ -98,6 +98,7 @@ mod tests {
             fuel_volume_flow_per_engine: 0.0,
             froude: 0.0,
             in_method_range: true,
+            regime: crate::propulsion::hull::Regime::Method,
         }
     }
 

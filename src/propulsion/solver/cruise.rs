@@ -164,6 +164,7 @@ mod tests {
             fuel_volume_flow_per_engine: flow,
             froude: 0.0,
             in_method_range: true,
+            regime: crate::propulsion::hull::Regime::Method,
         }
     }
 

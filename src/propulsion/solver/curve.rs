@@ -132,5 +132,12 @@ fn interpolate(low: &OperatingPoint, high: &OperatingPoint, fraction: f64) -> Op
         froude: mix(low.froude, high.froude),
         // Between a valid and an invalid point only the valid side's own speed is vouched for.
         in_method_range: low.in_method_range && high.in_method_range,
+        // The farther-out formula of the two, so an interpolated point is never called the
+        // method's own when one end is not.
+        regime: if high.regime.is_extrapolation() {
+            high.regime
+        } else {
+            low.regime
+        },
     }
 }

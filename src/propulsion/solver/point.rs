@@ -79,6 +79,9 @@ pub struct OperatingPoint {
     ///
     /// [`ResistanceModel::validity_at`]: crate::propulsion::hull::ResistanceModel::validity_at
     pub in_method_range: bool,
+    /// Which formula gave the resistance at this speed (`Method` when solved without a hull
+    /// model).
+    pub regime: crate::propulsion::hull::Regime,
 }
 
 /// Why a point could not be solved. Every failure carries its reason to the screen.
@@ -416,6 +419,7 @@ pub fn solve_with_resistance(
         fuel_volume_flow_per_engine,
         froude: 0.0,
         in_method_range: true,
+        regime: crate::propulsion::hull::Regime::Method,
     };
     point.check_finite()
 }
@@ -507,6 +511,7 @@ impl OperatingPoint {
             fuel_volume_flow_per_engine: 0.0,
             froude: 0.0,
             in_method_range: true,
+            regime: crate::propulsion::hull::Regime::Method,
         }
     }
 
@@ -594,6 +599,7 @@ pub fn solve_point(system: &System<'_>, speed: f64) -> Result<OperatingPoint, Po
     let validity = model.validity_at(speed);
     point.froude = validity.froude;
     point.in_method_range = validity.in_method_range;
+    point.regime = validity.regime;
     Ok(point)
 }
 

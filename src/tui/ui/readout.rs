@@ -147,11 +147,18 @@ pub fn readout_lines(app: &App) -> Vec<Line<'static>> {
 }
 
 /// Why a speed is out of range, in a few words for the strip: the Froude number past the
-/// method's range, or the speed/length ratio past the displacement-hull limit.
+/// method's range, or the speed/length ratio past the displacement-hull limit, and the regime
+/// when the figure is not the method's own.
 fn short_reason(v: &crate::propulsion::hull::SpeedValidity) -> String {
-    match (v.froude_in_range, v.speed_length_limit) {
+    let cause = match (v.froude_in_range, v.speed_length_limit) {
         (false, _) => format!("Fn {:.2}", v.froude),
         (true, Some(limit)) => format!("S/L {:.2} > {limit:.2}", v.speed_length_ratio),
         (true, None) => format!("Fn {:.2}", v.froude),
+    };
+    // The regime says what gives the figure there: the strip names it in the table's words.
+    if v.regime.is_extrapolation() {
+        format!("{cause}, {}", v.regime.phrase())
+    } else {
+        cause
     }
 }
