@@ -25,7 +25,10 @@ fn main() {
     {
         let git_dir = std::path::PathBuf::from(git_dir.trim());
         println!("cargo:rerun-if-changed={}", git_dir.join("HEAD").display());
-        println!("cargo:rerun-if-changed={}", git_dir.join("logs/HEAD").display());
+        println!(
+            "cargo:rerun-if-changed={}",
+            git_dir.join("logs/HEAD").display()
+        );
     }
     println!("cargo:rerun-if-changed=build.rs");
 }

@@ -5,8 +5,8 @@ use std::io::Write;
 use anyhow::Context as _;
 
 use super::{
-    Context, CruiseArgs, ExportArgs, ExportFormat, PlainFormat, ReportArgs, ReportFormat, UsageError, load_study,
-    parse_rpm, variant_or_active,
+    Context, CruiseArgs, ExportArgs, ExportFormat, PlainFormat, ReportArgs, ReportFormat,
+    UsageError, load_study, parse_rpm, variant_or_active,
 };
 use crate::propulsion::solver::cruise::{cruise_at_rpm, cruise_at_speed};
 use crate::report::documents::{cruise_json, cruise_line};

@@ -114,7 +114,10 @@ mod tests {
         assert_eq!(screen_size(" 120X40 "), Ok((120, 40)));
         for bad in ["80", "x24", "0x24", "80x", "80x-1", "8000x24", "axb"] {
             let err = screen_size(bad).unwrap_err();
-            assert!(err.contains("--size") && err.contains("80x24"), "{bad}: {err}");
+            assert!(
+                err.contains("--size") && err.contains("80x24"),
+                "{bad}: {err}"
+            );
         }
     }
 }

@@ -391,12 +391,7 @@ pub fn document(
 
     let md: String = charts
         .iter()
-        .map(|(name, chart)| {
-            format!(
-                "![{}]({name})\n\n",
-                super::table::md_cell(&chart.title)
-            )
-        })
+        .map(|(name, chart)| format!("![{}]({name})\n\n", super::table::md_cell(&chart.title)))
         .collect();
     out.push(Section {
         title: "Charts".into(),

@@ -67,7 +67,9 @@ pub fn to_html(doc: &ExportDocument) -> String {
         "<meta name=\"generator\" content=\"tidewright {}\"/>\n",
         env!("CARGO_PKG_VERSION")
     ));
-    html.push_str(&format!("<title>{title}</title>\n<style>{STYLE}</style>\n</head>\n<body>\n"));
+    html.push_str(&format!(
+        "<title>{title}</title>\n<style>{STYLE}</style>\n</head>\n<body>\n"
+    ));
     html.push_str(&format!("<header>\n<h1>{title}</h1>\n"));
     html.push_str(&format!(
         "<p class=\"caution\"><strong>Caution.</strong> {}</p>\n</header>\n",
@@ -101,7 +103,11 @@ pub fn to_html(doc: &ExportDocument) -> String {
 fn inline_svg(svg: &str) -> String {
     let svg = svg.trim_start();
     match svg.strip_prefix("<?xml") {
-        Some(rest) => rest.split_once("?>").map_or(svg, |(_, body)| body).trim().to_string(),
+        Some(rest) => rest
+            .split_once("?>")
+            .map_or(svg, |(_, body)| body)
+            .trim()
+            .to_string(),
         None => svg.trim().to_string(),
     }
 }
@@ -167,14 +173,26 @@ mod tests {
             .filter_map(|n| n.attribute("id"))
             .collect();
         assert_eq!(ids, ["s1-engine-sheet", "s2-charts"]);
-        assert_eq!(parsed.descendants().filter(|n| n.tag_name().name() == "svg").count(), 1);
-        assert!(!html.contains("<?xml"), "the chart's declaration is stripped");
+        assert_eq!(
+            parsed
+                .descendants()
+                .filter(|n| n.tag_name().name() == "svg")
+                .count(),
+            1
+        );
+        assert!(
+            !html.contains("<?xml"),
+            "the chart's declaration is stripped"
+        );
         assert!(html.contains("A &amp; B"));
     }
 
     #[test]
     fn anchors_are_plain_and_unique() {
-        assert_eq!(anchor(0, "Sea-trial calibration"), "s1-sea-trial-calibration");
+        assert_eq!(
+            anchor(0, "Sea-trial calibration"),
+            "s1-sea-trial-calibration"
+        );
         assert_ne!(anchor(1, "Shaft"), anchor(2, "Shaft"));
     }
 }

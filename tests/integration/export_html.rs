@@ -50,7 +50,11 @@ fn html_export_is_one_file_with_the_markdown_sections_and_inline_charts() {
             .unwrap()
             .map(|e| e.unwrap().file_name().to_string_lossy().into_owned())
             .collect();
-        assert_eq!(files, ["report.html"], "{boat}: one file, nothing beside it");
+        assert_eq!(
+            files,
+            ["report.html"],
+            "{boat}: one file, nothing beside it"
+        );
         let md = std::fs::read_to_string(md_dir.path().join("out/report.md")).unwrap();
         let html = std::fs::read_to_string(html_dir.path().join("out/report.html")).unwrap();
         let doc = parse(&html);
@@ -62,7 +66,10 @@ fn html_export_is_one_file_with_the_markdown_sections_and_inline_charts() {
             .filter(|n| n.has_tag_name("h2"))
             .map(text_of)
             .collect();
-        assert_eq!(html_sections, md_sections, "{boat}: sections differ from report.md");
+        assert_eq!(
+            html_sections, md_sections,
+            "{boat}: sections differ from report.md"
+        );
         let md_screws = md.lines().filter(|l| l.starts_with("### Screw ")).count();
         let html_screws = doc
             .descendants()
@@ -99,20 +106,45 @@ fn html_export_is_one_file_with_the_markdown_sections_and_inline_charts() {
             .descendants()
             .filter(|n| n.has_tag_name("li") && text_of(*n).starts_with("At "))
             .count();
-        assert!(md_cruise > 0 && html_cruise == md_cruise, "{boat}: cruise lines");
-        let md_tables = md.lines().filter(|l| l.starts_with("| ---:") || l.starts_with("| :---")).count();
-        let tables = doc.descendants().filter(|n| n.has_tag_name("table")).count();
-        assert_eq!(tables, md_tables, "{boat}: every Markdown table is an HTML table");
+        assert!(
+            md_cruise > 0 && html_cruise == md_cruise,
+            "{boat}: cruise lines"
+        );
+        let md_tables = md
+            .lines()
+            .filter(|l| l.starts_with("| ---:") || l.starts_with("| :---"))
+            .count();
+        let tables = doc
+            .descendants()
+            .filter(|n| n.has_tag_name("table"))
+            .count();
+        assert_eq!(
+            tables, md_tables,
+            "{boat}: every Markdown table is an HTML table"
+        );
         // No Markdown left over in the text.
         for leftover in ["**", "```", "](", "| ---"] {
-            assert!(!body.contains(leftover), "{boat}: Markdown {leftover:?} left in the page");
+            assert!(
+                !body.contains(leftover),
+                "{boat}: Markdown {leftover:?} left in the page"
+            );
         }
 
         // Every chart inline, an <svg> with axes, axis labels and a legend.
-        let charts: Vec<_> = doc.descendants().filter(|n| n.has_tag_name("svg")).collect();
+        let charts: Vec<_> = doc
+            .descendants()
+            .filter(|n| n.has_tag_name("svg"))
+            .collect();
         let md_charts = md.matches(".svg)").count();
-        assert!(md_charts >= 5, "{boat}: the Markdown export names its charts");
-        assert_eq!(charts.len(), md_charts, "{boat}: one inline chart per chart file");
+        assert!(
+            md_charts >= 5,
+            "{boat}: the Markdown export names its charts"
+        );
+        assert_eq!(
+            charts.len(),
+            md_charts,
+            "{boat}: one inline chart per chart file"
+        );
         for svg in &charts {
             let class = |c: &str| {
                 svg.descendants()
@@ -164,7 +196,14 @@ fn html_export_is_one_file_with_the_markdown_sections_and_inline_charts() {
 #[test]
 fn an_unknown_export_format_is_a_usage_error() {
     tidewright()
-        .args(["export", "pintle", "--out", "/nonexistent", "--format", "pdf"])
+        .args([
+            "export",
+            "pintle",
+            "--out",
+            "/nonexistent",
+            "--format",
+            "pdf",
+        ])
         .assert()
         .code(2)
         .stderr(predicate::str::contains("pdf"));
@@ -225,7 +264,10 @@ fn version_names_the_package_version() {
     // In a git checkout the build names its commit (hex); elsewhere the version stands alone.
     if let Some(commit) = line.split("(commit ").nth(1) {
         let hash = commit.trim().trim_end_matches(')');
-        assert!(hash.len() >= 7 && hash.bytes().all(|b| b.is_ascii_hexdigit()), "{line}");
+        assert!(
+            hash.len() >= 7 && hash.bytes().all(|b| b.is_ascii_hexdigit()),
+            "{line}"
+        );
     }
 }
 
@@ -239,8 +281,14 @@ fn screen_draws_the_terminal_ui_once_without_a_terminal() {
     let lines: Vec<&str> = text.lines().collect();
     assert_eq!(lines.len(), 24);
     assert!(lines.iter().all(|l| l.chars().count() <= 80));
-    assert!(lines[0].contains("marram") && text.contains("Screw"), "{text}");
-    assert!(text.contains("licensed marine surveyor"), "the caution is on screen");
+    assert!(
+        lines[0].contains("marram") && text.contains("Screw"),
+        "{text}"
+    );
+    assert!(
+        text.contains("licensed marine surveyor"),
+        "the caution is on screen"
+    );
     tidewright()
         .args(["screen", "marram", "--size", "80by24"])
         .assert()

@@ -87,12 +87,11 @@ pub fn to_html(markdown: &str, chart: &dyn Fn(&str) -> Option<String>) -> String
                 }
                 i += 1;
             }
-            let class = if figures.len() > 1 {
-                "charts"
-            } else {
-                "chart"
-            };
-            html.push_str(&format!("<div class=\"{class}\">\n{}</div>\n", figures.concat()));
+            let class = if figures.len() > 1 { "charts" } else { "chart" };
+            html.push_str(&format!(
+                "<div class=\"{class}\">\n{}</div>\n",
+                figures.concat()
+            ));
         }
     }
     flush_paragraph(&mut paragraph, &mut html);
@@ -141,7 +140,10 @@ fn table(rows: &[&str]) -> String {
         // Not a table after all: keep the text.
         return format!("<p>{}</p>\n", inline(&rows.join(" ")));
     };
-    let right: Vec<bool> = cells[rule_at].iter().map(|c| c.ends_with(':') && !c.starts_with(':')).collect();
+    let right: Vec<bool> = cells[rule_at]
+        .iter()
+        .map(|c| c.ends_with(':') && !c.starts_with(':'))
+        .collect();
     let class = |col: usize| {
         if right.get(col).copied().unwrap_or(false) {
             " class=\"num\""
@@ -169,7 +171,10 @@ fn table(rows: &[&str]) -> String {
 fn split_row(row: &str) -> Vec<String> {
     let inner = row.trim();
     let inner = inner.strip_prefix('|').unwrap_or(inner);
-    let inner = inner.strip_suffix('|').filter(|i| !i.ends_with('\\')).unwrap_or(inner);
+    let inner = inner
+        .strip_suffix('|')
+        .filter(|i| !i.ends_with('\\'))
+        .unwrap_or(inner);
     let mut cells = Vec::new();
     let mut cell = String::new();
     let mut chars = inner.chars();
@@ -261,8 +266,14 @@ mod tests {
     fn tables_split_at_unescaped_pipes_and_align_numbers() {
         let md = "| name | speed (kn) |\n| :--- | ---: |\n| a \\| b | 7.0 |\n";
         let html = to_html(md, &no_charts);
-        assert!(html.contains("<th>name</th><th class=\"num\">speed (kn)</th>"), "{html}");
-        assert!(html.contains("<td>a | b</td><td class=\"num\">7.0</td>"), "{html}");
+        assert!(
+            html.contains("<th>name</th><th class=\"num\">speed (kn)</th>"),
+            "{html}"
+        );
+        assert!(
+            html.contains("<td>a | b</td><td class=\"num\">7.0</td>"),
+            "{html}"
+        );
     }
 
     #[test]
