@@ -29,8 +29,8 @@ pub fn to_html(markdown: &str, chart: &dyn Fn(&str) -> Option<String>) -> String
         flush_paragraph(&mut paragraph, &mut html);
         if trimmed.is_empty() {
             i += 1;
-        } else if let Some(fence) = trimmed.strip_prefix("```") {
-            let _language = fence.trim();
+        } else if trimmed.starts_with("```") {
+            // The fence's language (`text`) only tells Markdown viewers not to highlight.
             let mut body = String::new();
             i += 1;
             while i < lines.len() && !lines[i].trim_start().starts_with("```") {
