@@ -10,6 +10,7 @@ mod design;
 mod import;
 mod new;
 mod openwater;
+mod shell;
 mod shortlist;
 mod store;
 
@@ -37,7 +38,7 @@ pub const PROFILES_ENV: &str = "TIDEWRIGHT_PROFILES";
 /// Repower planning for displacement motorboats: hull resistance, screw, engine match, pitch,
 /// cruise and fuel. With no subcommand, opens the terminal UI.
 #[derive(Debug, Parser)]
-#[command(name = "tidewright", version, about, long_about = None)]
+#[command(name = "tidewright", version = crate::version_text(), about, long_about = None)]
 pub struct Cli {
     /// Profile directory holding boats/ and engines/ (default: the user's data directory;
     /// also taken from the TIDEWRIGHT_PROFILES environment variable).
@@ -131,13 +132,20 @@ pub enum Command {
     /// What-if: light, half and full load, fouled hull and a seaway side by side, with the
     /// uncertainty band over displacement and wake.
     Conditions(ConditionsArgs),
-    /// Write a Markdown report with SVG charts for the owner and the propeller shop.
+    /// Write the report for the owner and the propeller shop: Markdown with SVG charts, or one
+    /// self-contained HTML file.
     Export(ExportArgs),
     /// Every candidate engine sheet and gear with its screw sized and pitched, ranked.
     Shortlist(shortlist::ShortlistArgs),
     /// The hull's resistance curve: speed, Froude numbers, resistance and its parts,
     /// effective power and the formula at each speed.
     Resistance(ResistanceArgs),
+    /// Print the shell completion script for bash, zsh, fish, elvish or PowerShell.
+    Completions(shell::CompletionsArgs),
+    /// Print the manual page (roff), or write one page per subcommand with --out.
+    Man(shell::ManArgs),
+    /// Draw the terminal UI's first screen once as text, without a terminal.
+    Screen(shell::ScreenArgs),
 }
 
 /// Arguments of `resistance`.
@@ -433,6 +441,19 @@ pub struct ExportArgs {
     /// Directory to write the report and charts into (created if missing).
     #[arg(long, value_name = "DIR")]
     pub out: PathBuf,
+    /// md: report.md with one SVG file per chart; html: one self-contained report.html with
+    /// the charts inline and a print stylesheet.
+    #[arg(long, value_enum, default_value_t = ExportFormat::Md)]
+    pub format: ExportFormat,
+}
+
+/// Output format of `export`.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, ValueEnum)]
+pub enum ExportFormat {
+    /// report.md and one SVG file per chart.
+    Md,
+    /// One self-contained report.html: charts inline as SVG, nothing fetched, print-ready.
+    Html,
 }
 
 /// A mistake on the command line found after parsing (an empty list, a malformed value).
@@ -564,6 +585,9 @@ pub fn run(cli: Cli, out: &mut dyn Write) -> anyhow::Result<()> {
         Some(Command::Conditions(args)) => conditions::run(&ctx, &args, out),
         Some(Command::Export(args)) => boat::export(&ctx, &args, out),
         Some(Command::Shortlist(args)) => shortlist::run(&ctx, &args, out),
+        Some(Command::Completions(args)) => shell::completions(&args, out),
+        Some(Command::Man(args)) => shell::man(&args, out),
+        Some(Command::Screen(args)) => shell::screen(&ctx, &args, out),
     }
 }
 

@@ -39,3 +39,15 @@ pub mod report;
 pub mod study;
 pub mod tui;
 pub mod units;
+
+/// The version line: the package version and, when the build knew it, its git commit
+/// ("0.1.0 (commit 8c8c0b0abc)"; build.rs reads `git rev-parse`).
+pub fn version_text() -> &'static str {
+    match option_env!("TIDEWRIGHT_COMMIT") {
+        Some(commit) => {
+            static TEXT: std::sync::OnceLock<String> = std::sync::OnceLock::new();
+            TEXT.get_or_init(|| format!("{} (commit {commit})", env!("CARGO_PKG_VERSION")))
+        }
+        None => env!("CARGO_PKG_VERSION"),
+    }
+}

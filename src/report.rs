@@ -1,4 +1,4 @@
-//! Reports of solved boats: text, CSV, JSON, Markdown and SVG charts.
+//! Reports of solved boats: text, CSV, JSON, Markdown and SVG charts, one-file HTML.
 //!
 //! The report layer calls the solver and lays its results out; it does no physics. Numbers in
 //! text, CSV, Markdown and charts are shown in the chosen [`UnitSystem`]; JSON always carries SI
@@ -8,6 +8,7 @@ pub mod checks;
 pub mod design;
 pub mod documents;
 pub mod export;
+pub mod html;
 pub mod import;
 pub mod json;
 pub mod model;

@@ -156,6 +156,34 @@ pub fn open_app(store: &Store, boat: Option<&str>) -> Result<App, ProfileError> 
     Ok(App::new(opened, units, theme::Theme::plain()))
 }
 
+/// The terminal UI's first screen for `boat` of `store` drawn once, `width` × `height` cells, as
+/// text lines without a terminal (`tidewright screen`: a smoke test on a machine or emulator
+/// with no terminal, and a look at the layout from a script).
+pub fn draw_headless(
+    store: &Store,
+    boat: Option<&str>,
+    units: Option<UnitSystem>,
+    width: u16,
+    height: u16,
+) -> anyhow::Result<String> {
+    use ratatui::{Terminal, backend::TestBackend};
+    let (opened, _, _) = open(store, boat).context("opening the boat")?;
+    let units = units.unwrap_or(opened.boat.units);
+    let app = App::new(opened, units, theme::Theme::plain());
+    let mut terminal = Terminal::new(TestBackend::new(width, height))?;
+    terminal.draw(|frame| ui::render(&app, frame))?;
+    let buf = terminal.backend().buffer();
+    let mut text = String::new();
+    for y in 0..height {
+        let row: String = (0..width)
+            .map(|x| buf[(x, y)].symbol().replace('\u{a0}', " "))
+            .collect();
+        text.push_str(row.trim_end());
+        text.push('\n');
+    }
+    Ok(text)
+}
+
 /// Runs the terminal UI on `store`, opening `boat` (a name in the store or a path to a boat
 /// file), or the store's first boat — the embedded demo fleet's when the store does not exist.
 /// `units` sets the display units at start; `None` uses the units the boat's file is written in.

@@ -5,12 +5,13 @@ use std::io::Write;
 use anyhow::Context as _;
 
 use super::{
-    Context, CruiseArgs, ExportArgs, PlainFormat, ReportArgs, ReportFormat, UsageError, load_study,
-    parse_rpm, variant_or_active,
+    Context, CruiseArgs, ExportArgs, ExportFormat, PlainFormat, ReportArgs, ReportFormat,
+    UsageError, load_study, parse_rpm, variant_or_active,
 };
 use crate::propulsion::solver::cruise::{cruise_at_rpm, cruise_at_speed};
 use crate::report::documents::{cruise_json, cruise_line};
-use crate::report::export::{design_sections, export as export_files};
+use crate::report::export::{ExportFile, design_sections, document as export_document};
+use crate::report::html::{HTML_FILE, to_html};
 use crate::report::model::BoatReport;
 use crate::report::{CAUTION, Display, json};
 use crate::units::{self, Kind};
@@ -130,7 +131,7 @@ pub fn cruise(ctx: &Context, args: &CruiseArgs, out: &mut dyn Write) -> anyhow::
     Ok(())
 }
 
-/// `export BOAT --out DIR`.
+/// `export BOAT --out DIR [--format md|html]`.
 pub fn export(ctx: &Context, args: &ExportArgs, out: &mut dyn Write) -> anyhow::Result<()> {
     let study = load_study(ctx, &args.boat)?;
     let vessel = &study.vessel;
@@ -149,7 +150,7 @@ pub fn export(ctx: &Context, args: &ExportArgs, out: &mut dyn Write) -> anyhow::
     let mut sections = design_sections(&study, &Display::new(study.units));
     let shortlist = crate::report::shortlist::export_of_store(&study, &super::store::store(ctx));
     sections.push(shortlist.0);
-    let mut files = export_files(
+    let mut doc = export_document(
         vessel,
         &report,
         &curves,
@@ -157,7 +158,14 @@ pub fn export(ctx: &Context, args: &ExportArgs, out: &mut dyn Write) -> anyhow::
         &sections,
         study.units,
     );
-    files.extend(shortlist.1);
+    doc.charts.extend(shortlist.1);
+    let files = match args.format {
+        ExportFormat::Md => doc.into_files(),
+        ExportFormat::Html => vec![ExportFile {
+            name: HTML_FILE.into(),
+            contents: to_html(&doc),
+        }],
+    };
     std::fs::create_dir_all(&args.out)
         .with_context(|| format!("cannot create {}", args.out.display()))?;
     for file in &files {

@@ -21,7 +21,12 @@ pub struct ExportFile {
     pub contents: String,
 }
 
-/// A section added by a later stage (pitch recommendation, cavitation, calibration).
+/// One section of the export: a heading and its body.
+///
+/// The body is Markdown of the subset both writers lay out (`report::html` turns it into HTML):
+/// paragraphs, `### ` subheadings, `- ` lists, pipe tables with their rule row, fenced code
+/// blocks, `> ` quotes, `![title](CHART.svg)` lines naming one of the export's charts, and inline
+/// `**bold**`, `` `code` `` and the escapes `\|`, `\*`.
 #[derive(Debug, Clone, PartialEq)]
 pub struct Section {
     /// The heading.
@@ -242,6 +247,48 @@ pub fn charts(
     ]
 }
 
+/// The export as one document: its title, its sections in order and its charts. The Markdown
+/// and the HTML writers both lay out this one list, so a section added here appears in both.
+#[derive(Debug, Clone, PartialEq)]
+pub struct ExportDocument {
+    /// The report's title ("Repower report: BOAT").
+    pub title: String,
+    /// The caution shown under the title (and again as the last section).
+    pub caution: String,
+    /// The sections, in reading order; bodies are Markdown (the subset [`Section`] allows).
+    pub sections: Vec<Section>,
+    /// The chart files a section's `![title](NAME)` line points at, by name.
+    pub charts: Vec<ExportFile>,
+}
+
+impl ExportDocument {
+    /// The Markdown report (report.md); its charts stay separate files.
+    pub fn to_markdown(&self) -> String {
+        let mut md = format!("# {}\n\n", super::table::md_cell(&self.title));
+        md.push_str(&format!("> **Caution.** {}\n\n", self.caution));
+        for section in &self.sections {
+            md.push_str(&format!(
+                "## {}\n\n{}\n\n",
+                section.title,
+                section.body.trim_end()
+            ));
+        }
+        let mut md = md.trim_end().to_string();
+        md.push('\n');
+        md
+    }
+
+    /// The files of the Markdown export: report.md first, then the charts.
+    pub fn into_files(self) -> Vec<ExportFile> {
+        let mut files = vec![ExportFile {
+            name: REPORT_FILE.into(),
+            contents: self.to_markdown(),
+        }];
+        files.extend(self.charts);
+        files
+    }
+}
+
 /// The Markdown report and its charts.
 pub fn export(
     vessel: &Vessel,
@@ -251,23 +298,37 @@ pub fn export(
     sections: &[Section],
     system: UnitSystem,
 ) -> Vec<ExportFile> {
+    document(vessel, report, curves, before_fit, sections, system).into_files()
+}
+
+/// The export's document: engine sheet, installation and trip, screws and match, shaft, then
+/// `sections` (the design stage's and the shortlist), charts, warnings and the caution.
+pub fn document(
+    vessel: &Vessel,
+    report: &BoatReport,
+    curves: &BoatReport,
+    before_fit: Option<&BoatReport>,
+    sections: &[Section],
+    system: UnitSystem,
+) -> ExportDocument {
     let d = Display::new(system);
     let charts = charts(vessel, curves, before_fit, system);
-    let mut md = format!(
-        "# Repower report: {}\n\n",
-        super::table::md_cell(&report.boat)
-    );
-    md.push_str(&format!("> **Caution.** {CAUTION}\n\n"));
+    let mut out = Vec::new();
+    let mut section = |title: &str, body: String| {
+        out.push(Section {
+            title: title.into(),
+            body,
+        })
+    };
 
-    md.push_str("## Engine sheet\n\n");
     let e = &vessel.engine;
-    md.push_str(&format!(
+    let mut md = format!(
         "{}: rated {} at {:.0} rpm, idle {:.0} rpm.\n\n",
         e.name,
         d.quantity(e.rated_power(), Kind::Power),
         e.rated_rpm,
         e.idle_rpm
-    ));
+    );
     let mut envelope = super::table::Table::new(vec![
         super::table::Column::number("engine", "rpm"),
         super::table::Column::number("full-load power", &d.unit(Kind::Power)),
@@ -276,8 +337,9 @@ pub fn export(
         envelope.push(vec![format!("{rpm:.0}"), d.number(w, Kind::Power, 1)]);
     }
     md.push_str(&envelope.to_markdown());
+    section("Engine sheet", md);
 
-    md.push_str("\n## Installation and trip\n\n");
+    let mut md = String::new();
     let inst = &vessel.installation;
     if inst.is_twin_screw() {
         md.push_str(
@@ -298,8 +360,9 @@ pub fn export(
         super::percent(vessel.trip.reserve_fraction, 0)
     ));
     md.push_str(&format!("- {}\n", report.calibration_line()));
+    section("Installation and trip", md);
 
-    md.push_str("\n## Screws and match\n\n");
+    let mut md = String::new();
     for v in &report.variants {
         md.push_str(&format!("### Screw {}\n\n", v.label));
         md.push_str(&format!("- Spec: {}\n", screw_spec(&v.geometry, &d)));
@@ -315,47 +378,49 @@ pub fn export(
         md.push_str(&report.variant_checks_markdown(&v.label, &d));
         md.push('\n');
     }
+    section("Screws and match", md);
     let shaft = report.shaft_lines(&d);
     if !shaft.is_empty() {
-        md.push_str("## Shaft\n\n");
-        for line in shaft {
-            md.push_str(&format!("- {}\n", line.trim_start()));
-        }
-        md.push('\n');
+        let md: String = shaft
+            .iter()
+            .map(|line| format!("- {}\n", line.trim_start()))
+            .collect();
+        section("Shaft", md);
     }
-    for section in sections {
-        md.push_str(&format!(
-            "## {}\n\n{}\n\n",
-            section.title,
-            section.body.trim_end()
-        ));
-    }
+    out.extend(sections.iter().cloned());
 
-    md.push_str("## Charts\n\n");
-    for (name, chart) in &charts {
-        md.push_str(&format!(
-            "![{}]({name})\n\n",
-            super::table::md_cell(&chart.title)
-        ));
-    }
+    let md: String = charts
+        .iter()
+        .map(|(name, chart)| format!("![{}]({name})\n\n", super::table::md_cell(&chart.title)))
+        .collect();
+    out.push(Section {
+        title: "Charts".into(),
+        body: md,
+    });
     if !report.warnings.is_empty() {
-        md.push_str("## Warnings\n\n");
-        for w in &report.warnings {
-            md.push_str(&format!("- {w}\n"));
-        }
-        md.push('\n');
+        let md: String = report.warnings.iter().map(|w| format!("- {w}\n")).collect();
+        out.push(Section {
+            title: "Warnings".into(),
+            body: md,
+        });
     }
-    md.push_str(&format!("## Caution\n\n{CAUTION}\n"));
+    out.push(Section {
+        title: "Caution".into(),
+        body: CAUTION.to_string(),
+    });
 
-    let mut files = vec![ExportFile {
-        name: REPORT_FILE.into(),
-        contents: md,
-    }];
-    files.extend(charts.into_iter().map(|(name, chart)| ExportFile {
-        name,
-        contents: chart.to_svg(),
-    }));
-    files
+    ExportDocument {
+        title: format!("Repower report: {}", report.boat),
+        caution: CAUTION.to_string(),
+        sections: out,
+        charts: charts
+            .into_iter()
+            .map(|(name, chart)| ExportFile {
+                name,
+                contents: chart.to_svg(),
+            })
+            .collect(),
+    }
 }
 /// The sections of the export that come from the design stage: the recommended screw, the
 /// pitch of every variant and the sea-trial calibration.

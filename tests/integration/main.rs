@@ -8,6 +8,7 @@ mod cli;
 mod cli_design;
 mod design;
 mod dockside;
+mod export_html;
 mod hardening;
 mod hull;
 mod instruments;
