@@ -10,14 +10,24 @@
 //! [`FeedOptions::silence_s`] is [`FeedState::Silent`]; a closed or failed TCP connection (or
 //! one silent for [`FeedOptions::reconnect_after_silence_s`]) is [`FeedState::Reconnecting`]
 //! with a doubling backoff from [`FeedOptions::reconnect_initial_s`] up to
-//! [`FeedOptions::reconnect_max_s`]; [`FeedState::Closed`] is final (stopped, end of a replayed
-//! file, or a file that cannot be read).
+//! [`FeedOptions::reconnect_max_s`] ([`backoff`]): it keeps growing while connections die
+//! before they deliver a sentence (a server that accepts and closes at once), and starts again
+//! from the first delay only after one that delivered; [`FeedState::Closed`] is final
+//! (stopped, end of a replayed file, or a file that cannot be read).
+//!
+//! Bytes become lines in [`framing`], the one place that copes with reads ending inside a
+//! line and with junk that never ends one.
 //!
 //! Network lines carry the time they were received unless they hold their own timestamp or
 //! TAG block (see [`super::nmea`]), so a receiver's clock quirks do not stall the run finder.
 
+pub mod backoff;
+pub mod framing;
+
 use super::nmea::{DEFAULT_MAX_AGE_S, NmeaReader, RpmSource};
 use super::{ImportOptions, LineSummary, Sample, import};
+use backoff::Backoff;
+use framing::LineFramer;
 use std::io::{ErrorKind, Read};
 use std::net::{TcpStream, ToSocketAddrs, UdpSocket};
 use std::path::PathBuf;
@@ -282,29 +292,37 @@ impl Worker {
         !self.stopped()
     }
 
-    fn backoff(&self, attempt: u32) -> f64 {
-        let factor = 2f64.powi(attempt.saturating_sub(1).min(16) as i32);
-        (self.options.reconnect_initial_s * factor).min(self.options.reconnect_max_s)
+    fn backoff(&self) -> Backoff {
+        Backoff::new(
+            self.options.reconnect_initial_s,
+            self.options.reconnect_max_s,
+        )
     }
 
     fn run_tcp(&mut self, address: &str) -> String {
-        let mut attempt = 0;
+        let mut backoff = self.backoff();
         loop {
             if self.stopped() || !self.send(FeedEvent::State(FeedState::Connecting)) {
                 return "stopped".to_owned();
             }
             let reason = match connect(address, self.options.connect_timeout_s) {
                 Ok(stream) => {
-                    attempt = 0;
-                    match self.read_stream(stream) {
+                    let used_before = self.reader.summary().used;
+                    let ended = self.read_stream(stream);
+                    // Only a connection that gave sentences proves the server works; one that
+                    // dies young must not reset the delay, or a server that accepts and closes
+                    // is redialled every first delay forever.
+                    if self.reader.summary().used > used_before {
+                        backoff.delivered();
+                    }
+                    match ended {
                         Ended::Stopped => return "stopped".to_owned(),
                         Ended::Lost(reason) => reason,
                     }
                 }
                 Err(reason) => reason,
             };
-            attempt += 1;
-            let in_s = self.backoff(attempt);
+            let (attempt, in_s) = backoff.failed();
             if !self.send(FeedEvent::State(FeedState::Reconnecting {
                 attempt,
                 in_s,
@@ -316,19 +334,12 @@ impl Worker {
         }
     }
 
-    /// Lines of `pending` up to the last `\n` go to the reader.
-    fn take_lines(&mut self, pending: &mut Vec<u8>) {
-        let Some(end) = pending.iter().rposition(|b| *b == b'\n') else {
-            if pending.len() > 4096 {
-                pending.clear(); // no line end in 4 KiB: not a line protocol
-            }
-            return;
-        };
+    /// Complete lines go to the reader, stamped with the time they arrived.
+    fn take_lines(&mut self, lines: Vec<Vec<u8>>) {
         let now = now_unix_s();
-        let lines: Vec<u8> = pending.drain(..=end).collect();
-        for (number, line) in super::numbered_lines(&lines) {
-            let total = self.reader.summary().lines + number;
-            if let Some(sample) = self.reader.push_line(line, total, Some(now)) {
+        for line in lines {
+            let number = self.reader.summary().lines + 1;
+            if let Some(sample) = self.reader.push_line(&line, number, Some(now)) {
                 self.send(FeedEvent::Sample(sample));
             }
         }
@@ -354,7 +365,7 @@ impl Worker {
         }
         self.send(FeedEvent::State(FeedState::Live));
         let mut buffer = [0u8; 4096];
-        let mut pending = Vec::new();
+        let mut framer = LineFramer::new();
         let mut last_data = Instant::now();
         // Whole seconds of silence last shown, so the state is sent once a second.
         let mut silent_shown: Option<u64> = None;
@@ -364,8 +375,7 @@ impl Worker {
             }
             match stream.read(&mut buffer) {
                 Ok(0) => {
-                    pending.push(b'\n');
-                    self.take_lines(&mut pending);
+                    self.take_lines(framer.finish());
                     self.flush();
                     return Ended::Lost("the server closed the connection".to_owned());
                 }
@@ -374,8 +384,8 @@ impl Worker {
                         self.send(FeedEvent::State(FeedState::Live));
                     }
                     last_data = Instant::now();
-                    pending.extend_from_slice(&buffer[..n]);
-                    self.take_lines(&mut pending);
+                    let lines = framer.push(&buffer[..n]);
+                    self.take_lines(lines);
                 }
                 Err(e)
                     if matches!(
@@ -406,7 +416,7 @@ impl Worker {
     }
 
     fn run_udp(&mut self, address: &str) -> String {
-        let mut attempt = 0;
+        let mut backoff = self.backoff();
         let socket = loop {
             if self.stopped() {
                 return "stopped".to_owned();
@@ -416,8 +426,7 @@ impl Worker {
             {
                 Ok(socket) => break socket,
                 Err(e) => {
-                    attempt += 1;
-                    let in_s = self.backoff(attempt);
+                    let (attempt, in_s) = backoff.failed();
                     let reason = format!("cannot listen on udp {address}: {e}");
                     if !self.send(FeedEvent::State(FeedState::Reconnecting {
                         attempt,
@@ -445,9 +454,11 @@ impl Worker {
                         silent = false;
                     }
                     last_data = Instant::now();
-                    let mut datagram = buffer[..n].to_vec();
-                    datagram.push(b'\n');
-                    self.take_lines(&mut datagram);
+                    // A datagram is whole: its last line needs no line end.
+                    let mut framer = LineFramer::new();
+                    let mut lines = framer.push(&buffer[..n]);
+                    lines.extend(framer.finish());
+                    self.take_lines(lines);
                 }
                 Err(e)
                     if matches!(

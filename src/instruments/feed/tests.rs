@@ -135,6 +135,63 @@ fn tcp_reconnects_when_the_server_comes_back() {
     assert_eq!(first.time_s, 1_700_000_000.0);
 }
 
+/// The `Reconnecting` states among `events`: (attempt, delay in s).
+fn reconnects(events: &[FeedEvent]) -> Vec<(u32, f64)> {
+    events
+        .iter()
+        .filter_map(|e| match e {
+            FeedEvent::State(FeedState::Reconnecting { attempt, in_s, .. }) => {
+                Some((*attempt, *in_s))
+            }
+            _ => None,
+        })
+        .collect()
+}
+
+#[test]
+fn a_server_that_closes_at_once_is_redialled_ever_more_slowly() {
+    let listener = TcpListener::bind("127.0.0.1:0").unwrap();
+    let port = listener.local_addr().unwrap().port();
+    // Five connections closed at once, one that delivers two seconds of sentences, then
+    // the listener closed.
+    let server = std::thread::spawn(move || {
+        for i in 0..6 {
+            let Ok((mut conn, _)) = listener.accept() else {
+                return;
+            };
+            if i == 5 {
+                conn.write_all(lines(1_700_000_000, 2).as_bytes()).unwrap();
+            }
+        }
+    });
+    let feed = Feed::start(
+        FeedSource::parse(&format!("tcp://127.0.0.1:{port}")).unwrap(),
+        quick(),
+    );
+    let events = collect(&feed, Duration::from_millis(3000), |e| {
+        reconnects(e).len() >= 6
+    });
+    drop(feed);
+    server.join().unwrap();
+    // quick(): 0.05 s doubling to 0.2 s. Dying young never resets the delay; the connection
+    // that delivered does, so the attempt after it starts again from the first delay.
+    assert_eq!(
+        reconnects(&events)[..6],
+        [(1, 0.05), (2, 0.1), (3, 0.2), (4, 0.2), (5, 0.2), (1, 0.05)],
+        "{events:?}"
+    );
+    let shown = FeedState::Reconnecting {
+        attempt: 3,
+        in_s: 4.0,
+        reason: "the server closed the connection".into(),
+    }
+    .to_string();
+    assert_eq!(
+        shown,
+        "reconnecting in 4 s (the server closed the connection)"
+    );
+}
+
 #[test]
 fn udp_datagrams_become_samples() {
     let probe = UdpSocket::bind("127.0.0.1:0").unwrap();
