@@ -40,8 +40,8 @@ pub fn write_text(path: &Path, text: &str) -> std::io::Result<()> {
     let dir = path.parent().unwrap_or(Path::new("."));
     std::fs::create_dir_all(dir)?;
     let mut file = tempfile::Builder::new()
-        .prefix(".recover-")
-        .suffix(".tmp")
+        .prefix(crate::profile::store::RECOVERY_TEMPORARY_PREFIX)
+        .suffix(crate::profile::store::TEMPORARY_SUFFIX)
         .tempfile_in(dir)?;
     file.write_all(text.as_bytes())?;
     file.as_file().sync_all()?;
