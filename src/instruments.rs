@@ -300,7 +300,7 @@ pub fn strip_bom(content: &[u8]) -> &[u8] {
 pub fn detect_format(content: &[u8]) -> Option<LogFormat> {
     let mut lines = strip_bom(content)
         .split(|b| *b == b'\n')
-        .map(|l| l.strip_suffix(b"\r").unwrap_or(l))
+        .map(without_carriage_returns)
         .filter(|l| !l.iter().all(u8::is_ascii_whitespace))
         .take(20)
         .peekable();
@@ -335,8 +335,15 @@ pub(crate) fn numbered_lines(content: &[u8]) -> impl Iterator<Item = (usize, &[u
     strip_bom(content)
         .split(|b| *b == b'\n')
         .enumerate()
-        .map(|(i, l)| (i + 1, l.strip_suffix(b"\r").unwrap_or(l)))
+        .map(|(i, l)| (i + 1, without_carriage_returns(l)))
         .filter(|(_, l)| !l.iter().all(u8::is_ascii_whitespace))
+}
+
+/// A line without the carriage returns before its `\n`: one is the usual line end, and some
+/// serial-to-network bridges add another.
+pub(crate) fn without_carriage_returns(line: &[u8]) -> &[u8] {
+    let end = line.iter().rposition(|b| *b != b'\r').map_or(0, |i| i + 1);
+    &line[..end]
 }
 
 /// Mean of angles in degrees on the circle, 0–360; `None` for none or when they cancel.
@@ -416,7 +423,7 @@ mod tests {
         );
         // Only a mark at the very start is one; the same bytes later are the line's own.
         assert_eq!(strip_bom(b"a\xEF\xBB\xBF"), b"a\xEF\xBB\xBF");
-        let lines: Vec<_> = numbered_lines(b"\xEF\xBB\xBFx\ny").collect();
+        let lines: Vec<_> = numbered_lines(b"\xEF\xBB\xBFx\r\r\ny\r").collect();
         assert_eq!(lines, vec![(1, &b"x"[..]), (2, &b"y"[..])]);
     }
 

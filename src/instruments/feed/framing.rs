@@ -5,7 +5,8 @@
 /// Bytes held without a line end before they are dropped as not a line protocol, bytes.
 pub const MAX_PENDING: usize = 4096;
 
-/// Collects bytes and hands back each complete line, without its `\r\n` or `\n`.
+/// Collects bytes and hands back each complete line, without its `\n` and the carriage
+/// returns before it.
 #[derive(Debug, Clone, Default)]
 pub struct LineFramer {
     pending: Vec<u8>,
@@ -54,7 +55,7 @@ impl LineFramer {
 fn lines_of(bytes: &[u8]) -> Vec<Vec<u8>> {
     bytes
         .split(|b| *b == b'\n')
-        .map(|l| l.strip_suffix(b"\r").unwrap_or(l))
+        .map(super::super::without_carriage_returns)
         .map(super::super::strip_bom)
         .filter(|l| !l.iter().all(u8::is_ascii_whitespace))
         .map(<[u8]>::to_vec)
@@ -92,5 +93,10 @@ mod tests {
         }
         assert!(framer.dropped() >= 8000);
         assert_eq!(framer.push(b"\xEF\xBB\xBFok\n"), vec![b"ok".to_vec()]);
+        // Found by the feed_framing fuzz target: a doubled carriage return stayed in the line.
+        assert_eq!(
+            framer.push(b"$GPHDT,1.0,T*34\r\r\n"),
+            vec![b"$GPHDT,1.0,T*34".to_vec()]
+        );
     }
 }
