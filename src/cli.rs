@@ -512,11 +512,14 @@ pub fn main_entry() -> ExitCode {
             }
             let _ = stdout.flush();
             let code = exit_code_for(&err);
-            if code != EXIT_INVALID_FILES || !err.is::<InvalidFiles>() {
-                eprintln!("error: {err:#}");
+            // writeln! rather than eprintln!: a terminal that hung up fails the write, and
+            // eprintln! would panic on it.
+            let mut stderr = std::io::stderr();
+            let _ = if code != EXIT_INVALID_FILES || !err.is::<InvalidFiles>() {
+                writeln!(stderr, "error: {err:#}")
             } else {
-                eprintln!("{err}");
-            }
+                writeln!(stderr, "{err}")
+            };
             ExitCode::from(code)
         }
     }

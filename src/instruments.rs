@@ -23,6 +23,7 @@
 //! assert!(found.pair_count() >= 2);
 //! ```
 
+pub mod bounds;
 pub mod csvlog;
 pub mod feed;
 pub mod nmea;
@@ -98,11 +99,15 @@ pub enum BadLine {
     BadRow,
     /// A line with no time: before the first RMC in a log without timestamps.
     NoTime,
+    /// An engine or shaft rpm below 0 or above [`bounds::MAX_RPM`].
+    RpmOutOfRange,
+    /// A speed over ground or through the water below 0 or above [`bounds::MAX_SPEED_KN`].
+    SpeedOutOfRange,
 }
 
 impl BadLine {
     /// Every reason, in report order.
-    pub const ALL: [BadLine; 10] = [
+    pub const ALL: [BadLine; 12] = [
         BadLine::NotText,
         BadLine::NotASentence,
         BadLine::MissingChecksum,
@@ -113,6 +118,8 @@ impl BadLine {
         BadLine::BadTimestamp,
         BadLine::BadRow,
         BadLine::NoTime,
+        BadLine::RpmOutOfRange,
+        BadLine::SpeedOutOfRange,
     ];
 
     /// A short description for a summary.
@@ -128,6 +135,8 @@ impl BadLine {
             BadLine::BadTimestamp => "unreadable timestamp",
             BadLine::BadRow => "bad CSV row",
             BadLine::NoTime => "no time yet (before the first RMC)",
+            BadLine::RpmOutOfRange => "rpm out of range (below 0 or above 10000)",
+            BadLine::SpeedOutOfRange => "speed out of range (below 0 or above 60 kn)",
         }
     }
 }
@@ -259,25 +268,45 @@ pub enum ImportError {
         /// The second column.
         second: String,
     },
+    /// A CSV header whose columns are split by a character the import does not accept.
+    #[error(
+        "line {line}: the CSV header's columns are separated by {}; a CSV log's separator must be ',', ';' or a tab",
+        csvlog::separator_name(*found)
+    )]
+    UnknownSeparator {
+        /// 1-based line number of the header.
+        line: usize,
+        /// The separator found.
+        found: char,
+    },
     /// The file is empty or holds only blank lines.
     #[error("the log is empty")]
     Empty,
 }
 
+/// The UTF-8 byte-order mark some editors and loggers put at the start of a text file.
+pub const BYTE_ORDER_MARK: &[u8] = b"\xEF\xBB\xBF";
+
+/// `content` without a leading UTF-8 byte-order mark.
+pub fn strip_bom(content: &[u8]) -> &[u8] {
+    content.strip_prefix(BYTE_ORDER_MARK).unwrap_or(content)
+}
+
 /// Detects a log's format from its first non-empty lines: NMEA if a line starts with `$`, `!`,
 /// `\` (a TAG block) or a timestamp followed by `$`/`!`; CSV if the first line is a header (text
-/// with a `,`, `;` or tab and a letter in every field). Anything else is read as NMEA so that
-/// every line is counted in the summary.
+/// with a `,`, `;` or tab and a letter in every field, or a header split by another character,
+/// which the CSV reader then refuses by name). Anything else is read as NMEA so that every line
+/// is counted in the summary. A leading byte-order mark is looked past.
 pub fn detect_format(content: &[u8]) -> Option<LogFormat> {
-    let mut lines = content
+    let mut lines = strip_bom(content)
         .split(|b| *b == b'\n')
-        .map(|l| l.strip_suffix(b"\r").unwrap_or(l))
+        .map(without_carriage_returns)
         .filter(|l| !l.iter().all(u8::is_ascii_whitespace))
         .take(20)
         .peekable();
     let first = lines.peek()?;
     if let Ok(text) = std::str::from_utf8(first)
-        && csvlog::looks_like_header(text)
+        && (csvlog::looks_like_header(text) || csvlog::foreign_separator(text).is_some())
     {
         return Some(LogFormat::Csv);
     }
@@ -300,13 +329,21 @@ pub fn import(
     }
 }
 
-/// Splits bytes into lines without their `\r\n` or `\n`, with 1-based numbers, skipping blanks.
+/// Splits bytes into lines without their `\r\n` or `\n`, with 1-based numbers, skipping blanks
+/// and a byte-order mark at the start.
 pub(crate) fn numbered_lines(content: &[u8]) -> impl Iterator<Item = (usize, &[u8])> {
-    content
+    strip_bom(content)
         .split(|b| *b == b'\n')
         .enumerate()
-        .map(|(i, l)| (i + 1, l.strip_suffix(b"\r").unwrap_or(l)))
+        .map(|(i, l)| (i + 1, without_carriage_returns(l)))
         .filter(|(_, l)| !l.iter().all(u8::is_ascii_whitespace))
+}
+
+/// A line without the carriage returns before its `\n`: one is the usual line end, and some
+/// serial-to-network bridges add another.
+pub(crate) fn without_carriage_returns(line: &[u8]) -> &[u8] {
+    let end = line.iter().rposition(|b| *b != b'\r').map_or(0, |i| i + 1);
+    &line[..end]
 }
 
 /// Mean of angles in degrees on the circle, 0–360; `None` for none or when they cancel.
@@ -372,5 +409,36 @@ mod tests {
         );
         assert_eq!(detect_format(b"\n\n  \n"), None);
         assert_eq!(detect_format(b"\x00\x01\xff\xfe"), Some(LogFormat::Nmea));
+    }
+
+    #[test]
+    fn detection_looks_past_a_byte_order_mark() {
+        assert_eq!(
+            detect_format(b"\xEF\xBB\xBFtime_s,rpm,sog_kn\n1,2,3\n"),
+            Some(LogFormat::Csv)
+        );
+        assert_eq!(
+            detect_format(b"\xEF\xBB\xBF$GPHDT,1.0,T*34\n"),
+            Some(LogFormat::Nmea)
+        );
+        // Only a mark at the very start is one; the same bytes later are the line's own.
+        assert_eq!(strip_bom(b"a\xEF\xBB\xBF"), b"a\xEF\xBB\xBF");
+        let lines: Vec<_> = numbered_lines(b"\xEF\xBB\xBFx\r\r\ny\r").collect();
+        assert_eq!(lines, vec![(1, &b"x"[..]), (2, &b"y"[..])]);
+    }
+
+    #[test]
+    fn a_header_with_another_separator_is_taken_as_csv_to_be_refused_by_name() {
+        assert_eq!(
+            detect_format(b"time_s|rpm|sog_kn\n0|1500|6\n"),
+            Some(LogFormat::Csv)
+        );
+        let err = import(b"time_s|rpm|sog_kn\n0|1500|6\n", None, &Default::default()).unwrap_err();
+        assert_eq!(
+            err.to_string(),
+            "line 1: the CSV header's columns are separated by '|'; a CSV log's separator must be ',', ';' or a tab"
+        );
+        // Plain words are not a header: without a quantity's name they stay NMEA's bad lines.
+        assert_eq!(detect_format(b"hello world\n"), Some(LogFormat::Nmea));
     }
 }

@@ -60,25 +60,30 @@ struct Session {
 }
 
 impl Session {
-    /// Where this boat's unsaved edits are kept when the session ends without a save.
-    fn recovery_path(&self) -> Option<PathBuf> {
-        match &self.target {
-            SaveTarget::Demo => recovery::for_demo(&self.name),
-            _ => self.path().map(|p| recovery::beside(&p)),
-        }
+    /// Where this boat's unsaved edits may be kept when the session ends without a save, in
+    /// the order they are tried (beside the boat, then the state directory).
+    fn recovery_places(&self) -> Vec<PathBuf> {
+        recovery::places(self.path().as_deref(), &self.name)
     }
 
-    /// The recovery file, if one is waiting to be offered.
+    /// The recovery file, if one is waiting to be offered (in any of its places).
     fn waiting_recovery(&self) -> Option<PathBuf> {
-        self.recovery_path().filter(|p| p.is_file())
+        recovery::find(&self.recovery_places())
     }
 
-    /// Removes the recovery file (after a save or a clean quit); a failure is only reported.
+    /// Removes the recovery file from every place (after a save or a clean quit); a failure
+    /// is only reported.
     fn drop_recovery(&self) -> Option<String> {
-        let path = self.recovery_path()?;
-        recovery::remove(&path)
-            .err()
-            .map(|e| format!("cannot remove {}: {e}", path.display()))
+        let failures: Vec<String> = self
+            .recovery_places()
+            .iter()
+            .filter_map(|path| {
+                recovery::remove(path)
+                    .err()
+                    .map(|e| format!("cannot remove {}: {e}", path.display()))
+            })
+            .collect();
+        (!failures.is_empty()).then(|| failures.join("; "))
     }
 
     fn path(&self) -> Option<PathBuf> {
@@ -262,28 +267,54 @@ pub fn run_with_feed(
             Ok(())
         }
         Ok(Ended::Dropped) => {
-            keep_unsaved(&app, &session);
+            let kept = keep_unsaved(&app, &session);
             // The terminal may be gone: restoring it can only fail, and printing that failure
             // to a closed stderr would panic, so the error is dropped.
             let _ = ratatui::try_restore();
-            Ok(())
+            report_kept(kept, &session)
         }
         Err(e) => {
-            keep_unsaved(&app, &session);
+            let kept = keep_unsaved(&app, &session);
             let _ = ratatui::try_restore();
+            report_kept(kept, &session)?;
             Err(e)
         }
     }
 }
 
-/// Writes the unsaved edits, if any, to the recovery file.
-fn keep_unsaved(app: &App, session: &Session) {
+/// Writes the unsaved edits, if any, to the first recovery place that takes them: the place
+/// (`None` when there was nothing unsaved), or why no place did.
+fn keep_unsaved(app: &App, session: &Session) -> Result<Option<PathBuf>, String> {
     if !app.dirty() {
-        return;
+        return Ok(None);
     }
-    if let Some(path) = session.recovery_path() {
-        // Nobody may be left to read a message: the recovery file is the whole report.
-        let _ = recovery::write(&path, &app.doc.boat);
+    recovery::write_first(
+        &session.recovery_places(),
+        &app.doc.boat.to_toml(),
+        recovery::write_text,
+    )
+    .map(Some)
+}
+
+/// Says on stderr where the edits went when it was not beside the boat, and makes a loss an
+/// error (a non-zero exit). Written with `writeln!`, whose failure on a gone terminal is
+/// dropped: `eprintln!` would panic there.
+fn report_kept(kept: Result<Option<PathBuf>, String>, session: &Session) -> anyhow::Result<()> {
+    use std::io::Write;
+    let first = session.recovery_places().into_iter().next();
+    match kept {
+        Ok(Some(path)) if Some(&path) != first.as_ref() && session.path().is_some() => {
+            let _ = writeln!(
+                std::io::stderr(),
+                "tidewright: the boat's folder cannot be written; the unsaved edits are kept in {}",
+                path.display()
+            );
+            Ok(())
+        }
+        Ok(_) => Ok(()),
+        Err(why) => Err(anyhow!(
+            "the unsaved edits could not be kept anywhere: {why}"
+        )),
     }
 }
 
@@ -362,9 +393,9 @@ const WATCHDOG_PERIOD: Duration = Duration::from_millis(500);
 /// How long the loop may take to leave after the terminal hung up before the watchdog ends it.
 const STOP_GRACE: Duration = Duration::from_secs(1);
 
-/// The recovery file and the unsaved document's text, kept current by the loop for the
-/// watchdog.
-type Pending = Arc<Mutex<Option<(PathBuf, BoatDocText)>>>;
+/// The recovery file's places and the unsaved document's text, kept current by the loop for
+/// the watchdog.
+type Pending = Arc<Mutex<Option<(Vec<PathBuf>, BoatDocText)>>>;
 /// A boat document written out as its TOML text.
 type BoatDocText = String;
 
@@ -383,13 +414,20 @@ fn watch_for_a_stuck_loop(pending: Pending, alive: Arc<AtomicBool>) {
             }
             if hung_up.is_some_and(|at| at.elapsed() >= STOP_GRACE) && alive.load(Ordering::Relaxed)
             {
+                let mut lost = false;
                 if let Ok(guard) = pending.lock()
-                    && let Some((path, text)) = guard.as_ref()
+                    && let Some((places, text)) = guard.as_ref()
+                    && let Err(why) = recovery::write_first(places, text, recovery::write_text)
                 {
-                    let _ = recovery::write_text(path, text);
+                    use std::io::Write;
+                    let _ = writeln!(
+                        std::io::stderr(),
+                        "tidewright: the unsaved edits could not be kept anywhere: {why}"
+                    );
+                    lost = true;
                 }
-                // 128 + SIGHUP: the terminal hung up.
-                std::process::exit(129);
+                // 128 + SIGHUP: the terminal hung up; 1 when the edits are lost as well.
+                std::process::exit(if lost { 1 } else { 129 });
             }
         }
     });
@@ -483,9 +521,7 @@ fn event_loop(
 /// Keeps the watchdog's copy of the unsaved document current.
 fn note_pending(app: &App, session: &Session, pending: &Pending) {
     let next = if app.dirty() {
-        session
-            .recovery_path()
-            .map(|path| (path, app.doc.boat.to_toml()))
+        Some((session.recovery_places(), app.doc.boat.to_toml()))
     } else {
         None
     };
@@ -557,7 +593,7 @@ fn carry_out(effect: Effect, session: &mut Session) -> Action {
         },
         Effect::Quit => Action::Resize,
         Effect::RestoreRecovery => {
-            let Some(path) = session.recovery_path() else {
+            let Some(path) = session.waiting_recovery() else {
                 return Action::Failed("no recovery file".into());
             };
             match recovery::read(&path) {

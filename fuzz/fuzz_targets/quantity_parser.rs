@@ -19,12 +19,18 @@ fuzz_target!(|data: &[u8]| {
             Err(
                 UnitError::NoNumber { position, .. }
                 | UnitError::UnknownUnit { position, .. }
-                | UnitError::Trailing { position, .. },
+                | UnitError::Trailing { position, .. }
+                | UnitError::Comma { position, .. },
             ) => assert!(
                 position <= length,
                 "{text:?}: position {position} past the end"
             ),
-            Err(UnitError::MissingUnit { .. } | UnitError::NotFinite { .. }) => {}
+            Err(
+                UnitError::MissingUnit { .. }
+                | UnitError::NotFinite { .. }
+                | UnitError::Blank { .. }
+                | UnitError::BadRatio { .. },
+            ) => {}
         }
     }
 });

@@ -2,8 +2,10 @@
 //!
 //! # Header convention
 //!
-//! The first non-empty line is the header; fields are separated by `,`, `;` or a tab
-//! (whichever the header uses, in that order). Each column is a quantity name, optionally
+//! The first non-empty line is the header (after a UTF-8 byte-order mark, if the file starts
+//! with one); fields are separated by `,`, `;` or a tab (whichever the header uses, in that
+//! order). A header split by another character (`|`, spaces, `:` …) is refused with a message
+//! naming it ([`ImportError::UnknownSeparator`]). Each column is a quantity name, optionally
 //! followed by its unit after `_`, or in `[…]` or `(…)`: `sog_kn`, `sog [m/s]`, `fuel (l/h)`.
 //! Names and units are case-insensitive.
 //!
@@ -19,11 +21,14 @@
 //!
 //! A column of another name is ignored. A known quantity with an unknown unit is an error naming
 //! the column. A row with the wrong number of fields or a value that is not a number counts as
-//! [`BadLine::BadRow`]; an empty field is a missing value. Each row is one sample; nothing is
+//! [`BadLine::BadRow`]; an empty field is a missing value. A row whose rpm, SOG or STW is
+//! outside [`super::bounds`] counts as [`BadLine::RpmOutOfRange`] or
+//! [`BadLine::SpeedOutOfRange`]. Each row is one sample; nothing is
 //! carried forward between rows.
 //!
 //! Example: `time_s,rpm,sog_kn,cog_deg,stw_kn,fuel_lph`.
 
+use super::bounds::{check_rpm, check_speed};
 use super::time::parse_iso8601;
 use super::{
     BadLine, ImportError, ImportedLog, LineSummary, LogFormat, METRES_PER_SECOND_PER_KNOT, Sample,
@@ -156,6 +161,44 @@ fn delimiter_of(header: &str) -> char {
         .unwrap_or(',')
 }
 
+/// Characters a header may be split by that the import does not accept: found only to name
+/// them in the message.
+const FOREIGN_SEPARATORS: [char; 5] = ['|', ':', ' ', '!', '#'];
+
+/// The separator of a header split by a character that is not `,`, `;` or a tab: the most
+/// frequent of [`FOREIGN_SEPARATORS`] when the fields it gives are names and one of them is a
+/// quantity the import knows. `None` for a header with an accepted separator, or plain text.
+pub fn foreign_separator(line: &str) -> Option<char> {
+    if line.contains([',', ';', '\t']) {
+        return None;
+    }
+    let line = line.trim();
+    let found = FOREIGN_SEPARATORS
+        .into_iter()
+        .map(|c| (line.matches(c).count(), c))
+        .filter(|(n, _)| *n > 0)
+        .max_by_key(|(n, _)| *n)?
+        .1;
+    let fields: Vec<&str> = line
+        .split(found)
+        .map(|f| f.trim().trim_matches('"'))
+        .filter(|f| !f.is_empty())
+        .collect();
+    let names = fields.len() >= 2
+        && fields
+            .iter()
+            .all(|f| f.starts_with(|c: char| c.is_ascii_alphabetic()));
+    (names && fields.iter().any(|f| split_column(f).is_some())).then_some(found)
+}
+
+/// A separator as a message shows it: `'|'`, or "spaces".
+pub fn separator_name(separator: char) -> String {
+    match separator {
+        ' ' => "spaces".to_owned(),
+        c => format!("{c:?}"),
+    }
+}
+
 /// Whether a line looks like a CSV header: two or more fields, each starting with a letter.
 pub fn looks_like_header(line: &str) -> bool {
     let delimiter = delimiter_of(line);
@@ -179,8 +222,14 @@ struct Column {
 /// Reads a whole CSV log.
 pub fn read_log(content: &[u8]) -> Result<ImportedLog, ImportError> {
     let mut lines = super::numbered_lines(content);
-    let (_, header) = lines.next().ok_or(ImportError::Empty)?;
+    let (header_line, header) = lines.next().ok_or(ImportError::Empty)?;
     let header = String::from_utf8_lossy(header);
+    if let Some(found) = foreign_separator(&header) {
+        return Err(ImportError::UnknownSeparator {
+            line: header_line,
+            found,
+        });
+    }
     let delimiter = delimiter_of(&header);
     let mut columns: Vec<Column> = Vec::new();
     let names: Vec<&str> = header.split(delimiter).collect();
@@ -240,12 +289,12 @@ pub fn read_log(content: &[u8]) -> Result<ImportedLog, ImportError> {
             continue;
         }
         match read_row(&fields, &columns) {
-            Some((sample, iso)) => {
+            Ok((sample, iso)) => {
                 dated |= iso || sample.time_s > 1e8;
                 summary.used += 1;
                 samples.push(sample);
             }
-            None => summary.count_bad(number, BadLine::BadRow),
+            Err(reason) => summary.count_bad(number, reason),
         }
     }
     let date = samples
@@ -260,8 +309,9 @@ pub fn read_log(content: &[u8]) -> Result<ImportedLog, ImportError> {
     })
 }
 
-/// One row as a sample, and whether its time was ISO 8601 text; `None` for a bad row.
-fn read_row(fields: &[&str], columns: &[Column]) -> Option<(Sample, bool)> {
+/// One row as a sample, and whether its time was ISO 8601 text; else why the row is bad.
+fn read_row(fields: &[&str], columns: &[Column]) -> Result<(Sample, bool), BadLine> {
+    let bad_row = || BadLine::BadRow;
     let mut sample = Sample::default();
     let mut time = None;
     let mut iso = false;
@@ -272,31 +322,39 @@ fn read_row(fields: &[&str], columns: &[Column]) -> Option<(Sample, bool)> {
         }
         let value = match column.conversion {
             Conversion::Scale(factor) => {
-                text.parse::<f64>().ok().filter(|v| v.is_finite())? * factor
+                text.parse::<f64>()
+                    .ok()
+                    .filter(|v| v.is_finite())
+                    .ok_or_else(bad_row)?
+                    * factor
             }
             Conversion::Milliseconds => {
-                text.parse::<f64>().ok().filter(|v| v.is_finite())? / 1000.0
+                text.parse::<f64>()
+                    .ok()
+                    .filter(|v| v.is_finite())
+                    .ok_or_else(bad_row)?
+                    / 1000.0
             }
             Conversion::SecondsOrIso => match text.parse::<f64>() {
                 Ok(v) if v.is_finite() => v,
                 _ => {
                     iso = true;
-                    parse_iso8601(text)?
+                    parse_iso8601(text).ok_or_else(bad_row)?
                 }
             },
         };
         match column.quantity {
             Quantity::Time => time = Some(value),
-            Quantity::Rpm => sample.engine_rpm = Some(value).filter(|r| *r >= 0.0),
-            Quantity::Sog => sample.speed_over_ground = Some(value).filter(|v| *v >= 0.0),
-            Quantity::Stw => sample.speed_through_water = Some(value).filter(|v| *v >= 0.0),
+            Quantity::Rpm => sample.engine_rpm = Some(check_rpm(value)?),
+            Quantity::Sog => sample.speed_over_ground = Some(check_speed(value)?),
+            Quantity::Stw => sample.speed_through_water = Some(check_speed(value)?),
             Quantity::Cog => sample.course_over_ground_deg = Some(value.rem_euclid(360.0)),
             Quantity::Heading => sample.heading_deg = Some(value.rem_euclid(360.0)),
             Quantity::Fuel => sample.fuel_volume_flow = Some(value).filter(|v| *v >= 0.0),
         }
     }
-    sample.time_s = time?;
-    Some((sample, iso))
+    sample.time_s = time.ok_or_else(bad_row)?;
+    Ok((sample, iso))
 }
 
 #[cfg(test)]
@@ -359,6 +417,43 @@ mod tests {
             imported.summary.first_bad,
             vec![(3, BadLine::BadRow), (4, BadLine::BadRow)]
         );
+    }
+
+    #[test]
+    fn a_byte_order_mark_before_the_header_is_skipped() {
+        let imported = read_log(b"\xEF\xBB\xBFtime_s,rpm,sog_kn\n0,2000,6.5\n").unwrap();
+        assert_eq!(imported.samples.len(), 1);
+        assert_eq!(imported.samples[0].engine_rpm, Some(2000.0));
+    }
+
+    #[test]
+    fn a_header_split_by_another_character_is_refused_by_name() {
+        for (log, name) in [
+            (&b"time_s|rpm|sog_kn\n0|1|2\n"[..], "'|'"),
+            (b"\n\ntime_s rpm sog_kn\n0 1 2\n", "spaces"),
+            (b"time:rpm:sog\n", "':'"),
+        ] {
+            let err = read_log(log).unwrap_err();
+            let ImportError::UnknownSeparator { found, line } = err else {
+                panic!("{err}")
+            };
+            assert_eq!(separator_name(found), name);
+            assert_eq!(line, if name == "spaces" { 3 } else { 1 });
+        }
+        assert_eq!(foreign_separator("time_s,rpm|x,sog"), None);
+        assert_eq!(foreign_separator("hello world"), None);
+    }
+
+    #[test]
+    fn out_of_range_values_are_counted_under_their_own_reason() {
+        // 70 kn is past the 60 kn bound; -800 rpm is below 0.
+        let log = b"time_s,rpm,sog_kn,stw_kn\n0,1500,6,\n1,-800,6,\n2,1500,70,\n3,1500,6,-1\n4,1500,6,6\n";
+        let imported = read_log(log).unwrap();
+        assert_eq!(imported.samples.len(), 2);
+        assert_eq!(imported.summary.bad_count(BadLine::RpmOutOfRange), 1);
+        assert_eq!(imported.summary.bad_count(BadLine::SpeedOutOfRange), 2);
+        assert_eq!(imported.summary.bad_count(BadLine::BadRow), 0);
+        assert_eq!(imported.summary.first_bad[0], (3, BadLine::RpmOutOfRange));
     }
 
     #[test]

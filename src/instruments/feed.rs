@@ -10,14 +10,24 @@
 //! [`FeedOptions::silence_s`] is [`FeedState::Silent`]; a closed or failed TCP connection (or
 //! one silent for [`FeedOptions::reconnect_after_silence_s`]) is [`FeedState::Reconnecting`]
 //! with a doubling backoff from [`FeedOptions::reconnect_initial_s`] up to
-//! [`FeedOptions::reconnect_max_s`]; [`FeedState::Closed`] is final (stopped, end of a replayed
-//! file, or a file that cannot be read).
+//! [`FeedOptions::reconnect_max_s`] ([`backoff`]): it keeps growing while connections die
+//! before they deliver a sentence (a server that accepts and closes at once), and starts again
+//! from the first delay only after one that delivered; [`FeedState::Closed`] is final
+//! (stopped, end of a replayed file, or a file that cannot be read).
+//!
+//! Bytes become lines in [`framing`], the one place that copes with reads ending inside a
+//! line and with junk that never ends one.
 //!
 //! Network lines carry the time they were received unless they hold their own timestamp or
 //! TAG block (see [`super::nmea`]), so a receiver's clock quirks do not stall the run finder.
 
+pub mod backoff;
+pub mod framing;
+
 use super::nmea::{DEFAULT_MAX_AGE_S, NmeaReader, RpmSource};
 use super::{ImportOptions, LineSummary, Sample, import};
+use backoff::Backoff;
+use framing::LineFramer;
 use std::io::{ErrorKind, Read};
 use std::net::{TcpStream, ToSocketAddrs, UdpSocket};
 use std::path::PathBuf;
@@ -282,29 +292,37 @@ impl Worker {
         !self.stopped()
     }
 
-    fn backoff(&self, attempt: u32) -> f64 {
-        let factor = 2f64.powi(attempt.saturating_sub(1).min(16) as i32);
-        (self.options.reconnect_initial_s * factor).min(self.options.reconnect_max_s)
+    fn backoff(&self) -> Backoff {
+        Backoff::new(
+            self.options.reconnect_initial_s,
+            self.options.reconnect_max_s,
+        )
     }
 
     fn run_tcp(&mut self, address: &str) -> String {
-        let mut attempt = 0;
+        let mut backoff = self.backoff();
         loop {
             if self.stopped() || !self.send(FeedEvent::State(FeedState::Connecting)) {
                 return "stopped".to_owned();
             }
             let reason = match connect(address, self.options.connect_timeout_s) {
                 Ok(stream) => {
-                    attempt = 0;
-                    match self.read_stream(stream) {
+                    let used_before = self.reader.summary().used;
+                    let ended = self.read_stream(stream);
+                    // Only a connection that gave sentences proves the server works; one that
+                    // dies young must not reset the delay, or a server that accepts and closes
+                    // is redialled every first delay forever.
+                    if self.reader.summary().used > used_before {
+                        backoff.delivered();
+                    }
+                    match ended {
                         Ended::Stopped => return "stopped".to_owned(),
                         Ended::Lost(reason) => reason,
                     }
                 }
                 Err(reason) => reason,
             };
-            attempt += 1;
-            let in_s = self.backoff(attempt);
+            let (attempt, in_s) = backoff.failed();
             if !self.send(FeedEvent::State(FeedState::Reconnecting {
                 attempt,
                 in_s,
@@ -316,19 +334,12 @@ impl Worker {
         }
     }
 
-    /// Lines of `pending` up to the last `\n` go to the reader.
-    fn take_lines(&mut self, pending: &mut Vec<u8>) {
-        let Some(end) = pending.iter().rposition(|b| *b == b'\n') else {
-            if pending.len() > 4096 {
-                pending.clear(); // no line end in 4 KiB: not a line protocol
-            }
-            return;
-        };
+    /// Complete lines go to the reader, stamped with the time they arrived.
+    fn take_lines(&mut self, lines: Vec<Vec<u8>>) {
         let now = now_unix_s();
-        let lines: Vec<u8> = pending.drain(..=end).collect();
-        for (number, line) in super::numbered_lines(&lines) {
-            let total = self.reader.summary().lines + number;
-            if let Some(sample) = self.reader.push_line(line, total, Some(now)) {
+        for line in lines {
+            let number = self.reader.summary().lines + 1;
+            if let Some(sample) = self.reader.push_line(&line, number, Some(now)) {
                 self.send(FeedEvent::Sample(sample));
             }
         }
@@ -354,7 +365,7 @@ impl Worker {
         }
         self.send(FeedEvent::State(FeedState::Live));
         let mut buffer = [0u8; 4096];
-        let mut pending = Vec::new();
+        let mut framer = LineFramer::new();
         let mut last_data = Instant::now();
         // Whole seconds of silence last shown, so the state is sent once a second.
         let mut silent_shown: Option<u64> = None;
@@ -364,8 +375,7 @@ impl Worker {
             }
             match stream.read(&mut buffer) {
                 Ok(0) => {
-                    pending.push(b'\n');
-                    self.take_lines(&mut pending);
+                    self.take_lines(framer.finish());
                     self.flush();
                     return Ended::Lost("the server closed the connection".to_owned());
                 }
@@ -374,8 +384,8 @@ impl Worker {
                         self.send(FeedEvent::State(FeedState::Live));
                     }
                     last_data = Instant::now();
-                    pending.extend_from_slice(&buffer[..n]);
-                    self.take_lines(&mut pending);
+                    let lines = framer.push(&buffer[..n]);
+                    self.take_lines(lines);
                 }
                 Err(e)
                     if matches!(
@@ -406,7 +416,7 @@ impl Worker {
     }
 
     fn run_udp(&mut self, address: &str) -> String {
-        let mut attempt = 0;
+        let mut backoff = self.backoff();
         let socket = loop {
             if self.stopped() {
                 return "stopped".to_owned();
@@ -416,8 +426,7 @@ impl Worker {
             {
                 Ok(socket) => break socket,
                 Err(e) => {
-                    attempt += 1;
-                    let in_s = self.backoff(attempt);
+                    let (attempt, in_s) = backoff.failed();
                     let reason = format!("cannot listen on udp {address}: {e}");
                     if !self.send(FeedEvent::State(FeedState::Reconnecting {
                         attempt,
@@ -445,9 +454,11 @@ impl Worker {
                         silent = false;
                     }
                     last_data = Instant::now();
-                    let mut datagram = buffer[..n].to_vec();
-                    datagram.push(b'\n');
-                    self.take_lines(&mut datagram);
+                    // A datagram is whole: its last line needs no line end.
+                    let mut framer = LineFramer::new();
+                    let mut lines = framer.push(&buffer[..n]);
+                    lines.extend(framer.finish());
+                    self.take_lines(lines);
                 }
                 Err(e)
                     if matches!(
@@ -520,209 +531,4 @@ fn connect(address: &str, timeout_s: f64) -> Result<TcpStream, String> {
 }
 
 #[cfg(test)]
-mod tests {
-    use super::super::nmea::with_checksum;
-    use super::*;
-    use std::io::Write;
-    use std::net::TcpListener;
-
-    fn quick() -> FeedOptions {
-        FeedOptions {
-            silence_s: 0.2,
-            reconnect_after_silence_s: 5.0,
-            reconnect_initial_s: 0.05,
-            reconnect_max_s: 0.2,
-            connect_timeout_s: 0.5,
-            ..FeedOptions::default()
-        }
-    }
-
-    /// Lines with their own epoch timestamps, 1 s apart from `t0`.
-    fn lines(t0: u32, n: u32) -> String {
-        (0..n)
-            .map(|i| {
-                format!(
-                    "{},{}\r\n{},{}\r\n",
-                    t0 + i,
-                    with_checksum("ERRPM,E,1,1500,,A"),
-                    t0 + i,
-                    with_checksum("GPHDT,45.0,T")
-                )
-            })
-            .collect()
-    }
-
-    /// Collects events until `done` says so or `limit` passes.
-    fn collect(
-        feed: &Feed,
-        limit: Duration,
-        done: impl Fn(&[FeedEvent]) -> bool,
-    ) -> Vec<FeedEvent> {
-        let start = Instant::now();
-        let mut events = Vec::new();
-        while start.elapsed() < limit && !done(&events) {
-            events.extend(feed.drain());
-            std::thread::sleep(Duration::from_millis(10));
-        }
-        events
-    }
-
-    fn samples(events: &[FeedEvent]) -> usize {
-        events
-            .iter()
-            .filter(|e| matches!(e, FeedEvent::Sample(_)))
-            .count()
-    }
-
-    #[test]
-    fn addresses() {
-        assert_eq!(
-            FeedSource::parse("tcp://10.0.0.5:10110"),
-            Ok(FeedSource::Tcp("10.0.0.5:10110".into()))
-        );
-        assert_eq!(
-            FeedSource::parse("udp://:10110"),
-            Ok(FeedSource::Udp("0.0.0.0:10110".into()))
-        );
-        assert_eq!(
-            FeedSource::parse("log.nmea"),
-            Ok(FeedSource::File("log.nmea".into()))
-        );
-        assert!(FeedSource::parse("tcp://host").is_err());
-        assert!(FeedSource::parse("tcp://host:99999").is_err());
-        assert!(FeedSource::parse("serial:///dev/ttyUSB0").is_err());
-    }
-
-    #[test]
-    fn tcp_reconnects_when_the_server_comes_back() {
-        let listener = TcpListener::bind("127.0.0.1:0").unwrap();
-        let port = listener.local_addr().unwrap().port();
-        let server = std::thread::spawn(move || {
-            let (mut conn, _) = listener.accept().unwrap();
-            conn.write_all(lines(1_700_000_000, 3).as_bytes()).unwrap();
-            drop(conn);
-            drop(listener);
-            std::thread::sleep(Duration::from_millis(250));
-            let listener = TcpListener::bind(("127.0.0.1", port)).unwrap();
-            let (mut conn, _) = listener.accept().unwrap();
-            conn.write_all(lines(1_700_000_100, 3).as_bytes()).unwrap();
-            // Stay quiet long enough to show as silent, then close.
-            std::thread::sleep(Duration::from_millis(400));
-        });
-        let feed = Feed::start(
-            FeedSource::parse(&format!("tcp://127.0.0.1:{port}")).unwrap(),
-            quick(),
-        );
-        let events = collect(&feed, Duration::from_millis(1800), |e| {
-            samples(e) >= 6
-                && e.iter()
-                    .any(|e| matches!(e, FeedEvent::State(FeedState::Silent { .. })))
-        });
-        server.join().unwrap();
-        let states: Vec<&FeedState> = events
-            .iter()
-            .filter_map(|e| {
-                if let FeedEvent::State(s) = e {
-                    Some(s)
-                } else {
-                    None
-                }
-            })
-            .collect();
-        assert_eq!(samples(&events), 6, "{states:?}");
-        assert!(
-            states
-                .iter()
-                .filter(|s| matches!(s, FeedState::Live))
-                .count()
-                >= 2,
-            "{states:?}"
-        );
-        assert!(
-            states
-                .iter()
-                .any(|s| matches!(s, FeedState::Reconnecting { .. })),
-            "{states:?}"
-        );
-        assert!(
-            states.iter().any(|s| matches!(s, FeedState::Silent { .. })),
-            "{states:?}"
-        );
-        let first = events
-            .iter()
-            .find_map(|e| {
-                if let FeedEvent::Sample(s) = e {
-                    Some(*s)
-                } else {
-                    None
-                }
-            })
-            .unwrap();
-        assert_eq!(first.engine_rpm, Some(1500.0));
-        assert_eq!(first.time_s, 1_700_000_000.0);
-    }
-
-    #[test]
-    fn udp_datagrams_become_samples() {
-        let probe = UdpSocket::bind("127.0.0.1:0").unwrap();
-        let port = probe.local_addr().unwrap().port();
-        drop(probe);
-        let feed = Feed::start(
-            FeedSource::parse(&format!("udp://127.0.0.1:{port}")).unwrap(),
-            quick(),
-        );
-        collect(&feed, Duration::from_millis(500), |e| {
-            e.contains(&FeedEvent::State(FeedState::Live))
-        });
-        let sender = UdpSocket::bind("127.0.0.1:0").unwrap();
-        for line in lines(1_700_000_000, 4).lines() {
-            sender
-                .send_to(line.as_bytes(), ("127.0.0.1", port))
-                .unwrap();
-        }
-        let events = collect(&feed, Duration::from_millis(1000), |e| samples(e) >= 4);
-        assert_eq!(samples(&events), 4, "{events:?}");
-    }
-
-    #[test]
-    fn file_replays_at_its_own_pace_sped_up() {
-        let spec = super::super::synth::SynthSpec {
-            rpm_steps: vec![1500.0],
-            leg_s: 60.0,
-            turn_s: 20.0,
-            ..Default::default()
-        };
-        let log = super::super::synth::generate(&spec, |rpm| rpm / 500.0, None);
-        let mut file = tempfile::NamedTempFile::new().unwrap();
-        file.write_all(log.nmea.as_bytes()).unwrap();
-        let expected = import(log.nmea.as_bytes(), None, &ImportOptions::default())
-            .unwrap()
-            .samples
-            .len();
-        // About 170 s of log at 400× is about 0.43 s.
-        let options = FeedOptions {
-            replay_speedup: 400.0,
-            ..quick()
-        };
-        let start = Instant::now();
-        let feed = Feed::start(FeedSource::File(file.path().to_owned()), options);
-        let events = collect(&feed, Duration::from_millis(1800), |e| {
-            e.iter()
-                .any(|e| matches!(e, FeedEvent::State(FeedState::Closed { .. })))
-        });
-        let elapsed = start.elapsed().as_secs_f64();
-        assert_eq!(samples(&events), expected);
-        assert!(elapsed > 0.3, "replayed too fast: {elapsed} s");
-        assert!(events.contains(&FeedEvent::State(FeedState::Closed {
-            reason: "end of file".into()
-        })));
-    }
-
-    #[test]
-    fn dropping_the_feed_stops_the_thread_without_blocking() {
-        let feed = Feed::start(FeedSource::Tcp("127.0.0.1:9".into()), quick());
-        let start = Instant::now();
-        drop(feed);
-        assert!(start.elapsed() < Duration::from_millis(50));
-    }
-}
+mod tests;

@@ -24,10 +24,15 @@
 //!   sensor + deviation + variation (east positive). Without a variation the heading is
 //!   magnetic and is used as it is.
 //! - `RPM` (read here): `$--RPM,source,number,rpm,pitch %,status` — source `E` engine or `S`
-//!   shaft; status `A` valid, `V` invalid (dropped). Negative rpm (astern) is dropped.
+//!   shaft; status `A` valid, `V` invalid (dropped). An rpm below 0 (astern) or above
+//!   [`super::bounds::MAX_RPM`] makes the line [`BadLine::RpmOutOfRange`].
 //! - `XDR` (read here): transducer quadruples `type,value,unit,name`; type `T` (tachometer)
 //!   with unit `R` (rpm) is an engine rpm; the name's trailing number picks the engine
 //!   (`ENGINE2` → engine 2; no number → engine 1).
+//!
+//! A speed over ground or through the water above [`super::bounds::MAX_SPEED_KN`] (a GPS
+//! spike) makes its line [`BadLine::SpeedOutOfRange`]. A UTF-8 byte-order mark at the start of
+//! a log is skipped.
 //!
 //! Other valid sentences (GGA, GSV, DPT, MWV, AIS `!AIVDM`, proprietary `$P…`) are counted as
 //! ignored.
@@ -42,6 +47,7 @@
 //! never lends its last rpm to a minute of log. Lines before any time is known are counted as
 //! [`BadLine::NoTime`].
 
+use super::bounds::{check_rpm, check_speed};
 use super::time::{parse_clock, parse_date, parse_iso8601};
 use super::{
     BadLine, ImportOptions, ImportedLog, LineSummary, LogFormat, METRES_PER_SECOND_PER_KNOT, Sample,
@@ -133,7 +139,7 @@ pub enum Reading {
     Heading(f64),
     /// VHW speed through water, m/s.
     WaterSpeed(f64),
-    /// RPM/XDR engine or shaft speed, rpm (`None` when flagged invalid or astern).
+    /// RPM/XDR engine or shaft speed, rpm (`None` when flagged invalid).
     Rpm(RpmSource, Option<f64>),
 }
 
@@ -274,12 +280,16 @@ fn read_with_crate(sentence: &str) -> Result<Vec<Reading>, BadLine> {
                 time_of_day_s,
                 date_days,
                 valid,
-                speed_over_ground: finite(rmc.speed_over_ground).map(knots),
+                speed_over_ground: finite(rmc.speed_over_ground)
+                    .map(|v| check_speed(knots(v)))
+                    .transpose()?,
                 course_over_ground_deg: finite(rmc.true_course).map(|c| c.rem_euclid(360.0)),
             }]
         }
         ParseResult::VTG(vtg) => vec![Reading::Track {
-            speed_over_ground: finite(vtg.speed_over_ground).map(knots),
+            speed_over_ground: finite(vtg.speed_over_ground)
+                .map(|v| check_speed(knots(v)))
+                .transpose()?,
             course_over_ground_deg: finite(vtg.true_course).map(|c| c.rem_euclid(360.0)),
         }],
         ParseResult::HDT(hdt) => finite(hdt.heading)
@@ -295,7 +305,8 @@ fn read_with_crate(sentence: &str) -> Result<Vec<Reading>, BadLine> {
                 .relative_speed_knots
                 .map(knots)
                 .or(vhw.relative_speed_kmph.map(|v| v / 3.6))
-                .filter(|v| v.is_finite() && *v >= 0.0);
+                .map(check_speed)
+                .transpose()?;
             readings.extend(stw.map(Reading::WaterSpeed));
             readings
         }
@@ -352,7 +363,8 @@ fn read_rpm(fields: &[&str]) -> Result<Reading, BadLine> {
         "V" => false,
         _ => return Err(BadLine::BadFields),
     };
-    Ok(Reading::Rpm(source, rpm.filter(|r| valid && *r >= 0.0)))
+    let rpm = rpm.filter(|_| valid).map(check_rpm).transpose()?;
+    Ok(Reading::Rpm(source, rpm))
 }
 
 /// `$--XDR,type,value,unit,name[,type,value,unit,name…]`.
@@ -376,11 +388,8 @@ fn read_xdr(fields: &[&str]) -> Result<Vec<Reading>, BadLine> {
             } else {
                 digits.parse().map_err(|_| BadLine::BadFields)?
             };
-            let rpm = number(quad[1])?;
-            readings.push(Reading::Rpm(
-                RpmSource::Engine(n),
-                rpm.filter(|r| *r >= 0.0),
-            ));
+            let rpm = number(quad[1])?.map(check_rpm).transpose()?;
+            readings.push(Reading::Rpm(RpmSource::Engine(n), rpm));
         }
     }
     Ok(readings)
@@ -657,212 +666,4 @@ pub fn read_log(content: &[u8], options: &ImportOptions) -> ImportedLog {
 }
 
 #[cfg(test)]
-mod tests {
-    use super::*;
-
-    #[test]
-    fn checksum_of_hand_computed_examples() {
-        // NMEA 0183 §5.2.1: the checksum is the 8-bit XOR of every character between '$' and
-        // '*', written as two hex digits. Worked by hand for "GPHDT,1.0,T":
-        //   G 0x47 ^ P 0x50 = 0x17; ^ H 0x48 = 0x5F; ^ D 0x44 = 0x1B; ^ T 0x54 = 0x4F;
-        //   ^ , 0x2C = 0x63; ^ 1 0x31 = 0x52; ^ . 0x2E = 0x7C; ^ 0 0x30 = 0x4C;
-        //   ^ , 0x2C = 0x60; ^ T 0x54 = 0x34.
-        assert_eq!(checksum("GPHDT,1.0,T"), 0x34);
-        // "ERRPM,E,1,0,,A": E 0x45 ^ R 0x52 = 0x17; ^ R = 0x45; ^ P 0x50 = 0x15; ^ M 0x4D = 0x58;
-        //   ^ , = 0x74; ^ E = 0x31; ^ , = 0x1D; ^ 1 0x31 = 0x2C; ^ , = 0x00; ^ 0 0x30 = 0x30;
-        //   ^ , = 0x1C; ^ , = 0x30; ^ A 0x41 = 0x71.
-        assert_eq!(checksum("ERRPM,E,1,0,,A"), 0x71);
-        assert_eq!(with_checksum("GPHDT,1.0,T"), "$GPHDT,1.0,T*34");
-        // A widely quoted RMC example sentence and its published checksum *6A (NMEA 0183
-        // example as printed in receiver manuals; recomputed here by the same XOR).
-        let rmc = "$GPRMC,123519,A,4807.038,N,01131.000,E,022.4,084.4,230394,003.1,W*6A";
-        assert!(parse_sentence(rmc).is_ok());
-    }
-
-    #[test]
-    fn rmc_gives_time_date_and_speed() {
-        let rmc = "$GPRMC,123519,A,4807.038,N,01131.000,E,022.4,084.4,230394,003.1,W*6A";
-        let r = parse_sentence(rmc).unwrap();
-        let Reading::Fix {
-            time_of_day_s,
-            date_days,
-            valid,
-            speed_over_ground,
-            course_over_ground_deg,
-        } = r[0]
-        else {
-            panic!("{r:?}")
-        };
-        assert_eq!(time_of_day_s, Some(12.0 * 3600.0 + 35.0 * 60.0 + 19.0));
-        assert_eq!(
-            date_days,
-            Some(super::super::time::days_from_civil(1994, 3, 23))
-        );
-        assert!(valid);
-        // 22.4 kn × 1852/3600 = 11.5236 m/s (BIPM SI Brochure, Table 8: knot).
-        assert!((speed_over_ground.unwrap() - 11.523_555).abs() < 1e-4);
-        assert!((course_over_ground_deg.unwrap() - 84.4).abs() < 1e-4);
-    }
-
-    #[test]
-    fn hdg_applies_deviation_and_variation() {
-        let s = with_checksum("HCHDG,98.3,0.0,E,12.6,W");
-        assert_eq!(parse_sentence(&s).unwrap().len(), 1);
-        let Reading::Heading(h) = parse_sentence(&s).unwrap()[0] else {
-            panic!()
-        };
-        assert!((h - 85.7).abs() < 1e-9, "{h}");
-        let s = with_checksum("HCHDG,5.0,,,10.0,W");
-        let Reading::Heading(h) = parse_sentence(&s).unwrap()[0] else {
-            panic!()
-        };
-        assert!((h - 355.0).abs() < 1e-9, "{h}");
-    }
-
-    #[test]
-    fn rpm_sentence_sources_and_status() {
-        let r = parse_sentence(&with_checksum("ERRPM,E,2,1650.5,,A")).unwrap();
-        assert_eq!(r, vec![Reading::Rpm(RpmSource::Engine(2), Some(1650.5))]);
-        let r = parse_sentence(&with_checksum("ERRPM,S,1,820,,V")).unwrap();
-        assert_eq!(r, vec![Reading::Rpm(RpmSource::Shaft(1), None)]);
-        assert_eq!(
-            parse_sentence(&with_checksum("ERRPM,X,1,820,,A")),
-            Err(BadLine::BadFields)
-        );
-        assert_eq!(
-            parse_sentence(&with_checksum("ERRPM,E,1,fast,,A")),
-            Err(BadLine::BadFields)
-        );
-    }
-
-    #[test]
-    fn xdr_tachometer_quadruples() {
-        let r = parse_sentence(&with_checksum("IIXDR,C,19.5,C,AIR,T,1200,R,ENGINE2")).unwrap();
-        assert_eq!(r, vec![Reading::Rpm(RpmSource::Engine(2), Some(1200.0))]);
-        let r = parse_sentence(&with_checksum("IIXDR,T,900,R,MAIN")).unwrap();
-        assert_eq!(r, vec![Reading::Rpm(RpmSource::Engine(1), Some(900.0))]);
-        assert_eq!(
-            parse_sentence(&with_checksum("IIXDR,T,900,R")),
-            Err(BadLine::BadFields)
-        );
-    }
-
-    #[test]
-    fn bad_lines_by_reason() {
-        assert_eq!(parse_line(b"$GPHDT,1.0,T*35"), Err(BadLine::BadChecksum));
-        assert_eq!(parse_line(b"$GPHDT,1.0,T"), Err(BadLine::MissingChecksum));
-        assert_eq!(parse_line(b"$GPHDT,1.0,T*3"), Err(BadLine::MissingChecksum));
-        assert_eq!(
-            parse_line(with_checksum("QQHDT,1.0,T").as_bytes()),
-            Err(BadLine::UnknownTalker)
-        );
-        assert_eq!(
-            parse_line(with_checksum("GPXYZ,1.0,T").as_bytes()),
-            Err(BadLine::UnknownSentence)
-        );
-        assert_eq!(parse_line(b"\x00\x9f\xffGP"), Err(BadLine::NotText));
-        assert_eq!(parse_line(b"hello world"), Err(BadLine::NotASentence));
-        assert_eq!(
-            parse_line(b"12:00 $GPHDT,1.0,T*34"),
-            Err(BadLine::BadTimestamp)
-        );
-        assert_eq!(
-            parse_line(with_checksum("GPRMC,garbage").as_bytes()),
-            Err(BadLine::BadFields)
-        );
-        // Known but unused, proprietary and AIS are valid and ignored.
-        assert_eq!(
-            parse_line(with_checksum("GPGSA,A,3,,,,,,,,,,,,,1.0,1.0,1.0").as_bytes())
-                .unwrap()
-                .readings,
-            vec![]
-        );
-        assert_eq!(
-            parse_line(with_checksum("PXYZA,1").as_bytes())
-                .unwrap()
-                .readings,
-            vec![]
-        );
-    }
-
-    #[test]
-    fn mixed_talkers_are_accepted() {
-        for talker in ["GP", "GN", "II", "IN", "EC", "HE"] {
-            let s = with_checksum(&format!("{talker}HDT,10.0,T"));
-            assert_eq!(
-                parse_sentence(&s),
-                Ok(vec![Reading::Heading(10.0)]),
-                "{talker}"
-            );
-        }
-    }
-
-    #[test]
-    fn timestamps_and_tag_blocks() {
-        let hdt = with_checksum("GPHDT,1.0,T");
-        let p = parse_line(format!("2023-11-14T22:13:20Z {hdt}").as_bytes()).unwrap();
-        assert_eq!(p.time_s, Some(1_700_000_000.0));
-        let p = parse_line(format!("1700000000.5,{hdt}").as_bytes()).unwrap();
-        assert_eq!(p.time_s, Some(1_700_000_000.5));
-        let p = parse_line(format!("1700000000500 {hdt}").as_bytes()).unwrap();
-        assert_eq!(p.time_s, Some(1_700_000_000.5));
-        let tag = "c:1700000000";
-        let p = parse_line(format!("\\{tag}*{:02X}\\{hdt}", checksum(tag)).as_bytes()).unwrap();
-        assert_eq!(p.time_s, Some(1_700_000_000.0));
-        assert_eq!(
-            parse_line(format!("\\{tag}*00\\{hdt}").as_bytes()),
-            Err(BadLine::BadChecksum)
-        );
-    }
-
-    #[test]
-    fn reader_fills_forward_and_expires() {
-        let mut reader = NmeaReader::new(None, 5.0);
-        let rpm = with_checksum("ERRPM,E,1,1500,,A");
-        let hdt = with_checksum("GPHDT,90.0,T");
-        let mut samples = Vec::new();
-        samples.extend(reader.push_line(format!("100 {rpm}").as_bytes(), 1, None));
-        for t in 101..110 {
-            samples.extend(reader.push_line(format!("{t} {hdt}").as_bytes(), t, None));
-        }
-        samples.extend(reader.finish());
-        assert_eq!(samples.len(), 10);
-        // rpm read at 100 s is carried to 105 s (5 s limit) and left out after.
-        assert_eq!(samples[5].engine_rpm, Some(1500.0));
-        assert_eq!(samples[6].engine_rpm, None);
-        assert_eq!(samples[9].heading_deg, Some(90.0));
-        assert_eq!(reader.summary().used, 10);
-    }
-
-    #[test]
-    fn invalid_fix_blanks_speed() {
-        let mut reader = NmeaReader::new(None, 5.0);
-        let good = with_checksum("GPRMC,120000,A,4807.038,N,01131.000,E,5.0,90.0,141123,,");
-        let bad = with_checksum("GPRMC,120001,V,,,,,,,141123,,");
-        let vtg = with_checksum("GPVTG,90.0,T,,M,5.0,N,9.3,K");
-        let hdt = with_checksum("GPHDT,90.0,T");
-        let mut samples = Vec::new();
-        for line in [&good, &bad, &vtg, &hdt] {
-            samples.extend(reader.push_line(line.as_bytes(), 1, None));
-        }
-        samples.extend(reader.finish());
-        assert_eq!(samples.len(), 2);
-        assert!(samples[0].speed_over_ground.is_some());
-        assert_eq!(samples[1].speed_over_ground, None);
-        assert_eq!(reader.date(), Some("2023-11-14"));
-        assert_eq!(
-            samples[0].time_s,
-            1_700_000_000.0 - 22.0 * 3600.0 - 13.0 * 60.0 - 20.0 + 12.0 * 3600.0
-        );
-    }
-
-    #[test]
-    fn automatic_engine_choice() {
-        use RpmSource::*;
-        assert_eq!(choose_rpm_source(&[Engine(2), Engine(1)]), Some(Engine(1)));
-        assert_eq!(choose_rpm_source(&[Engine(3), Engine(2)]), Some(Engine(2)));
-        assert_eq!(choose_rpm_source(&[Shaft(1), Engine(0)]), Some(Engine(0)));
-        assert_eq!(choose_rpm_source(&[Shaft(2)]), Some(Shaft(2)));
-        assert_eq!(choose_rpm_source(&[]), None);
-    }
-}
+mod tests;

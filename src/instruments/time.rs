@@ -31,9 +31,18 @@ pub fn civil_from_days(days: i64) -> (i64, u32, u32) {
     (year, month, day)
 }
 
-/// The UTC date `YYYY-MM-DD` of unix time `time_s`, s.
+/// The UTC date `YYYY-MM-DD` of unix time `time_s`, s; a time before year 0 or after 9999 (a
+/// log's nonsense timestamp) gives that year's first or last day rather than an overflow.
 pub fn date_of(time_s: f64) -> String {
-    let (y, m, d) = civil_from_days((time_s / 86_400.0).floor() as i64);
+    let first = days_from_civil(0, 1, 1) as f64;
+    let last = days_from_civil(9999, 12, 31) as f64;
+    let days = (time_s / 86_400.0).floor();
+    let days = if days.is_nan() {
+        0.0
+    } else {
+        days.clamp(first, last)
+    };
+    let (y, m, d) = civil_from_days(days as i64);
     format!("{y:04}-{m:02}-{d:02}")
 }
 
@@ -52,7 +61,7 @@ fn digits(text: &str, range: std::ops::Range<usize>) -> Option<u32> {
 
 /// Parses `YYYY-MM-DD` into days from 1970-01-01.
 pub fn parse_date(text: &str) -> Option<i64> {
-    if text.len() != 10 || &text[4..5] != "-" || &text[7..8] != "-" {
+    if text.len() != 10 || text.get(4..5) != Some("-") || text.get(7..8) != Some("-") {
         return None;
     }
     let (y, m, d) = (
@@ -65,7 +74,7 @@ pub fn parse_date(text: &str) -> Option<i64> {
 
 /// Parses `hh:mm:ss[.fff]` into seconds of the day.
 pub fn parse_clock(text: &str) -> Option<f64> {
-    if text.len() < 8 || &text[2..3] != ":" || &text[5..6] != ":" {
+    if text.len() < 8 || text.get(2..3) != Some(":") || text.get(5..6) != Some(":") {
         return None;
     }
     let (h, m) = (digits(text, 0..2)?, digits(text, 3..5)?);
@@ -90,7 +99,7 @@ pub fn parse_iso8601(text: &str) -> Option<f64> {
     } else if let Some(pos) = rest.rfind(['+', '-']).filter(|&p| p >= 8) {
         let zone = &rest[pos + 1..];
         let (h, m) = match zone.len() {
-            5 if &zone[2..3] == ":" => (digits(zone, 0..2)?, digits(zone, 3..5)?),
+            5 if zone.get(2..3) == Some(":") => (digits(zone, 0..2)?, digits(zone, 3..5)?),
             4 => (digits(zone, 0..2)?, digits(zone, 2..4)?),
             2 => (digits(zone, 0..2)?, 0),
             _ => return None,
@@ -110,6 +119,27 @@ pub fn parse_iso8601(text: &str) -> Option<f64> {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn a_nonsense_time_gives_a_date_at_the_end_of_the_range() {
+        // Found by the feed_framing fuzz target: a timestamp of 1e300 s overflowed the day count.
+        assert_eq!(date_of(1e300), "9999-12-31");
+        assert_eq!(date_of(-1e300), "0000-01-01");
+        assert_eq!(date_of(f64::NAN), "1970-01-01");
+        assert_eq!(date_of(1_700_000_000.0), "2023-11-14");
+    }
+
+    #[test]
+    fn text_that_is_not_ascii_is_refused_not_sliced_apart() {
+        // Found by the log_readers fuzz target: a byte-order mark inside a date's field.
+        assert_eq!(parse_date("2023\u{feff}1114"), None);
+        assert_eq!(parse_clock("12\u{feff}3456"), None);
+        assert_eq!(parse_iso8601("2023-11-14T22:13:20+1\u{e9}0"), None);
+        assert_eq!(
+            parse_iso8601("2023-11-14T22:13:20+01:00"),
+            Some(1_700_000_000.0 - 3600.0)
+        );
+    }
 
     #[test]
     fn unix_epoch_and_a_known_date() {

@@ -6,6 +6,7 @@
 use proptest::test_runner::{Config, RngSeed};
 
 mod loader;
+mod read_only;
 mod resistance;
 mod screw;
 mod solver;

@@ -293,3 +293,52 @@ fn a_bad_min_run_is_a_usage_error() {
         .assert()
         .code(2);
 }
+
+#[test]
+fn a_csv_log_with_a_byte_order_mark_imports_detected_or_named() {
+    let (dir, store, _) = store();
+    let log = pintle_log();
+    let mut marked = b"\xEF\xBB\xBF".to_vec();
+    marked.extend_from_slice(log.csv.as_bytes());
+    let file = write_log(&dir, "marked.csv", &marked);
+    let detected = import_json(&store, &file);
+    assert_eq!(detected["log"]["format"], "csv", "{}", detected["log"]);
+    assert_eq!(detected["log"]["pairs"], 3);
+    assert_eq!(detected["log"]["lines"]["bad"], serde_json::json!({}));
+    let named = tidewright()
+        .args(["--profiles", &store, "trial", "pintle", "--import", &file])
+        .args(["--log-format", "csv", "--format", "json"])
+        .assert()
+        .success();
+    let named: Value = serde_json::from_slice(&named.get_output().stdout).unwrap();
+    assert_eq!(named["log"]["runs"], detected["log"]["runs"]);
+}
+
+#[test]
+fn a_foreign_separator_and_out_of_range_values_are_named() {
+    let rows = |separator: &str, rpm: &str| {
+        let mut text = ["time_s", "rpm", "sog_kn", "cog_deg"].join(separator) + "\n";
+        for i in 0..1200 {
+            text += &[&i.to_string(), rpm, "6.5", "90"].join(separator);
+            text += "\n";
+        }
+        text
+    };
+    let (code, _, err) = refused("pipes.csv", rows("|", "2000").as_bytes());
+    assert_eq!(code, 1);
+    assert!(err.contains("pipes.csv"), "{err}");
+    assert!(
+        err.contains("line 1: the CSV header's columns are separated by '|'"),
+        "{err}"
+    );
+    assert!(err.contains("',', ';' or a tab"), "{err}");
+
+    let (code, out, err) = refused("astern.csv", rows(",", "-2000").as_bytes());
+    assert_eq!(code, 1);
+    assert!(out.contains("1200 rpm out of range"), "{out}");
+    assert!(
+        err.contains("no usable engine rpm: 1200 line(s) gave an rpm out of range"),
+        "{err}"
+    );
+    assert!(err.contains("line 2 first"), "{err}");
+}

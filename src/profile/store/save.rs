@@ -19,9 +19,11 @@ pub(super) fn create_new_file(path: &Path, text: &str) -> Result<PathBuf, Profil
         .filter(|p| !p.as_os_str().is_empty())
         .unwrap_or(Path::new("."));
     std::fs::create_dir_all(dir).map_err(write_error)?;
+    // The generic prefix: this save holds no lock, so no other save may take the temporary
+    // for its own.
     let mut temp = tempfile::Builder::new()
-        .prefix(".tidewright-")
-        .suffix(".tmp")
+        .prefix(TEMPORARY_PREFIX)
+        .suffix(TEMPORARY_SUFFIX)
         .tempfile_in(dir)
         .map_err(write_error)?;
     temp.write_all(text.as_bytes()).map_err(write_error)?;
@@ -66,6 +68,111 @@ pub struct PendingSave {
     /// Held from the changed-on-disk check to the rename, so that two saves cannot both pass
     /// the check and the later rename silently drop the earlier update.
     _lock: SaveLock,
+}
+
+/// What every temporary file of a save starts with.
+pub const TEMPORARY_PREFIX: &str = ".tidewright-";
+/// What every temporary file of a save (and of a recovery file) ends with.
+pub const TEMPORARY_SUFFIX: &str = ".tmp";
+/// What a recovery file's temporary starts with (`tui::recovery` writes it beside the boat).
+pub const RECOVERY_TEMPORARY_PREFIX: &str = ".recover-";
+/// Random characters `tempfile` puts in a temporary's name (its default).
+const TEMPORARY_RANDOM_LEN: usize = 6;
+
+/// The prefix of the temporaries of a save of `path`: `.tidewright-NAME.toml-`, so that a
+/// later save of the same file knows them for its own.
+fn temporary_prefix(path: &Path) -> String {
+    format!(
+        "{TEMPORARY_PREFIX}{}-",
+        path.file_name().unwrap_or_default().to_string_lossy()
+    )
+}
+
+/// Whether `rest` is what `tempfile` puts between a prefix and the suffix.
+fn is_random_part(rest: &str) -> bool {
+    rest.len() == TEMPORARY_RANDOM_LEN && rest.bytes().all(|b| b.is_ascii_alphanumeric())
+}
+
+/// Whose a temporary file in the boat's folder is, judged by its name alone.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Temporary {
+    /// A save of this very file (`.tidewright-NAME.toml-XXXXXX.tmp`).
+    OfThisFile,
+    /// A save of another file, a new file, an older version, or a recovery file
+    /// (`.tidewright-XXXXXX.tmp`, `.tidewright-OTHER.toml-XXXXXX.tmp`, `.recover-XXXXXX.tmp`).
+    OfAnother,
+    /// Not a name tidewright gives its temporaries: never touched.
+    NotOurs,
+}
+
+/// Classifies `name`, found beside the boat file `path`.
+pub fn classify_temporary(name: &str, path: &Path) -> Temporary {
+    let Some(stem) = name.strip_suffix(TEMPORARY_SUFFIX) else {
+        return Temporary::NotOurs;
+    };
+    if let Some(rest) = stem.strip_prefix(&temporary_prefix(path))
+        && is_random_part(rest)
+    {
+        return Temporary::OfThisFile;
+    }
+    if let Some(rest) = stem.strip_prefix(RECOVERY_TEMPORARY_PREFIX) {
+        return if is_random_part(rest) {
+            Temporary::OfAnother
+        } else {
+            Temporary::NotOurs
+        };
+    }
+    let Some(rest) = stem.strip_prefix(TEMPORARY_PREFIX) else {
+        return Temporary::NotOurs;
+    };
+    let random = rest
+        .rsplit_once('-')
+        .filter(|(file, _)| file.ends_with(".toml"))
+        .map_or(rest, |(_, random)| random);
+    if is_random_part(random) {
+        Temporary::OfAnother
+    } else {
+        Temporary::NotOurs
+    }
+}
+
+/// Removes what interrupted saves (a SIGKILL, a power cut) left beside `path`, while its lock
+/// `lock` is held: this file's own temporaries older than the lock (no save of it can be
+/// under way: it would hold the lock), and any other temporary of ours older than
+/// [`STALE_LOCK_SECONDS`] as well (no save takes that long). A failure only leaves a file.
+fn remove_stale_temporaries(path: &Path, lock: &Path) {
+    let Some(dir) = path.parent().filter(|p| !p.as_os_str().is_empty()) else {
+        return;
+    };
+    let Ok(locked_at) = std::fs::metadata(lock).and_then(|m| m.modified()) else {
+        return;
+    };
+    let Ok(entries) = std::fs::read_dir(dir) else {
+        return;
+    };
+    for entry in entries.flatten() {
+        let name = entry.file_name();
+        let kind = classify_temporary(&name.to_string_lossy(), path);
+        if kind == Temporary::NotOurs {
+            continue;
+        }
+        let Ok(meta) = entry.metadata() else { continue };
+        let Ok(modified) = meta.modified() else {
+            continue;
+        };
+        let before_lock = modified < locked_at;
+        let old = modified
+            .elapsed()
+            .is_ok_and(|age| age.as_secs() >= STALE_LOCK_SECONDS);
+        let stale = match kind {
+            Temporary::OfThisFile => before_lock,
+            Temporary::OfAnother => before_lock && old,
+            Temporary::NotOurs => false,
+        };
+        if stale && meta.is_file() {
+            let _ = std::fs::remove_file(entry.path());
+        }
+    }
 }
 
 /// A lock file older than this is taken to be left by a save that died, and is taken over, s.
@@ -190,6 +297,7 @@ impl PendingSave {
             .unwrap_or(Path::new("."));
         std::fs::create_dir_all(dir).map_err(write_error)?;
         let lock = SaveLock::acquire(path)?;
+        remove_stale_temporaries(path, &lock.path);
         let previous = match std::fs::read(path) {
             Ok(bytes) => Some(bytes),
             Err(e) if e.kind() == std::io::ErrorKind::NotFound => None,
@@ -212,8 +320,8 @@ impl PendingSave {
             });
         }
         let mut temp = tempfile::Builder::new()
-            .prefix(".tidewright-")
-            .suffix(".tmp")
+            .prefix(&temporary_prefix(path))
+            .suffix(TEMPORARY_SUFFIX)
             .tempfile_in(dir)
             .map_err(write_error)?;
         temp.write_all(contents).map_err(write_error)?;
@@ -245,8 +353,8 @@ impl PendingSave {
                 name.push(BACKUP_SUFFIX);
                 let backup = self.path.with_file_name(name);
                 let mut temp = tempfile::Builder::new()
-                    .prefix(".tidewright-")
-                    .suffix(".tmp")
+                    .prefix(&temporary_prefix(&self.path))
+                    .suffix(TEMPORARY_SUFFIX)
                     .tempfile_in(&dir)
                     .map_err(|e| write_error(&backup, e))?;
                 temp.write_all(bytes).map_err(|e| write_error(&backup, e))?;
@@ -274,5 +382,36 @@ impl PendingSave {
             backup,
             stamp,
         })
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn temporaries_are_known_by_name() {
+        let boat = Path::new("/store/boats/marram.toml");
+        let of = |name| classify_temporary(name, boat);
+        assert_eq!(
+            of(".tidewright-marram.toml-a1B2c3.tmp"),
+            Temporary::OfThisFile
+        );
+        assert_eq!(
+            of(".tidewright-pintle.toml-a1B2c3.tmp"),
+            Temporary::OfAnother
+        );
+        assert_eq!(of(".tidewright-a1B2c3.tmp"), Temporary::OfAnother);
+        assert_eq!(of(".recover-a1B2c3.tmp"), Temporary::OfAnother);
+        for name in [
+            ".tidewright-marram.toml-a1B2c3.tmp.bak",
+            ".tidewright-marram.toml-a1B2c.tmp",
+            ".tidewright-my-own.tmp",
+            ".recover-x.tmp",
+            "marram.toml",
+            ".marram.toml.lock",
+        ] {
+            assert_eq!(of(name), Temporary::NotOurs, "{name}");
+        }
     }
 }

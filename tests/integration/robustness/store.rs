@@ -289,6 +289,9 @@ fn a_crash_between_writing_and_renaming_leaves_the_old_file_and_a_harmless_tempo
         .unwrap();
     assert!(started.elapsed() < Duration::from_secs(1));
     assert!(!lock.exists());
+    // The save that died left its temporary; this save of the same boat removed it.
+    assert!(!stray[0].exists(), "{:?} left behind", stray[0]);
+    assert!(temporaries(boats_dir).is_empty());
     assert_eq!(std::fs::read(saved.backup.unwrap()).unwrap(), before);
     let reloaded = store.load_boat(BOAT).unwrap().doc.trip.tank.value;
     assert!(
@@ -562,4 +565,55 @@ fn a_save_waits_for_a_held_lock_and_takes_over_a_stale_one() {
         .unwrap();
     assert!(started.elapsed() < Duration::from_secs(1));
     assert!(!lock.exists());
+}
+
+/// Creates `name` in `dir` with its modification time `age` in the past.
+fn file_aged(dir: &Path, name: &str, age: Duration) -> PathBuf {
+    let path = dir.join(name);
+    let file = std::fs::File::create(&path).unwrap();
+    file.set_modified(std::time::SystemTime::now() - age)
+        .unwrap();
+    path
+}
+
+#[test]
+fn a_save_removes_only_its_own_stale_temporaries() {
+    let (_dir, store) = demo_store();
+    let loaded = store.load_boat(BOAT).unwrap();
+    let path = store.boat_path(BOAT).unwrap();
+    let boats = path.parent().unwrap();
+    let second = Duration::from_secs(1);
+    let minute = Duration::from_secs(60);
+    let own = format!(".tidewright-{BOAT}.toml-");
+    // Removed: this boat's own temporary of a save that died a second ago (older than the
+    // lock this save takes), and any temporary of ours a minute old.
+    let gone = [
+        file_aged(boats, &format!("{own}Ab3dE9.tmp"), second),
+        file_aged(boats, ".tidewright-Zq81xY.tmp", minute),
+        file_aged(boats, ".tidewright-other.toml-k2LmN0.tmp", minute),
+        file_aged(boats, ".recover-7hGt2a.tmp", minute),
+    ];
+    // Kept: another boat's and a new file's temporaries of a second ago (their saves may be
+    // under way, holding locks of their own), and anything not named as ours.
+    let kept = [
+        file_aged(boats, ".tidewright-other.toml-p9QrS1.tmp", second),
+        file_aged(boats, ".tidewright-Yy12zz.tmp", second),
+        file_aged(boats, ".tidewright-notes.txt", minute),
+        file_aged(boats, &format!("{own}too-long-to-be-random.tmp"), minute),
+        file_aged(boats, "my.tmp", minute),
+    ];
+    store
+        .save_boat(
+            BOAT,
+            &with_larger_tank(&loaded.doc, 5.0),
+            loaded.origin.stamp(),
+            false,
+        )
+        .unwrap();
+    for path in &gone {
+        assert!(!path.exists(), "{path:?} left behind");
+    }
+    for path in &kept {
+        assert!(path.exists(), "{path:?} removed");
+    }
 }

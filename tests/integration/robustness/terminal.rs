@@ -16,13 +16,13 @@ const UI_DRAWN: &str = "Screw";
 const PANIC_VAR: &str = "TIDEWRIGHT_PANIC_AFTER_DRAW";
 
 /// A tmux server of this test's own, ended when dropped.
-struct Tmux {
+pub(super) struct Tmux {
     socket: String,
 }
 
 impl Tmux {
     /// Starts a server with one 100×30 session running `command`; `None` when tmux is absent.
-    fn start(name: &str, command: &str) -> Option<Self> {
+    pub(super) fn start(name: &str, command: &str) -> Option<Self> {
         if Command::new("tmux").arg("-V").output().is_err() {
             println!("skipped: tmux is not installed (.ci/run installs it)");
             return None;
@@ -49,7 +49,7 @@ impl Tmux {
         Some(tmux)
     }
 
-    fn run(&self, args: &[&str]) -> Output {
+    pub(super) fn run(&self, args: &[&str]) -> Output {
         Command::new("tmux")
             .args(["-L", &self.socket, "-f", "/dev/null"])
             .args(args)
@@ -71,7 +71,11 @@ impl Tmux {
     }
 
     /// Waits up to `seconds` until the screen satisfies `done`; the last screen either way.
-    fn wait_for(&self, seconds: f64, done: impl Fn(&str) -> bool) -> Result<String, String> {
+    pub(super) fn wait_for(
+        &self,
+        seconds: f64,
+        done: impl Fn(&str) -> bool,
+    ) -> Result<String, String> {
         let deadline = Instant::now() + Duration::from_secs_f64(seconds);
         loop {
             let text = self.screen();
@@ -86,7 +90,7 @@ impl Tmux {
     }
 
     /// The pid of the program the pane's shell is running.
-    fn program_pid(&self) -> u32 {
+    pub(super) fn program_pid(&self) -> u32 {
         let shell: u32 = self.flag("pane_pid").parse().expect("pane pid");
         let children = std::fs::read_to_string(format!("/proc/{shell}/task/{shell}/children"))
             .expect("the shell's children");
@@ -97,7 +101,7 @@ impl Tmux {
             .expect("the shell runs the program")
     }
 
-    fn send(&self, keys: &str) {
+    pub(super) fn send(&self, keys: &str) {
         self.run(&["send-keys", "-t", "main", keys]);
     }
 }
@@ -173,7 +177,7 @@ fn assert_restored(tmux: &Tmux, screen: &str, how: &str) {
 }
 
 /// The store's temporary files next to the boat.
-fn temporaries(boats: &Path) -> Vec<PathBuf> {
+pub(super) fn temporaries(boats: &Path) -> Vec<PathBuf> {
     std::fs::read_dir(boats)
         .unwrap()
         .map(|e| e.unwrap().path())
@@ -182,7 +186,10 @@ fn temporaries(boats: &Path) -> Vec<PathBuf> {
 }
 
 /// Starts the UI, waits for it and makes one unsaved edit (a screw variant added).
-fn start_and_edit(name: &str, env: &str) -> Option<(Tmux, tempfile::TempDir, PathBuf, Vec<u8>)> {
+pub(super) fn start_and_edit(
+    name: &str,
+    env: &str,
+) -> Option<(Tmux, tempfile::TempDir, PathBuf, Vec<u8>)> {
     let (dir, store, command) = store_and_command(env);
     let tmux = Tmux::start(name, &command)?;
     if let Err(text) = tmux.wait_for(8.0, |t| t.contains(UI_DRAWN) && t.contains("kn")) {
@@ -259,7 +266,7 @@ fn the_terminal_is_restored_after_a_panic() {
 }
 
 /// Waits up to `seconds` for process `pid` to be gone (or a zombie); how long it took.
-fn wait_gone(pid: u32, seconds: f64) -> Option<Duration> {
+pub(super) fn wait_gone(pid: u32, seconds: f64) -> Option<Duration> {
     let started = Instant::now();
     while started.elapsed() < Duration::from_secs_f64(seconds) {
         let state = std::fs::read_to_string(format!("/proc/{pid}/stat")).unwrap_or_default();
