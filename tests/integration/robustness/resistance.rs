@@ -30,7 +30,14 @@ fn hull(length: f64, l_b: f64, b_t: f64, displacement_length: f64) -> Option<Hul
     let mass = displacement_length * LONG_TON * (0.01 * length / FOOT).powi(3);
     let volume = mass / 1025.0;
     let block = volume / (length * beam * draft);
-    (0.35..=0.60).contains(&block).then_some(HullInput {
+    (0.35..=0.60)
+        .contains(&block)
+        .then(|| input(length, beam, draft, volume))
+}
+
+/// A hull of these particulars (m, m³) with every estimate left to the resolver.
+fn input(length: f64, beam: f64, draft: f64, volume: f64) -> HullInput {
+    HullInput {
         length_waterline: length,
         beam_waterline: beam,
         draft_aft: draft,
@@ -47,7 +54,7 @@ fn hull(length: f64, l_b: f64, b_t: f64, displacement_length: f64) -> Option<Hul
         stern_coefficient: 0.0,
         appendage_area: 0.0,
         appendage_form_factor: 1.5,
-    })
+    }
 }
 
 /// Checks the curve of `model` on the dense grid and returns the regimes it passed through.
@@ -129,22 +136,9 @@ proptest! {
 #[test]
 fn the_heavy_short_hull_rises_past_hull_speed() {
     let input = HullInput {
-        length_waterline: 9.2,
-        beam_waterline: 3.4,
-        draft_aft: 0.9,
-        draft_forward: 0.9,
-        displacement_volume: 11_500.0 / 1025.0,
         midship_coefficient: Some(0.70),
         waterplane_coefficient: Some(0.72),
-        lcb_fraction: None,
-        wetted_surface: None,
-        half_entrance_angle_deg: None,
-        transom_area: None,
-        bulb_area: 0.0,
-        bulb_centre_height: 0.0,
-        stern_coefficient: 0.0,
-        appendage_area: 0.0,
-        appendage_form_factor: 1.5,
+        ..input(9.2, 3.4, 0.9, 11_500.0 / 1025.0)
     };
     let form = input.resolve().unwrap();
     let water = water_properties(WaterKind::Sea, 15.0).unwrap();
