@@ -168,7 +168,7 @@ fn fingerprint(hull: &HullForm, method: &ResistanceMethod, water: &WaterProperti
     ]
 }
 
-/// Calm, clean-hull resistance of the formulas, with no calibration, air or margins.
+/// What the formulas are evaluated on: the hull, the method and the water.
 type Formula<'a> = (&'a HullForm, &'a ResistanceMethod, &'a WaterProperties);
 
 impl CurveShape {
