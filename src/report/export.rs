@@ -84,6 +84,7 @@ pub fn charts(
                     points: solved(v).iter().map(f).collect(),
                     style: SeriesStyle::Line,
                     look: VARIANT_LOOK + index,
+                    labels: Vec::new(),
                 })
                 .collect()
         };
@@ -99,6 +100,7 @@ pub fn charts(
             .collect(),
         style: SeriesStyle::Line,
         look: ENGINE_LOOK,
+        labels: Vec::new(),
     }];
     power.extend(per_variant(&|c| {
         (
@@ -123,6 +125,7 @@ pub fn charts(
             points: meeting,
             style: SeriesStyle::Markers,
             look: MARKER_LOOK,
+            labels: Vec::new(),
         });
     }
 
@@ -140,6 +143,7 @@ pub fn charts(
             points,
             style: SeriesStyle::Markers,
             look: UNRELIABLE_LOOK,
+            labels: Vec::new(),
         })
     };
     power.extend(unreliable(&|c| {
@@ -162,6 +166,7 @@ pub fn charts(
                     .collect(),
                 style: SeriesStyle::Line,
                 look: BEFORE_FIT_LOOK,
+                labels: Vec::new(),
             }
         }));
     }
@@ -175,6 +180,7 @@ pub fn charts(
                 .collect(),
             style: SeriesStyle::Markers,
             look: MARKER_LOOK,
+            labels: Vec::new(),
         });
     }
     let fuel = per_variant(&|c| {

@@ -3,6 +3,10 @@
 
 use serde::Serialize;
 
+use super::power_speed::{
+    PowerForSpeedJson, SHARE_NOTE, power_chart, power_json, power_summary, power_table,
+    power_text_chart,
+};
 use super::svg::{Chart, Series, SeriesStyle};
 use super::table::{Column, Table};
 use super::{CAUTION, Display, KNOT_MPS, LITRE_M3, NAUTICAL_MILE_M};
@@ -18,6 +22,8 @@ pub struct ShortlistJson {
     pub rank: &'static str,
     /// The candidates, best first.
     pub candidates: Vec<CandidateJson>,
+    /// What more power buys: installed power at top speed beside the hull's effective power.
+    pub power_for_speed: Option<PowerForSpeedJson>,
 }
 
 /// One candidate in JSON.
@@ -83,6 +89,10 @@ pub fn shortlist_json(list: &Shortlist) -> ShortlistJson {
                 tie_with: c.tie_with,
             })
             .collect(),
+        power_for_speed: list
+            .power_for_speed
+            .as_ref()
+            .map(|data| power_json(list, data)),
     }
 }
 
@@ -296,6 +306,14 @@ pub fn shortlist_text(list: &Shortlist, d: &Display) -> String {
             out.push_str(&format!("  {line}\n"));
         }
     }
+    if let Some(data) = &list.power_for_speed {
+        out.push_str("\nWhat more power buys\n");
+        out.push_str(&format!("  {}\n\n", power_summary(list, data, d)));
+        out.push_str(&power_text_chart(list, data, d));
+        out.push('\n');
+        out.push_str(&power_table(list, data, d).to_text("  "));
+        out.push_str(&format!("  {SHARE_NOTE}\n"));
+    }
     out.push_str(&format!("\nCaution: {CAUTION}\n"));
     out
 }
@@ -318,6 +336,14 @@ pub fn shortlist_markdown(list: &Shortlist, d: &Display) -> String {
             c.gear_ratio,
             candidate_notes(c, d).join("; ")
         ));
+    }
+    if let Some(data) = &list.power_for_speed {
+        out.push_str(&format!(
+            "\n### What more power buys\n\n{}\n\n",
+            power_summary(list, data, d)
+        ));
+        out.push_str(&power_table(list, data, d).to_markdown());
+        out.push_str(&format!("\n{}.\n", SHARE_NOTE.replace('*', "\\*")));
     }
     out.push_str(&format!("\n> Caution: {CAUTION}\n"));
     out
@@ -345,6 +371,7 @@ pub fn shortlist_chart(list: &Shortlist, d: &Display) -> Option<Chart> {
             points,
             style: SeriesStyle::Markers,
             look: 0,
+            labels: Vec::new(),
         }],
     })
 }
@@ -352,30 +379,38 @@ pub fn shortlist_chart(list: &Shortlist, d: &Display) -> Option<Chart> {
 /// The chart's file name in the Markdown export.
 pub const CHART_FILE: &str = "shortlist.svg";
 
-/// The shortlist as a section of the Markdown export, with its chart's file if it has one.
+/// The shortlist as a section of the Markdown export, with its charts' files (fuel against top
+/// speed, and what more power buys).
 pub fn shortlist_export(
     list: &Shortlist,
     d: &Display,
-) -> (super::export::Section, Option<super::export::ExportFile>) {
+) -> (super::export::Section, Vec<super::export::ExportFile>) {
     let mut body = shortlist_markdown(list, d)
         .trim_start_matches("## Repower shortlist\n\n")
         .to_string();
-    let chart = shortlist_chart(list, d);
-    if let Some(chart) = &chart {
+    let charts = [
+        shortlist_chart(list, d).map(|c| (CHART_FILE, c)),
+        list.power_for_speed
+            .as_ref()
+            .map(|data| (super::power_speed::CHART_FILE, power_chart(list, data, d))),
+    ];
+    let mut files = Vec::new();
+    for (name, chart) in charts.into_iter().flatten() {
         body.push_str(&format!(
-            "\n![{}]({CHART_FILE})\n",
+            "\n![{}]({name})\n",
             super::table::md_cell(&chart.title)
         ));
+        files.push(super::export::ExportFile {
+            name: name.into(),
+            contents: chart.to_svg(),
+        });
     }
     (
         super::export::Section {
             title: "Repower shortlist".into(),
             body,
         },
-        chart.map(|c| super::export::ExportFile {
-            name: CHART_FILE.into(),
-            contents: c.to_svg(),
-        }),
+        files,
     )
 }
 
@@ -384,7 +419,7 @@ pub fn shortlist_export(
 pub fn export_of_store(
     study: &crate::study::Study,
     store: &crate::profile::Store,
-) -> (super::export::Section, Option<super::export::ExportFile>) {
+) -> (super::export::Section, Vec<super::export::ExportFile>) {
     let d = Display::new(study.units);
     let list = crate::study::shortlist::offers_from_store(store, None).and_then(|offers| {
         Ok(study.shortlist(
@@ -399,7 +434,7 @@ pub fn export_of_store(
                 title: "Repower shortlist".into(),
                 body: format!("Not available: {e:#}"),
             },
-            None,
+            Vec::new(),
         ),
     }
 }

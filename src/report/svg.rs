@@ -24,6 +24,8 @@ pub struct Series {
     pub style: SeriesStyle,
     /// Which colour and dash pattern to use, so one variant looks the same in every chart.
     pub look: usize,
+    /// Text written beside each point, in order (markers only; empty: none).
+    pub labels: Vec<String>,
 }
 
 /// A line chart: a title, labelled axes and its series.
@@ -298,6 +300,21 @@ impl Chart {
                     }
                 }
             }
+            // Labels go with the finite points they belong to, so a skipped point skips its own.
+            let labelled = series
+                .points
+                .iter()
+                .zip(&series.labels)
+                .filter(|((x, y), _)| x.is_finite() && y.is_finite());
+            for (&(x, y), label) in labelled {
+                let _ = writeln!(
+                    svg,
+                    r#"<text class="point-label" x="{:.1}" y="{:.1}" font-size="11" fill="{colour}">{}</text>"#,
+                    px(x) + 6.0,
+                    py(y) - 6.0,
+                    escape(label)
+                );
+            }
             let _ = writeln!(svg, "</g>");
         }
         if data.iter().all(Vec::is_empty) {
@@ -385,18 +402,21 @@ mod tests {
                     points: vec![(800.0, 20.0), (2600.0, 80.0)],
                     style: SeriesStyle::Line,
                     look: 0,
+                    labels: Vec::new(),
                 },
                 Series {
                     name: "variant \"A\"".into(),
                     points: vec![(900.0, 3.0), (2500.0, f64::NAN), (2400.0, 70.0)],
                     style: SeriesStyle::Line,
                     look: 1,
+                    labels: Vec::new(),
                 },
                 Series {
                     name: "trial".into(),
                     points: vec![(1500.0, 30.0)],
                     style: SeriesStyle::Markers,
                     look: 2,
+                    labels: Vec::new(),
                 },
             ],
         }

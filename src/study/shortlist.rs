@@ -5,6 +5,7 @@
 //! profile's to-vessel, never patched in the core's vessel. All values are SI.
 
 use super::checks::{cavitation, shaft_check};
+use super::power_speed::PowerForSpeed;
 use super::solve::{SolveOptions, solve_variant};
 use super::what_if::WhatIfSettings;
 use super::{Study, active_variant};
@@ -77,6 +78,8 @@ pub struct Candidate {
     pub engine_name: String,
     /// The engine's rated speed, rpm.
     pub rated_rpm: f64,
+    /// One engine's rated power (full load at rated rpm), W; `None` when its sheet cannot be read.
+    pub rated_power: Option<f64>,
     /// Reduction ratio, engine rpm / shaft rpm.
     pub gear_ratio: f64,
     /// Blade count.
@@ -159,6 +162,9 @@ pub struct Shortlist {
     pub trip_profile: Vec<(f64, f64)>,
     /// Target speed, m/s.
     pub target_speed: f64,
+    /// What more power buys: the candidates' installed power at their top speeds beside the
+    /// hull's effective-power curve (`None`: no candidate reaches a top speed).
+    pub power_for_speed: Option<PowerForSpeed>,
 }
 
 /// Why there is no shortlist at all.
@@ -172,6 +178,22 @@ pub enum ShortlistError {
     /// A gear ratio asked for that no gearbox has.
     #[error("gear ratio {0}: expected a reduction ratio above 1 and at most 6")]
     BadGear(f64),
+}
+
+/// One engine's rated power from its sheet, W (`None` when the sheet cannot be read).
+fn rated_power(offer: &Offer) -> Option<f64> {
+    let power = offer.doc.to_engine_sheet().ok()?.rated_power();
+    (power.is_finite() && power > 0.0).then_some(power)
+}
+
+impl Shortlist {
+    /// The 1-based position of the candidate with this engine sheet and gear, if listed.
+    pub fn position_of(&self, engine: &str, gear_ratio: f64) -> Option<usize> {
+        self.candidates
+            .iter()
+            .position(|c| c.engine == engine && (c.gear_ratio - gear_ratio).abs() < 1e-9)
+            .map(|i| i + 1)
+    }
 }
 
 /// The engine sheets named (or all in `store` when `names` is `None`), each with its name.
@@ -232,7 +254,7 @@ impl Study {
         let resolution = self.resolution();
         let trip = !self.doc.trip.profile.is_empty();
         rank_candidates(&mut candidates, options.rank, trip, resolution);
-        Ok(Shortlist {
+        let mut list = Shortlist {
             boat: self.name().to_string(),
             profile_name: self.profile_name.clone(),
             rank: options.rank,
@@ -240,7 +262,10 @@ impl Study {
             resolution,
             trip_profile: self.trip_profile(),
             target_speed: self.vessel.trip.target_speed,
-        })
+            power_for_speed: None,
+        };
+        list.power_for_speed = self.power_for_speed(&list);
+        Ok(list)
     }
 
     /// The boat's trip profile in SI: (speed m/s, fraction of engine hours).
@@ -386,6 +411,7 @@ impl Study {
             engine: offer.name.clone(),
             engine_name: offer.doc.name.clone(),
             rated_rpm: offer.doc.rated_rpm.value,
+            rated_power: rated_power(offer),
             gear_ratio: gear,
             blades: geometry.blades,
             diameter,
@@ -525,6 +551,7 @@ impl Study {
             engine: offer.name.clone(),
             engine_name: offer.doc.name.clone(),
             rated_rpm: offer.doc.rated_rpm.value,
+            rated_power: rated_power(offer),
             gear_ratio: gear,
             blades: geometry.blades,
             diameter: geometry.diameter,

@@ -132,12 +132,8 @@ impl ShortlistView {
 
     /// The row of the candidate with this engine sheet and gear ratio, if it is listed.
     pub fn row_of(&self, engine: &str, gear_ratio: f64) -> Option<usize> {
-        self.result
-            .as_ref()
-            .ok()?
-            .candidates
-            .iter()
-            .position(|c| c.engine == engine && (c.gear_ratio - gear_ratio).abs() < 1e-9)
+        let position = self.result.as_ref().ok()?.position_of(engine, gear_ratio)?;
+        Some(position - 1)
     }
 
     /// Sorts the candidates again by `rank` (no re-solving: only the order and ties change).

@@ -79,6 +79,8 @@ pub struct App {
     pub shortlist_rank: ShortlistRank,
     /// The highlighted row of the shortlist view (0 = the first candidate).
     pub shortlist_row: usize,
+    /// Whether the shortlist view shows its power-for-speed chart instead of the table.
+    pub shortlist_chart: bool,
 }
 
 impl App {
@@ -116,6 +118,7 @@ impl App {
             offers: Vec::new(),
             shortlist_rank: ShortlistRank::default(),
             shortlist_row: 0,
+            shortlist_chart: false,
         }
     }
 

@@ -97,6 +97,8 @@ pub enum Command {
     NextRanking,
     /// Make the highlighted shortlist candidate the boat's engine, gear and a new screw variant.
     TakeCandidate,
+    /// Show the shortlist's chart of installed power against top speed, or its table again.
+    ToggleShortlistChart,
     /// Show or hide the uncertainty band on the power chart.
     ToggleBand,
     /// Show the next design view.
@@ -259,6 +261,7 @@ pub const BINDINGS: &[Binding] = &[
     bind(M::View, &[ch('K', "K")], C::PrevLiveRun, "", "sea-trial view: highlight the previous captured run", false),
     bind(M::View, &[ch('g', "g")], C::UseLiveRuns, "use runs", "sea-trial view: make the kept captured runs the boat's trial log, refit (a then applies; u undoes)", false),
     bind(M::View, &[ch('r', "r")], C::NextRanking, "rank", "shortlist view: rank by the next figure (fuel → range → top → margin)", false),
+    bind(M::View, &[ch('c', "c")], C::ToggleShortlistChart, "power chart", "shortlist view: show each candidate's installed power against its top speed with the hull's effective power (what more power buys), or the table again", false),
     bind(M::View, &[code(KeyCode::Enter, "Enter")], C::TakeCandidate, "take", "shortlist view: make the highlighted candidate the boat's engine, gear and a new screw variant (unsaved until s; u undoes)", false),
     bind(M::View, &[ch('u', "u"), ctrl('z', "Ctrl-z")], C::Undo, "undo", "undo the last change", true),
     bind(M::View, &[ctrl('r', "Ctrl-r"), ch('U', "U")], C::Redo, "", "redo the last undone change", false),

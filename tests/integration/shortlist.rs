@@ -417,7 +417,10 @@ fn export_has_the_shortlist_section_and_its_chart() {
     let section = &md[md.find("## Repower shortlist").unwrap()..];
     let rows = section
         .lines()
-        .take_while(|l| !l.starts_with("## ") || l.starts_with("## Repower"))
+        .take_while(|l| {
+            (!l.starts_with("## ") || l.starts_with("## Repower"))
+                && !l.starts_with("### What more power buys")
+        })
         .filter(|l| l.starts_with("| ") && l.chars().nth(2).is_some_and(|c| c.is_ascii_digit()))
         .count();
     assert_eq!(rows, 11, "{section}");
@@ -461,4 +464,190 @@ fn near_ties_are_marked_within_the_resolution_and_only_there() {
         .count();
     let tied = candidates.iter().filter(|c| c.tie_with.is_some()).count();
     assert_eq!(tied, solved - 1);
+}
+
+/// What more power buys: each candidate's installed power at its top speed beside the hull's
+/// effective power. Checked against the shortlist's own figures and two physical bounds: the
+/// effective power R·V at a top speed cannot exceed the brake power that drives the boat there
+/// (energy conservation), and the hull's R·V rises with speed.
+#[test]
+fn power_for_speed_holds_each_candidate_against_the_hull_curve() {
+    for boat in ["marram", "pintle"] {
+        let study = demo_study(boat);
+        let offers = offers_from_store(&demo(), None).unwrap();
+        let list = study
+            .shortlist(&offers, &ShortlistOptions::default())
+            .unwrap();
+        let data = list
+            .power_for_speed
+            .as_ref()
+            .expect("candidates reach top speeds");
+        let with_top = list
+            .candidates
+            .iter()
+            .filter(|c| c.top_speed.is_some())
+            .count();
+        assert_eq!(data.candidates.len(), with_top, "{boat}");
+        let shafts = f64::from(study.vessel.installation.shafts);
+        for p in &data.candidates {
+            let c = list
+                .candidates
+                .iter()
+                .find(|c| c.engine == p.engine && c.gear_ratio == p.gear_ratio)
+                .unwrap();
+            assert_eq!(Some(p.top_speed), c.top_speed, "{boat} {}", p.engine);
+            let sheet = offers
+                .iter()
+                .find(|o| o.name == p.engine)
+                .unwrap()
+                .doc
+                .to_engine_sheet()
+                .unwrap();
+            assert_close!(p.installed_power, sheet.rated_power() * shafts, 1e-9);
+            // R·V at top speed from the boat's own resistance model.
+            let parts = study.vessel.resistance.resistance(p.top_speed).unwrap();
+            assert_close!(
+                p.effective_share,
+                parts.total * p.top_speed / p.installed_power,
+                1e-9
+            );
+            assert!(
+                p.effective_share > 0.15 && p.effective_share < 1.0,
+                "{boat} {}: R·V share {}",
+                p.engine,
+                p.effective_share
+            );
+        }
+        // By rising installed power, gains counted from the least powerful.
+        for pair in data.candidates.windows(2) {
+            assert!(pair[0].installed_power <= pair[1].installed_power);
+        }
+        let base = data.base().unwrap();
+        assert_eq!(base.power_gain, 0.0);
+        for p in &data.candidates {
+            assert_close!(p.speed_gain, p.top_speed - base.top_speed, 1e-12);
+        }
+        // The hull curve rises and covers every candidate's top speed.
+        for pair in data.hull.windows(2) {
+            assert!(pair[1].effective_power > pair[0].effective_power, "{boat}");
+        }
+        let fastest = data
+            .candidates
+            .iter()
+            .map(|p| p.top_speed)
+            .fold(0.0, f64::max);
+        assert!(data.hull.last().unwrap().speed > fastest);
+        assert!(
+            data.hull[0].speed
+                < data
+                    .candidates
+                    .iter()
+                    .map(|p| p.top_speed)
+                    .fold(f64::MAX, f64::min)
+        );
+        // Past hull speed resistance climbs steeper than the cube (P ∝ V³ is calm low-speed
+        // friction; the wave wall lies above it: common practice).
+        let n = data.exponent_at_top.unwrap();
+        assert!(n > 3.0 && n < 12.0, "{boat}: exponent {n}");
+    }
+}
+
+#[test]
+fn shortlist_prints_exports_and_serialises_what_more_power_buys() {
+    let out = tidewright()
+        .args([
+            "--profiles",
+            "/nonexistent-tidewright-store",
+            "shortlist",
+            "marram",
+        ])
+        .assert()
+        .success();
+    let text = String::from_utf8_lossy(&out.get_output().stdout).into_owned();
+    let section = &text[text.find("What more power buys").expect("the section")..];
+    assert!(section.contains("% power for"), "{section}");
+    assert!(section.contains("R·V share"), "{section}");
+    // The plain-text chart: an axis, the hull curve and the candidates' marks.
+    assert!(section.contains("+----"), "{section}");
+    assert!(
+        section.lines().any(|l| l.contains('|') && l.contains("..")),
+        "{section}"
+    );
+    assert!(
+        section
+            .lines()
+            .any(|l| l.contains('|') && l.chars().any(|c| c.is_ascii_digit()))
+    );
+
+    let out = tidewright()
+        .args([
+            "--profiles",
+            "/nonexistent-tidewright-store",
+            "shortlist",
+            "marram",
+            "--format",
+            "json",
+        ])
+        .assert()
+        .success();
+    let json: Value = serde_json::from_slice(&out.get_output().stdout).unwrap();
+    let power = &json["power_for_speed"];
+    let candidates = power["candidates"].as_array().unwrap();
+    assert!(!candidates.is_empty());
+    for p in candidates {
+        let position = p["position"].as_u64().unwrap() as usize;
+        let row = &json["candidates"][position - 1];
+        assert_eq!(row["engine"], p["engine"]);
+        assert_close!(
+            row["top_speed_kn"].as_f64().unwrap(),
+            p["top_speed_kn"].as_f64().unwrap(),
+            1e-12
+        );
+        assert!(p["installed_kw"].as_f64().unwrap() > 0.0);
+    }
+    let hull = power["hull"].as_array().unwrap();
+    assert!(hull.len() > 10);
+    assert!(
+        hull.iter()
+            .all(|h| h["effective_kw"].as_f64().unwrap() > 0.0)
+    );
+
+    let dir = tempfile::tempdir().unwrap();
+    for format in ["md", "html"] {
+        let out = dir.path().join(format);
+        tidewright()
+            .args([
+                "--profiles",
+                "/nonexistent-tidewright-store",
+                "export",
+                "marram",
+                "--out",
+                &out.display().to_string(),
+                "--format",
+                format,
+            ])
+            .assert()
+            .success();
+        if format == "md" {
+            let md = std::fs::read_to_string(out.join("report.md")).unwrap();
+            assert!(md.contains("### What more power buys"), "{md}");
+            assert!(md.contains("](power-for-speed.svg)"), "{md}");
+            let svg = std::fs::read_to_string(out.join("power-for-speed.svg")).unwrap();
+            assert!(svg.contains("hull effective power"), "{svg}");
+            // Every candidate on the chart is labelled with its shortlist position.
+            assert_eq!(
+                svg.matches(r#"class="point-label""#).count(),
+                candidates.len(),
+                "{svg}"
+            );
+            assert!(svg.contains(">#1<"), "{svg}");
+        } else {
+            let html = std::fs::read_to_string(out.join("report.html")).unwrap();
+            assert!(html.contains("What more power buys"));
+            assert!(
+                html.contains("installed power against top speed"),
+                "the chart is in the page"
+            );
+        }
+    }
 }

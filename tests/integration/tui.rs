@@ -1518,6 +1518,51 @@ fn shortlist_view_draws_at_both_sizes_and_small_ones() {
     app.update(Action::Failed("no shortlist: the store is empty".into()));
 }
 
+/// `c` in the shortlist view shows each candidate's installed power against its top speed over
+/// the hull's effective power, the highlighted candidate in words and in its own glyph.
+#[test]
+fn shortlist_view_shows_what_more_power_buys_on_one_chart() {
+    let mut app = shortlist_app();
+    let list = shortlist_of(&app);
+    let data = list
+        .power_for_speed
+        .clone()
+        .expect("the demo candidates reach top speeds");
+    key(&mut app, KeyCode::Char('j'));
+    key(&mut app, KeyCode::Char('c'));
+    assert!(app.shortlist_chart);
+    let big = screen(&app, 120, 40);
+    assert!(big.contains("What more power buys on"), "{big}");
+    assert!(big.contains("Installed power against top speed"), "{big}");
+    assert!(big.contains("hull effective power"), "{big}");
+    assert!(big.contains("#2 highlighted"), "{big}");
+    // The words name the highlighted candidate, the second by the ranking.
+    let second = &list.candidates[1];
+    if data
+        .candidates
+        .iter()
+        .any(|p| p.engine == second.engine && p.gear_ratio == second.gear_ratio)
+    {
+        assert!(big.contains(&format!("█ #2 {}", second.engine)), "{big}");
+    }
+    assert!(big.contains("naval architect"), "the caution stays:\n{big}");
+    insta::assert_snapshot!("shortlist_power_chart_120x40", big);
+    let small = screen(&app, 80, 24);
+    insta::assert_snapshot!("shortlist_power_chart_80x24", small);
+    // Too short for a chart: the table stays, nothing breaks.
+    let tiny = screen(&app, 80, 12);
+    assert!(
+        !tiny.contains("Installed power against top speed"),
+        "{tiny}"
+    );
+    for (w, h) in [(40, 10), (20, 5), (1, 1)] {
+        screen(&app, w, h);
+    }
+    // c again: the table.
+    key(&mut app, KeyCode::Char('c'));
+    assert!(screen(&app, 120, 40).contains("Repower shortlist for"));
+}
+
 /// After the sea-trial fit is applied, the speed chart shows the curve before the fit beside the
 /// fitted one, under the trial points (issue: "before and after the fit").
 #[test]

@@ -196,6 +196,13 @@ impl App {
             Command::ListDown => *scroll = (*scroll + 1).min(80),
             Command::ListUp => *scroll = scroll.saturating_sub(1),
             Command::NextRanking => self.next_ranking(),
+            Command::ToggleShortlistChart if kind == ViewKind::Shortlist => {
+                self.shortlist_chart = !self.shortlist_chart;
+            }
+            Command::ToggleShortlistChart => self.set_status(
+                Level::Info,
+                "c shows what more power buys in the shortlist view",
+            ),
             Command::TakeCandidate => self.take_candidate(),
             Command::NextSweepParameter => {
                 if kind == ViewKind::Sweep {

@@ -95,6 +95,9 @@ pub fn draw_view(app: &App, kind: ViewKind, scroll: u16, area: Rect, buf: &mut B
         .title(format!(" {} ", tabs.join(" · ")));
     let inner = block.inner(area);
     block.render(area, buf);
+    if draw_power_chart(app, inner, buf) {
+        return;
+    }
     let (lines, highlighted) = view_lines_marked(app, inner.width as usize);
     let heights: Vec<u16> = lines
         .iter()
@@ -114,6 +117,69 @@ pub fn draw_view(app: &App, kind: ViewKind, scroll: u16, area: Rect, buf: &mut B
         .wrap(Wrap { trim: false })
         .scroll((scroll.min(last_top), 0))
         .render(inner, buf);
+}
+
+/// Rows the power chart needs at the least; a smaller view keeps the table.
+const MIN_CHART_ROWS: u16 = 8;
+/// Rows below which the power chart's finding is left out to give the chart room.
+const ROOMY_CHART_ROWS: u16 = 14;
+
+/// Draws the shortlist's power-for-speed chart over `inner` when the user asked for it and
+/// there is room and something to draw; whether it did.
+fn draw_power_chart(app: &App, inner: Rect, buf: &mut Buffer) -> bool {
+    let Some(ViewData::Shortlist(view)) = &app.view else {
+        return false;
+    };
+    let (true, Ok(list)) = (app.shortlist_chart, &view.result) else {
+        return false;
+    };
+    let Some(data) = &list.power_for_speed else {
+        return false;
+    };
+    let height = |line: &Line| super::field_list::wrapped_height(&line.to_string(), inner.width);
+    let caution_line = Line::styled(CAUTION, app.theme.dim);
+    let caution = height(&caution_line);
+    let rows_left = |lines: &[Line]| {
+        let above: u16 = lines.iter().map(height).sum();
+        inner.height.saturating_sub(above + caution)
+    };
+    // On a short screen the finding gives way to the chart; the highlighted point's words stay.
+    let mut lines = shortlist::power_lines(app, list, data, true);
+    if rows_left(&lines) < ROOMY_CHART_ROWS {
+        lines = shortlist::power_lines(app, list, data, false);
+    }
+    let chart_rows = rows_left(&lines);
+    if chart_rows < MIN_CHART_ROWS {
+        return false;
+    }
+    let above: u16 = lines.iter().map(height).sum();
+    let top = Rect {
+        height: above,
+        ..inner
+    };
+    let chart = Rect {
+        y: inner.y + above,
+        height: chart_rows,
+        ..inner
+    };
+    let bottom = Rect {
+        y: chart.y + chart_rows,
+        height: caution,
+        ..inner
+    };
+    Paragraph::new(lines)
+        .wrap(Wrap { trim: false })
+        .render(top, buf);
+    let chart_view = shortlist::power_chart_view(app, list, data);
+    super::chart::ChartWidget {
+        view: &chart_view,
+        frame_style: app.theme.dim,
+    }
+    .render(chart, buf);
+    Paragraph::new(caution_line)
+        .wrap(Wrap { trim: false })
+        .render(bottom, buf);
+    true
 }
 
 /// The open view's lines for a width of `width` columns.

@@ -3,10 +3,13 @@
 
 use super::{UNRELIABLE_TOP_LEGEND, dash, heading, number, top_speed};
 use crate::report::Display;
+use crate::report::power_speed::{point_line, power_summary};
 use crate::report::shortlist::{candidate_notes, rank_line};
-use crate::study::shortlist::{Candidate, ShortlistRank};
+use crate::study::power_speed::{PowerForSpeed, PowerPoint};
+use crate::study::shortlist::{Candidate, Shortlist, ShortlistRank};
 use crate::tui::analysis::ShortlistView;
 use crate::tui::app::App;
+use crate::tui::chart::{ChartView, Glyph, Series as TuiSeries, SeriesShape};
 use crate::tui::edit::gear_label;
 use crate::units::{self, Kind, UnitSystem};
 use ratatui::style::{Modifier, Style};
@@ -188,5 +191,117 @@ fn screw_decimals(system: UnitSystem) -> usize {
     match system {
         UnitSystem::Metric => 0,
         UnitSystem::Imperial => 1,
+    }
+}
+
+/// The lines above the shortlist's power chart: the heading, the keys and the finding (when
+/// `finding`), then the highlighted candidate's point in words.
+pub(crate) fn power_lines(
+    app: &App,
+    list: &Shortlist,
+    data: &PowerForSpeed,
+    finding: bool,
+) -> Vec<Line<'static>> {
+    let d = Display::new(app.units);
+    let mut lines = vec![heading(
+        app,
+        format!("What more power buys on {}", list.boat),
+    )];
+    if finding {
+        lines.push(Line::styled(
+            "c the table again · ↑/↓ highlight a candidate · Enter takes it",
+            app.theme.dim,
+        ));
+        lines.push(Line::raw(power_summary(list, data, &d)));
+    }
+    if let Some(c) = list.candidates.get(app.shortlist_row) {
+        let text = point_line(list, data, &c.engine, c.gear_ratio, &d).unwrap_or_else(|| {
+            format!(
+                "#{} {} {}: no top speed, so not on the chart (the table says why)",
+                app.shortlist_row + 1,
+                c.engine,
+                gear_label(c.gear_ratio)
+            )
+        });
+        lines.push(Line::styled(format!("█ {text}"), app.theme.accent));
+    }
+    lines
+}
+
+/// The power-for-speed chart in display units: the hull's effective power (dotted where
+/// extrapolated), every candidate, and the highlighted one in its own glyph.
+pub(crate) fn power_chart_view(app: &App, list: &Shortlist, data: &PowerForSpeed) -> ChartView {
+    let system = app.units;
+    let point = |speed: f64, power: f64| {
+        (
+            units::to_display(speed, Kind::Speed, system),
+            units::to_display(power, Kind::Power, system),
+        )
+    };
+    let hull = |inside: bool| -> Vec<(f64, f64)> {
+        data.hull
+            .iter()
+            .filter(|h| h.in_method_range == inside)
+            .map(|h| point(h.speed, h.effective_power))
+            .collect()
+    };
+    let highlighted = list.candidates.get(app.shortlist_row);
+    let is_highlighted = |p: &PowerPoint| {
+        highlighted
+            .is_some_and(|c| c.engine == p.engine && (c.gear_ratio - p.gear_ratio).abs() < 1e-9)
+    };
+    let mut series = vec![TuiSeries {
+        name: Some("━ hull effective power R·V".into()),
+        points: hull(true),
+        shape: SeriesShape::Line,
+        style: app.theme.reference(),
+    }];
+    let outside = hull(false);
+    if !outside.is_empty() {
+        series.push(TuiSeries {
+            name: Some(format!("{} R·V extrapolated", Glyph::Dot.symbol())),
+            points: outside,
+            shape: SeriesShape::Points(Glyph::Dot),
+            style: app.theme.warning,
+        });
+    }
+    series.push(TuiSeries {
+        name: Some(format!(
+            "{} candidates (installed power at top speed)",
+            Glyph::Bar.symbol()
+        )),
+        points: data
+            .candidates
+            .iter()
+            .filter(|p| !is_highlighted(p))
+            .map(|p| point(p.top_speed, p.installed_power))
+            .collect(),
+        shape: SeriesShape::Points(Glyph::Bar),
+        style: app.theme.series[0],
+    });
+    let chosen: Vec<(f64, f64)> = data
+        .candidates
+        .iter()
+        .filter(|p| is_highlighted(p))
+        .map(|p| point(p.top_speed, p.installed_power))
+        .collect();
+    if !chosen.is_empty() {
+        series.push(TuiSeries {
+            name: Some(format!(
+                "{} #{} highlighted",
+                Glyph::Block.symbol(),
+                app.shortlist_row + 1
+            )),
+            points: chosen,
+            shape: SeriesShape::Points(Glyph::Block),
+            style: app.theme.accent.add_modifier(Modifier::BOLD),
+        });
+    }
+    ChartView {
+        title: "Installed power against top speed".into(),
+        x_title: format!("speed {}", units::unit_label(Kind::Speed, system)),
+        y_title: units::unit_label(Kind::Power, system).to_string(),
+        series,
+        note: None,
     }
 }
