@@ -1216,6 +1216,68 @@ fn tmux_what_if_view_shows_the_cruise_rpm_of_conditions_json() {
     assert_eq!(row, expected, "what-if screen:\n{text}");
 }
 
+/// The real binary: `S` opens the shortlist, `c` its power chart, whose finding is the one
+/// `tidewright shortlist` prints (one definition in the study layer).
+#[test]
+fn tmux_shortlist_power_chart_says_what_the_cli_says() {
+    if std::process::Command::new("tmux")
+        .arg("-V")
+        .output()
+        .is_err()
+    {
+        eprintln!("skipped: tmux is not installed (.ci/run installs it)");
+        return;
+    }
+    let bin = env!("CARGO_BIN_EXE_tidewright");
+    let dir = tempfile::tempdir().unwrap();
+    let store = dir.path().join("no-store");
+    let cli = std::process::Command::new(bin)
+        .arg("--profiles")
+        .arg(&store)
+        .args(["shortlist", "marram"])
+        .output()
+        .expect("tidewright runs");
+    let text = String::from_utf8_lossy(&cli.stdout).into_owned();
+    // "From #8 brindmoor-3b40 (53.6 hp, 8.4 kn) to #5 …": its first words fit any screen.
+    let finding = text
+        .lines()
+        .find(|l| l.trim_start().starts_with("From #"))
+        .expect("the CLI's finding")
+        .trim()
+        .split(" to ")
+        .next()
+        .unwrap()
+        .to_string();
+    let session = format!("tidewright-power-{}", std::process::id());
+    let command = format!(
+        "{bin} --profiles '{}' open marram; sleep 30",
+        store.display()
+    );
+    let _kill = start_session(&session, 120, 40, &command);
+    match wait_for(&session, 5.0, |t| t.contains("At 7.0 kn")) {
+        Ok(_) => {}
+        Err(text) if cli_lacks_the_ui(&text) => {
+            eprintln!("skipped: this build's CLI does not open the terminal UI yet:\n{text}");
+            return;
+        }
+        Err(text) => panic!("the UI did not come up:\n{text}"),
+    }
+    tmux_on(&session, &["send-keys", "-t", &session, "S"]);
+    wait_for(&session, 10.0, |t| t.contains("Repower shortlist for"))
+        .expect("S opens the shortlist");
+    tmux_on(&session, &["send-keys", "-t", &session, "c"]);
+    let screen = wait_for(&session, 5.0, |t| {
+        t.contains("Installed power against top speed")
+    })
+    .expect("c shows the power chart");
+    assert!(
+        screen.contains(&finding),
+        "{finding:?} not on screen:\n{screen}"
+    );
+    tmux_on(&session, &["send-keys", "-t", &session, "c"]);
+    wait_for(&session, 5.0, |t| t.contains("Repower shortlist for")).expect("c again: the table");
+}
+
 #[test]
 fn tmux_sigterm_and_sighup_restore_the_terminal() {
     if std::process::Command::new("tmux")
