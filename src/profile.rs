@@ -18,7 +18,7 @@ pub mod store;
 pub mod template;
 
 pub use boat::{
-    BoatDoc, CalibrationDoc, HullDoc, InstallationDoc, InteractionDoc, LoadCase, LoadCondition,
+    AsFoundDoc, BoatDoc, CalibrationDoc, HistoryDoc, Side, HullDoc, InstallationDoc, InteractionDoc, LoadCase, LoadCondition,
     LoadDoc, ResistanceDoc, ResistanceMethodDoc, Rotation, TrialDoc, TrialRunDoc, TripDoc,
     VariantDoc, WaterDoc, WindageDoc,
 };

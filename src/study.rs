@@ -175,6 +175,54 @@ pub struct Study {
     pub origin: Option<Origin>,
     /// "estimated: …" notes for hull values the core estimated because the file did not give them.
     pub estimated: Vec<String>,
+    /// The engine sheet of the engine in the boat now (`[as_found] engine`), when loaded.
+    pub as_found_engine: Option<EngineDoc>,
+    /// The boat as it is today (`[as_found]`), solved as this study is: the baseline every
+    /// planned figure is compared with (`None` without `[as_found]` or its engine sheet).
+    pub baseline: Option<Box<Study>>,
+    /// The displacement change of the repower applied to the planned side, if any.
+    pub weight_change: Option<WeightChange>,
+}
+
+/// How much heavier (or lighter) the planned installation makes the boat.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct WeightChange {
+    /// Displacement change, kg (positive: heavier).
+    pub mass: f64,
+    /// Whether it is estimated from the engine sheets' dry weights (else given in the file).
+    pub estimated: bool,
+}
+
+impl WeightChange {
+    /// The planned side's change for a boat file and its two engine sheets: the file's
+    /// `installation.weight_change`, else the sheets' dry-weight difference times the shafts.
+    pub fn of(doc: &BoatDoc, planned: &EngineDoc, as_found: Option<&EngineDoc>) -> Option<Self> {
+        doc.as_found.as_ref()?;
+        if let Some(given) = &doc.installation.weight_change {
+            return Some(Self {
+                mass: given.value,
+                estimated: false,
+            });
+        }
+        let (new, old) = (planned.dry_weight.as_ref()?, as_found?.dry_weight.as_ref()?);
+        let mass = (new.value - old.value) * f64::from(doc.installation.shafts.max(1));
+        (mass != 0.0).then_some(Self {
+            mass,
+            estimated: true,
+        })
+    }
+
+    /// "+120 kg (estimated from the engines' dry weights)" in `system`'s units.
+    pub fn words(&self, system: UnitSystem) -> String {
+        let shown = crate::units::format(self.mass.abs(), Kind::Mass, system);
+        let sign = if self.mass < 0.0 { "−" } else { "+" };
+        let why = if self.estimated {
+            "estimated from the engine sheets' dry weights; installation.weight_change overrides it"
+        } else {
+            "installation.weight_change"
+        };
+        format!("{sign}{shown} displacement ({why})")
+    }
 }
 
 impl Study {
@@ -184,11 +232,15 @@ impl Study {
         let (loaded, engine) = store
             .resolve_boat(boat)
             .with_context(|| format!("cannot load boat {boat:?}"))?;
+        let as_found = store
+            .as_found_engine_for(&loaded)
+            .with_context(|| format!("cannot load boat {boat:?}"))?;
         let origin = origin_text(&loaded.origin);
         let units = units.unwrap_or(loaded.doc.units);
-        Self::from_documents(
+        Self::from_sides(
             loaded.doc,
             engine.doc,
+            as_found.map(|e| e.doc),
             units,
             loaded.name,
             Some(loaded.origin),
@@ -196,7 +248,8 @@ impl Study {
         .with_context(|| format!("cannot build boat {boat:?} from {origin}"))
     }
 
-    /// Builds the study of `doc` with `engine_doc` (documents in memory, as the TUI edits them).
+    /// Builds the study of `doc` with `engine_doc` (documents in memory, as the TUI edits them);
+    /// an `[as_found]` engine other than the planned one has no sheet here, so no baseline.
     pub fn from_documents(
         doc: BoatDoc,
         engine_doc: EngineDoc,
@@ -204,7 +257,31 @@ impl Study {
         profile_name: String,
         origin: Option<Origin>,
     ) -> Result<Self, crate::profile::ProfileError> {
-        let vessel = doc.to_default_vessel(&engine_doc)?;
+        Self::from_sides(doc, engine_doc, None, units, profile_name, origin)
+    }
+
+    /// Builds the study of `doc` with the planned `engine_doc` and the sheet of the engine in
+    /// the boat now (`as_found_engine`; the planned one when `[as_found]` names the same).
+    pub fn from_sides(
+        doc: BoatDoc,
+        engine_doc: EngineDoc,
+        as_found_engine: Option<EngineDoc>,
+        units: UnitSystem,
+        profile_name: String,
+        origin: Option<Origin>,
+    ) -> Result<Self, crate::profile::ProfileError> {
+        let as_found_engine = as_found_engine.or_else(|| {
+            doc.as_found
+                .as_ref()
+                .filter(|a| a.engine == doc.engine)
+                .map(|_| engine_doc.clone())
+        });
+        let weight_change = WeightChange::of(&doc, &engine_doc, as_found_engine.as_ref());
+        let vessel = match weight_change {
+            Some(w) => doc.with_displacement_change(w.mass),
+            None => doc.clone(),
+        }
+        .to_default_vessel(&engine_doc)?;
         let mut estimated = estimated_notes(&vessel, units);
         // "no service margin or fouling applied" when the file leaves both at zero.
         estimated.extend(doc.notes());
@@ -214,6 +291,17 @@ impl Study {
             trial_date: c.trial_date.clone(),
             note: c.note.clone(),
         });
+        let baseline = match (doc.as_found_doc(), &as_found_engine) {
+            (Some(found), Some(sheet)) => Some(Box::new(Self::from_sides(
+                found,
+                sheet.clone(),
+                None,
+                units,
+                profile_name.clone(),
+                origin.clone(),
+            )?)),
+            _ => None,
+        };
         Ok(Self {
             vessel,
             inputs: CheckInputs::of(&doc),
@@ -224,7 +312,36 @@ impl Study {
             profile_name,
             origin,
             estimated,
+            as_found_engine,
+            baseline,
+            weight_change,
         })
+    }
+
+    /// This study rebuilt from `doc` (the same sheets, units, name and origin).
+    pub fn rebuilt_with(&self, doc: BoatDoc) -> Result<Study, crate::profile::ProfileError> {
+        Study::from_sides(
+            doc,
+            self.engine_doc.clone(),
+            self.as_found_engine.clone(),
+            self.units,
+            self.profile_name.clone(),
+            self.origin.clone(),
+        )
+    }
+
+    /// The displacement change of the repower on the planned side, kg (0 without one).
+    pub fn displacement_change(&self) -> f64 {
+        self.weight_change.map_or(0.0, |w| w.mass)
+    }
+
+    /// The study the sea-trial log was run on: the baseline when the log belongs to the
+    /// as-found installation, else this one.
+    pub fn trial_study(&self) -> &Study {
+        match (self.doc.trial_side(), &self.baseline) {
+            (crate::profile::Side::AsFound, Some(found)) => found,
+            _ => self,
+        }
     }
 
     /// The study of documents being edited in memory (no file behind them yet), shown in the
@@ -280,14 +397,7 @@ impl Study {
     pub fn without_calibration(&self) -> anyhow::Result<Study> {
         let mut doc = self.doc.clone();
         doc.calibration = None;
-        Study::from_documents(
-            doc,
-            self.engine_doc.clone(),
-            self.units,
-            self.profile_name.clone(),
-            self.origin.clone(),
-        )
-        .with_context(|| {
+        self.rebuilt_with(doc).with_context(|| {
             format!(
                 "cannot build boat {:?} without its calibration",
                 self.doc.name

@@ -216,6 +216,9 @@ pub struct InstallationDoc {
     pub shaft_material: Option<String>,
     /// Largest screw diameter that fits the aperture, m.
     pub max_screw_diameter: Option<Quantity>,
+    /// Displacement change of the repower, kg (the engine sheets' `dry_weight` difference
+    /// when absent).
+    pub weight_change: Option<Quantity>,
     /// Tip clearance to the hull kept when sizing the screw, m.
     pub tip_clearance: Option<Quantity>,
     /// Number of shafts: 1 (single screw) or 2 (twin screw: the same engine sheet, gear and
@@ -321,8 +324,61 @@ pub struct TrialDoc {
     pub date: Option<String>,
     /// Conditions (wind, sea, load).
     pub note: Option<String>,
+    /// The installation the runs were made with (`None`: the one in the boat today, the
+    /// `[as_found]` side when the file has one).
+    pub installation: Option<Side>,
     /// The runs.
     pub runs: Vec<TrialRunDoc>,
+}
+
+/// One side of a repower: the installation in the boat today or the planned one.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Serialize)]
+pub enum Side {
+    /// The installation in the boat now (`[as_found]`).
+    AsFound,
+    /// The planned installation (`engine`, `[installation]`, the active `[[variant]]`).
+    Planned,
+}
+
+impl Side {
+    /// The name in files and JSON: "as-found" or "planned".
+    pub fn name(self) -> &'static str {
+        match self {
+            Side::AsFound => "as-found",
+            Side::Planned => "planned",
+        }
+    }
+}
+
+/// The installation in the boat today, before the repower (`[as_found]`); what it does not
+/// give is as in `[installation]`.
+#[derive(Debug, Clone, PartialEq)]
+pub struct AsFoundDoc {
+    /// The engine sheet's profile name of the engine in the boat now.
+    pub engine: String,
+    /// Reduction ratio of the gearbox in the boat now, engine rpm / screw rpm.
+    pub gear_ratio: f64,
+    /// Label of the `[[variant]]` on the shaft now.
+    pub variant: String,
+    /// Shaft line efficiency now, fraction (`[installation]`'s when absent).
+    pub shaft_efficiency: Option<f64>,
+    /// Gear efficiency now, fraction (`[installation]`'s when absent).
+    pub gear_efficiency: Option<f64>,
+}
+
+/// An installation the boat had before, written when a repower was marked done (`[[history]]`).
+#[derive(Debug, Clone, PartialEq)]
+pub struct HistoryDoc {
+    /// The day it was taken out (YYYY-MM-DD).
+    pub until: String,
+    /// Its engine sheet's profile name.
+    pub engine: String,
+    /// Its reduction ratio.
+    pub gear_ratio: f64,
+    /// Its screw as the shop would write it (blades, diameter, pitch, area ratio).
+    pub screw: String,
+    /// The sea-trial log run on it, moved here with it (it no longer describes the boat).
+    pub trial: Option<TrialDoc>,
 }
 
 /// A correction fitted to a sea trial and applied to every prediction.
@@ -375,6 +431,10 @@ pub struct BoatDoc {
     pub trial: Option<TrialDoc>,
     /// Saved sea-trial correction.
     pub calibration: Option<CalibrationDoc>,
+    /// The installation in the boat today, when the file plans a change from it.
+    pub as_found: Option<AsFoundDoc>,
+    /// Installations the boat had before, oldest first.
+    pub history: Vec<HistoryDoc>,
 }
 
 /// Most screw variants a boat file may hold: far more than any comparison needs, few enough
@@ -419,5 +479,48 @@ impl BoatDoc {
     /// The active variant, if the index is valid.
     pub fn active(&self) -> Option<&VariantDoc> {
         self.variants.get(self.active_variant)
+    }
+
+    /// The side the trial log was run on: as written, else the as-found side when the file
+    /// has one, else the planned (the only) one.
+    pub fn trial_side(&self) -> Side {
+        match (self.trial.as_ref().and_then(|t| t.installation), &self.as_found) {
+            (Some(side), Some(_)) => side,
+            (_, Some(_)) => Side::AsFound,
+            (_, None) => Side::Planned,
+        }
+    }
+
+    /// The boat as it is today: the planned document set to the `[as_found]` engine, gear,
+    /// efficiencies and screw (`None` without `[as_found]` or when its variant is not listed).
+    pub fn as_found_doc(&self) -> Option<BoatDoc> {
+        let found = self.as_found.as_ref()?;
+        let index = self.variants.iter().position(|v| v.label == found.variant)?;
+        let mut doc = self.clone();
+        doc.engine = found.engine.clone();
+        doc.installation.gear_ratio = found.gear_ratio;
+        if let Some(e) = found.shaft_efficiency {
+            doc.installation.shaft_efficiency = e;
+        }
+        if let Some(e) = found.gear_efficiency {
+            doc.installation.gear_efficiency = e;
+        }
+        doc.installation.weight_change = None;
+        doc.active_variant = index;
+        doc.as_found = None;
+        Some(doc)
+    }
+
+    /// The document with every load case's displacement changed by `change` kg (the planned
+    /// side's weight after a repower).
+    pub fn with_displacement_change(&self, change: f64) -> BoatDoc {
+        let mut doc = self.clone();
+        for case in [&mut doc.load.light, &mut doc.load.half, &mut doc.load.full]
+            .into_iter()
+            .flatten()
+        {
+            case.displacement = Quantity::new(case.displacement.value + change);
+        }
+        doc
     }
 }

@@ -66,12 +66,17 @@ pub struct EngineDoc {
     pub duty: Option<DutyDoc>,
     /// Maximum continuous power, W, if the maker gives one.
     pub max_continuous_power: Option<Quantity>,
+    /// Dry weight of the engine (with its gearbox when the maker quotes it so), kg.
+    pub dry_weight: Option<Quantity>,
     /// Free notes (source of the sheet, conditions).
     pub notes: Option<String>,
     /// Reduction gear ratios the maker offers with the engine (engine rpm / shaft rpm, each
     /// above 1 and at most 6); empty when the sheet lists none.
     pub gears: Vec<f64>,
 }
+
+/// Heaviest engine dry weight the loader accepts, kg: past any small-craft marine engine.
+const MAX_DRY_WEIGHT: f64 = 20_000.0;
 
 type RawCurve = Vec<(Spanned<String>, Spanned<String>)>;
 
@@ -87,6 +92,8 @@ struct RawEngine {
     fuel_density: Spanned<String>,
     #[serde(default, skip_serializing_if = "Option::is_none")]
     max_continuous_power: Option<Spanned<String>>,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    dry_weight: Option<Spanned<String>>,
     #[serde(default, skip_serializing_if = "Option::is_none")]
     notes: Option<String>,
     #[serde(default, skip_serializing_if = "Option::is_none")]
@@ -351,6 +358,7 @@ impl EngineDoc {
                 &raw.max_continuous_power,
                 Kind::Power,
             )?,
+            dry_weight: r.opt_qty("dry_weight", &raw.dry_weight, Kind::Mass)?,
             notes: raw.notes.clone(),
             gears: raw
                 .gears
@@ -408,6 +416,7 @@ impl EngineDoc {
                 .max_continuous_power
                 .as_ref()
                 .map(|q| out(q, Kind::Power, s)),
+            dry_weight: self.dry_weight.as_ref().map(|q| out(q, Kind::Mass, s)),
             notes: self.notes.clone(),
             gears: (!self.gears.is_empty())
                 .then(|| self.gears.iter().map(|&g| out_num(g)).collect()),
@@ -567,6 +576,15 @@ impl EngineDoc {
                 "max_continuous_power",
                 p.shown(),
                 "expected a positive power",
+            ));
+        }
+        if let Some(w) = &self.dry_weight
+            && !(w.value > 0.0 && w.value <= MAX_DRY_WEIGHT)
+        {
+            issues.push(Issue::new(
+                "dry_weight",
+                w.shown(),
+                "expected a positive mass of at most 20 t (the engine with its gearbox)",
             ));
         }
         for (i, &gear) in self.gears.iter().enumerate() {

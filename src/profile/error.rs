@@ -98,12 +98,17 @@ pub enum ProfileError {
     },
     /// A boat names an engine sheet that is in none of the places searched.
     #[error(
-        "{file}: engine: engine sheet {engine:?} not found; expected a file {engine}.toml in {}",
+        "{file}:{}{field}: engine sheet {engine:?} not found; expected a file {engine}.toml in {}",
+        location_prefix(location),
         searched_list(searched)
     )]
     EngineMissing {
         /// The boat file.
         file: String,
+        /// Where the name is in the file, if known.
+        location: Option<Location>,
+        /// The key naming the sheet: "engine", or "as_found.engine" for the engine in the boat now.
+        field: &'static str,
         /// The engine sheet name the boat asks for.
         engine: String,
         /// The places looked in, in order.

@@ -371,11 +371,35 @@ impl Store {
     /// The engine sheet a boat names: for a boat file, first `../engines/` beside the file's
     /// folder, then the store (or the demo fleet).
     pub fn engine_for(&self, boat: &Loaded<BoatDoc>) -> Result<Loaded<EngineDoc>, ProfileError> {
+        self.engine_named(boat, &boat.doc.engine, "engine")
+    }
+
+    /// The engine sheet of the engine in the boat now (`[as_found] engine`), found as
+    /// [`Store::engine_for`] finds the planned one; `None` when the boat has no `[as_found]`.
+    pub fn as_found_engine_for(
+        &self,
+        boat: &Loaded<BoatDoc>,
+    ) -> Result<Option<Loaded<EngineDoc>>, ProfileError> {
+        match &boat.doc.as_found {
+            None => Ok(None),
+            Some(found) => self
+                .engine_named(boat, &found.engine, "as_found.engine")
+                .map(Some),
+        }
+    }
+
+    /// The engine sheet `named` by key `field` of `boat`.
+    fn engine_named(
+        &self,
+        boat: &Loaded<BoatDoc>,
+        named: &str,
+        field: &'static str,
+    ) -> Result<Loaded<EngineDoc>, ProfileError> {
         // `engine = "x.toml"` names the sheet x.
-        let name = &strip_extension(&boat.doc.engine).to_owned();
+        let name = &strip_extension(named).to_owned();
         check_name(name)?;
         let mut searched = Vec::new();
-        let file = match &boat.origin {
+        let (file, location) = match &boat.origin {
             Origin::File { path, .. } => {
                 let beside = path
                     .parent()
@@ -387,15 +411,18 @@ impl Store {
                     return load_engine_file(&candidate);
                 }
                 searched.push(beside.display().to_string());
-                path.display().to_string()
+                let source = std::fs::read_to_string(path).unwrap_or_default();
+                (path.display().to_string(), key_location(&source, field))
             }
-            Origin::Demo { name } => format!("demo:{BOATS_DIR}/{name}.{EXTENSION}"),
+            Origin::Demo { name } => (format!("demo:{BOATS_DIR}/{name}.{EXTENSION}"), None),
         };
         match self.load_engine(name) {
             Err(ProfileError::NotFound { place, .. }) => {
                 searched.push(place);
                 Err(ProfileError::EngineMissing {
                     file,
+                    location,
+                    field,
                     engine: name.clone(),
                     searched,
                 })
@@ -488,6 +515,37 @@ impl Store {
         }
         PendingSave::prepare(&path, doc.to_toml().as_bytes(), loaded, force)
     }
+}
+
+/// Where key `field` ("engine", or "table.key") is written in TOML `source`: the first line
+/// assigning the key inside its table (top level before any table header).
+fn key_location(source: &str, field: &str) -> Option<crate::profile::error::Location> {
+    let (table, key) = field.rsplit_once('.').unwrap_or(("", field));
+    let mut current = String::new();
+    for (i, line) in source.lines().enumerate() {
+        let trimmed = line.trim();
+        if let Some(header) = trimmed.strip_prefix('[') {
+            current = header
+                .trim_start_matches('[')
+                .split(']')
+                .next()
+                .unwrap_or("")
+                .trim()
+                .to_string();
+            continue;
+        }
+        let assigns = trimmed
+            .strip_prefix(key)
+            .is_some_and(|rest| rest.trim_start().starts_with('='));
+        if current == table && assigns {
+            let column = line.len() - line.trim_start().len() + 1;
+            return Some(crate::profile::error::Location {
+                line: i + 1,
+                column,
+            });
+        }
+    }
+    None
 }
 
 #[cfg(test)]

@@ -155,14 +155,15 @@ impl Study {
     /// The calibration of variant `index` against the boat's trial log, fitted to the
     /// uncalibrated model (a saved correction is left out, so refitting never compounds it).
     pub fn calibration(&self, index: usize, fit_wake: bool) -> anyhow::Result<Calibration> {
-        let vessel = &self.vessel;
+        let (on, index) = self.trial_variant(index);
+        let vessel = &on.vessel;
         if vessel.trial.is_empty() {
             anyhow::bail!(
                 "boat {:?} has no sea-trial log ([trial] runs) to compare with",
                 vessel.name
             );
         }
-        let plain = self.uncalibrated_vessel()?;
+        let plain = on.uncalibrated_vessel()?;
         let options = CalibrationOptions {
             fit: if fit_wake {
                 CalibrationFit::ResistanceFactorAndWake
@@ -179,8 +180,9 @@ impl Study {
     /// trial's rpm groups, or `None` when the boat has no saved correction or nothing solved.
     pub fn rms_with_saved(&self, index: usize, cal: &Calibration) -> Option<f64> {
         self.doc.calibration.as_ref()?;
+        let (on, index) = self.trial_variant(index);
         // Compared as the fit is made: the calibrated calm-water model, margins off.
-        let mut calm = self.vessel.clone();
+        let mut calm = on.vessel.clone();
         calm.resistance = calm.resistance.calm_water();
         let system = calm.system(index);
         let errors: Vec<f64> = cal
@@ -197,6 +199,33 @@ impl Study {
             return None;
         }
         Some((errors.iter().map(|e| e * e).sum::<f64>() / errors.len() as f64).sqrt())
+    }
+
+    /// The study and variant the trial log was run with: the as-found installation's screw
+    /// when the log belongs to it (whatever variant is asked), else variant `index` here.
+    pub fn trial_variant(&self, index: usize) -> (&Study, usize) {
+        let on = self.trial_study();
+        if std::ptr::eq(on, self) {
+            (self, index)
+        } else {
+            (on, super::active_variant(&on.vessel))
+        }
+    }
+
+    /// Which installation the trial log is fitted through, in words: "the as-found
+    /// installation (ENGINE, G:1, screw LABEL)" or "screw LABEL".
+    pub fn trial_installation_words(&self, index: usize) -> String {
+        let (on, index) = self.trial_variant(index);
+        if std::ptr::eq(on, self) {
+            format!("screw {}", self.label(index))
+        } else {
+            format!(
+                "the as-found installation ({}, {:.2}:1, screw {})",
+                on.vessel.engine.name,
+                on.vessel.installation.gear_ratio,
+                on.label(index)
+            )
+        }
     }
 
     /// The `[calibration]` to write into the boat file for fit `cal` of variant `index`.
@@ -218,10 +247,10 @@ impl Study {
             wake_fraction: cal.wake_fraction.map(round),
             trial_date: self.doc.trial.as_ref().and_then(|t| t.date.clone()),
             note: Some(format!(
-                "{fitted} fitted{on} {} {CALM_WATER_NOTE} to {} rpm groups from {low:.0} to {high:.0} rpm, screw {}; RMS error {:.3} kn before, {:.3} kn after",
+                "{fitted} fitted{on} {} {CALM_WATER_NOTE} to {} rpm groups from {low:.0} to {high:.0} rpm, {}; RMS error {:.3} kn before, {:.3} kn after",
                 by.words(),
                 cal.points.len(),
-                self.label(index),
+                self.trial_installation_words(index),
                 cal.rms_before / KNOT_MPS,
                 cal.rms_after / KNOT_MPS
             )),

@@ -74,6 +74,7 @@ impl TrialImport {
 /// The `[trial]` log of `runs` (rpm, speed over ground, direction, fuel rate), dated `date`.
 pub fn trial_doc(runs: &[TrialRun], date: Option<String>, note: String) -> TrialDoc {
     TrialDoc {
+        installation: None,
         date,
         note: Some(note),
         runs: runs

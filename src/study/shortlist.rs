@@ -488,9 +488,10 @@ impl Study {
         pitch: Option<f64>,
     ) -> Result<Study, String> {
         let doc = self.candidate_doc(offer, gear, diameter, area_ratio, pitch);
-        Study::from_documents(
+        Study::from_sides(
             doc,
             offer.doc.clone(),
+            self.as_found_engine.clone(),
             self.units,
             self.profile_name.clone(),
             None,

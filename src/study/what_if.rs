@@ -102,7 +102,10 @@ impl Study {
                     LoadCondition::Full => "full load",
                 };
                 Some(WhatIfCase {
-                    condition: Condition::displacement(label, case.displacement.value / density),
+                    condition: Condition::displacement(
+                        label,
+                        (case.displacement.value + self.displacement_change()) / density,
+                    ),
                     short: label,
                 })
             })

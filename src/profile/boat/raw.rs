@@ -1,6 +1,6 @@
 //! The raw file form of a boat: every value keeps its span for error messages.
 
-use super::{LoadCondition, Rotation};
+use super::{LoadCondition, Rotation, Side};
 use crate::propulsion::solver::RunDirection;
 use crate::propulsion::water::WaterKind;
 use serde::{Deserialize, Serialize};
@@ -40,6 +40,34 @@ pub(super) struct RawBoat {
     pub(super) trial: Option<RawTrial>,
     #[serde(default, skip_serializing_if = "Option::is_none")]
     pub(super) calibration: Option<RawCalibration>,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub(super) as_found: Option<RawAsFound>,
+    #[serde(default, skip_serializing_if = "Vec::is_empty")]
+    pub(super) history: Vec<RawHistory>,
+}
+
+#[derive(Debug, Deserialize, Serialize)]
+#[serde(deny_unknown_fields)]
+pub(super) struct RawAsFound {
+    pub(super) engine: Spanned<String>,
+    /// A number (2.5) or a ratio written as text ("2.5:1").
+    pub(super) gear_ratio: Spanned<toml::Value>,
+    pub(super) variant: Spanned<String>,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub(super) shaft_efficiency: Option<Spanned<f64>>,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub(super) gear_efficiency: Option<Spanned<f64>>,
+}
+
+#[derive(Debug, Deserialize, Serialize)]
+#[serde(deny_unknown_fields)]
+pub(super) struct RawHistory {
+    pub(super) until: Spanned<String>,
+    pub(super) engine: Spanned<String>,
+    pub(super) gear_ratio: Spanned<toml::Value>,
+    pub(super) screw: Spanned<String>,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub(super) trial: Option<RawTrial>,
 }
 
 #[derive(Debug, Deserialize, Serialize)]
@@ -161,6 +189,8 @@ pub(super) struct RawInstallation {
     #[serde(default, skip_serializing_if = "Option::is_none")]
     pub(super) tip_clearance: Option<Spanned<String>>,
     #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub(super) weight_change: Option<Spanned<String>>,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
     pub(super) shafts: Option<Spanned<i64>>,
     #[serde(default, skip_serializing_if = "Option::is_none")]
     pub(super) port_shaft_immersion: Option<Spanned<String>>,
@@ -213,6 +243,8 @@ pub(super) struct RawTrial {
     pub(super) date: Option<String>,
     #[serde(default, skip_serializing_if = "Option::is_none")]
     pub(super) note: Option<String>,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub(super) installation: Option<Spanned<String>>,
     #[serde(default)]
     pub(super) run: Vec<RawRun>,
 }
@@ -263,5 +295,7 @@ pub(super) const INTERACTIONS: [(&str, u8); 5] = [
 ];
 pub(super) const ROTATIONS: [(&str, Rotation); 2] =
     [("right", Rotation::Right), ("left", Rotation::Left)];
+pub(super) const SIDES: [(&str, Side); 2] =
+    [("as-found", Side::AsFound), ("planned", Side::Planned)];
 pub(super) const DIRECTIONS: [(&str, RunDirection); 2] =
     [("out", RunDirection::Out), ("back", RunDirection::Back)];

@@ -3,10 +3,10 @@
 use super::MAX_VARIANTS;
 use super::raw::{
     CONDITIONS, DIRECTIONS, INTERACTIONS, METHODS, ROTATIONS, RawBoat, RawCase, RawHull, RawLoad,
-    RawVariant, WATERS,
+    RawTrial, RawVariant, SIDES, WATERS,
 };
 use super::{
-    BoatDoc, CalibrationDoc, HullDoc, InstallationDoc, InteractionDoc, LoadCase, LoadDoc, MatchDoc,
+    AsFoundDoc, BoatDoc, CalibrationDoc, HistoryDoc, HullDoc, InstallationDoc, InteractionDoc, LoadCase, LoadDoc, MatchDoc,
     ResistanceDoc, ResistanceMethodDoc, TrialDoc, TrialRunDoc, TripDoc, VariantDoc, WaterDoc,
     WindageDoc,
 };
@@ -172,6 +172,11 @@ impl BoatDoc {
                 &inst.tip_clearance,
                 Kind::ScrewLength,
             )?,
+            weight_change: r.opt_qty(
+                "installation.weight_change",
+                &inst.weight_change,
+                Kind::Mass,
+            )?,
             shafts: match &inst.shafts {
                 None => 1,
                 Some(raw) => {
@@ -274,40 +279,46 @@ impl BoatDoc {
                 repitch_fraction: r.opt_num("match.repitch_fraction", &m.repitch_fraction),
             }),
         };
-        let trial = match &raw.trial {
-            None => None,
-            Some(tr) => {
-                let mut runs = Vec::with_capacity(tr.run.len());
-                for (i, run) in tr.run.iter().enumerate() {
-                    let key = format!("trial.run[{}]", i + 1);
-                    runs.push(TrialRunDoc {
-                        rpm: r.qty(&format!("{key}.rpm"), &run.rpm, Kind::Rotation)?,
-                        speed: r.qty(&format!("{key}.speed"), &run.speed, Kind::Speed)?,
-                        direction: run
-                            .direction
-                            .as_ref()
-                            .map(|d| r.choice(&format!("{key}.direction"), d, &DIRECTIONS))
-                            .transpose()?,
-                        fuel_rate: r.opt_qty(
-                            &format!("{key}.fuel_rate"),
-                            &run.fuel_rate,
-                            Kind::FuelRate,
-                        )?,
-                    });
-                }
-                Some(TrialDoc {
-                    date: tr.date.clone(),
-                    note: tr.note.clone(),
-                    runs,
-                })
-            }
-        };
+        let trial = raw
+            .trial
+            .as_ref()
+            .map(|tr| read_trial(&mut r, "trial", tr))
+            .transpose()?;
         let calibration = raw.calibration.as_ref().map(|c| CalibrationDoc {
             resistance_factor: r.num("calibration.resistance_factor", &c.resistance_factor),
             wake_fraction: r.opt_num("calibration.wake_fraction", &c.wake_fraction),
             trial_date: c.trial_date.clone(),
             note: c.note.clone(),
         });
+        let as_found = match &raw.as_found {
+            None => None,
+            Some(a) => {
+                r.spans.insert("as_found".into(), a.engine.span());
+                Some(AsFoundDoc {
+                    engine: r.text("as_found.engine", &a.engine),
+                    gear_ratio: r.ratio("as_found.gear_ratio", &a.gear_ratio)?,
+                    variant: r.text("as_found.variant", &a.variant),
+                    shaft_efficiency: r.opt_num("as_found.shaft_efficiency", &a.shaft_efficiency),
+                    gear_efficiency: r.opt_num("as_found.gear_efficiency", &a.gear_efficiency),
+                })
+            }
+        };
+        let mut history = Vec::with_capacity(raw.history.len());
+        for (i, h) in raw.history.iter().enumerate() {
+            let key = format!("history[{}]", i + 1);
+            r.spans.insert(key.clone(), h.until.span());
+            history.push(HistoryDoc {
+                until: r.text(&format!("{key}.until"), &h.until),
+                engine: r.text(&format!("{key}.engine"), &h.engine),
+                gear_ratio: r.ratio(&format!("{key}.gear_ratio"), &h.gear_ratio)?,
+                screw: r.text(&format!("{key}.screw"), &h.screw),
+                trial: h
+                    .trial
+                    .as_ref()
+                    .map(|tr| read_trial(&mut r, &format!("{key}.trial"), tr))
+                    .transpose()?,
+            });
+        }
         let doc = BoatDoc {
             name: r.text("name", &raw.name),
             units,
@@ -326,6 +337,8 @@ impl BoatDoc {
             match_criteria,
             trial,
             calibration,
+            as_found,
+            history,
         };
         match doc.validate().into_iter().next() {
             Some(issue) => Err(r.locate(issue)),
@@ -465,5 +478,33 @@ fn read_variant(r: &mut Reader<'_>, key: &str, v: &RawVariant) -> Result<Variant
             .map(|h| r.choice(&format!("{key}.rotation"), h, &ROTATIONS))
             .transpose()?,
         open_water,
+    })
+}
+
+/// A sea-trial log under `key` ("trial", or "history[n].trial" for an earlier installation's).
+fn read_trial(r: &mut Reader<'_>, key: &str, tr: &RawTrial) -> Result<TrialDoc, ProfileError> {
+    let mut runs = Vec::with_capacity(tr.run.len());
+    for (i, run) in tr.run.iter().enumerate() {
+        let run_key = format!("{key}.run[{}]", i + 1);
+        runs.push(TrialRunDoc {
+            rpm: r.qty(&format!("{run_key}.rpm"), &run.rpm, Kind::Rotation)?,
+            speed: r.qty(&format!("{run_key}.speed"), &run.speed, Kind::Speed)?,
+            direction: run
+                .direction
+                .as_ref()
+                .map(|d| r.choice(&format!("{run_key}.direction"), d, &DIRECTIONS))
+                .transpose()?,
+            fuel_rate: r.opt_qty(&format!("{run_key}.fuel_rate"), &run.fuel_rate, Kind::FuelRate)?,
+        });
+    }
+    Ok(TrialDoc {
+        date: tr.date.clone(),
+        note: tr.note.clone(),
+        installation: tr
+            .installation
+            .as_ref()
+            .map(|side| r.choice(&format!("{key}.installation"), side, &SIDES))
+            .transpose()?,
+        runs,
     })
 }

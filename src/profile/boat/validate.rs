@@ -473,6 +473,70 @@ impl BoatDoc {
                 v.opt_positive(&format!("{key}.fuel_rate"), &run.fuel_rate, "fuel rate");
             }
         }
+        if let Some(a) = &self.as_found {
+            if let Err(ProfileError::UnsafeName { reason, .. }) = check_name(&a.engine) {
+                v.push(
+                    "as_found.engine",
+                    format!("{:?}", a.engine),
+                    format!("expected the name of the engine sheet of the engine in the boat now (letters, digits, '-', '_', '.'): {reason}"),
+                );
+            }
+            if !(a.gear_ratio > 0.0 && a.gear_ratio <= 20.0) {
+                v.push(
+                    "as_found.gear_ratio",
+                    a.gear_ratio.to_string(),
+                    "expected the reduction ratio of the gearbox in the boat now, above 0 and at most 20 (2.5 for 2.5:1)",
+                );
+            }
+            if !self.variants.iter().any(|x| x.label == a.variant) {
+                let labels: Vec<String> = self
+                    .variants
+                    .iter()
+                    .map(|x| format!("{:?}", x.label))
+                    .collect();
+                v.push(
+                    "as_found.variant",
+                    format!("{:?}", a.variant),
+                    format!(
+                        "expected the label of the [[variant]] on the shaft now: {}",
+                        labels.join(", ")
+                    ),
+                );
+            }
+            if let Some(e) = a.shaft_efficiency {
+                v.efficiency("as_found.shaft_efficiency", e);
+            }
+            if let Some(e) = a.gear_efficiency {
+                v.efficiency("as_found.gear_efficiency", e);
+            }
+        }
+        if let Some(w) = &self.installation.weight_change
+            && !(w.value.abs() <= MAX_WEIGHT_CHANGE)
+        {
+            v.push(
+                "installation.weight_change",
+                w.shown(),
+                "expected the displacement change of the repower, at most 10 t either way",
+            );
+        }
+        if self.trial.as_ref().and_then(|t| t.installation) == Some(super::Side::AsFound)
+            && self.as_found.is_none()
+        {
+            v.push(
+                "trial.installation",
+                "\"as-found\"",
+                "expected \"planned\" or no value: the file has no [as_found] installation for the trial to have been run on",
+            );
+        }
+        for (i, h) in self.history.iter().enumerate() {
+            if !(h.gear_ratio > 0.0 && h.gear_ratio <= 20.0) {
+                v.push(
+                    &format!("history[{}].gear_ratio", i + 1),
+                    h.gear_ratio.to_string(),
+                    "expected a reduction ratio above 0 and at most 20",
+                );
+            }
+        }
         if let Some(c) = &self.calibration {
             v.range(
                 "calibration.resistance_factor",
@@ -510,6 +574,9 @@ impl BoatDoc {
         }
     }
 }
+
+/// Largest displacement change a repower may give, kg (10 t: far past any engine swap).
+const MAX_WEIGHT_CHANGE: f64 = 10_000.0;
 
 /// Collects validation issues.
 struct Validator {

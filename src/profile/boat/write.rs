@@ -1,11 +1,11 @@
 //! Writing a boat back to TOML in its unit system.
 
 use super::raw::{
-    DIRECTIONS, ROTATIONS, RawBoat, RawCalibration, RawCase, RawHull, RawInstallation,
+    DIRECTIONS, ROTATIONS, RawAsFound, RawBoat, RawCalibration, RawCase, RawHistory, RawHull, RawInstallation,
     RawInteraction, RawLoad, RawMatch, RawResistance, RawRun, RawTrial, RawTrip, RawVariant,
-    RawWater, RawWindage, WATERS,
+    RawWater, RawWindage, SIDES, WATERS,
 };
-use super::{BoatDoc, InteractionDoc, LoadCase, ResistanceMethodDoc};
+use super::{BoatDoc, InteractionDoc, LoadCase, ResistanceMethodDoc, TrialDoc};
 use crate::profile::fields::{UNIT_SYSTEMS, name_of};
 use crate::profile::quantity::{Quantity, out, out_num, out_text};
 use crate::units::Kind;
@@ -122,6 +122,7 @@ impl BoatDoc {
                 shaft_material: inst.shaft_material.as_deref().map(out_text),
                 max_screw_diameter: oq(&inst.max_screw_diameter, Kind::ScrewLength),
                 tip_clearance: oq(&inst.tip_clearance, Kind::ScrewLength),
+                weight_change: oq(&inst.weight_change, Kind::Mass),
                 // A single screw is the default and is not written.
                 shafts: (inst.shafts != 1)
                     .then(|| toml::Spanned::new(0..0, i64::from(inst.shafts))),
@@ -164,27 +165,54 @@ impl BoatDoc {
                     }),
                 })
                 .collect(),
-            trial: self.trial.as_ref().map(|t| RawTrial {
-                date: t.date.clone(),
-                note: t.note.clone(),
-                run: t
-                    .runs
-                    .iter()
-                    .map(|run| RawRun {
-                        rpm: out(&run.rpm, Kind::Rotation, s),
-                        speed: out(&run.speed, Kind::Speed, s),
-                        direction: run.direction.map(|d| out_text(name_of(&DIRECTIONS, d))),
-                        fuel_rate: oq(&run.fuel_rate, Kind::FuelRate),
-                    })
-                    .collect(),
-            }),
+            trial: self.trial.as_ref().map(|t| write_trial(t, s)),
             calibration: self.calibration.as_ref().map(|c| RawCalibration {
                 resistance_factor: out_num(c.resistance_factor),
                 wake_fraction: on(c.wake_fraction),
                 trial_date: c.trial_date.clone(),
                 note: c.note.clone(),
             }),
+            as_found: self.as_found.as_ref().map(|a| RawAsFound {
+                engine: out_text(&a.engine),
+                gear_ratio: Spanned::new(0..0, toml::Value::Float(a.gear_ratio)),
+                variant: out_text(&a.variant),
+                shaft_efficiency: on(a.shaft_efficiency),
+                gear_efficiency: on(a.gear_efficiency),
+            }),
+            history: self
+                .history
+                .iter()
+                .map(|h| RawHistory {
+                    until: out_text(&h.until),
+                    engine: out_text(&h.engine),
+                    gear_ratio: Spanned::new(0..0, toml::Value::Float(h.gear_ratio)),
+                    screw: out_text(&h.screw),
+                    trial: h.trial.as_ref().map(|t| write_trial(t, s)),
+                })
+                .collect(),
         };
         toml::to_string_pretty(&raw).unwrap_or_else(|e| format!("# could not be written: {e}\n"))
+    }
+}
+
+/// A sea-trial log in its raw form, in unit system `s`.
+fn write_trial(t: &TrialDoc, s: crate::units::UnitSystem) -> RawTrial {
+    RawTrial {
+        date: t.date.clone(),
+        note: t.note.clone(),
+        installation: t.installation.map(|side| out_text(name_of(&SIDES, side))),
+        run: t
+            .runs
+            .iter()
+            .map(|run| RawRun {
+                rpm: out(&run.rpm, Kind::Rotation, s),
+                speed: out(&run.speed, Kind::Speed, s),
+                direction: run.direction.map(|d| out_text(name_of(&DIRECTIONS, d))),
+                fuel_rate: run
+                    .fuel_rate
+                    .as_ref()
+                    .map(|q| out(q, Kind::FuelRate, s)),
+            })
+            .collect(),
     }
 }
