@@ -8,6 +8,7 @@
 //! and only lay the answers out. Dependency order: `units`, `propulsion` → `profile` → `study`
 //! → `report` → `cli`, `tui`. All values are SI.
 
+pub mod baseline;
 pub mod checks;
 pub mod design;
 pub mod import;

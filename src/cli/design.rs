@@ -163,7 +163,8 @@ pub fn sweep(ctx: &Context, args: &SweepArgs, out: &mut dyn Write) -> anyhow::Re
         ..SweepOptions::default()
     };
     let result = study.sweep(index, &parameter, &options)?;
-    let label = &study.vessel.variants[index].label;
+    let (on, trial_index) = study.trial_variant(index);
+    let label = on.label(trial_index);
     match args.format {
         PlainFormat::Json => {
             out.write_all(json::to_string(&sweep_json(&study, label, &result))?.as_bytes())?;
@@ -237,9 +238,17 @@ pub(super) fn trial_of(
             let d = Display::new(study.units);
             writeln!(
                 out,
-                "{}: sea trial against the prediction (screw {label})",
-                study.vessel.name
+                "{}: sea trial against the prediction ({})",
+                study.vessel.name,
+                study.trial_installation_words(index)
             )?;
+            if study.baseline.is_some() {
+                writeln!(
+                    out,
+                    "  the runs were made with the {} installation and are fitted through it; the factor belongs to the hull and applies to both sides",
+                    study.doc.trial_side().name()
+                )?;
+            }
             writeln!(out, "  {}", comparison_text(study, rms_saved, &d))?;
             out.write_all(trial_text(&cal, &d).as_bytes())?;
             match &saved {

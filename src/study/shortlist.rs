@@ -4,6 +4,7 @@
 //! set to that engine, gear and screw: the boat document is changed and rebuilt through the
 //! profile's to-vessel, never patched in the core's vessel. All values are SI.
 
+use super::baseline::{Baseline, Headline};
 use super::checks::{cavitation, shaft_check};
 use super::power_speed::PowerForSpeed;
 use super::solve::{SolveOptions, solve_variant};
@@ -138,6 +139,19 @@ impl Candidate {
         }
     }
 
+    /// The candidate's headline figures, to hold against the as-found baseline.
+    pub fn headline(&self) -> Headline {
+        Headline {
+            top_speed: self.top_speed,
+            rpm_margin: self.rpm_margin,
+            cruise_rpm: self.cruise_rpm,
+            cruise_load: self.cruise_load,
+            fuel_rate: self.fuel_rate,
+            fuel_per_distance: self.fuel_per_distance,
+            range: self.range,
+        }
+    }
+
     /// Whether the candidate reaches the target speed within its engine's envelope.
     pub fn reaches_target(&self) -> bool {
         self.cruise_rpm.is_some()
@@ -165,6 +179,9 @@ pub struct Shortlist {
     /// What more power buys: the candidates' installed power at their top speeds beside the
     /// hull's effective-power curve (`None`: no candidate reaches a top speed).
     pub power_for_speed: Option<PowerForSpeed>,
+    /// The boat as it is today, every candidate's change is counted from (`None` without
+    /// `[as_found]`).
+    pub baseline: Option<Baseline>,
 }
 
 /// Why there is no shortlist at all.
@@ -263,6 +280,7 @@ impl Study {
             trip_profile: self.trip_profile(),
             target_speed: self.vessel.trip.target_speed,
             power_for_speed: None,
+            baseline: self.baseline_figures(),
         };
         list.power_for_speed = self.power_for_speed(&list);
         Ok(list)

@@ -17,6 +17,7 @@ mod oortmerssen;
 mod pitch;
 mod profiles;
 mod published;
+mod repower;
 mod robustness;
 mod screw;
 mod shortlist;

@@ -1,0 +1,181 @@
+//! Integration tests: before and after a repower. The boat file holds the installation in the
+//! boat today (`[as_found]`) beside the planned one; the sea trial run on the old installation
+//! calibrates the hull through it, and every planned figure is held against the as-found one.
+//! The fixture is the demo workboat Pintle with its own installation as found, so the as-found
+//! side must give exactly what the demo Pintle gives (the tool's own path, another route).
+
+use tidewright::profile::{BoatDoc, ProfileError, Quantity, Store};
+use tidewright::study::Study;
+
+/// The demo fleet only (no store at this path).
+fn demo() -> Store {
+    Store::at("/nonexistent-tidewright-store")
+}
+
+/// The repower fixture: Pintle as found (Brindmoor 3B40, 2.0:1, 450×290) planned for a
+/// Brindmoor 4B62 on 2.5:1 with a 480×360 screw; the engine sheets come from the demo fleet.
+const FIXTURE: &str = concat!(
+    env!("CARGO_MANIFEST_DIR"),
+    "/tests/fixtures/repower/boats/pintle-repower.toml"
+);
+
+fn fixture() -> Study {
+    Study::load(&demo(), FIXTURE, None).expect("the repower fixture loads")
+}
+
+/// The fixture's document with its planned side changed by `edit`, as a study.
+fn replanned(edit: impl Fn(&mut BoatDoc)) -> Study {
+    let base = fixture();
+    let mut doc = base.doc.clone();
+    edit(&mut doc);
+    let engine = demo().load_engine(&doc.engine).unwrap().doc;
+    Study::from_sides(
+        doc,
+        engine,
+        base.as_found_engine.clone(),
+        base.units,
+        base.profile_name.clone(),
+        None,
+    )
+    .unwrap()
+}
+
+#[test]
+fn the_trial_on_the_old_installation_fits_one_factor_whatever_is_planned() {
+    let study = fixture();
+    assert!(study.baseline.is_some(), "the as-found side is built");
+    let index = study.vessel.active_variant;
+    let fitted = study.calibration(index, false).unwrap().resistance_factor;
+    // The as-found installation is the demo Pintle's own: its fit is the same number.
+    let pintle = Study::load(&demo(), "pintle", None).unwrap();
+    let own = pintle.calibration(0, false).unwrap().resistance_factor;
+    assert_close!(fitted, own, 1e-12);
+    for (what, study) in [
+        ("engine", replanned(|d| d.engine = "quellan-qd90".into())),
+        ("gear", replanned(|d| d.installation.gear_ratio = 3.0)),
+        (
+            "screw",
+            replanned(|d| d.variants[1].pitch = Quantity::new(0.42)),
+        ),
+    ] {
+        for variant in 0..study.vessel.variants.len() {
+            let again = study.calibration(variant, false).unwrap().resistance_factor;
+            assert_close!(again, fitted, 1e-12);
+            let _ = what;
+        }
+    }
+}
+
+/// The defect this replaces: without `[as_found]` the same runs are fitted through whatever
+/// the file plans, so a gear change alone moves the factor (the check above can fail).
+#[test]
+fn without_as_found_the_planned_gear_moves_the_fit() {
+    let as_it_is = |d: &mut BoatDoc| {
+        d.as_found = None;
+        d.engine = "brindmoor-3b40".into();
+        d.installation.gear_ratio = 2.0;
+        d.active_variant = 0;
+    };
+    let plain = replanned(as_it_is);
+    let geared = replanned(|d| {
+        as_it_is(d);
+        d.installation.gear_ratio = 2.5;
+    });
+    let a = plain.calibration(0, false).unwrap().resistance_factor;
+    let b = geared.calibration(0, false).unwrap().resistance_factor;
+    assert!((a - b).abs() > 0.05, "{a} vs {b}");
+}
+
+#[test]
+fn the_baseline_is_the_boat_as_found_and_the_planned_side_carries_the_engine_weight() {
+    let study = fixture();
+    let baseline = study.baseline_figures().expect("a baseline");
+    assert_eq!(baseline.engine, "brindmoor-3b40");
+    assert_eq!(baseline.variant, "current 450x290");
+    // The as-found figures are the demo Pintle's, solved the usual way.
+    let pintle = Study::load(&demo(), "pintle", None).unwrap();
+    let own = pintle.solve_variant(0, &Default::default());
+    let own = tidewright::study::baseline::Headline::of(&own);
+    assert_eq!(baseline.figures, own);
+    assert!(own.top_speed.is_some() && own.cruise_rpm.is_some());
+    // Dry weights of the demo sheets: 285 kg planned against 195 kg as found, one shaft.
+    let change = study.weight_change.expect("estimated from the dry weights");
+    assert!(change.estimated);
+    assert_close!(change.mass, 90.0, 1e-12);
+    let density = study.vessel.resistance.water.density;
+    let planned = study.vessel.resistance.hull.input.displacement_volume * density;
+    let found = study.baseline.as_ref().unwrap().vessel.resistance.hull.input.displacement_volume
+        * density;
+    assert_close!(found, 4600.0, 1e-9);
+    assert_close!(planned, 4690.0, 1e-9);
+    // A weight the file gives wins over the estimate.
+    let given = replanned(|d| d.installation.weight_change = Some(Quantity::new(-40.0)));
+    let w = given.weight_change.unwrap();
+    assert!(!w.estimated);
+    assert_close!(w.mass, -40.0, 1e-12);
+}
+
+#[test]
+fn a_wrong_as_found_variant_or_engine_names_file_line_and_field() {
+    let dir = tempfile::tempdir().unwrap();
+    let text = std::fs::read_to_string(FIXTURE).unwrap();
+    let bad = text.replace(
+        "variant = \"current 450x290\"",
+        "variant = \"old screw\"",
+    );
+    let path = dir.path().join("bad-variant.toml");
+    std::fs::write(&path, &bad).unwrap();
+    let err = Study::load(&demo(), path.to_str().unwrap(), None).unwrap_err();
+    let message = format!("{err:#}");
+    let line = bad
+        .lines()
+        .position(|l| l.contains("\"old screw\""))
+        .unwrap()
+        + 1;
+    assert!(message.contains("as_found.variant"), "{message}");
+    assert!(message.contains(&format!(":{line}:")), "line {line}: {message}");
+    assert!(message.contains("current 450x290"), "the labels it has: {message}");
+
+    let missing = text.replace(
+        "engine = \"brindmoor-3b40\"",
+        "engine = \"no-such-sheet\"",
+    );
+    let path = dir.path().join("missing-engine.toml");
+    std::fs::write(&path, &missing).unwrap();
+    let err = Study::load(&demo(), path.to_str().unwrap(), None).unwrap_err();
+    let message = format!("{err:#}");
+    let found = err.chain().any(|e| {
+        matches!(
+            e.downcast_ref::<ProfileError>(),
+            Some(ProfileError::EngineMissing {
+                field: "as_found.engine",
+                ..
+            })
+        )
+    });
+    assert!(found, "{message}");
+    let line = missing
+        .lines()
+        .position(|l| l.contains("no-such-sheet"))
+        .unwrap()
+        + 1;
+    assert!(message.contains(&format!(":{line}:")), "line {line}: {message}");
+}
+
+#[test]
+fn as_found_history_and_trial_side_survive_a_write_and_read() {
+    let study = fixture();
+    let mut doc = study.doc.clone();
+    doc.history.push(tidewright::profile::HistoryDoc {
+        until: "2026-11-30".into(),
+        engine: "brindmoor-3b40".into(),
+        gear_ratio: 1.91,
+        screw: "3-blade 440 × 280 mm, AE/A0 0.50".into(),
+        trial: doc.trial.clone(),
+    });
+    if let Some(t) = doc.trial.as_mut() {
+        t.installation = Some(tidewright::profile::Side::Planned);
+    }
+    let again = BoatDoc::from_toml(&doc.to_toml(), "written.toml").unwrap();
+    assert_eq!(again, doc);
+}
