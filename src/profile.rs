@@ -18,9 +18,9 @@ pub mod store;
 pub mod template;
 
 pub use boat::{
-    AsFoundDoc, BoatDoc, CalibrationDoc, HistoryDoc, Side, HullDoc, InstallationDoc, InteractionDoc, LoadCase, LoadCondition,
-    LoadDoc, ResistanceDoc, ResistanceMethodDoc, Rotation, TrialDoc, TrialRunDoc, TripDoc,
-    VariantDoc, WaterDoc, WindageDoc,
+    AsFoundDoc, BoatDoc, CalibrationDoc, HistoryDoc, HullDoc, InstallationDoc, InteractionDoc,
+    LoadCase, LoadCondition, LoadDoc, ResistanceDoc, ResistanceMethodDoc, Rotation, Side, TrialDoc,
+    TrialRunDoc, TripDoc, VariantDoc, WaterDoc, WindageDoc,
 };
 pub use engine::{DutyDoc, EngineDoc, FuelDoc};
 pub use error::{Issue, ProfileError};

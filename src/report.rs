@@ -4,6 +4,7 @@
 //! text, CSV, Markdown and charts are shown in the chosen [`UnitSystem`]; JSON always carries SI
 //! values or the unit in the field's name (`speed_kn`, `brake_kw`, `fuel_lph`).
 
+pub mod baseline;
 pub mod checks;
 pub mod design;
 pub mod documents;

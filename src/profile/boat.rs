@@ -484,7 +484,10 @@ impl BoatDoc {
     /// The side the trial log was run on: as written, else the as-found side when the file
     /// has one, else the planned (the only) one.
     pub fn trial_side(&self) -> Side {
-        match (self.trial.as_ref().and_then(|t| t.installation), &self.as_found) {
+        match (
+            self.trial.as_ref().and_then(|t| t.installation),
+            &self.as_found,
+        ) {
             (Some(side), Some(_)) => side,
             (_, Some(_)) => Side::AsFound,
             (_, None) => Side::Planned,
@@ -495,7 +498,10 @@ impl BoatDoc {
     /// efficiencies and screw (`None` without `[as_found]` or when its variant is not listed).
     pub fn as_found_doc(&self) -> Option<BoatDoc> {
         let found = self.as_found.as_ref()?;
-        let index = self.variants.iter().position(|v| v.label == found.variant)?;
+        let index = self
+            .variants
+            .iter()
+            .position(|v| v.label == found.variant)?;
         let mut doc = self.clone();
         doc.engine = found.engine.clone();
         doc.installation.gear_ratio = found.gear_ratio;

@@ -1,5 +1,7 @@
 //! JSON output: pretty-printed, one document per command, never a NaN.
 
+use super::baseline::{BaselineJson, HeadlineJson, baseline_json, headline_json};
+use crate::study::baseline::Headline;
 use serde::Serialize;
 
 use super::checks::{AppliedCalibration, CavitationJson, DesignChecks, ShaftJson};
@@ -79,9 +81,14 @@ impl BoatReport {
                             .as_ref()
                             .map(|c| c.cavitation_json(&v.label))
                             .unwrap_or_default(),
+                        delta: self
+                            .baseline
+                            .as_ref()
+                            .map(|b| headline_json(&Headline::of(v).change_from(&b.figures))),
                     }
                 })
                 .collect(),
+            baseline: self.baseline.as_ref().map(baseline_json),
             calibration: self.calibration.clone(),
             methods: self.methods.clone(),
             cavitation_skipped: self
@@ -114,6 +121,8 @@ pub struct BoatJson {
     pub target_speed_kn: f64,
     /// The variants.
     pub variants: Vec<VariantJson>,
+    /// The boat as found (`[as_found]`) with its figures, or null.
+    pub baseline: Option<BaselineJson>,
     /// The sea-trial correction applied, or null.
     pub calibration: Option<AppliedCalibration>,
     /// The resistance and interaction methods used and why.
@@ -182,6 +191,8 @@ pub struct VariantJson {
     pub method_spread: Option<MethodSpread>,
     /// Cavitation and blade loading at the target speed and at top speed.
     pub cavitation: Vec<CavitationJson>,
+    /// The change from the baseline (this variant − as found), or null without one.
+    pub delta: Option<HeadlineJson>,
 }
 
 /// One operating point in JSON.

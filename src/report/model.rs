@@ -4,6 +4,8 @@
 //! `report::text` (text, Markdown, CSV), `report::json` (JSON), `report::export` (Markdown with
 //! SVG charts). The model imports none of them.
 
+use super::Display;
+use crate::study::baseline::{Baseline, Headline};
 use serde::Serialize;
 
 use super::checks::{AppliedCalibration, CheckInputs, DesignChecks};
@@ -127,6 +129,9 @@ pub struct BoatReport {
     pub methods: MethodSummary,
     /// Shafts fitted (1 or 2): on a twin each has its own engine, gear and screw, handed.
     pub shafts: u32,
+    /// The boat as it is today, the planned figures are compared with (`None` without
+    /// `[as_found]`).
+    pub baseline: Option<Baseline>,
 }
 
 /// The loud warning when a variant's full-throttle point lies outside the resistance method.
@@ -177,7 +182,8 @@ impl BoatReport {
         Ok(
             Self::of_solutions(&study.vessel, variants, &study.estimated)
                 .with_calibration(study.calibration.clone())
-                .with_checks(&study.vessel, &study.inputs),
+                .with_checks(&study.vessel, &study.inputs)
+                .with_baseline(study.baseline_figures()),
         )
     }
 
@@ -259,7 +265,70 @@ impl BoatReport {
             checks: None,
             methods: MethodSummary::of(vessel),
             shafts: vessel.installation.shafts,
+            baseline: None,
         }
+    }
+
+    /// The report with the as-found baseline its variants are compared with.
+    pub fn with_baseline(mut self, baseline: Option<Baseline>) -> Self {
+        self.baseline = baseline;
+        self
+    }
+
+    /// Each variant's change from the baseline (`None` without one), in variant order.
+    pub fn deltas(&self) -> Vec<Option<Headline>> {
+        self.variants
+            .iter()
+            .map(|v| {
+                self.baseline
+                    .as_ref()
+                    .map(|b| Headline::of(v).change_from(&b.figures))
+            })
+            .collect()
+    }
+
+    /// The before/after section: the baseline and, per variant, its figures beside it.
+    pub fn before_after_text(&self, d: &Display) -> Option<String> {
+        let b = self.baseline.as_ref()?;
+        let mut out = String::new();
+        for line in super::baseline::baseline_lines(b, d) {
+            out.push_str(&format!("{line}\n"));
+        }
+        for v in &self.variants {
+            out.push('\n');
+            out.push_str(
+                &super::baseline::before_after_table(
+                    b,
+                    &format!("screw {}", v.label),
+                    &Headline::of(v),
+                    d,
+                )
+                .to_text("  "),
+            );
+        }
+        Some(out)
+    }
+
+    /// The before/after section in Markdown.
+    pub fn before_after_markdown(&self, d: &Display) -> Option<String> {
+        let b = self.baseline.as_ref()?;
+        let mut out = String::new();
+        for line in super::baseline::baseline_lines(b, d) {
+            out.push_str(&format!("- {line}\n"));
+        }
+        for v in &self.variants {
+            out.push('\n');
+            out.push_str(
+                &super::baseline::before_after_table(
+                    b,
+                    &format!("screw {}", v.label),
+                    &Headline::of(v),
+                    d,
+                )
+                .to_markdown(),
+            );
+        }
+        Some(out)
     }
 
     /// The report with the sea-trial correction it was solved with, shown wherever it is.

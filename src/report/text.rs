@@ -115,6 +115,10 @@ impl BoatReport {
                 out.push_str(&format!("{line}\n"));
             }
         }
+        if let Some(section) = self.before_after_text(&d) {
+            out.push_str("\nBefore and after (the boat as found against each planned screw)\n");
+            out.push_str(&section);
+        }
         out.push('\n');
         if !self.warnings.is_empty() {
             out.push_str("Warnings:\n");
@@ -159,6 +163,10 @@ impl BoatReport {
             for line in shaft {
                 out.push_str(&format!("- {}\n", line.trim_start()));
             }
+        }
+        if let Some(section) = self.before_after_markdown(&d) {
+            out.push_str("\n## Before and after\n\n");
+            out.push_str(&section);
         }
         if !self.warnings.is_empty() {
             out.push_str("\n## Warnings\n\n");

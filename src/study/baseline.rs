@@ -31,7 +31,11 @@ impl Headline {
     /// within the engine's envelope).
     pub fn of(solution: &VariantSolution) -> Self {
         let matched = solution.matched.as_ref().ok();
-        let cruise = solution.cruise.as_ref().ok().filter(|c| !c.beyond_full_load);
+        let cruise = solution
+            .cruise
+            .as_ref()
+            .ok()
+            .filter(|c| !c.beyond_full_load);
         Self {
             top_speed: matched.map(|m| m.top_speed),
             rpm_margin: matched.map(|m| m.rpm_margin),

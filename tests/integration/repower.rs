@@ -104,7 +104,15 @@ fn the_baseline_is_the_boat_as_found_and_the_planned_side_carries_the_engine_wei
     assert_close!(change.mass, 90.0, 1e-12);
     let density = study.vessel.resistance.water.density;
     let planned = study.vessel.resistance.hull.input.displacement_volume * density;
-    let found = study.baseline.as_ref().unwrap().vessel.resistance.hull.input.displacement_volume
+    let found = study
+        .baseline
+        .as_ref()
+        .unwrap()
+        .vessel
+        .resistance
+        .hull
+        .input
+        .displacement_volume
         * density;
     assert_close!(found, 4600.0, 1e-9);
     assert_close!(planned, 4690.0, 1e-9);
@@ -119,10 +127,7 @@ fn the_baseline_is_the_boat_as_found_and_the_planned_side_carries_the_engine_wei
 fn a_wrong_as_found_variant_or_engine_names_file_line_and_field() {
     let dir = tempfile::tempdir().unwrap();
     let text = std::fs::read_to_string(FIXTURE).unwrap();
-    let bad = text.replace(
-        "variant = \"current 450x290\"",
-        "variant = \"old screw\"",
-    );
+    let bad = text.replace("variant = \"current 450x290\"", "variant = \"old screw\"");
     let path = dir.path().join("bad-variant.toml");
     std::fs::write(&path, &bad).unwrap();
     let err = Study::load(&demo(), path.to_str().unwrap(), None).unwrap_err();
@@ -133,13 +138,16 @@ fn a_wrong_as_found_variant_or_engine_names_file_line_and_field() {
         .unwrap()
         + 1;
     assert!(message.contains("as_found.variant"), "{message}");
-    assert!(message.contains(&format!(":{line}:")), "line {line}: {message}");
-    assert!(message.contains("current 450x290"), "the labels it has: {message}");
-
-    let missing = text.replace(
-        "engine = \"brindmoor-3b40\"",
-        "engine = \"no-such-sheet\"",
+    assert!(
+        message.contains(&format!(":{line}:")),
+        "line {line}: {message}"
     );
+    assert!(
+        message.contains("current 450x290"),
+        "the labels it has: {message}"
+    );
+
+    let missing = text.replace("engine = \"brindmoor-3b40\"", "engine = \"no-such-sheet\"");
     let path = dir.path().join("missing-engine.toml");
     std::fs::write(&path, &missing).unwrap();
     let err = Study::load(&demo(), path.to_str().unwrap(), None).unwrap_err();
@@ -159,7 +167,10 @@ fn a_wrong_as_found_variant_or_engine_names_file_line_and_field() {
         .position(|l| l.contains("no-such-sheet"))
         .unwrap()
         + 1;
-    assert!(message.contains(&format!(":{line}:")), "line {line}: {message}");
+    assert!(
+        message.contains(&format!(":{line}:")),
+        "line {line}: {message}"
+    );
 }
 
 #[test]

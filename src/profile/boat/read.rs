@@ -6,9 +6,9 @@ use super::raw::{
     RawTrial, RawVariant, SIDES, WATERS,
 };
 use super::{
-    AsFoundDoc, BoatDoc, CalibrationDoc, HistoryDoc, HullDoc, InstallationDoc, InteractionDoc, LoadCase, LoadDoc, MatchDoc,
-    ResistanceDoc, ResistanceMethodDoc, TrialDoc, TrialRunDoc, TripDoc, VariantDoc, WaterDoc,
-    WindageDoc,
+    AsFoundDoc, BoatDoc, CalibrationDoc, HistoryDoc, HullDoc, InstallationDoc, InteractionDoc,
+    LoadCase, LoadDoc, MatchDoc, ResistanceDoc, ResistanceMethodDoc, TrialDoc, TrialRunDoc,
+    TripDoc, VariantDoc, WaterDoc, WindageDoc,
 };
 use crate::profile::error::{Issue, ProfileError};
 use crate::profile::fields::{UNIT_SYSTEMS, check_schema};
@@ -494,7 +494,11 @@ fn read_trial(r: &mut Reader<'_>, key: &str, tr: &RawTrial) -> Result<TrialDoc, 
                 .as_ref()
                 .map(|d| r.choice(&format!("{run_key}.direction"), d, &DIRECTIONS))
                 .transpose()?,
-            fuel_rate: r.opt_qty(&format!("{run_key}.fuel_rate"), &run.fuel_rate, Kind::FuelRate)?,
+            fuel_rate: r.opt_qty(
+                &format!("{run_key}.fuel_rate"),
+                &run.fuel_rate,
+                Kind::FuelRate,
+            )?,
         });
     }
     Ok(TrialDoc {

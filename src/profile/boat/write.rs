@@ -1,9 +1,9 @@
 //! Writing a boat back to TOML in its unit system.
 
 use super::raw::{
-    DIRECTIONS, ROTATIONS, RawAsFound, RawBoat, RawCalibration, RawCase, RawHistory, RawHull, RawInstallation,
-    RawInteraction, RawLoad, RawMatch, RawResistance, RawRun, RawTrial, RawTrip, RawVariant,
-    RawWater, RawWindage, SIDES, WATERS,
+    DIRECTIONS, ROTATIONS, RawAsFound, RawBoat, RawCalibration, RawCase, RawHistory, RawHull,
+    RawInstallation, RawInteraction, RawLoad, RawMatch, RawResistance, RawRun, RawTrial, RawTrip,
+    RawVariant, RawWater, RawWindage, SIDES, WATERS,
 };
 use super::{BoatDoc, InteractionDoc, LoadCase, ResistanceMethodDoc, TrialDoc};
 use crate::profile::fields::{UNIT_SYSTEMS, name_of};
@@ -208,10 +208,7 @@ fn write_trial(t: &TrialDoc, s: crate::units::UnitSystem) -> RawTrial {
                 rpm: out(&run.rpm, Kind::Rotation, s),
                 speed: out(&run.speed, Kind::Speed, s),
                 direction: run.direction.map(|d| out_text(name_of(&DIRECTIONS, d))),
-                fuel_rate: run
-                    .fuel_rate
-                    .as_ref()
-                    .map(|q| out(q, Kind::FuelRate, s)),
+                fuel_rate: run.fuel_rate.as_ref().map(|q| out(q, Kind::FuelRate, s)),
             })
             .collect(),
     }
