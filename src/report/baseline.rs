@@ -171,31 +171,51 @@ pub fn baseline_lines(b: &Baseline, d: &Display) -> Vec<String> {
 }
 
 /// The change in one line for narrow places (the TUI readout, the shortlist's block):
-/// "top +0.4 kn · cruise −120 rpm · fuel −0.03 L/nm · range +40 nm · margin +80 rpm".
+/// "top +0.4 kn · cruise −120 rpm · fuel −0.030 L/nm · range +40 nm · margin +80 rpm".
 pub fn change_line(before: &Headline, after: &Headline, d: &Display) -> String {
-    let c = after.change_from(before);
-    let mut parts = Vec::new();
-    let signed = |x: f64, kind: Kind| sign(x, d.quantity(x.abs(), kind));
-    if let Some(v) = c.top_speed {
-        parts.push(format!("top {}", signed(v, Kind::Speed)));
-    }
-    if let Some(v) = c.cruise_rpm {
-        parts.push(format!("cruise {} rpm", sign(v, format!("{:.0}", v.abs()))));
-    }
-    if let Some(v) = c.fuel_per_distance {
-        parts.push(format!("fuel {}", signed(v, Kind::FuelPerDistance)));
-    }
-    if let Some(v) = c.range {
-        parts.push(format!("range {}", signed(v, Kind::Distance)));
-    }
-    if let Some(v) = c.rpm_margin {
-        parts.push(format!("margin {} rpm", sign(v, format!("{:.0}", v.abs()))));
-    }
-    if parts.is_empty() {
+    let line = figures_line(&after.change_from(before), d, true);
+    if line.is_empty() {
         "no figure to compare".into()
     } else {
-        parts.join(" · ")
+        line
     }
+}
+
+/// Figures (or, with `signed`, changes) in one line: top speed, cruise rpm, fuel per
+/// distance, range and rpm margin, each with its unit; those not solved are left out.
+pub fn figures_line(h: &Headline, d: &Display, signed: bool) -> String {
+    let show = |x: f64, text: String| if signed { sign(x, text) } else { text };
+    let with_unit = |x: f64, kind: Kind, decimals: usize| {
+        format!(
+            "{} {}",
+            show(x, d.number(if signed { x.abs() } else { x }, kind, decimals)),
+            d.unit(kind)
+        )
+    };
+    let rpm = |x: f64| {
+        format!(
+            "{} rpm",
+            show(x, format!("{:.0}", if signed { x.abs() } else { x }))
+        )
+    };
+    let mut parts = Vec::new();
+    if let Some(v) = h.top_speed {
+        parts.push(format!("top {}", with_unit(v, Kind::Speed, 1)));
+    }
+    if let Some(v) = h.cruise_rpm {
+        parts.push(format!("cruise {}", rpm(v)));
+    }
+    if let Some(v) = h.fuel_per_distance {
+        parts.push(format!("fuel {}", with_unit(v, Kind::FuelPerDistance, 3)));
+    }
+    if let Some(v) = h.range {
+        parts.push(format!("range {}", with_unit(v, Kind::Distance, 0)));
+    }
+    if let Some(v) = h.rpm_margin {
+        // A margin is signed of itself (free-running above rated, short of it below).
+        parts.push(format!("margin {}", sign(v, format!("{:.0}", v.abs())) + " rpm"));
+    }
+    parts.join(" · ")
 }
 
 /// `shown` (the magnitude, formatted) with the sign of `x`: "+" or "−" (U+2212), as the

@@ -3,6 +3,7 @@
 
 use serde::Serialize;
 
+use super::baseline::{BaselineJson, HeadlineJson, baseline_json, headline_json};
 use super::power_speed::{
     PowerForSpeedJson, SHARE_NOTE, power_chart, power_json, power_summary, power_table,
     power_text_chart,
@@ -24,6 +25,8 @@ pub struct ShortlistJson {
     pub candidates: Vec<CandidateJson>,
     /// What more power buys: installed power at top speed beside the hull's effective power.
     pub power_for_speed: Option<PowerForSpeedJson>,
+    /// The boat as found with its figures (`[as_found]`), or null.
+    pub baseline: Option<BaselineJson>,
 }
 
 /// One candidate in JSON.
@@ -59,6 +62,8 @@ pub struct CandidateJson {
     pub problems: Vec<String>,
     /// 1-based position of the candidate above it that it is not told apart from, if any.
     pub tie_with: Option<usize>,
+    /// The change from the boat as found (candidate − as found), or null without a baseline.
+    pub delta: Option<HeadlineJson>,
 }
 
 use super::finite_or_none as finite;
@@ -87,13 +92,47 @@ pub fn shortlist_json(list: &Shortlist) -> ShortlistJson {
                 range_nm: finite(c.range.map(|r| r / NAUTICAL_MILE_M)),
                 problems: c.problems.clone(),
                 tie_with: c.tie_with,
+                delta: list
+                    .baseline
+                    .as_ref()
+                    .map(|b| headline_json(&c.headline().change_from(&b.figures))),
             })
             .collect(),
         power_for_speed: list
             .power_for_speed
             .as_ref()
             .map(|data| power_json(list, data)),
+        baseline: list.baseline.as_ref().map(baseline_json),
     }
+}
+
+/// The candidates against the boat as found: one line of changes per candidate.
+pub fn baseline_block(list: &Shortlist, d: &Display) -> Option<Vec<String>> {
+    let b = list.baseline.as_ref()?;
+    let mut lines = vec![format!(
+        "As found: {}.",
+        super::baseline::installation_words(b)
+    )];
+    if b.weight_change.is_some() {
+        lines.push(
+            "Each candidate is solved at the boat's displacement changed by its engine's dry weight against the as-found engine's (installation.weight_change overrides it)."
+                .into(),
+        );
+    }
+    lines.push(format!(
+        "its figures: {}; each candidate's change from them:",
+        super::baseline::figures_line(&b.figures, d, false)
+    ));
+    for (i, c) in list.candidates.iter().enumerate() {
+        lines.push(format!(
+            "#{} {} {:.2}:1: {}",
+            i + 1,
+            c.engine,
+            c.gear_ratio,
+            super::baseline::change_line(&b.figures, &c.headline(), d)
+        ));
+    }
+    Some(lines)
 }
 
 fn cell(v: Option<f64>, kind: Kind, decimals: usize, d: &Display) -> String {
@@ -306,6 +345,12 @@ pub fn shortlist_text(list: &Shortlist, d: &Display) -> String {
             out.push_str(&format!("  {line}\n"));
         }
     }
+    if let Some(lines) = baseline_block(list, d) {
+        out.push_str("\nAgainst the boat as found\n");
+        for line in lines {
+            out.push_str(&format!("  {line}\n"));
+        }
+    }
     if let Some(data) = &list.power_for_speed {
         out.push_str("\nWhat more power buys\n");
         out.push_str(&format!("  {}\n\n", power_summary(list, data, d)));
@@ -336,6 +381,12 @@ pub fn shortlist_markdown(list: &Shortlist, d: &Display) -> String {
             c.gear_ratio,
             candidate_notes(c, d).join("; ")
         ));
+    }
+    if let Some(lines) = baseline_block(list, d) {
+        out.push_str("\n### Against the boat as found\n\n");
+        for line in lines {
+            out.push_str(&format!("- {line}\n"));
+        }
     }
     if let Some(data) = &list.power_for_speed {
         out.push_str(&format!(
