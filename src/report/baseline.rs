@@ -188,7 +188,10 @@ pub fn figures_line(h: &Headline, d: &Display, signed: bool) -> String {
     let with_unit = |x: f64, kind: Kind, decimals: usize| {
         format!(
             "{} {}",
-            show(x, d.number(if signed { x.abs() } else { x }, kind, decimals)),
+            show(
+                x,
+                d.number(if signed { x.abs() } else { x }, kind, decimals)
+            ),
             d.unit(kind)
         )
     };
@@ -213,7 +216,10 @@ pub fn figures_line(h: &Headline, d: &Display, signed: bool) -> String {
     }
     if let Some(v) = h.rpm_margin {
         // A margin is signed of itself (free-running above rated, short of it below).
-        parts.push(format!("margin {}", sign(v, format!("{:.0}", v.abs())) + " rpm"));
+        parts.push(format!(
+            "margin {}",
+            sign(v, format!("{:.0}", v.abs())) + " rpm"
+        ));
     }
     parts.join(" · ")
 }

@@ -42,6 +42,8 @@ pub struct PitchJson {
     froude_at_target: Option<f64>,
     in_method_range: Option<bool>,
     warnings: Vec<String>,
+    /// The change from the boat as found at the recommended pitch, or null without a baseline.
+    pub(crate) delta: Option<super::baseline::HeadlineJson>,
 }
 
 impl From<&PitchRecommendation> for PitchJson {
@@ -68,6 +70,7 @@ impl From<&PitchRecommendation> for PitchJson {
             froude_at_target: finite_or_none(r.target_validity.map(|v| v.froude)),
             in_method_range: r.in_method_range,
             warnings: r.warnings.iter().map(ToString::to_string).collect(),
+            delta: None,
         }
     }
 }
@@ -227,6 +230,9 @@ pub fn pitch_text(r: &PitchRecommendation, d: &Display, study: &Study) -> String
         out.push_str(&format!("  warning: {w}\n"));
     }
     out.push_str(&format!("  caution: {}\n", r.caution));
+    if let Some(line) = pitch_baseline_line(r, study, d) {
+        out.push_str(&format!("  {line}\n"));
+    }
     out
 }
 
@@ -376,4 +382,19 @@ pub fn trial_text(cal: &Calibration, d: &Display) -> String {
         out.push_str(&format!("  warning: {w}\n"));
     }
     out
+}
+
+/// "Against the boat as found (…): top +0.4 kn · …" at the recommended pitch, if there is a
+/// baseline and a recommendation.
+pub fn pitch_baseline_line(r: &PitchRecommendation, study: &Study, d: &Display) -> Option<String> {
+    let base = study.baseline_figures()?;
+    let index = study.variant(Some(&r.label)).ok()?;
+    let pitch = r.recommended_pitch.filter(|p| p.is_finite())?;
+    let after = study.headline_at_pitch(index, pitch)?;
+    Some(format!(
+        "against the boat as found ({}) at {}: {}",
+        super::baseline::installation_words(&base),
+        d.quantity(pitch, Kind::ScrewLength),
+        super::baseline::change_line(&base.figures, &after, d)
+    ))
 }

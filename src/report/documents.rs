@@ -75,6 +75,8 @@ pub fn cruise_line(screw: &str, point: &CruisePoint, d: &Display) -> String {
 pub struct PitchDoc {
     boat: String,
     calibration: Option<AppliedCalibration>,
+    /// The boat as found with its figures, or null.
+    baseline: Option<super::baseline::BaselineJson>,
     variants: Vec<PitchJson>,
     caution: &'static str,
 }
@@ -84,7 +86,23 @@ pub fn pitch_json(study: &Study, recs: &[PitchRecommendation]) -> PitchDoc {
     PitchDoc {
         boat: study.vessel.name.clone(),
         calibration: study.calibration.clone(),
-        variants: recs.iter().map(PitchJson::from).collect(),
+        baseline: study
+            .baseline_figures()
+            .as_ref()
+            .map(super::baseline::baseline_json),
+        variants: recs
+            .iter()
+            .map(|r| {
+                let mut json = PitchJson::from(r);
+                json.delta = study
+                    .variant(Some(&r.label))
+                    .ok()
+                    .zip(r.recommended_pitch.filter(|p| p.is_finite()))
+                    .and_then(|(index, pitch)| study.delta_at_pitch(index, pitch))
+                    .map(|h| super::baseline::headline_json(&h));
+                json
+            })
+            .collect(),
         caution: CAUTION,
     }
 }

@@ -111,3 +111,25 @@ impl Study {
         })
     }
 }
+
+impl Study {
+    /// The figures of variant `index` with its pitch set to `pitch` m (a recommended pitch),
+    /// or `None` when the boat cannot be built with it.
+    pub fn headline_at_pitch(&self, index: usize, pitch: f64) -> Option<Headline> {
+        let mut doc = self.doc.clone();
+        doc.variants.get_mut(index)?.pitch = crate::profile::Quantity::new(pitch);
+        let study = self.rebuilt_with(doc).ok()?;
+        Some(Headline::of(
+            &study.solve_variant(index, &SolveOptions::default()),
+        ))
+    }
+
+    /// The change from the baseline of variant `index` at `pitch` m (`None` without one).
+    pub fn delta_at_pitch(&self, index: usize, pitch: f64) -> Option<Headline> {
+        let base = self.baseline_figures()?;
+        Some(
+            self.headline_at_pitch(index, pitch)?
+                .change_from(&base.figures),
+        )
+    }
+}
