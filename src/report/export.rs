@@ -393,6 +393,12 @@ pub fn document(
             .collect();
         section("Shaft", md);
     }
+    if let Some(body) = report.before_after_markdown(&d) {
+        out.push(Section {
+            title: "Before and after".into(),
+            body,
+        });
+    }
     out.extend(sections.iter().cloned());
 
     let md: String = charts

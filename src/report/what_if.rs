@@ -1,6 +1,7 @@
 //! The what-if comparison laid out: the conditions side by side, the pitch for each and the
 //! uncertainty band, as text, Markdown and JSON over the study's [`WhatIf`].
 
+use crate::propulsion::solver::conditions::ConditionOutcome;
 use serde::Serialize;
 
 use super::checks::AppliedCalibration;
@@ -211,10 +212,61 @@ impl WhatIf {
         }
     }
 
+    /// Each condition against the boat as found under it: top speed, full-throttle rpm,
+    /// cruise rpm and fuel, as found → planned and the change (`None` without a baseline).
+    pub fn as_found_table(&self, d: &Display) -> Option<Table> {
+        let found = self.as_found.as_ref()?;
+        let speed = d.unit(Kind::Speed);
+        let fuel = d.unit(Kind::FuelRate);
+        let mut table = Table::new(vec![
+            Column::text("condition"),
+            Column::number("top as found", &speed),
+            Column::number("top planned", &speed),
+            Column::number("full throttle as found", "rpm"),
+            Column::number("full throttle planned", "rpm"),
+            Column::number("cruise change", "rpm"),
+            Column::number("fuel change", &fuel),
+        ]);
+        let dash = || "—".to_string();
+        let num = |v: Option<f64>, kind: Kind, decimals: usize| {
+            finite(v).map_or_else(dash, |x| d.number(x, kind, decimals))
+        };
+        let rpm = |v: Option<f64>| finite(v).map_or_else(dash, |x| format!("{x:.0}"));
+        let change = |a: Option<f64>, b: Option<f64>, f: &dyn Fn(f64) -> String| match (
+            finite(a),
+            finite(b),
+        ) {
+            (Some(a), Some(b)) => f(a - b),
+            _ => dash(),
+        };
+        for (o, f) in self.outcomes.iter().zip(found) {
+            table.push(vec![
+                o.condition.label.clone(),
+                num(f.top_speed, Kind::Speed, 1),
+                num(o.top_speed, Kind::Speed, 1),
+                rpm(f.full_throttle_rpm),
+                rpm(o.full_throttle_rpm),
+                change(o.cruise_rpm, f.cruise_rpm, &|x| format!("{x:+.0}")),
+                change(o.cruise_fuel_volume_flow, f.cruise_fuel_volume_flow, &|x| {
+                    format!(
+                        "{}{}",
+                        if x < 0.0 { "−" } else { "+" },
+                        d.number(x.abs(), Kind::FuelRate, 2)
+                    )
+                }),
+            ]);
+        }
+        Some(table)
+    }
+
     /// The whole comparison as text (also the body of the export's section, in a code block).
     pub fn to_text(&self, d: &Display) -> String {
         let mut out = format!("Screw {}: what-if conditions side by side\n", self.label);
         out.push_str(&self.conditions_table(d).to_text("  "));
+        if let Some(table) = self.as_found_table(d) {
+            out.push_str("  Against the boat as found under each condition:\n");
+            out.push_str(&table.to_text("  "));
+        }
         for line in self.omitted_lines() {
             out.push_str(&format!("  {line}\n"));
         }
@@ -308,6 +360,45 @@ pub struct OutcomeJson {
     pub engines_running: u32,
     /// What the case leaves out (e.g. the trailing screw's drag with one engine out).
     pub warnings: Vec<String>,
+    /// The boat as found under this condition, or null without `[as_found]`.
+    pub as_found: Option<AsFoundOutcomeJson>,
+    /// This condition's change from the boat as found (planned − as found), or null.
+    pub delta: Option<AsFoundOutcomeJson>,
+}
+
+/// The headline of one condition for the before/after comparison.
+#[derive(Debug, Serialize)]
+pub struct AsFoundOutcomeJson {
+    /// Engine rpm at full throttle.
+    pub full_throttle_rpm: Option<f64>,
+    /// Top speed, kn.
+    pub top_speed_kn: Option<f64>,
+    /// Engine rpm at the target speed.
+    pub cruise_rpm: Option<f64>,
+    /// Fuel of the boat at the target speed, L/h.
+    pub cruise_lph: Option<f64>,
+}
+
+impl AsFoundOutcomeJson {
+    fn of(o: &ConditionOutcome) -> Self {
+        Self {
+            full_throttle_rpm: finite(o.full_throttle_rpm),
+            top_speed_kn: finite(o.top_speed).map(|v| v / KNOT_MPS),
+            cruise_rpm: finite(o.cruise_rpm),
+            cruise_lph: finite(o.cruise_fuel_volume_flow).map(|q| q / LITRE_M3 * 3600.0),
+        }
+    }
+
+    fn change(planned: &ConditionOutcome, found: &ConditionOutcome) -> Self {
+        let (p, f) = (Self::of(planned), Self::of(found));
+        let minus = |a: Option<f64>, b: Option<f64>| Some(a? - b?);
+        Self {
+            full_throttle_rpm: minus(p.full_throttle_rpm, f.full_throttle_rpm),
+            top_speed_kn: minus(p.top_speed_kn, f.top_speed_kn),
+            cruise_rpm: minus(p.cruise_rpm, f.cruise_rpm),
+            cruise_lph: minus(p.cruise_lph, f.cruise_lph),
+        }
+    }
 }
 
 /// One rpm of the band in JSON.
@@ -355,7 +446,18 @@ pub fn what_if_json(study: &Study, result: &WhatIf) -> WhatIfJson {
         .outcomes
         .iter()
         .zip(&result.pitches)
-        .map(|(o, p)| OutcomeJson {
+        .enumerate()
+        .map(|(i, (o, p))| OutcomeJson {
+            as_found: result
+                .as_found
+                .as_ref()
+                .and_then(|f| f.get(i))
+                .map(AsFoundOutcomeJson::of),
+            delta: result
+                .as_found
+                .as_ref()
+                .and_then(|f| f.get(i))
+                .map(|f| AsFoundOutcomeJson::change(o, f)),
             label: o.condition.label.clone(),
             displacement_kg: o.condition.displacement_volume * result.water_density,
             displacement_m3: o.condition.displacement_volume,

@@ -85,6 +85,9 @@ pub struct WhatIf {
     /// Shafts fitted (1 or 2): on a twin the power columns are labelled for the boat or each
     /// engine.
     pub shafts: u32,
+    /// The boat as found under the same conditions, same order (`None` without `[as_found]`
+    /// or when it cannot be solved).
+    pub as_found: Option<Vec<ConditionOutcome>>,
 }
 
 impl Study {
@@ -191,6 +194,17 @@ impl Study {
             water_density: vessel.resistance.water.density,
             default_load: self.doc.load.default.name().to_string(),
             shafts: vessel.installation.shafts,
+            as_found: self.baseline.as_deref().and_then(|found| {
+                let outcomes = found
+                    .what_if_outcomes(super::active_variant(&found.vessel), settings)
+                    .ok()?;
+                (outcomes.len() == self_cases(self, settings)).then_some(outcomes)
+            }),
         })
     }
+}
+
+/// How many outcomes a what-if of `study` gives: the boat as given and each case.
+fn self_cases(study: &Study, settings: &WhatIfSettings) -> usize {
+    study.what_if_cases(settings).len() + 1
 }
