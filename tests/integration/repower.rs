@@ -190,3 +190,98 @@ fn as_found_history_and_trial_side_survive_a_write_and_read() {
     let again = BoatDoc::from_toml(&doc.to_toml(), "written.toml").unwrap();
     assert_eq!(again, doc);
 }
+
+fn json_of(args: &[&str]) -> serde_json::Value {
+    let out = assert_cmd::Command::cargo_bin("tidewright")
+        .unwrap()
+        .env_remove("TIDEWRIGHT_PROFILES")
+        .args(["--profiles", "/nonexistent-tidewright-store"])
+        .args(args)
+        .output()
+        .unwrap();
+    assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
+    serde_json::from_slice(&out.stdout).unwrap()
+}
+
+fn f(v: &serde_json::Value) -> f64 {
+    v.as_f64().unwrap_or_else(|| panic!("not a number: {v}"))
+}
+
+/// Every document shows the planned figures beside the as-found ones: its `baseline` is the
+/// boat as found and each `delta` the planned figure less it, as the document itself states
+/// both (so a delta counted from anything else fails).
+#[test]
+fn report_shortlist_pitch_and_conditions_carry_the_baseline_and_each_change() {
+    let report = json_of(&["report", FIXTURE, "--format", "json"]);
+    let base = &report["baseline"];
+    assert_eq!(base["engine"], "brindmoor-3b40");
+    assert_eq!(base["variant"], "current 450x290");
+    assert_close!(f(&base["weight_change_kg"]), 90.0, 1e-12);
+    for v in report["variants"].as_array().unwrap() {
+        let top = f(&v["match"]["top_speed_kn"]);
+        assert_close!(f(&v["delta"]["top_speed_kn"]), top - f(&base["top_speed_kn"]), 1e-9);
+        let cruise = f(&v["cruise"]["engine_rpm"]);
+        assert_close!(f(&v["delta"]["cruise_rpm"]), cruise - f(&base["cruise_rpm"]), 1e-9);
+    }
+
+    let shortlist = json_of(&["shortlist", FIXTURE, "--format", "json"]);
+    assert_eq!(shortlist["baseline"], *base, "one baseline for every document");
+    for c in shortlist["candidates"].as_array().unwrap() {
+        if let Some(top) = c["top_speed_kn"].as_f64() {
+            assert_close!(f(&c["delta"]["top_speed_kn"]), top - f(&base["top_speed_kn"]), 1e-9);
+        } else {
+            assert!(c["delta"]["top_speed_kn"].is_null());
+        }
+        if let Some(range) = c["range_nm"].as_f64() {
+            assert_close!(f(&c["delta"]["range_nm"]), range - f(&base["range_nm"]), 1e-9);
+        }
+    }
+
+    let pitch = json_of(&["pitch", FIXTURE, "--format", "json"]);
+    assert_eq!(pitch["baseline"], *base);
+    assert!(pitch["variants"].as_array().unwrap().iter().all(|v| v["delta"].is_object()));
+
+    let conditions = json_of(&["conditions", FIXTURE, "--format", "json"]);
+    for c in conditions["conditions"].as_array().unwrap() {
+        let (found, delta) = (&c["as_found"], &c["delta"]);
+        assert_close!(
+            f(&delta["top_speed_kn"]),
+            f(&c["top_speed_kn"]) - f(&found["top_speed_kn"]),
+            1e-9
+        );
+    }
+    // The as-found boat under the file's own condition is the baseline.
+    let as_given = &conditions["conditions"][0]["as_found"];
+    assert_close!(f(&as_given["top_speed_kn"]), f(&base["top_speed_kn"]), 1e-9);
+
+    // A boat without [as_found] has none of it.
+    let plain = json_of(&["report", "pintle", "--format", "json"]);
+    assert!(plain["baseline"].is_null());
+    assert!(plain["variants"][0]["delta"].is_null());
+}
+
+#[test]
+fn text_and_export_show_before_and_after() {
+    let out = assert_cmd::Command::cargo_bin("tidewright")
+        .unwrap()
+        .env_remove("TIDEWRIGHT_PROFILES")
+        .args(["--profiles", "/nonexistent-tidewright-store", "report", FIXTURE])
+        .output()
+        .unwrap();
+    let text = String::from_utf8_lossy(&out.stdout).into_owned();
+    assert!(text.contains("Before and after"), "{text}");
+    assert!(text.contains("As found: Brindmoor 3B40 on 2.00:1 with screw current 450x290"));
+    assert!(text.contains("estimated from the engine sheets' dry weights"), "{text}");
+    let dir = tempfile::tempdir().unwrap();
+    let out_dir = dir.path().join("export");
+    assert_cmd::Command::cargo_bin("tidewright")
+        .unwrap()
+        .env_remove("TIDEWRIGHT_PROFILES")
+        .args(["--profiles", "/nonexistent-tidewright-store", "export", FIXTURE, "--out"])
+        .arg(&out_dir)
+        .assert()
+        .success();
+    let md = std::fs::read_to_string(out_dir.join("report.md")).unwrap();
+    assert!(md.contains("## Before and after"), "{md}");
+    assert!(md.contains("Against the boat as found"), "the shortlist's block: {md}");
+}
