@@ -12,6 +12,7 @@ mod new;
 mod openwater;
 mod shell;
 mod shortlist;
+mod sides;
 mod store;
 
 use clap::{Args, Parser, Subcommand, ValueEnum};
@@ -140,6 +141,9 @@ pub enum Command {
     /// The hull's resistance curve: speed, Froude numbers, resistance and its parts,
     /// effective power and the formula at each speed.
     Resistance(ResistanceArgs),
+    /// The installation in the boat now, the planned one and the earlier ones; `--swap`
+    /// marks the repower done.
+    Installations(sides::InstallationsArgs),
     /// Print the shell completion script for bash, zsh, fish, elvish or PowerShell.
     Completions(shell::CompletionsArgs),
     /// Print the manual page (roff), or write one page per subcommand with --out.
@@ -585,6 +589,7 @@ pub fn run(cli: Cli, out: &mut dyn Write) -> anyhow::Result<()> {
         Some(Command::Sweep(args)) => design::sweep(&ctx, &args, out),
         Some(Command::Trial(args)) if args.import.is_some() => import::trial(&ctx, &args, out),
         Some(Command::Trial(args)) => design::trial(&ctx, &args, out),
+        Some(Command::Installations(args)) => sides::installations(&ctx, &args, out),
         Some(Command::Conditions(args)) => conditions::run(&ctx, &args, out),
         Some(Command::Export(args)) => boat::export(&ctx, &args, out),
         Some(Command::Shortlist(args)) => shortlist::run(&ctx, &args, out),

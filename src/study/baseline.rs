@@ -133,3 +133,81 @@ impl Study {
         )
     }
 }
+
+/// Why the sides of a repower cannot be swapped.
+#[derive(Debug, Clone, PartialEq, thiserror::Error)]
+pub enum SwapError {
+    /// The boat file has no `[as_found]`: one installation is both sides.
+    #[error(
+        "boat {0:?} has no [as_found] installation: there is nothing to swap (add [as_found] with the engine, gear_ratio and variant in the boat now)"
+    )]
+    NoAsFound(String),
+    /// The date is not YYYY-MM-DD.
+    #[error("--date: expected a day as YYYY-MM-DD, got {0:?}")]
+    BadDate(String),
+}
+
+impl Study {
+    /// The boat file after the repower is done on `date` (YYYY-MM-DD): the planned engine,
+    /// gear and active screw become the as-found side, the old installation (with the trial
+    /// log run on it) goes into a dated `[[history]]` entry, and the load cases take the
+    /// weight change. The calibration, a property of the hull, stays.
+    pub fn repower_done(&self, date: &str) -> Result<crate::profile::BoatDoc, SwapError> {
+        let valid_date = date.len() == 10
+            && date.char_indices().all(|(i, c)| match i {
+                4 | 7 => c == '-',
+                _ => c.is_ascii_digit(),
+            });
+        if !valid_date {
+            return Err(SwapError::BadDate(date.to_string()));
+        }
+        let found = self
+            .doc
+            .as_found
+            .as_ref()
+            .ok_or_else(|| SwapError::NoAsFound(self.doc.name.clone()))?;
+        let d = crate::report::Display::new(self.doc.units);
+        let screw = self
+            .doc
+            .variants
+            .iter()
+            .find(|v| v.label == found.variant)
+            .map_or_else(
+                || format!("screw {}", found.variant),
+                |v| {
+                    format!(
+                        "{} ({}-blade {} × {} pitch, AE/A0 {:.2})",
+                        v.label,
+                        v.blades,
+                        d.quantity(v.diameter.value, crate::units::Kind::ScrewLength),
+                        d.quantity(v.pitch.value, crate::units::Kind::ScrewLength),
+                        v.area_ratio
+                    )
+                },
+            );
+        let moved_trial = self.doc.trial_side() == crate::profile::Side::AsFound;
+        let mut doc = self
+            .doc
+            .with_displacement_change(self.displacement_change());
+        doc.history.push(crate::profile::HistoryDoc {
+            until: date.to_string(),
+            engine: found.engine.clone(),
+            gear_ratio: found.gear_ratio,
+            screw,
+            trial: if moved_trial { doc.trial.take() } else { None },
+        });
+        doc.as_found = Some(crate::profile::AsFoundDoc {
+            engine: doc.engine.clone(),
+            gear_ratio: doc.installation.gear_ratio,
+            variant: doc.active().map_or_else(String::new, |v| v.label.clone()),
+            shaft_efficiency: None,
+            gear_efficiency: None,
+        });
+        doc.installation.weight_change = None;
+        if let Some(trial) = doc.trial.as_mut() {
+            // A log run on the planned side is now a log of the boat as found.
+            trial.installation = None;
+        }
+        Ok(doc)
+    }
+}

@@ -274,7 +274,7 @@ pub fn civil_from_days(days: i64) -> (i64, u32, u32) {
 }
 
 /// Today's date (UTC) from the system clock as YYYY-MM-DD, if the clock is after 1970.
-fn today_iso() -> Option<String> {
+pub(crate) fn today_iso() -> Option<String> {
     let secs = std::time::SystemTime::now()
         .duration_since(std::time::UNIX_EPOCH)
         .ok()?

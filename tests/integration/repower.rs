@@ -199,7 +199,11 @@ fn json_of(args: &[&str]) -> serde_json::Value {
         .args(args)
         .output()
         .unwrap();
-    assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
+    assert!(
+        out.status.success(),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
     serde_json::from_slice(&out.stdout).unwrap()
 }
 
@@ -219,27 +223,52 @@ fn report_shortlist_pitch_and_conditions_carry_the_baseline_and_each_change() {
     assert_close!(f(&base["weight_change_kg"]), 90.0, 1e-12);
     for v in report["variants"].as_array().unwrap() {
         let top = f(&v["match"]["top_speed_kn"]);
-        assert_close!(f(&v["delta"]["top_speed_kn"]), top - f(&base["top_speed_kn"]), 1e-9);
+        assert_close!(
+            f(&v["delta"]["top_speed_kn"]),
+            top - f(&base["top_speed_kn"]),
+            1e-9
+        );
         let cruise = f(&v["cruise"]["engine_rpm"]);
-        assert_close!(f(&v["delta"]["cruise_rpm"]), cruise - f(&base["cruise_rpm"]), 1e-9);
+        assert_close!(
+            f(&v["delta"]["cruise_rpm"]),
+            cruise - f(&base["cruise_rpm"]),
+            1e-9
+        );
     }
 
     let shortlist = json_of(&["shortlist", FIXTURE, "--format", "json"]);
-    assert_eq!(shortlist["baseline"], *base, "one baseline for every document");
+    assert_eq!(
+        shortlist["baseline"], *base,
+        "one baseline for every document"
+    );
     for c in shortlist["candidates"].as_array().unwrap() {
         if let Some(top) = c["top_speed_kn"].as_f64() {
-            assert_close!(f(&c["delta"]["top_speed_kn"]), top - f(&base["top_speed_kn"]), 1e-9);
+            assert_close!(
+                f(&c["delta"]["top_speed_kn"]),
+                top - f(&base["top_speed_kn"]),
+                1e-9
+            );
         } else {
             assert!(c["delta"]["top_speed_kn"].is_null());
         }
         if let Some(range) = c["range_nm"].as_f64() {
-            assert_close!(f(&c["delta"]["range_nm"]), range - f(&base["range_nm"]), 1e-9);
+            assert_close!(
+                f(&c["delta"]["range_nm"]),
+                range - f(&base["range_nm"]),
+                1e-9
+            );
         }
     }
 
     let pitch = json_of(&["pitch", FIXTURE, "--format", "json"]);
     assert_eq!(pitch["baseline"], *base);
-    assert!(pitch["variants"].as_array().unwrap().iter().all(|v| v["delta"].is_object()));
+    assert!(
+        pitch["variants"]
+            .as_array()
+            .unwrap()
+            .iter()
+            .all(|v| v["delta"].is_object())
+    );
 
     let conditions = json_of(&["conditions", FIXTURE, "--format", "json"]);
     for c in conditions["conditions"].as_array().unwrap() {
@@ -265,23 +294,121 @@ fn text_and_export_show_before_and_after() {
     let out = assert_cmd::Command::cargo_bin("tidewright")
         .unwrap()
         .env_remove("TIDEWRIGHT_PROFILES")
-        .args(["--profiles", "/nonexistent-tidewright-store", "report", FIXTURE])
+        .args([
+            "--profiles",
+            "/nonexistent-tidewright-store",
+            "report",
+            FIXTURE,
+        ])
         .output()
         .unwrap();
     let text = String::from_utf8_lossy(&out.stdout).into_owned();
     assert!(text.contains("Before and after"), "{text}");
     assert!(text.contains("As found: Brindmoor 3B40 on 2.00:1 with screw current 450x290"));
-    assert!(text.contains("estimated from the engine sheets' dry weights"), "{text}");
+    assert!(
+        text.contains("estimated from the engine sheets' dry weights"),
+        "{text}"
+    );
     let dir = tempfile::tempdir().unwrap();
     let out_dir = dir.path().join("export");
     assert_cmd::Command::cargo_bin("tidewright")
         .unwrap()
         .env_remove("TIDEWRIGHT_PROFILES")
-        .args(["--profiles", "/nonexistent-tidewright-store", "export", FIXTURE, "--out"])
+        .args([
+            "--profiles",
+            "/nonexistent-tidewright-store",
+            "export",
+            FIXTURE,
+            "--out",
+        ])
         .arg(&out_dir)
         .assert()
         .success();
     let md = std::fs::read_to_string(out_dir.join("report.md")).unwrap();
     assert!(md.contains("## Before and after"), "{md}");
-    assert!(md.contains("Against the boat as found"), "the shortlist's block: {md}");
+    assert!(
+        md.contains("Against the boat as found"),
+        "the shortlist's block: {md}"
+    );
+}
+
+/// `installations --swap`: the planned side becomes the boat as found, the old installation
+/// with its trial goes to a dated [[history]], the weight change lands in the load cases, and
+/// the fitted factor (the hull's) stays the same.
+#[test]
+fn marking_the_repower_done_swaps_the_sides_and_keeps_the_old_one() {
+    let dir = tempfile::tempdir().unwrap();
+    let boats = dir.path().join("boats");
+    std::fs::create_dir_all(&boats).unwrap();
+    let path = boats.join("pintle-repower.toml");
+    std::fs::copy(FIXTURE, &path).unwrap();
+    let before = Study::load(&demo(), path.to_str().unwrap(), None).unwrap();
+    let factor = before.calibration(0, false).unwrap().resistance_factor;
+    let run = |args: &[&str]| {
+        assert_cmd::Command::cargo_bin("tidewright")
+            .unwrap()
+            .env_remove("TIDEWRIGHT_PROFILES")
+            .args([
+                "--profiles",
+                "/nonexistent-tidewright-store",
+                "installations",
+            ])
+            .arg(&path)
+            .args(args)
+            .output()
+            .unwrap()
+    };
+    let bad = run(&["--swap", "--date", "30.11.2026"]);
+    assert_eq!(bad.status.code(), Some(2), "a bad day is a usage error");
+    assert!(String::from_utf8_lossy(&bad.stderr).contains("YYYY-MM-DD"));
+    let out = run(&["--swap", "--date", "2026-11-30"]);
+    assert!(
+        out.status.success(),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    let after = BoatDoc::from_toml(&std::fs::read_to_string(&path).unwrap(), "after").unwrap();
+    let found = after.as_found.as_ref().unwrap();
+    assert_eq!(found.engine, "brindmoor-4b62");
+    assert_close!(found.gear_ratio, 2.5, 1e-12);
+    assert_eq!(found.variant, "planned 480x360");
+    assert_eq!(after.history.len(), 1);
+    let old = &after.history[0];
+    assert_eq!(
+        (old.until.as_str(), old.engine.as_str()),
+        ("2026-11-30", "brindmoor-3b40")
+    );
+    assert_close!(old.gear_ratio, 2.0, 1e-12);
+    assert!(old.screw.contains("450"), "{}", old.screw);
+    assert_eq!(
+        old.trial, before.doc.trial,
+        "the trial moved with its installation"
+    );
+    assert!(after.trial.is_none());
+    assert_close!(
+        after.load.half.as_ref().unwrap().displacement.value,
+        4690.0,
+        1e-9
+    );
+    // The old trial, fitted through the old installation in history, is still the same
+    // hull: the planned side solved before the swap is the boat as found after it.
+    let study = Study::load(&demo(), path.to_str().unwrap(), None).unwrap();
+    assert!(study.weight_change.is_none());
+    let planned_before =
+        tidewright::study::baseline::Headline::of(&before.solve_variant(1, &Default::default()));
+    assert_eq!(study.baseline_figures().unwrap().figures, planned_before);
+    // The sides swapped, the hull's factor did not: the trial in history fitted the same.
+    let mut kept = study.doc.clone();
+    kept.trial = after.history[0].trial.clone();
+    kept.as_found = before.doc.as_found.clone();
+    kept.load = before.doc.load.clone();
+    let refit = before.rebuilt_with(kept).unwrap();
+    assert_close!(
+        refit.calibration(0, false).unwrap().resistance_factor,
+        factor,
+        1e-12
+    );
+    // A boat without [as_found] has nothing to swap.
+    let pintle = Study::load(&demo(), "pintle", None).unwrap();
+    assert!(pintle.repower_done("2026-11-30").is_err());
 }

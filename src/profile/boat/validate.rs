@@ -511,7 +511,7 @@ impl BoatDoc {
             }
         }
         if let Some(w) = &self.installation.weight_change
-            && !(w.value.abs() <= MAX_WEIGHT_CHANGE)
+            && (w.value.is_nan() || w.value.abs() > MAX_WEIGHT_CHANGE)
         {
             v.push(
                 "installation.weight_change",
@@ -531,7 +531,7 @@ impl BoatDoc {
         for (i, h) in self.history.iter().enumerate() {
             if !(h.gear_ratio > 0.0 && h.gear_ratio <= 20.0) {
                 v.push(
-                    &format!("history[{}].gear_ratio", i + 1),
+                    format!("history[{}].gear_ratio", i + 1),
                     h.gear_ratio.to_string(),
                     "expected a reduction ratio above 0 and at most 20",
                 );
