@@ -348,9 +348,25 @@ impl Study {
     /// The study of documents being edited in memory (no file behind them yet), shown in the
     /// boat's own units; the error is the document's problem in words.
     pub fn of_documents(doc: &BoatDoc, engine_doc: &EngineDoc) -> Result<Self, String> {
+        Self::of_sides(doc, engine_doc, None)
+    }
+
+    /// [`Study::of_documents`] with the sheet of the engine in the boat now (`[as_found]`).
+    pub fn of_sides(
+        doc: &BoatDoc,
+        engine_doc: &EngineDoc,
+        as_found_engine: Option<&EngineDoc>,
+    ) -> Result<Self, String> {
         let name = doc.name.clone();
-        Self::from_documents(doc.clone(), engine_doc.clone(), doc.units, name, None)
-            .map_err(|e| e.to_string())
+        Self::from_sides(
+            doc.clone(),
+            engine_doc.clone(),
+            as_found_engine.cloned(),
+            doc.units,
+            name,
+            None,
+        )
+        .map_err(|e| e.to_string())
     }
 
     /// The boat's name.

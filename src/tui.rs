@@ -130,6 +130,7 @@ fn open(
         },
     };
     let (boat, engine): (Loaded<_>, Loaded<_>) = store.resolve_boat(&name)?;
+    let as_found_engine = store.as_found_engine_for(&boat)?.map(|e| e.doc);
     let (target, stamp) = match &boat.origin {
         Origin::Demo { .. } => (SaveTarget::Demo, None),
         Origin::File { path, stamp } => {
@@ -146,6 +147,7 @@ fn open(
             name: boat.name,
             boat: boat.doc,
             engine: engine.doc,
+            as_found_engine,
             savable,
         },
         target,

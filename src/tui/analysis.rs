@@ -3,7 +3,8 @@
 //! by the solver when a view opens (and again after an edit while it is open) and cached in the
 //! app state; drawing only reads them. All values are SI (rpm as rpm).
 
-use crate::profile::{BoatDoc, CalibrationDoc, EngineDoc};
+use crate::tui::app::Document;
+use crate::profile::{BoatDoc, CalibrationDoc};
 use crate::propulsion::solver::conditions::{Condition, ConditionOutcome, UncertaintyBand};
 use crate::propulsion::solver::sweep::{SweepOptions, SweepParameter, SweepResult};
 use crate::propulsion::solver::trial::Calibration;
@@ -173,18 +174,13 @@ pub enum ViewData {
 impl ViewData {
     /// Solves `kind` for the active variant of `boat` (sweeping `inputs.over` for a sweep,
     /// over `inputs.offers` for the shortlist).
-    pub fn compute(
-        kind: ViewKind,
-        inputs: ViewInputs<'_>,
-        boat: &BoatDoc,
-        engine: &EngineDoc,
-    ) -> Self {
+    pub fn compute(kind: ViewKind, inputs: ViewInputs<'_>, doc: &Document) -> Self {
         match kind {
-            ViewKind::Sweep => ViewData::Sweep(sweep_view(inputs.over, boat, engine)),
-            ViewKind::Calibration => ViewData::Calibration(calibration_view(boat, engine)),
-            ViewKind::WhatIf => ViewData::WhatIf(what_if_view(boat, engine)),
+            ViewKind::Sweep => ViewData::Sweep(sweep_view(inputs.over, doc)),
+            ViewKind::Calibration => ViewData::Calibration(calibration_view(doc)),
+            ViewKind::WhatIf => ViewData::WhatIf(what_if_view(doc)),
             ViewKind::Shortlist => ViewData::Shortlist(ShortlistView {
-                result: shortlist(boat, engine, inputs.offers, inputs.rank),
+                result: shortlist(doc, inputs.offers, inputs.rank),
             }),
         }
     }
@@ -214,9 +210,9 @@ pub fn sweep_parameter(over: SweepOver, study: &Study) -> Result<SweepParameter,
         .map_err(|e| e.to_string())
 }
 
-fn sweep_view(over: SweepOver, boat: &BoatDoc, engine: &EngineDoc) -> SweepView {
-    let label = active_label(boat);
-    let study = match Study::of_documents(boat, engine) {
+fn sweep_view(over: SweepOver, doc: &Document) -> SweepView {
+    let label = active_label(&doc.boat);
+    let study = match doc.study() {
         Ok(s) => s,
         Err(why) => {
             return SweepView {
@@ -245,7 +241,8 @@ fn sweep_view(over: SweepOver, boat: &BoatDoc, engine: &EngineDoc) -> SweepView 
     }
 }
 
-fn calibration_view(boat: &BoatDoc, engine: &EngineDoc) -> CalibrationView {
+fn calibration_view(doc: &Document) -> CalibrationView {
+    let boat = &doc.boat;
     let runs = boat.trial.as_ref().map_or(0, |t| t.runs.len());
     let trial_date = boat.trial.as_ref().and_then(|t| t.date.clone());
     let applied = boat.calibration.as_ref().map(|c| c.resistance_factor);
@@ -254,7 +251,7 @@ fn calibration_view(boat: &BoatDoc, engine: &EngineDoc) -> CalibrationView {
     } else {
         // The study fits against the model without any saved correction, so the view reads
         // the same before and after the correction is applied.
-        Study::of_documents(boat, engine).and_then(|study| {
+        doc.study().and_then(|study| {
             let index = study.vessel.active_variant;
             study
                 .calibration(index, false)
@@ -280,16 +277,11 @@ fn calibration_view(boat: &BoatDoc, engine: &EngineDoc) -> CalibrationView {
 
 /// The shortlist of `boat` over `offers` (each sheet's offered gears, else the boat's own),
 /// ranked by `rank`: the study's one definition, as `tidewright shortlist` gives it.
-fn shortlist(
-    boat: &BoatDoc,
-    engine: &EngineDoc,
-    offers: &[Offer],
-    rank: ShortlistRank,
-) -> Result<Shortlist, String> {
+fn shortlist(doc: &Document, offers: &[Offer], rank: ShortlistRank) -> Result<Shortlist, String> {
     if offers.is_empty() {
         return Err("no engine sheets were read from the store (S reads them)".into());
     }
-    let study = Study::of_documents(boat, engine)?;
+    let study = doc.study()?;
     let options = ShortlistOptions { gears: None, rank };
     study.shortlist(offers, &options).map_err(|e| e.to_string())
 }
@@ -303,9 +295,9 @@ pub fn conditions(study: &Study) -> Vec<Condition> {
         .collect()
 }
 
-fn what_if_view(boat: &BoatDoc, engine: &EngineDoc) -> WhatIfView {
-    let label = active_label(boat);
-    let outcomes = Study::of_documents(boat, engine).and_then(|study| {
+fn what_if_view(doc: &Document) -> WhatIfView {
+    let label = active_label(&doc.boat);
+    let outcomes = doc.study().and_then(|study| {
         let shorts = study.what_if_short_labels(&WHAT_IF);
         study
             .what_if_outcomes(study.vessel.active_variant, &WHAT_IF)
@@ -325,8 +317,8 @@ fn short_named(mut outcomes: Vec<ConditionOutcome>, shorts: &[&str]) -> Vec<Cond
 
 /// The active variant's propeller curve as a band over displacement ±10 % and wake ±0.05, with
 /// the recommended pitch's range over the same cases.
-pub fn band(boat: &BoatDoc, engine: &EngineDoc) -> Result<UncertaintyBand, String> {
-    let study = Study::of_documents(boat, engine)?;
+pub fn band(doc: &Document) -> Result<UncertaintyBand, String> {
+    let study = doc.study()?;
     study.band(study.vessel.active_variant, &WHAT_IF)
 }
 
@@ -392,12 +384,8 @@ mod tests {
             offers: &[],
             rank: ShortlistRank::Fuel,
         };
-        let ViewData::Calibration(view) = ViewData::compute(
-            ViewKind::Calibration,
-            inputs,
-            &app.doc.boat,
-            &app.doc.engine,
-        ) else {
+        let ViewData::Calibration(view) = ViewData::compute(ViewKind::Calibration, inputs, &app.doc)
+        else {
             panic!("calibration view")
         };
         let correction = view.correction().expect("pintle's fit improves");

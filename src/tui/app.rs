@@ -89,8 +89,9 @@ impl App {
         let doc = Document {
             boat: opened.boat,
             engine: opened.engine,
+            as_found_engine: opened.as_found_engine,
         };
-        let solution = Solution::solve(&doc.boat, &doc.engine);
+        let solution = Solution::solve(&doc);
         let issues = Issues::compute(&doc.boat, &solution);
         Self {
             name: opened.name,
@@ -682,7 +683,7 @@ impl App {
     }
 
     fn resolve(&mut self) {
-        self.solution = Solution::solve(&self.doc.boat, &self.doc.engine);
+        self.solution = Solution::solve(&self.doc);
         self.issues = Issues::compute(&self.doc.boat, &self.solution);
         self.refresh_analysis();
         let count = self.pane_fields(self.focus).len();

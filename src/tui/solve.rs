@@ -3,7 +3,7 @@
 //! The solving is the study's (`study::solve`, the same the report reads); this module keeps
 //! the cached [`Solution`] and its lines for the Screw pane. All values are SI (rpm as rpm).
 
-use crate::profile::{BoatDoc, EngineDoc};
+use crate::tui::app::Document;
 use crate::study::Study;
 use crate::study::solve::SolveOptions;
 use crate::units::{self, Kind, UnitSystem};
@@ -20,19 +20,23 @@ pub struct Solution {
     /// when it has one: the speed chart shows the curve before and after the fit. Empty
     /// otherwise.
     pub before_fit: Vec<(f64, f64)>,
+    /// The boat as found, the planned figures are compared with (`None` without `[as_found]`).
+    pub baseline: Option<crate::study::baseline::Baseline>,
 }
 
 impl Solution {
-    /// Builds the vessel from `boat` and `engine` and solves every variant.
-    pub fn solve(boat: &BoatDoc, engine: &EngineDoc) -> Self {
-        let result = Study::of_documents(boat, engine)
-            .map(|study| study.into_solved(&SolveOptions::curves()));
+    /// Builds the vessel from the document and solves every variant.
+    pub fn solve(doc: &Document) -> Self {
+        let boat = &doc.boat;
+        let study = doc.study();
+        let baseline = study.as_ref().ok().and_then(Study::baseline_figures);
+        let result = study.map(|study| study.into_solved(&SolveOptions::curves()));
         let before_fit = match &boat.calibration {
             None => Vec::new(),
             Some(_) => {
                 let mut plain = boat.clone();
                 plain.calibration = None;
-                Study::of_documents(&plain, engine)
+                doc.study_of(&plain)
                     .map(|study| {
                         study
                             .solve_variant(study.vessel.active_variant, &SolveOptions::curves())
@@ -41,7 +45,11 @@ impl Solution {
                     .unwrap_or_default()
             }
         };
-        Self { result, before_fit }
+        Self {
+            result,
+            before_fit,
+            baseline,
+        }
     }
 
     /// The solved results, if the document built.

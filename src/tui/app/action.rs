@@ -53,6 +53,8 @@ pub struct Opened {
     pub boat: BoatDoc,
     /// Its engine sheet.
     pub engine: EngineDoc,
+    /// The sheet of the engine in the boat now, when the boat has `[as_found]`.
+    pub as_found_engine: Option<EngineDoc>,
     /// Whether the boat can be saved (a store boat) or is read-only (the embedded demo).
     pub savable: bool,
 }
@@ -205,4 +207,18 @@ pub struct Document {
     pub boat: BoatDoc,
     /// Its engine sheet.
     pub engine: EngineDoc,
+    /// The sheet of the engine in the boat now (`[as_found] engine`), when it names one.
+    pub as_found_engine: Option<EngineDoc>,
+}
+
+impl Document {
+    /// The study of the document: both sides, the planned one solved, the as-found the baseline.
+    pub fn study(&self) -> Result<crate::study::Study, String> {
+        crate::study::Study::of_sides(&self.boat, &self.engine, self.as_found_engine.as_ref())
+    }
+
+    /// The study of `boat` with this document's engine sheets (a probe or a variant of it).
+    pub fn study_of(&self, boat: &BoatDoc) -> Result<crate::study::Study, String> {
+        crate::study::Study::of_sides(boat, &self.engine, self.as_found_engine.as_ref())
+    }
 }

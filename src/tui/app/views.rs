@@ -28,11 +28,10 @@ impl App {
             offers: &self.offers,
             rank: self.shortlist_rank,
         };
-        self.view =
-            kind.map(|kind| ViewData::compute(kind, inputs, &self.doc.boat, &self.doc.engine));
+        self.view = kind.map(|kind| ViewData::compute(kind, inputs, &self.doc));
         self.keep_highlight(highlighted);
         let band_wanted = self.band_shown || kind == Some(ViewKind::WhatIf);
-        self.band = band_wanted.then(|| analysis::band(&self.doc.boat, &self.doc.engine));
+        self.band = band_wanted.then(|| analysis::band(&self.doc));
     }
 
     /// The engine sheet and gear of the highlighted shortlist candidate, if the view shows one.
