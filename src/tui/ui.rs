@@ -63,6 +63,10 @@ pub fn draw(app: &App, area: Rect, buf: &mut Buffer) {
     }
 }
 
+/// Most rows the readout strip takes: the cruise line, the match, the before/after and live
+/// lines and the caution, wrapped on a narrow screen.
+const MAX_READOUT_ROWS: u16 = 8;
+
 fn draw_screen(app: &App, area: Rect, buf: &mut Buffer) {
     if area.width < MIN_WIDTH || area.height < MIN_HEIGHT {
         too_small(area, buf);
@@ -73,7 +77,9 @@ fn draw_screen(app: &App, area: Rect, buf: &mut Buffer) {
         .iter()
         .map(|l| field_list::wrapped_height(&l.to_string(), area.width))
         .sum::<u16>()
-        .min(6);
+        .min(MAX_READOUT_ROWS)
+        // The main area keeps its ten rows; the header, status and footer one each.
+        .min(area.height.saturating_sub(13));
     let [header, main, readout, status, footer] = Layout::vertical([
         Constraint::Length(1),
         Constraint::Min(10),

@@ -138,6 +138,19 @@ pub fn readout_lines(app: &App) -> Vec<Line<'static>> {
             ),
         };
         lines.push(line);
+        // The planned screw against the boat as found, in the report's words.
+        if let Some(base) = &app.solution.baseline {
+            let d = crate::report::Display::new(system);
+            let after = crate::study::baseline::Headline::of(variant);
+            lines.push(Line::from(vec![
+                Span::styled("vs as found: ", theme.dim),
+                Span::raw(crate::report::baseline::change_line(
+                    &base.figures,
+                    &after,
+                    &d,
+                )),
+            ]));
+        }
     }
     if let Some(live) = &app.live {
         lines.push(super::live::readout_line(app, live));
