@@ -201,6 +201,27 @@ impl Study {
         Some((errors.iter().map(|e| e * e).sum::<f64>() / errors.len() as f64).sqrt())
     }
 
+    /// One standard error of the fitted resistance factor (dimensionless): the standard error
+    /// of the mean speed residual after the fit, rms / √n, over the speed's sensitivity to the
+    /// factor, measured between the model before and after the fit. `None` when the fit did
+    /// not move the factor (no sensitivity to read) or nothing was predicted.
+    pub fn factor_uncertainty(cal: &Calibration) -> Option<f64> {
+        let change = cal.resistance_factor - cal.resistance_factor_before;
+        let shifts: Vec<f64> = cal
+            .points
+            .iter()
+            .filter_map(|p| Some(p.predicted_after? - p.predicted_before?))
+            .filter(|d| d.is_finite())
+            .collect();
+        if change.abs() < 1e-6 || shifts.is_empty() {
+            return None;
+        }
+        let slope = shifts.iter().sum::<f64>() / shifts.len() as f64 / change;
+        let error = cal.rms_after / (cal.points.len() as f64).sqrt();
+        let sigma = error / slope.abs();
+        (sigma.is_finite() && slope != 0.0).then_some(sigma)
+    }
+
     /// The study and variant the trial log was run with: the as-found installation's screw
     /// when the log belongs to it (whatever variant is asked), else variant `index` here.
     pub fn trial_variant(&self, index: usize) -> (&Study, usize) {

@@ -3,7 +3,6 @@
 //! by the solver when a view opens (and again after an edit while it is open) and cached in the
 //! app state; drawing only reads them. All values are SI (rpm as rpm).
 
-use crate::tui::app::Document;
 use crate::profile::{BoatDoc, CalibrationDoc};
 use crate::propulsion::solver::conditions::{Condition, ConditionOutcome, UncertaintyBand};
 use crate::propulsion::solver::sweep::{SweepOptions, SweepParameter, SweepResult};
@@ -15,6 +14,7 @@ use crate::study::shortlist::{
     Candidate, Offer, Shortlist, ShortlistOptions, ShortlistRank, rank_candidates,
 };
 use crate::study::what_if::WhatIfSettings;
+use crate::tui::app::Document;
 
 /// Fouling of the "fouled" what-if, fraction of friction: the study's one definition (the
 /// case sets the fouling to this; it is not added to the boat's own).
@@ -384,7 +384,8 @@ mod tests {
             offers: &[],
             rank: ShortlistRank::Fuel,
         };
-        let ViewData::Calibration(view) = ViewData::compute(ViewKind::Calibration, inputs, &app.doc)
+        let ViewData::Calibration(view) =
+            ViewData::compute(ViewKind::Calibration, inputs, &app.doc)
         else {
             panic!("calibration view")
         };

@@ -475,6 +475,16 @@ impl App {
             Command::OpenCalibration => self.open_view(ViewKind::Calibration),
             Command::OpenWhatIf => self.open_view(ViewKind::WhatIf),
             Command::OpenShortlist => return Some(Effect::LoadEngineSheets),
+            Command::SwapSides => {
+                if self.doc.boat.as_found.is_some() {
+                    self.overlay = Overlay::Confirm(Question::SwapSides);
+                } else {
+                    self.set_status(
+                        Level::Error,
+                        "no [as_found] installation in this boat's file: there is nothing to swap (see docs/profiles.md)",
+                    );
+                }
+            }
             Command::ToggleBand => {
                 self.band_shown = !self.band_shown;
                 self.refresh_analysis();
@@ -567,6 +577,23 @@ impl App {
             (Question::RestoreRecovery, Command::Yes) => Some(Effect::RestoreRecovery),
             (Question::RestoreRecovery, _) => Some(Effect::DiscardRecovery),
             (Question::ReloadUnsaved, Command::Yes) => Some(Effect::Reload),
+            (Question::ReplaceCalibration, answer) => {
+                // The question came from the sea-trial view: back to it either way.
+                self.overlay = Overlay::View {
+                    kind: ViewKind::Calibration,
+                    scroll: 0,
+                };
+                if answer == Command::Yes {
+                    self.apply_calibration_anyway();
+                } else {
+                    self.set_status(Level::Info, "the saved sea-trial correction is kept");
+                }
+                None
+            }
+            (Question::SwapSides, Command::Yes) => {
+                self.swap_sides();
+                None
+            }
             _ => None,
         }
     }

@@ -101,6 +101,8 @@ pub enum Command {
     ToggleShortlistChart,
     /// Show or hide the uncertainty band on the power chart.
     ToggleBand,
+    /// Mark the repower done: the planned installation becomes the as-found one (asks first).
+    SwapSides,
     /// Show the next design view.
     NextView,
     /// Show the previous design view.
@@ -245,6 +247,7 @@ pub const BINDINGS: &[Binding] = &[
     bind(M::Browse, &[ch('r', "r")], C::OpenCalibration, "", "open the sea-trial view: measured vs predicted speed, fitted resistance factor", false),
     bind(M::Browse, &[ch('w', "w")], C::OpenWhatIf, "", "open the what-if view: loads, fouling, sea state, uncertainty band, cavitation, shaft", false),
     bind(M::Browse, &[ch('S', "S")], C::OpenShortlist, "", "open the repower shortlist: every engine sheet in the store with its offered gears and a screw sized for each, ranked", false),
+    bind(M::Browse, &[ch('D', "D")], C::SwapSides, "", "mark the repower done: the planned engine, gear and screw become the installation in the boat, the old one goes into a dated [[history]] (asks first; unsaved until s)", false),
     bind(M::Browse, &[ch('b', "b")], C::ToggleBand, "", "show or hide the uncertainty band (displacement ±10 %, wake ±0.05) on the power chart", false),
     bind(M::Browse, &[ch('s', "s"), ctrl('s', "Ctrl-s")], C::Save, "save", "save the boat through the store (atomic, keeps a backup)", true),
     bind(M::Browse, &[ch('R', "R")], C::Reload, "", "reload the boat's file from disk (asks first if unsaved)", false),

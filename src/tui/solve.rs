@@ -3,9 +3,9 @@
 //! The solving is the study's (`study::solve`, the same the report reads); this module keeps
 //! the cached [`Solution`] and its lines for the Screw pane. All values are SI (rpm as rpm).
 
-use crate::tui::app::Document;
 use crate::study::Study;
 use crate::study::solve::SolveOptions;
+use crate::tui::app::Document;
 use crate::units::{self, Kind, UnitSystem};
 
 pub use crate::study::checks::CheckPoint;

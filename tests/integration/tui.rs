@@ -1654,3 +1654,84 @@ fn the_speed_chart_shows_the_curve_before_the_fit_once_one_is_applied() {
     assert!(text.contains("before the fit"), "{text}");
     assert!(text.contains("sea trial"), "{text}");
 }
+
+/// The repower fixture (the demo Pintle as found, a 4B62 on 2.5:1 planned) in the UI.
+fn repower_app() -> App {
+    let path = concat!(
+        env!("CARGO_MANIFEST_DIR"),
+        "/tests/fixtures/repower/boats/pintle-repower.toml"
+    );
+    tidewright::tui::open_app(&demo_store(), Some(path)).expect("the repower fixture opens")
+}
+
+/// The readout holds the planned screw against the boat as found; the sea-trial view fits
+/// through the old installation (the demo Pintle's own factor) and asks before replacing a
+/// saved factor that the new fit does not agree with; `D` marks the repower done, undoably.
+#[test]
+fn repower_readout_trial_apply_and_swap_in_the_ui() {
+    let mut app = repower_app();
+    assert!(app.doc.as_found_engine.is_some());
+    let text = screen(&app, 120, 40);
+    assert!(text.contains("vs as found: top"), "{text}");
+    let small = screen(&app, 80, 24);
+    assert!(
+        small.contains("naval architect decide"),
+        "the caution stays whole:\n{small}"
+    );
+
+    // The fit is the demo Pintle's (its own installation is the fixture's as-found one).
+    let pintle = tidewright::study::Study::load(&demo_store(), "pintle", None).unwrap();
+    let own = pintle.calibration(0, false).unwrap().resistance_factor;
+    keys(&mut app, "r");
+    match &app.view {
+        Some(tidewright::tui::analysis::ViewData::Calibration(v)) => {
+            assert_close!(v.result.as_ref().unwrap().resistance_factor, own, 1e-12);
+        }
+        other => panic!("not the sea-trial view: {other:?}"),
+    }
+    // A saved factor far from the fit: `a` asks, `n` keeps it, `a` `y` replaces it.
+    let mut saved = app.doc.boat.clone();
+    saved.calibration = Some(tidewright::profile::CalibrationDoc {
+        resistance_factor: 1.4,
+        wake_fraction: None,
+        trial_date: None,
+        note: None,
+    });
+    app.doc.boat = saved;
+    keys(&mut app, "a");
+    assert_eq!(app.mode(), Mode::Confirm);
+    keys(&mut app, "n");
+    assert_close!(
+        app.doc.boat.calibration.as_ref().unwrap().resistance_factor,
+        1.4,
+        1e-12
+    );
+    keys(&mut app, "a");
+    keys(&mut app, "y");
+    let applied = app.doc.boat.calibration.as_ref().unwrap().resistance_factor;
+    assert!((applied - own).abs() < 1e-3, "{applied} vs {own}");
+    // The same fit again is applied without a question.
+    keys(&mut app, "a");
+    assert_ne!(app.mode(), Mode::Confirm);
+    key(&mut app, KeyCode::Esc);
+
+    // D, y: the planned side is the boat as found now, the old one in history; u undoes.
+    let before = app.doc.clone();
+    keys(&mut app, "D");
+    assert_eq!(app.mode(), Mode::Confirm);
+    keys(&mut app, "y");
+    let found = app.doc.boat.as_found.as_ref().unwrap();
+    assert_eq!(found.engine, "brindmoor-4b62");
+    assert_eq!(app.doc.boat.history.len(), 1);
+    assert_eq!(app.doc.boat.history[0].engine, "brindmoor-3b40");
+    assert!(
+        app.doc.boat.trial.is_none(),
+        "the trial went with the old installation"
+    );
+    keys(&mut app, "u");
+    assert_eq!(app.doc, before);
+    // A boat without [as_found] says there is nothing to swap.
+    let mut plain = pintle_app();
+    keys(&mut plain, "D");
+    assert_ne!(plain.mode(), Mode::Confirm);
+}

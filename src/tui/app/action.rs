@@ -102,6 +102,11 @@ pub enum Question {
     RestoreRecovery,
     /// Reload the boat's file from disk although there are unsaved changes?
     ReloadUnsaved,
+    /// Replace the saved sea-trial correction with a new fit that differs from it by more
+    /// than the fit's own uncertainty?
+    ReplaceCalibration,
+    /// Mark the repower done: the planned installation becomes the one in the boat?
+    SwapSides,
 }
 
 impl Question {
@@ -118,6 +123,12 @@ impl Question {
             }
             Question::ReloadUnsaved => {
                 "There are unsaved changes. Reload the boat's file from disk and drop them?"
+            }
+            Question::ReplaceCalibration => {
+                "The new fit differs from the saved sea-trial correction by more than the fit's uncertainty (the status line gives both). Replace the saved correction?"
+            }
+            Question::SwapSides => {
+                "Mark the repower done? The planned engine, gear and screw become the installation in the boat; the old one and its sea trial go into a dated [[history]] entry (unsaved until s; u undoes)."
             }
         }
     }

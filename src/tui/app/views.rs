@@ -282,6 +282,34 @@ impl App {
             self.set_status(Level::Error, format!("no correction applied: {why}"));
             return;
         };
+        // A saved correction is a measurement of the hull: a new fit replaces it without a
+        // question only when the two agree within the new fit's own uncertainty.
+        if let (Some(saved), Ok(cal)) = (&self.doc.boat.calibration, &view.result) {
+            let sigma = crate::study::Study::factor_uncertainty(cal).unwrap_or(0.0);
+            let difference = (saved.resistance_factor - correction.resistance_factor).abs();
+            if difference > sigma && difference > 1e-4 {
+                self.set_status(
+                    Level::Info,
+                    format!(
+                        "saved ×{:.3} against the new fit ×{:.3} ± {sigma:.3} (one standard error)",
+                        saved.resistance_factor, correction.resistance_factor
+                    ),
+                );
+                self.overlay = Overlay::Confirm(Question::ReplaceCalibration);
+                return;
+            }
+        }
+        self.apply_calibration_anyway();
+    }
+
+    /// Applies the sea-trial view's fitted correction, replacing any saved one.
+    pub(super) fn apply_calibration_anyway(&mut self) {
+        let Some(ViewData::Calibration(view)) = &self.view else {
+            return;
+        };
+        let Some(correction) = view.correction() else {
+            return;
+        };
         let factor = correction.resistance_factor;
         let mut next = self.doc.clone();
         next.boat.calibration = Some(correction);
@@ -299,5 +327,32 @@ impl App {
                 "calibration ×{factor:.3} applied to every prediction (unsaved: s saves, u undoes)"
             ),
         );
+    }
+}
+
+impl App {
+    /// Marks the repower done in the document (one undoable edit): the study's swap.
+    pub(super) fn swap_sides(&mut self) {
+        let date = crate::study::design::today_iso().unwrap_or_else(|| "1970-01-01".into());
+        let study = match self.doc.study() {
+            Ok(study) => study,
+            Err(why) => {
+                self.set_status(Level::Error, format!("cannot mark the repower done: {why}"));
+                return;
+            }
+        };
+        match study.repower_done(&date) {
+            Ok(boat) => {
+                let mut next = self.doc.clone();
+                next.as_found_engine = Some(next.engine.clone());
+                next.boat = boat;
+                self.commit(next);
+                self.set_status(
+                    Level::Info,
+                    format!("repower marked done on {date}: the old installation is in [[history]] (unsaved: s saves, u undoes)"),
+                );
+            }
+            Err(e) => self.set_status(Level::Error, e.to_string()),
+        }
     }
 }
