@@ -22,6 +22,9 @@ pub struct Solution {
     pub before_fit: Vec<(f64, f64)>,
     /// The boat as found, the planned figures are compared with (`None` without `[as_found]`).
     pub baseline: Option<crate::study::baseline::Baseline>,
+    /// (engine rpm, speed m/s) of the as-found installation, the one in the water until the
+    /// repower is marked done; empty without `[as_found]`.
+    pub as_found_speed_by_rpm: Vec<(f64, f64)>,
 }
 
 impl Solution {
@@ -30,6 +33,17 @@ impl Solution {
         let boat = &doc.boat;
         let study = doc.study();
         let baseline = study.as_ref().ok().and_then(Study::baseline_figures);
+        // The boat in the water today is the as-found one: live speeds are held against it.
+        let as_found_speed_by_rpm = study
+            .as_ref()
+            .ok()
+            .and_then(|s| s.baseline.as_deref())
+            .map(|found| {
+                found
+                    .solve_variant(found.vessel.active_variant, &SolveOptions::curves())
+                    .speed_by_rpm
+            })
+            .unwrap_or_default();
         let result = study.map(|study| study.into_solved(&SolveOptions::curves()));
         let before_fit = match &boat.calibration {
             None => Vec::new(),
@@ -49,6 +63,7 @@ impl Solution {
             result,
             before_fit,
             baseline,
+            as_found_speed_by_rpm,
         }
     }
 

@@ -211,3 +211,44 @@ fn tmux_live_feed_shows_values_and_reconnects() {
     server.join().unwrap();
     tmux_on(&session, &["send-keys", "-t", &session, "q"]);
 }
+
+/// Until the repower is marked done the boat in the water is the as-found one: the live line
+/// holds the measured speed against that installation's curve, not the planned screw's; and a
+/// direction without a heading sentence is named course over ground.
+#[test]
+fn live_line_compares_with_the_boat_as_found_and_names_course_over_ground() {
+    let fixture = concat!(
+        env!("CARGO_MANIFEST_DIR"),
+        "/tests/fixtures/repower/boats/pintle-repower.toml"
+    );
+    let store = Store::at("/nonexistent");
+    let mut app = tidewright::tui::open_app(&store, Some(fixture)).unwrap();
+    app.update(Action::LiveStarted("tcp://127.0.0.1:1".into()));
+    let rpm = 2100.0;
+    let sample = |heading: Option<f64>| tidewright::instruments::Sample {
+        time_s: 0.0,
+        engine_rpm: Some(rpm),
+        speed_over_ground: Some(7.0 * tidewright::units::KNOT_MPS),
+        course_over_ground_deg: Some(93.0),
+        heading_deg: heading,
+        speed_through_water: None,
+        fuel_volume_flow: None,
+    };
+    app.live.as_mut().unwrap().last = Some(sample(None));
+    let shown = screen(&app);
+    assert!(shown.contains("course over ground 093°"), "{shown}");
+    assert!(!shown.contains("heading 093"), "{shown}");
+    // The model named is the as-found one, at the as-found installation's speed for 2100 rpm.
+    let found = tidewright::study::Study::load(&store, "pintle", None).unwrap();
+    let curve = found
+        .solve_variant(0, &tidewright::study::solve::SolveOptions::curves())
+        .speed_by_rpm;
+    let expected = tidewright::tui::live::interpolate(&curve, rpm).unwrap();
+    let text = tidewright::units::format(expected, tidewright::units::Kind::Speed, app.units);
+    assert!(
+        shown.contains(&format!("model as found {text}")),
+        "{text}:\n{shown}"
+    );
+    app.live.as_mut().unwrap().last = Some(sample(Some(88.0)));
+    assert!(screen(&app).contains("heading 088°"));
+}

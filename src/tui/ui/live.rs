@@ -1,4 +1,4 @@
-//! The live feed drawn: the line under the readout (SOG, rpm and heading beside the model's
+//! The live feed drawn: the line under the readout (SOG, rpm and heading or course beside the model's
 //! speed at that rpm, and the feed's state) and the captured runs in the sea-trial view.
 
 use crate::instruments::feed::FeedState;
@@ -9,9 +9,15 @@ use crate::units::{self, Kind};
 use ratatui::style::{Modifier, Style};
 use ratatui::text::{Line, Span};
 
-/// The model's speed at `rpm` on the active variant's solved curve, m/s.
-fn predicted_at(app: &App, rpm: f64) -> Option<f64> {
-    interpolate(&app.solution.active()?.speed_by_rpm, rpm)
+/// The model's speed at `rpm` for the installation in the water, m/s, and which it is: the
+/// as-found one while the boat file has `[as_found]` (the repower is not yet marked done),
+/// else the active variant.
+fn predicted_at(app: &App, rpm: f64) -> Option<(f64, &'static str)> {
+    let found = &app.solution.as_found_speed_by_rpm;
+    if !found.is_empty() {
+        return interpolate(found, rpm).map(|v| (v, "model as found"));
+    }
+    interpolate(&app.solution.active()?.speed_by_rpm, rpm).map(|v| (v, "model"))
 }
 
 /// The line under the readout: live values beside the model, then the feed's state.
@@ -25,29 +31,34 @@ pub fn readout_line(app: &App, live: &Live) -> Line<'static> {
     let sample = live.last.as_ref();
     let sog = sample.and_then(|s| s.speed_over_ground);
     let rpm = sample.and_then(|s| s.engine_rpm);
-    let heading = sample.and_then(|s| s.heading_deg.or(s.course_over_ground_deg));
+    // A heading only from a heading sentence; course over ground is named as what it is.
+    let direction = match (
+        sample.and_then(|s| s.heading_deg),
+        sample.and_then(|s| s.course_over_ground_deg),
+    ) {
+        (Some(h), _) => format!("heading {h:03.0}°"),
+        (None, Some(c)) => format!("course over ground {c:03.0}°"),
+        (None, None) => "heading —".into(),
+    };
     let mut figures = vec![
         format!(
             "SOG {}",
             sog.map_or("—".into(), |v| units::format(v, Kind::Speed, system))
         ),
         format!("{} rpm", rpm.map_or("—".into(), |r| format!("{r:.0}"))),
-        format!(
-            "heading {}",
-            heading.map_or("—".into(), |h| format!("{h:03.0}°"))
-        ),
+        direction,
     ];
     if let Some(stw) = sample.and_then(|s| s.speed_through_water) {
         figures.push(format!("STW {}", units::format(stw, Kind::Speed, system)));
     }
     spans.push(Span::styled(figures.join(" · "), theme.accent));
     match (rpm.and_then(|r| predicted_at(app, r)), sog) {
-        (Some(model), Some(sog)) if model > 0.0 => {
+        (Some((model, which)), Some(sog)) if model > 0.0 => {
             let error = sog - model;
             let error_text = units::format(error.abs(), Kind::Speed, system);
             let sign = if error < 0.0 { "−" } else { "+" };
             spans.push(Span::raw(format!(
-                " · model {} · error {sign}{error_text} ({sign}{:.1} %)",
+                " · {which} {} · error {sign}{error_text} ({sign}{:.1} %)",
                 units::format(model, Kind::Speed, system),
                 100.0 * error.abs() / model
             )));
