@@ -287,6 +287,10 @@ pub struct DesignArgs {
     /// replace the boat's [trial] log (dated from the log).
     #[arg(long)]
     pub save: bool,
+    /// With --save, save the two-parameter fit (a factor varying with Froude number between
+    /// the trial's slowest and fastest speeds) instead of the single factor.
+    #[arg(long)]
+    pub by_froude: bool,
     /// Output format.
     #[arg(long, value_enum, default_value_t = PlainFormat::Text)]
     pub format: PlainFormat,

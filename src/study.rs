@@ -79,6 +79,8 @@ pub struct AppliedCalibration {
     pub resistance_factor: f64,
     /// Fitted wake fraction replacing the estimate, if fitted.
     pub wake_fraction: Option<f64>,
+    /// The factor varying with Froude number that replaces `resistance_factor`, if fitted so.
+    pub froude_factor: Option<crate::propulsion::hull::FroudeFactor>,
     /// Date of the trial it came from.
     pub trial_date: Option<String>,
     /// How it was fitted.
@@ -88,10 +90,16 @@ pub struct AppliedCalibration {
 impl AppliedCalibration {
     /// "calibration applied: resistance ×1.114 (sea trial 2024-05-18; …)".
     pub fn line(&self) -> String {
-        let mut line = format!(
-            "calibration applied: resistance ×{:.3}",
-            self.resistance_factor
-        );
+        let mut line = match self.froude_factor {
+            Some(f) => format!(
+                "calibration applied: resistance ×{:.3} at Fn {:.3} to ×{:.3} at Fn {:.3} (held outside)",
+                f.low, f.froude_low, f.high, f.froude_high
+            ),
+            None => format!(
+                "calibration applied: resistance ×{:.3}",
+                self.resistance_factor
+            ),
+        };
         if let Some(w) = self.wake_fraction {
             line.push_str(&format!(", wake fraction {w:.3}"));
         }
@@ -289,6 +297,7 @@ impl Study {
         let calibration = doc.calibration.as_ref().map(|c| AppliedCalibration {
             resistance_factor: c.resistance_factor,
             wake_fraction: c.wake_fraction,
+            froude_factor: c.froude_factor,
             trial_date: c.trial_date.clone(),
             note: c.note.clone(),
         });

@@ -11,7 +11,8 @@ use crate::profile::store::{Saved, save_boat_file};
 use crate::propulsion::solver::pitch::{PitchOptions, PitchTarget, RepitchLimit};
 use crate::propulsion::solver::sweep::{RankCriterion, SweepOptions, SweepParameter};
 use crate::propulsion::solver::trial::Calibration;
-use crate::report::design::{comparison_text, pitch_text, sweep_text, trial_text};
+use crate::propulsion::solver::trial::FroudeFit;
+use crate::report::design::{comparison_text, froude_fit_line, pitch_text, sweep_text, trial_text};
 use crate::report::documents::{pitch_json, sweep_json, trial_json};
 use crate::report::{CAUTION, Display, json};
 use crate::study::Study;
@@ -182,7 +183,12 @@ pub fn sweep(ctx: &Context, args: &SweepArgs, out: &mut dyn Write) -> anyhow::Re
 }
 
 /// Saves `cal` into the boat's file through the store's atomic save.
-fn save_calibration(study: &Study, index: usize, cal: &Calibration) -> anyhow::Result<Saved> {
+fn save_calibration(
+    study: &Study,
+    index: usize,
+    cal: &Calibration,
+    by_froude: Option<&FroudeFit>,
+) -> anyhow::Result<Saved> {
     let Some(Origin::File { path, stamp }) = &study.origin else {
         anyhow::bail!(
             "boat {:?} comes from the built-in demo fleet, which is read-only: run `tidewright init` first to copy it into a profile store, then save the calibration there",
@@ -190,7 +196,10 @@ fn save_calibration(study: &Study, index: usize, cal: &Calibration) -> anyhow::R
         );
     };
     let mut doc = study.doc.clone();
-    doc.calibration = Some(study.calibration_doc(index, cal, FittedBy::Command));
+    doc.calibration = Some(match by_froude {
+        Some(fit) => study.froude_calibration_doc(index, cal, fit, FittedBy::Command),
+        None => study.calibration_doc(index, cal, FittedBy::Command),
+    });
     save_boat_file(path, &doc, Some(stamp), false).with_context(|| {
         format!(
             "cannot save the calibration of boat {:?}",
@@ -223,15 +232,24 @@ pub(super) fn trial_of(
         );
     }
     let rms_saved = study.rms_with_saved(index, &cal);
+    let froude = study
+        .froude_calibration(index)
+        .map_err(|e| format!("{:#}", e.root_cause()));
+    if args.by_froude
+        && let Err(why) = &froude
+    {
+        return Err(UsageError(format!("--by-froude: no two-parameter fit: {why}")).into());
+    }
     let saved = if args.save {
-        Some(save_calibration(study, index, &cal)?)
+        let fit = froude.as_ref().ok().filter(|_| args.by_froude);
+        Some(save_calibration(study, index, &cal, fit)?)
     } else {
         None
     };
     let label = &study.vessel.variants[index].label;
     match args.format {
         PlainFormat::Json => {
-            let doc = trial_json(study, label, &cal, rms_saved, saved.as_ref());
+            let doc = trial_json(study, label, &cal, &froude, rms_saved, saved.as_ref());
             out.write_all(json::to_string(&doc)?.as_bytes())?;
         }
         PlainFormat::Text => {
@@ -251,6 +269,7 @@ pub(super) fn trial_of(
             }
             writeln!(out, "  {}", comparison_text(study, rms_saved, &d))?;
             out.write_all(trial_text(&cal, &d).as_bytes())?;
+            writeln!(out, "  {}", froude_fit_line(&cal, &froude, &d))?;
             match &saved {
                 Some(s) => {
                     writeln!(out, "Saved the correction in {}", s.path.display())?;

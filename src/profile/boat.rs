@@ -388,6 +388,9 @@ pub struct CalibrationDoc {
     pub resistance_factor: f64,
     /// Fitted wake fraction, replacing the estimate, if fitted.
     pub wake_fraction: Option<f64>,
+    /// A factor varying with Froude number (the two-parameter fit), replacing
+    /// `resistance_factor` when given.
+    pub froude_factor: Option<crate::propulsion::hull::FroudeFactor>,
     /// Date of the trial it came from.
     pub trial_date: Option<String>,
     /// How it was fitted.

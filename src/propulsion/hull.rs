@@ -13,8 +13,8 @@ pub use interaction::{Interaction, InteractionMethod};
 pub use particulars::{HullForm, HullInput};
 pub use regime::{CurveShape, Regime};
 pub use resistance::{
-    AirDrag, Margins, ResistanceComponents, ResistanceMethod, ResistanceModel, ResistanceTable,
-    SpeedValidity,
+    AirDrag, FroudeFactor, Margins, ResistanceComponents, ResistanceMethod, ResistanceModel,
+    ResistanceTable, SpeedValidity,
 };
 pub use selection::{MethodChoice, choose_method};
 

@@ -444,6 +444,7 @@ mod tests {
         let c = AppliedCalibration {
             resistance_factor: 1.1144,
             wake_fraction: None,
+            froude_factor: None,
             trial_date: Some("2024-05-18".into()),
             note: Some("fitted".into()),
         };

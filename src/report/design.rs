@@ -398,3 +398,37 @@ pub fn pitch_baseline_line(r: &PitchRecommendation, study: &Study, d: &Display) 
         super::baseline::change_line(&base.figures, &after, d)
     ))
 }
+
+/// The two-parameter fit (a factor varying with speed) beside the single factor, both RMS:
+/// "two-parameter fit: ×1.10 at
+/// Fn 0.33 to ×1.19 at Fn 0.45, RMS 0.007 kn (one factor ×1.148 ± 0.004: 0.009 kn)".
+pub fn froude_fit_line(
+    cal: &Calibration,
+    froude: &Result<crate::propulsion::solver::trial::FroudeFit, String>,
+    d: &Display,
+) -> String {
+    let sigma = Study::factor_uncertainty(cal)
+        .map(|s| format!(" ± {s:.3}"))
+        .unwrap_or_default();
+    match froude {
+        Ok(f) => format!(
+            "two-parameter fit: ×{:.3} at Fn {:.3} to ×{:.3} at Fn {:.3}, RMS {} (one factor ×{:.3}{sigma}: RMS {}){}",
+            f.factor.low,
+            f.factor.froude_low,
+            f.factor.high,
+            f.factor.froude_high,
+            d.quantity(f.rms_after, Kind::Speed),
+            cal.resistance_factor,
+            d.quantity(cal.rms_after, Kind::Speed),
+            if f.rms_after < cal.rms_after {
+                "; `--save --by-froude` saves it"
+            } else {
+                "; it does not improve on one factor"
+            }
+        ),
+        Err(why) => format!(
+            "no two-parameter fit: {why} (one factor ×{:.3}{sigma})",
+            cal.resistance_factor
+        ),
+    }
+}

@@ -13,7 +13,7 @@ use crate::profile::store::Saved;
 use crate::propulsion::solver::CruisePoint;
 use crate::propulsion::solver::pitch::PitchRecommendation;
 use crate::propulsion::solver::sweep::SweepResult;
-use crate::propulsion::solver::trial::Calibration;
+use crate::propulsion::solver::trial::{Calibration, FroudeFit};
 use crate::study::Study;
 
 /// The JSON document of `cruise`.
@@ -198,6 +198,21 @@ struct SavedJson {
     backup: Option<String>,
 }
 
+/// The two-parameter trial fit in JSON.
+#[derive(Debug, Serialize)]
+pub struct FroudeFitJson {
+    /// Froude number of the slowest trial speed.
+    froude_low: f64,
+    /// The factor there and below.
+    factor_low: f64,
+    /// Froude number of the fastest trial speed.
+    froude_high: f64,
+    /// The factor there and above.
+    factor_high: f64,
+    /// RMS error with it, kn.
+    rms_after_kn: f64,
+}
+
 /// The JSON document of `trial`.
 #[derive(Debug, Serialize)]
 pub struct TrialDoc<'a> {
@@ -213,6 +228,14 @@ pub struct TrialDoc<'a> {
     fouling: f64,
     wake_fraction: Option<f64>,
     saved_calibration: Option<AppliedCalibration>,
+    /// Which installation the runs were made with and are fitted through.
+    installation: &'static str,
+    /// One standard error of the fitted factor, or null.
+    resistance_factor_uncertainty: Option<f64>,
+    /// The two-parameter fit (a factor varying with Froude number), or null.
+    froude_fit: Option<FroudeFitJson>,
+    /// Why there is no two-parameter fit, or null.
+    froude_fit_error: Option<String>,
     rms_with_saved_kn: Option<f64>,
     saved: Option<SavedJson>,
     points: Vec<TrialPointJson>,
@@ -225,11 +248,22 @@ pub fn trial_json<'a>(
     study: &'a Study,
     label: &'a str,
     cal: &Calibration,
+    froude: &Result<FroudeFit, String>,
     rms_saved: Option<f64>,
     saved: Option<&Saved>,
 ) -> TrialDoc<'a> {
     let kn = |v: Option<f64>| finite_or_none(v.map(|v| v / KNOT_MPS));
     TrialDoc {
+        installation: study.doc.trial_side().name(),
+        resistance_factor_uncertainty: finite_or_none(Study::factor_uncertainty(cal)),
+        froude_fit: froude.as_ref().ok().map(|f| FroudeFitJson {
+            froude_low: f.factor.froude_low,
+            factor_low: f.factor.low,
+            froude_high: f.factor.froude_high,
+            factor_high: f.factor.high,
+            rms_after_kn: f.rms_after / KNOT_MPS,
+        }),
+        froude_fit_error: froude.as_ref().err().cloned(),
         boat: &study.vessel.name,
         variant: label,
         compared_with: "uncalibrated model",

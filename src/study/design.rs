@@ -12,7 +12,7 @@ use crate::propulsion::solver::sweep::{
     gear_ratios_around, sweep,
 };
 use crate::propulsion::solver::trial::{
-    Calibration, CalibrationFit, CalibrationOptions, calibrate,
+    Calibration, CalibrationFit, CalibrationOptions, FroudeFit, calibrate, calibrate_by_froude,
 };
 use crate::units::KNOT_MPS;
 
@@ -176,6 +176,51 @@ impl Study {
             .with_context(|| format!("sea-trial calibration of {}", vessel.name))
     }
 
+    /// The two-parameter fit of the trial log (a factor varying with Froude number), fitted
+    /// through the installation the runs were made with on the uncalibrated model.
+    pub fn froude_calibration(&self, index: usize) -> anyhow::Result<FroudeFit> {
+        let (on, index) = self.trial_variant(index);
+        let plain = on.uncalibrated_vessel()?;
+        calibrate_by_froude(
+            &plain.system(index),
+            &plain.trial,
+            &CalibrationOptions::default(),
+        )
+        .with_context(|| format!("two-parameter sea-trial fit of {}", on.vessel.name))
+    }
+
+    /// The `[calibration]` for the two-parameter fit `fit` (with the one-factor fit `cal`
+    /// beside it, whose factor stays as the file's single figure).
+    pub fn froude_calibration_doc(
+        &self,
+        index: usize,
+        cal: &Calibration,
+        fit: &FroudeFit,
+        by: FittedBy,
+    ) -> CalibrationDoc {
+        let round = |v: f64| (v * 1e4).round() / 1e4;
+        let mut doc = self.calibration_doc(index, cal, by);
+        doc.wake_fraction = None;
+        let f = fit.factor;
+        doc.froude_factor = Some(crate::propulsion::hull::FroudeFactor {
+            froude_low: round(f.froude_low),
+            low: round(f.low),
+            froude_high: round(f.froude_high),
+            high: round(f.high),
+        });
+        if let Some(note) = doc.note.as_mut() {
+            note.push_str(&format!(
+                "; two-parameter fit ×{:.3} at Fn {:.3} to ×{:.3} at Fn {:.3}, RMS {:.3} kn",
+                f.low,
+                f.froude_low,
+                f.high,
+                f.froude_high,
+                fit.rms_after / KNOT_MPS
+            ));
+        }
+        doc
+    }
+
     /// The RMS speed error (m/s) of the boat as loaded — with its saved correction — at the
     /// trial's rpm groups, or `None` when the boat has no saved correction or nothing solved.
     pub fn rms_with_saved(&self, index: usize, cal: &Calibration) -> Option<f64> {
@@ -266,6 +311,7 @@ impl Study {
         CalibrationDoc {
             resistance_factor: round(cal.resistance_factor),
             wake_fraction: cal.wake_fraction.map(round),
+            froude_factor: None,
             trial_date: self.doc.trial.as_ref().and_then(|t| t.date.clone()),
             note: Some(format!(
                 "{fitted} fitted{on} {} {CALM_WATER_NOTE} to {} rpm groups from {low:.0} to {high:.0} rpm, {}; RMS error {:.3} kn before, {:.3} kn after",

@@ -97,6 +97,12 @@ pub struct CalibrationView {
     pub applied: Option<f64>,
     /// The `[calibration]` the study writes for this fit (the same path as `trial --save`).
     pub doc: Option<CalibrationDoc>,
+    /// The two-parameter fit (a factor varying with Froude number), or why there is none.
+    pub froude: Result<crate::propulsion::solver::trial::FroudeFit, String>,
+    /// The `[calibration]` for the two-parameter fit (`trial --save --by-froude`).
+    pub froude_doc: Option<CalibrationDoc>,
+    /// The installation the runs were made with and are fitted through, in words.
+    pub installation: String,
 }
 
 impl CalibrationView {
@@ -105,6 +111,15 @@ impl CalibrationView {
         let cal = self.result.as_ref().ok()?;
         (cal.rms_after < cal.rms_before)
             .then(|| self.doc.clone())
+            .flatten()
+    }
+
+    /// The two-parameter correction, when it improves on the model.
+    pub fn froude_correction(&self) -> Option<CalibrationDoc> {
+        let cal = self.result.as_ref().ok()?;
+        let fit = self.froude.as_ref().ok()?;
+        (fit.rms_after < cal.rms_before)
+            .then(|| self.froude_doc.clone())
             .flatten()
     }
 }
@@ -253,18 +268,32 @@ fn calibration_view(doc: &Document) -> CalibrationView {
         // the same before and after the correction is applied.
         doc.study().and_then(|study| {
             let index = study.vessel.active_variant;
+            // Only worth a line when the runs were made on another installation than planned.
+            let words = if study.baseline.is_some() {
+                study.trial_installation_words(index)
+            } else {
+                String::new()
+            };
             study
                 .calibration(index, false)
                 .map(|cal| {
                     let doc = study.calibration_doc(index, &cal, FittedBy::TerminalUi);
-                    (cal, doc)
+                    let froude = study
+                        .froude_calibration(index)
+                        .map_err(|e| format!("{:#}", e.root_cause()));
+                    let froude_doc = froude.as_ref().ok().map(|fit| {
+                        study.froude_calibration_doc(index, &cal, fit, FittedBy::TerminalUi)
+                    });
+                    (cal, doc, froude, froude_doc, words)
                 })
                 .map_err(|e| format!("{:#}", e.root_cause()))
         })
     };
-    let (result, doc) = match fitted {
-        Ok((cal, doc)) => (Ok(cal), Some(doc)),
-        Err(e) => (Err(e), None),
+    let (result, doc, froude, froude_doc, installation) = match fitted {
+        Ok((cal, doc, froude, froude_doc, words)) => {
+            (Ok(cal), Some(doc), froude, froude_doc, words)
+        }
+        Err(e) => (Err(e.clone()), None, Err(e), None, String::new()),
     };
     CalibrationView {
         trial_date,
@@ -272,6 +301,9 @@ fn calibration_view(doc: &Document) -> CalibrationView {
         result,
         applied,
         doc,
+        froude,
+        froude_doc,
+        installation,
     }
 }
 

@@ -81,6 +81,18 @@ pub struct App {
     pub shortlist_row: usize,
     /// Whether the shortlist view shows its power-for-speed chart instead of the table.
     pub shortlist_chart: bool,
+    /// Which sea-trial fit `a`/`F` last asked to apply (kept across the replace question).
+    pub pending_fit: FitChoice,
+}
+
+/// Which sea-trial fit to apply.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Default)]
+pub enum FitChoice {
+    /// One resistance factor.
+    #[default]
+    OneFactor,
+    /// A factor varying with Froude number (two parameters).
+    ByFroude,
 }
 
 impl App {
@@ -120,6 +132,7 @@ impl App {
             shortlist_rank: ShortlistRank::default(),
             shortlist_row: 0,
             shortlist_chart: false,
+            pending_fit: FitChoice::OneFactor,
         }
     }
 

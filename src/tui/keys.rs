@@ -111,6 +111,8 @@ pub enum Command {
     NextSweepParameter,
     /// Apply the fitted sea-trial correction to the boat.
     ApplyCalibration,
+    /// Apply the two-parameter sea-trial fit (a factor varying with speed) to the boat.
+    ApplyFroudeCalibration,
     /// Keep or drop the highlighted run captured from the live feed.
     ToggleLiveRun,
     /// Highlight the next captured run.
@@ -259,6 +261,7 @@ pub const BINDINGS: &[Binding] = &[
     bind(M::View, &[code(KeyCode::BackTab, "Shift-Tab"), code(KeyCode::Left, "←"), ch('h', "h")], C::PrevView, "", "previous view", false),
     bind(M::View, &[ch('n', "n")], C::NextSweepParameter, "parameter", "sweep view: sweep the next parameter (diameter, gear ratio, blade count, area ratio)", true),
     bind(M::View, &[ch('a', "a")], C::ApplyCalibration, "apply fit", "sea-trial view: apply the fitted correction to the boat (unsaved until s; u undoes)", true),
+    bind(M::View, &[ch('F', "F")], C::ApplyFroudeCalibration, "", "sea-trial view: apply the two-parameter fit (a factor varying with Froude number between the trial's slowest and fastest speeds) instead of one factor", false),
     bind(M::View, &[ch('x', "x")], C::ToggleLiveRun, "keep/drop", "sea-trial view: keep or drop the highlighted run captured from the live feed (open --nmea)", false),
     bind(M::View, &[ch('J', "J")], C::NextLiveRun, "", "sea-trial view: highlight the next captured run", false),
     bind(M::View, &[ch('K', "K")], C::PrevLiveRun, "", "sea-trial view: highlight the previous captured run", false),

@@ -120,6 +120,7 @@ fn vessel_with(pitches: &[f64]) -> Vessel {
                 service: 0.15,
                 fouling: 0.0,
                 resistance_factor: 1.0,
+                froude_factor: None,
             },
         ),
         interaction: InteractionMethod::Holtrop1984SingleScrew,

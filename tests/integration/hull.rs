@@ -204,6 +204,7 @@ fn model(method: ResistanceMethod) -> ResistanceModel {
             service: 0.15,
             fouling: 0.2,
             resistance_factor: 1.1,
+            froude_factor: None,
         },
     )
 }

@@ -412,3 +412,68 @@ fn marking_the_repower_done_swaps_the_sides_and_keeps_the_old_one() {
     let pintle = Study::load(&demo(), "pintle", None).unwrap();
     assert!(pintle.repower_done("2026-11-30").is_err());
 }
+
+/// The two-parameter fit holds the single factor as its special case (equal ends), so its RMS
+/// can never be worse; saved with `--save --by-froude`, every prediction uses it, held
+/// constant outside the trial's speeds.
+#[test]
+fn the_two_parameter_fit_never_loses_to_one_factor_and_is_saved_on_request() {
+    let study = fixture();
+    let index = study.vessel.active_variant;
+    let one = study.calibration(index, false).unwrap();
+    let two = study.froude_calibration(index).unwrap();
+    assert!(
+        two.rms_after <= one.rms_after + 1e-9,
+        "{} vs {}",
+        two.rms_after,
+        one.rms_after
+    );
+    let f = two.factor;
+    assert!(f.froude_low < f.froude_high);
+    // Held outside the trial's Froude numbers, straight between.
+    assert_eq!(f.at(f.froude_low - 0.1), f.low);
+    assert_eq!(f.at(f.froude_high + 0.1), f.high);
+    assert_close!(
+        f.at(0.5 * (f.froude_low + f.froude_high)),
+        0.5 * (f.low + f.high),
+        1e-12
+    );
+
+    let dir = tempfile::tempdir().unwrap();
+    let boats = dir.path().join("boats");
+    std::fs::create_dir_all(&boats).unwrap();
+    let path = boats.join("pintle-repower.toml");
+    std::fs::copy(FIXTURE, &path).unwrap();
+    let out = assert_cmd::Command::cargo_bin("tidewright")
+        .unwrap()
+        .env_remove("TIDEWRIGHT_PROFILES")
+        .args(["--profiles", "/nonexistent-tidewright-store", "trial"])
+        .arg(&path)
+        .args(["--save", "--by-froude", "--format", "json"])
+        .output()
+        .unwrap();
+    assert!(
+        out.status.success(),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    let json: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    assert_eq!(json["installation"], "as-found");
+    assert!(
+        json["froude_fit"]["rms_after_kn"].as_f64().unwrap()
+            <= json["rms_after_kn"].as_f64().unwrap() + 1e-9
+    );
+    assert!(json["resistance_factor_uncertainty"].as_f64().unwrap() > 0.0);
+    let saved = BoatDoc::from_toml(&std::fs::read_to_string(&path).unwrap(), "saved").unwrap();
+    let profile = saved
+        .calibration
+        .unwrap()
+        .froude_factor
+        .expect("the two-parameter fit saved");
+    assert_close!(profile.low, f.low, 1e-3);
+    assert_close!(profile.high, f.high, 1e-3);
+    // The calibrated model now meets the trial as the fit did.
+    let calibrated = Study::load(&demo(), path.to_str().unwrap(), None).unwrap();
+    let rms = calibrated.rms_with_saved(index, &one).unwrap();
+    assert!(rms < one.rms_after + 0.002, "{rms}");
+}

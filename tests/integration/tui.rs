@@ -541,7 +541,7 @@ fn help_overlay_lists_every_key() {
     assert!(rest.contains("reload the boat's file"), "{rest}");
     // The marker legend closes the help: on screen, or after scrolling down to it.
     let mut scrolled = app.clone();
-    for _ in 0..30 {
+    for _ in 0..60 {
         key(&mut scrolled, KeyCode::Down);
     }
     let scrolled_text = screen(&scrolled, 120, 40);
@@ -1694,6 +1694,7 @@ fn repower_readout_trial_apply_and_swap_in_the_ui() {
     saved.calibration = Some(tidewright::profile::CalibrationDoc {
         resistance_factor: 1.4,
         wake_fraction: None,
+        froude_factor: None,
         trial_date: None,
         note: None,
     });
@@ -1734,4 +1735,19 @@ fn repower_readout_trial_apply_and_swap_in_the_ui() {
     let mut plain = pintle_app();
     keys(&mut plain, "D");
     assert_ne!(plain.mode(), Mode::Confirm);
+}
+
+/// `F` in the sea-trial view applies the two-parameter fit: the saved correction then varies
+/// with Froude number, and the readout's calibration says so.
+#[test]
+fn the_two_parameter_fit_is_applied_with_f() {
+    let mut app = pintle_app();
+    keys(&mut app, "r");
+    keys(&mut app, "F");
+    let saved = app.doc.boat.calibration.as_ref().expect("applied");
+    let f = saved.froude_factor.expect("the two-parameter fit");
+    assert!(f.froude_low < f.froude_high);
+    assert!(app.dirty());
+    keys(&mut app, "u");
+    assert!(app.doc.boat.calibration.is_none());
 }

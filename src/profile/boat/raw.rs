@@ -267,6 +267,14 @@ pub(super) struct RawCalibration {
     #[serde(default, skip_serializing_if = "Option::is_none")]
     pub(super) wake_fraction: Option<Spanned<f64>>,
     #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub(super) froude_low: Option<Spanned<f64>>,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub(super) factor_low: Option<Spanned<f64>>,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub(super) froude_high: Option<Spanned<f64>>,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub(super) factor_high: Option<Spanned<f64>>,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
     pub(super) trial_date: Option<String>,
     #[serde(default, skip_serializing_if = "Option::is_none")]
     pub(super) note: Option<String>,

@@ -287,6 +287,29 @@ impl BoatDoc {
         let calibration = raw.calibration.as_ref().map(|c| CalibrationDoc {
             resistance_factor: r.num("calibration.resistance_factor", &c.resistance_factor),
             wake_fraction: r.opt_num("calibration.wake_fraction", &c.wake_fraction),
+            froude_factor: match (
+                r.opt_num("calibration.froude_low", &c.froude_low),
+                r.opt_num("calibration.factor_low", &c.factor_low),
+                r.opt_num("calibration.froude_high", &c.froude_high),
+                r.opt_num("calibration.factor_high", &c.factor_high),
+            ) {
+                (Some(froude_low), Some(low), Some(froude_high), Some(high)) => {
+                    Some(crate::propulsion::hull::FroudeFactor {
+                        froude_low,
+                        low,
+                        froude_high,
+                        high,
+                    })
+                }
+                // Part of the four: validation names what is missing.
+                (None, None, None, None) => None,
+                (a, b, c, d) => Some(crate::propulsion::hull::FroudeFactor {
+                    froude_low: a.unwrap_or(f64::NAN),
+                    low: b.unwrap_or(f64::NAN),
+                    froude_high: c.unwrap_or(f64::NAN),
+                    high: d.unwrap_or(f64::NAN),
+                }),
+            },
             trial_date: c.trial_date.clone(),
             note: c.note.clone(),
         });

@@ -545,6 +545,33 @@ impl BoatDoc {
                 2.0,
                 "a resistance factor from 0.5 to 2",
             );
+            if let Some(f) = c.froude_factor {
+                for (key, value) in [
+                    ("calibration.factor_low", f.low),
+                    ("calibration.factor_high", f.high),
+                ] {
+                    if value.is_nan() {
+                        v.push(key, "", "missing: the two-parameter fit needs froude_low, factor_low, froude_high and factor_high together");
+                    } else {
+                        v.range(
+                            key,
+                            Some(value),
+                            0.5,
+                            2.0,
+                            "a resistance factor from 0.5 to 2",
+                        );
+                    }
+                }
+                let ordered =
+                    f.froude_low > 0.0 && f.froude_high > f.froude_low && f.froude_high <= 2.0;
+                if !ordered {
+                    v.push(
+                        "calibration.froude_high",
+                        format!("{} after froude_low {}", f.froude_high, f.froude_low),
+                        "expected Froude numbers 0 < froude_low < froude_high ≤ 2 (the trial's slowest and fastest speeds)",
+                    );
+                }
+            }
             if let Some(w) = c.wake_fraction {
                 v.range_open(
                     "calibration.wake_fraction",

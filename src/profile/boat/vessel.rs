@@ -84,6 +84,7 @@ impl BoatDoc {
                 service: self.resistance.service_margin,
                 fouling: self.resistance.fouling,
                 resistance_factor: calibration.map_or(1.0, |c| c.resistance_factor),
+                froude_factor: calibration.and_then(|c| c.froude_factor),
             },
         );
         let interaction_follows = matches!(self.interaction, InteractionDoc::Auto);

@@ -169,6 +169,10 @@ impl BoatDoc {
             calibration: self.calibration.as_ref().map(|c| RawCalibration {
                 resistance_factor: out_num(c.resistance_factor),
                 wake_fraction: on(c.wake_fraction),
+                froude_low: c.froude_factor.map(|f| out_num(f.froude_low)),
+                factor_low: c.froude_factor.map(|f| out_num(f.low)),
+                froude_high: c.froude_factor.map(|f| out_num(f.froude_high)),
+                factor_high: c.froude_factor.map(|f| out_num(f.high)),
                 trial_date: c.trial_date.clone(),
                 note: c.note.clone(),
             }),

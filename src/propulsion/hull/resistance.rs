@@ -73,6 +73,9 @@ pub struct Margins {
     /// Sea-trial calibration factor on the calm, clean-hull water resistance (1.0 = none);
     /// fouling and the service margin are added on top of the calibrated resistance.
     pub resistance_factor: f64,
+    /// A factor that varies with Froude number instead, when the trial fitted one (it then
+    /// replaces `resistance_factor`).
+    pub froude_factor: Option<FroudeFactor>,
 }
 
 impl Default for Margins {
@@ -81,7 +84,45 @@ impl Default for Margins {
             service: 0.0,
             fouling: 0.0,
             resistance_factor: 1.0,
+            froude_factor: None,
         }
+    }
+}
+
+/// A sea-trial factor that varies with length Froude number: `low` up to `froude_low`, `high`
+/// from `froude_high`, straight between. Outside the trial's speeds it is held, never
+/// extrapolated: a trial says nothing of the hull where it did not run.
+#[derive(Debug, Clone, Copy, PartialEq, serde::Serialize)]
+pub struct FroudeFactor {
+    /// Froude number of the slowest trial speed (dimensionless).
+    pub froude_low: f64,
+    /// The factor there and below (dimensionless).
+    pub low: f64,
+    /// Froude number of the fastest trial speed (dimensionless).
+    pub froude_high: f64,
+    /// The factor there and above (dimensionless).
+    pub high: f64,
+}
+
+impl FroudeFactor {
+    /// The factor at Froude number `froude` (dimensionless).
+    pub fn at(&self, froude: f64) -> f64 {
+        let span = self.froude_high - self.froude_low;
+        if span.is_nan() || span <= 0.0 || froude <= self.froude_low {
+            return self.low;
+        }
+        if froude >= self.froude_high {
+            return self.high;
+        }
+        self.low + (self.high - self.low) * (froude - self.froude_low) / span
+    }
+}
+
+impl Margins {
+    /// The calibration factor at Froude number `froude` (dimensionless).
+    pub fn factor_at(&self, froude: f64) -> f64 {
+        self.froude_factor
+            .map_or(self.resistance_factor, |f| f.at(froude))
     }
 }
 
@@ -451,7 +492,7 @@ impl ResistanceModel {
         // is computed from the windage, and fouling and the service margin go on top of the
         // calibrated resistance, so a factor fitted on a calm clean model (trial.rs) is never
         // multiplied by the margins twice.
-        let factor = self.margins.resistance_factor;
+        let factor = self.margins.factor_at(self.hull.froude_number(speed));
         for force in [
             &mut parts.friction,
             &mut parts.appendages,

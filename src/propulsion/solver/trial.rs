@@ -676,3 +676,115 @@ mod tests {
         );
     }
 }
+
+/// Fewest rpm groups a factor varying with speed is fitted to: two parameters need a third
+/// point to leave anything to check them against.
+pub const MIN_GROUPS_FOR_FROUDE_FIT: usize = 3;
+/// Narrowest span of trial Froude numbers a factor varying with speed is fitted over: below it
+/// the two factors are not told apart from the scatter (common practice).
+pub const MIN_FROUDE_SPAN: f64 = 0.05;
+
+/// The two-parameter fit: a calm-water factor at the trial's slowest and at its fastest
+/// speed, straight between in Froude number and held outside.
+#[derive(Debug, Clone, Copy, PartialEq, serde::Serialize)]
+pub struct FroudeFit {
+    /// The fitted factor profile.
+    pub factor: crate::propulsion::hull::FroudeFactor,
+    /// RMS of predicted − measured speed with it, m/s.
+    pub rms_after: f64,
+}
+
+/// Why no two-parameter fit was made.
+#[derive(Debug, Clone, PartialEq, thiserror::Error)]
+pub enum FroudeFitError {
+    /// Too few rpm groups.
+    #[error(
+        "{0} rpm groups: a factor varying with speed needs at least {MIN_GROUPS_FOR_FROUDE_FIT}"
+    )]
+    TooFewGroups(usize),
+    /// The runs span too few speeds.
+    #[error(
+        "the runs span Froude numbers {0:.3}–{1:.3}: a factor varying with speed needs a span of at least {MIN_FROUDE_SPAN}"
+    )]
+    NarrowSpan(f64, f64),
+    /// The runs themselves are not usable.
+    #[error(transparent)]
+    Trial(#[from] TrialError),
+}
+
+/// Fits a calm-water factor varying with Froude number to `runs` on `system` (its resistance
+/// factor is the start), by coordinate descent over the two end factors.
+pub fn calibrate_by_froude(
+    system: &System<'_>,
+    runs: &[TrialRun],
+    options: &CalibrationOptions,
+) -> Result<FroudeFit, FroudeFitError> {
+    validate(runs, options)?;
+    let calm_model = system.resistance.calm_water();
+    let calm_system = System {
+        resistance: &calm_model,
+        ..system.clone()
+    };
+    let system = &calm_system;
+    let mut warnings = Vec::new();
+    let groups = group_runs(runs, options.rpm_group_tolerance, &mut warnings);
+    if groups.len() < MIN_GROUPS_FOR_FROUDE_FIT {
+        return Err(FroudeFitError::TooFewGroups(groups.len()));
+    }
+    let hull = &system.resistance.hull;
+    let froudes: Vec<f64> = groups.iter().map(|g| hull.froude_number(g.speed)).collect();
+    let (froude_low, froude_high) = froudes
+        .iter()
+        .fold((f64::INFINITY, f64::NEG_INFINITY), |(lo, hi), f| {
+            (lo.min(*f), hi.max(*f))
+        });
+    if froude_high.is_nan() || froude_low.is_nan() || froude_high - froude_low < MIN_FROUDE_SPAN {
+        return Err(FroudeFitError::NarrowSpan(froude_low, froude_high));
+    }
+    let (f0, f1) = options.factor_range;
+    let with = |low: f64, high: f64| {
+        let mut model: ResistanceModel = system.resistance.clone();
+        model.margins.froude_factor = Some(crate::propulsion::hull::FroudeFactor {
+            froude_low,
+            low,
+            froude_high,
+            high,
+        });
+        model
+    };
+    let error = |low: f64, high: f64| {
+        let model = with(low, high);
+        squared_error(
+            &System {
+                resistance: &model,
+                ..system.clone()
+            },
+            &groups,
+        )
+    };
+    let start = system.resistance.margins.resistance_factor;
+    let (mut low, mut high) = (start, start);
+    // Four rounds settle the two factors to well inside a trial's resolution.
+    for _ in 0..4 {
+        low = minimum_on_interval(|k| error(k, high), f0, f1, options.tolerance);
+        high = minimum_on_interval(|k| error(low, k), f0, f1, options.tolerance);
+    }
+    let model = with(low, high);
+    let after = predict(
+        &System {
+            resistance: &model,
+            ..system.clone()
+        },
+        &groups,
+    );
+    let rms_after = rms(&groups, &after).unwrap_or(f64::INFINITY);
+    Ok(FroudeFit {
+        factor: crate::propulsion::hull::FroudeFactor {
+            froude_low,
+            low,
+            froude_high,
+            high,
+        },
+        rms_after,
+    })
+}

@@ -214,7 +214,14 @@ impl App {
                     );
                 }
             }
-            Command::ApplyCalibration => self.apply_calibration(),
+            Command::ApplyCalibration => {
+                self.pending_fit = FitChoice::OneFactor;
+                self.apply_calibration();
+            }
+            Command::ApplyFroudeCalibration => {
+                self.pending_fit = FitChoice::ByFroude;
+                self.apply_calibration();
+            }
             Command::ToggleLiveRun
             | Command::NextLiveRun
             | Command::PrevLiveRun
@@ -272,7 +279,7 @@ impl App {
             );
             return;
         };
-        let Some(correction) = view.correction() else {
+        let Some(correction) = self.chosen_correction(view) else {
             let why = match &view.result {
                 Err(why) => why.clone(),
                 Ok(_) => {
@@ -302,12 +309,23 @@ impl App {
         self.apply_calibration_anyway();
     }
 
+    /// The correction of the fit chosen (`a` one factor, `F` the two-parameter fit).
+    fn chosen_correction(
+        &self,
+        view: &crate::tui::analysis::CalibrationView,
+    ) -> Option<crate::profile::CalibrationDoc> {
+        match self.pending_fit {
+            FitChoice::OneFactor => view.correction(),
+            FitChoice::ByFroude => view.froude_correction(),
+        }
+    }
+
     /// Applies the sea-trial view's fitted correction, replacing any saved one.
     pub(super) fn apply_calibration_anyway(&mut self) {
         let Some(ViewData::Calibration(view)) = &self.view else {
             return;
         };
-        let Some(correction) = view.correction() else {
+        let Some(correction) = self.chosen_correction(view) else {
             return;
         };
         let factor = correction.resistance_factor;

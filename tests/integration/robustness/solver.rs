@@ -186,6 +186,7 @@ fn boat(
             service,
             fouling,
             resistance_factor: factor,
+            froude_factor: None,
         });
     let air = proptest::option::of((0.5f64..1.2, 0.05f64..0.3, 0.0f64..10.0));
     let screw = (blades, pitch_ratio, area_ratio, 0.5f64..0.9);

@@ -104,6 +104,21 @@ pub(crate) fn calibration_lines(
     if let Some(w) = cal.wake_fraction {
         lines.push(Line::raw(format!("Fitted wake fraction {w:.3}")));
     }
+    let d = crate::report::Display::new(system);
+    lines.push(Line::raw(format!(
+        "{}; F applies it",
+        crate::report::design::froude_fit_line(cal, &view.froude, &d)
+            .trim_end_matches("; `--save --by-froude` saves it")
+    )));
+    if !view.installation.is_empty() {
+        lines.push(Line::styled(
+            format!(
+                "fitted through {}; the factor belongs to the hull and applies to every installation",
+                view.installation
+            ),
+            app.theme.dim,
+        ));
+    }
     lines.push(Line::styled(applied, app.theme.dim));
     for w in &cal.warnings {
         lines.push(Line::styled(format!("! {w}"), app.theme.warning));
