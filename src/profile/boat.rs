@@ -517,6 +517,10 @@ impl BoatDoc {
         doc.installation.weight_change = None;
         doc.active_variant = index;
         doc.as_found = None;
+        // In the boat as it is, its one installation is the one the trial names.
+        if let Some(trial) = doc.trial.as_mut() {
+            trial.installation = None;
+        }
         Some(doc)
     }
 

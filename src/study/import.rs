@@ -4,6 +4,7 @@
 use super::Study;
 use crate::instruments::runs::{FoundRuns, NoRunError, RunOptions};
 use crate::instruments::{ImportError, ImportOptions, ImportedLog, LogFormat, import};
+use crate::profile::Side;
 use crate::profile::{Quantity, TrialDoc, TrialRunDoc};
 use crate::propulsion::solver::trial::TrialRun;
 
@@ -93,7 +94,18 @@ impl Study {
     /// Replaces the study's trial log (document and vessel) with `runs` found in a log, so
     /// [`Study::calibration`] fits them and a save writes them into the boat's `[trial]`.
     pub fn use_trial_runs(&mut self, runs: &[TrialRun], date: Option<String>, note: String) {
-        self.doc.trial = Some(trial_doc(runs, date, note));
+        let mut trial = trial_doc(runs, date, note);
+        // Runs logged on board today are runs of the installation in the boat: recorded so.
+        trial.installation = self.doc.as_found.as_ref().map(|_| Side::AsFound);
+        if let Some(found) = self.baseline.as_deref_mut() {
+            // The as-found study's one installation is the one the runs were made with.
+            found.doc.trial = Some(TrialDoc {
+                installation: None,
+                ..trial.clone()
+            });
+            found.vessel.trial = runs.to_vec();
+        }
+        self.doc.trial = Some(trial);
         self.vessel.trial = runs.to_vec();
     }
 

@@ -477,3 +477,56 @@ fn the_two_parameter_fit_never_loses_to_one_factor_and_is_saved_on_request() {
     let rms = calibrated.rms_with_saved(index, &one).unwrap();
     assert!(rms < one.rms_after + 0.002, "{rms}");
 }
+
+/// An instrument log of today's boat, imported into the repower file, is fitted through the
+/// as-found installation (the same factor as on the demo Pintle, whose installation it is)
+/// and saved as the as-found side's log.
+#[test]
+fn an_imported_log_is_the_as_found_installations_and_saved_so() {
+    let log = super::trial_import::pintle_log();
+    let dir = tempfile::tempdir().unwrap();
+    let file = dir.path().join("trial.nmea");
+    std::fs::write(&file, log.nmea.as_bytes()).unwrap();
+    let boats = dir.path().join("boats");
+    std::fs::create_dir_all(&boats).unwrap();
+    let path = boats.join("pintle-repower.toml");
+    std::fs::copy(FIXTURE, &path).unwrap();
+    let fit = |boat: &str, save: bool| {
+        let mut cmd = assert_cmd::Command::cargo_bin("tidewright").unwrap();
+        cmd.env_remove("TIDEWRIGHT_PROFILES")
+            .args([
+                "--profiles",
+                "/nonexistent-tidewright-store",
+                "trial",
+                boat,
+                "--import",
+            ])
+            .arg(&file)
+            .args(["--format", "json"]);
+        if save {
+            cmd.arg("--save");
+        }
+        let out = cmd.output().unwrap();
+        assert!(
+            out.status.success(),
+            "{}",
+            String::from_utf8_lossy(&out.stderr)
+        );
+        let json: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+        json
+    };
+    let own = fit("pintle", false);
+    let repower = fit(path.to_str().unwrap(), true);
+    let factor = |j: &serde_json::Value| {
+        j["fit"]["resistance_factor"]
+            .as_f64()
+            .or_else(|| j["resistance_factor"].as_f64())
+            .unwrap_or_else(|| panic!("{j}"))
+    };
+    assert_close!(factor(&repower), factor(&own), 1e-9);
+    let saved = BoatDoc::from_toml(&std::fs::read_to_string(&path).unwrap(), "saved").unwrap();
+    assert_eq!(
+        saved.trial.unwrap().installation,
+        Some(tidewright::profile::Side::AsFound)
+    );
+}

@@ -258,6 +258,13 @@ impl App {
                 Some(trial) => {
                     let runs = trial.runs.len();
                     let mut next = self.doc.clone();
+                    // Runs captured on board today belong to the installation in the boat.
+                    let mut trial = trial;
+                    trial.installation = next
+                        .boat
+                        .as_found
+                        .as_ref()
+                        .map(|_| crate::profile::Side::AsFound);
                     next.boat.trial = Some(trial);
                     self.commit(next);
                     self.set_status(
