@@ -13,6 +13,7 @@ pub mod demo;
 pub mod engine;
 pub mod error;
 mod fields;
+pub mod preserve;
 pub mod quantity;
 pub mod store;
 pub mod template;

@@ -15,6 +15,7 @@ mod instruments;
 mod live;
 mod oortmerssen;
 mod pitch;
+mod preserve;
 mod profiles;
 mod published;
 mod robustness;
