@@ -18,6 +18,7 @@ pub mod quantity;
 pub mod store;
 pub mod template;
 
+pub use boat::ScrewShopDoc;
 pub use boat::{
     BoatDoc, CalibrationDoc, HullDoc, InstallationDoc, InteractionDoc, LoadCase, LoadCondition,
     LoadDoc, ResistanceDoc, ResistanceMethodDoc, Rotation, TrialDoc, TrialRunDoc, TripDoc,

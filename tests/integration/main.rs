@@ -14,6 +14,7 @@ mod hull;
 mod instruments;
 mod live;
 mod oortmerssen;
+mod order;
 mod pitch;
 mod preserve;
 mod profiles;

@@ -1,5 +1,6 @@
 //! Writing a boat back to TOML in its unit system.
 
+use super::raw::RawScrewShop;
 use super::raw::{
     DIRECTIONS, ROTATIONS, RawBoat, RawCalibration, RawCase, RawHull, RawInstallation,
     RawInteraction, RawLoad, RawMatch, RawResistance, RawRun, RawTrial, RawTrip, RawVariant,
@@ -164,6 +165,12 @@ impl BoatDoc {
                     }),
                 })
                 .collect(),
+            screw_shop: self.screw_shop.as_ref().map(|shop| RawScrewShop {
+                pitch_step: oq(&shop.pitch_step, Kind::ScrewLength),
+                taper: shop.taper.as_deref().map(out_text),
+                bore: oq(&shop.bore, Kind::ScrewLength),
+                keyway: shop.keyway.as_deref().map(out_text),
+            }),
             trial: self.trial.as_ref().map(|t| RawTrial {
                 date: t.date.clone(),
                 note: t.note.clone(),
