@@ -41,13 +41,12 @@ pub fn round_pitch(exact: f64, step: f64) -> Rounding {
     let rounded = steps.round() * step;
     // A pitch within a micrometre of a multiple is that multiple: nothing to choose.
     let on_step = (exact - rounded).abs() < 1e-6;
-    let other = (!on_step).then(|| {
-        if rounded > exact {
-            rounded - step
-        } else {
-            rounded + step
-        }
-    });
+    let beyond = if rounded > exact {
+        rounded - step
+    } else {
+        rounded + step
+    };
+    let other = (!on_step).then_some(beyond);
     Rounding {
         exact,
         step,
