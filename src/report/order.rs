@@ -336,9 +336,9 @@ pub fn order_markdown(sheet: &OrderSheet, d: &Display) -> String {
     }
     md.push('\n');
     for caution in &sheet.cautions {
-        md.push_str(&format!("> **Caution.** {}\n>\n", md_cell(caution)));
+        md.push_str(&format!("> **Caution.** {}\n\n", md_cell(caution)));
     }
-    let mut md = md.trim_end_matches(['\n', '>']).to_string();
+    let mut md = md.trim_end().to_string();
     md.push('\n');
     md
 }
