@@ -262,4 +262,26 @@ fn the_export_has_the_order_section() {
         section.contains("Confirm bore, taper and rotation"),
         "{section}"
     );
+    // The HTML page lays out the same section, its cautions as quotes and no stray marks.
+    tidewright()
+        .args([
+            "--profiles",
+            &store,
+            "export",
+            "marram",
+            "--format",
+            "html",
+            "--out",
+        ])
+        .arg(&out)
+        .assert()
+        .success();
+    let html = std::fs::read_to_string(out.join("report.html")).unwrap();
+    let at = html
+        .find("Order for the screw shop</h2>")
+        .expect("the section");
+    let end = html[at..].find("</section>").map_or(html.len(), |e| at + e);
+    let section = &html[at..end];
+    assert_eq!(section.matches("<blockquote>").count(), 2, "{section}");
+    assert!(!section.contains("<p>&gt;</p>"), "{section}");
 }
