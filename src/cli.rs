@@ -10,6 +10,7 @@ mod design;
 mod import;
 mod new;
 mod openwater;
+mod order;
 mod shell;
 mod shortlist;
 mod sides;
@@ -126,6 +127,9 @@ pub enum Command {
     Openwater(OpenwaterArgs),
     /// Pitch that matches the engine, the change from the current pitch and rpm per inch.
     Pitch(PitchArgs),
+    /// The order for the propeller shop: the screw with its pitch rounded to the shop's step,
+    /// the effect of the rounding on rpm, rotation, shaft end, checks and cautions.
+    Order(OrderArgs),
     /// Sweep diameter, gear ratio, blade count or area ratio; rank the candidates.
     Sweep(SweepArgs),
     /// Compare the sea-trial log with the prediction and fit a resistance correction.
@@ -316,6 +320,30 @@ pub enum LogFormatArg {
     Nmea,
     /// CSV with a header naming columns and units.
     Csv,
+}
+
+/// Output format of `order`.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, ValueEnum)]
+pub enum OrderFormat {
+    /// Readable text.
+    Text,
+    /// A Markdown document (the same as the export's section).
+    Md,
+    /// JSON with SI values (or the unit in the field's name).
+    Json,
+}
+
+/// Arguments of `order`.
+#[derive(Debug, Args)]
+pub struct OrderArgs {
+    /// A boat name in the profile store, or a path to a boat file.
+    pub boat: String,
+    /// The screw variant to order (default: the boat's active variant).
+    #[arg(long, value_name = "LABEL")]
+    pub variant: Option<String>,
+    /// Output format.
+    #[arg(long, value_enum, default_value_t = OrderFormat::Text)]
+    pub format: OrderFormat,
 }
 
 /// Arguments of `pitch`.
@@ -590,6 +618,7 @@ pub fn run(cli: Cli, out: &mut dyn Write) -> anyhow::Result<()> {
         Some(Command::Openwater(args)) => openwater::run(&args, out),
         Some(Command::Resistance(args)) => boat::resistance(&ctx, &args, out),
         Some(Command::Pitch(args)) => design::pitch(&ctx, &args, out),
+        Some(Command::Order(args)) => order::run(&ctx, &args, out),
         Some(Command::Sweep(args)) => design::sweep(&ctx, &args, out),
         Some(Command::Trial(args)) if args.import.is_some() => import::trial(&ctx, &args, out),
         Some(Command::Trial(args)) => design::trial(&ctx, &args, out),

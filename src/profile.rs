@@ -13,10 +13,12 @@ pub mod demo;
 pub mod engine;
 pub mod error;
 mod fields;
+pub mod preserve;
 pub mod quantity;
 pub mod store;
 pub mod template;
 
+pub use boat::ScrewShopDoc;
 pub use boat::{
     AsFoundDoc, BoatDoc, CalibrationDoc, HistoryDoc, HullDoc, InstallationDoc, InteractionDoc,
     LoadCase, LoadCondition, LoadDoc, ResistanceDoc, ResistanceMethodDoc, Rotation, Side, TrialDoc,

@@ -14,6 +14,7 @@ pub mod import;
 pub mod json;
 pub mod model;
 pub mod openwater;
+pub mod order;
 pub mod power_speed;
 pub mod resistance;
 pub mod shortlist;

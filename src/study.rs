@@ -12,6 +12,7 @@ pub mod baseline;
 pub mod checks;
 pub mod design;
 pub mod import;
+pub mod order;
 pub mod power_speed;
 pub mod resistance;
 pub mod shortlist;

@@ -438,6 +438,8 @@ pub struct BoatDoc {
     pub as_found: Option<AsFoundDoc>,
     /// Installations the boat had before, oldest first.
     pub history: Vec<HistoryDoc>,
+    /// What the propeller shop needs beyond the screw (`[screw_shop]`), if given.
+    pub screw_shop: Option<ScrewShopDoc>,
 }
 
 /// Most screw variants a boat file may hold: far more than any comparison needs, few enough
@@ -535,5 +537,62 @@ impl BoatDoc {
             case.displacement = Quantity::new(case.displacement.value + change);
         }
         doc
+    }
+}
+
+/// The `[screw_shop]` section: how the propeller shop cuts pitch and what fits the screw to
+/// the shaft. Every value is optional; the order sheet says "not given" for a missing one.
+#[derive(Debug, Clone, PartialEq, Default)]
+pub struct ScrewShopDoc {
+    /// The step the shop cuts pitch in, m (the unit system's default when absent).
+    pub pitch_step: Option<Quantity>,
+    /// The shaft taper as the shop writes it, e.g. "1:16" (text).
+    pub taper: Option<String>,
+    /// The hub bore at the large end of the taper, m.
+    pub bore: Option<Quantity>,
+    /// The keyway as the shop writes it, e.g. "5/16 in" (text).
+    pub keyway: Option<String>,
+}
+
+/// The pitch step of a file in imperial units when `[screw_shop]` gives none, m (0.5 in:
+/// common practice, shops quote and cut pitch in half inches).
+pub const DEFAULT_PITCH_STEP_IMPERIAL: f64 = 0.5 * 0.0254;
+
+/// The pitch step of a file in metric units when `[screw_shop]` gives none, m (10 mm: common
+/// practice).
+pub const DEFAULT_PITCH_STEP_METRIC: f64 = 0.010;
+
+/// Largest pitch step of a file in imperial units, m (2 in: a coarser step is no choice of
+/// pitch at all).
+pub const MAX_PITCH_STEP_IMPERIAL: f64 = 2.0 * 0.0254;
+
+/// Largest pitch step of a file in metric units, m (50 mm).
+pub const MAX_PITCH_STEP_METRIC: f64 = 0.050;
+
+/// Largest hub bore the loader accepts, m (12 in: past any small-craft shaft).
+const MAX_BORE: f64 = 12.0 * 0.0254;
+
+impl BoatDoc {
+    /// The step the propeller shop cuts pitch in, m, and whether the file gives it (else the
+    /// default of the file's unit system).
+    pub fn pitch_step(&self) -> (f64, bool) {
+        match self.screw_shop.as_ref().and_then(|s| s.pitch_step.as_ref()) {
+            Some(step) => (step.value, true),
+            None => (
+                match self.units {
+                    UnitSystem::Imperial => DEFAULT_PITCH_STEP_IMPERIAL,
+                    UnitSystem::Metric => DEFAULT_PITCH_STEP_METRIC,
+                },
+                false,
+            ),
+        }
+    }
+
+    /// The largest pitch step this file's unit system allows, m, and how it is written.
+    fn max_pitch_step(&self) -> (f64, &'static str) {
+        match self.units {
+            UnitSystem::Imperial => (MAX_PITCH_STEP_IMPERIAL, "2 in"),
+            UnitSystem::Metric => (MAX_PITCH_STEP_METRIC, "50 mm"),
+        }
     }
 }

@@ -488,12 +488,11 @@ impl Store {
                 issue,
             });
         }
-        PendingSave::prepare(
-            &self.engine_path(name)?,
-            doc.to_toml().as_bytes(),
-            loaded,
-            force,
-        )?
+        let path = self.engine_path(name)?;
+        let file = path.display().to_string();
+        PendingSave::prepare_with(&path, loaded, force, |previous| {
+            engine_text(previous, doc, &file)
+        })?
         .commit()
     }
 
@@ -513,7 +512,10 @@ impl Store {
                 issue,
             });
         }
-        PendingSave::prepare(&path, doc.to_toml().as_bytes(), loaded, force)
+        let file = path.display().to_string();
+        PendingSave::prepare_with(&path, loaded, force, |previous| {
+            boat_text(previous, doc, &file)
+        })
     }
 }
 

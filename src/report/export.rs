@@ -478,6 +478,13 @@ pub fn design_sections(study: &Study, d: &Display) -> Vec<Section> {
             body: format!("Not available: {e:#}"),
         }),
     }
+    sections.push(Section {
+        title: super::order::ORDER_TITLE.into(),
+        body: match study.order(active) {
+            Ok(sheet) => super::order::order_markdown(&sheet, d),
+            Err(e) => format!("Not available: {e:#}"),
+        },
+    });
     let what_if = study.what_if(active, &WhatIfSettings::default());
     sections.push(Section {
         title: "What-if conditions".into(),

@@ -37,6 +37,8 @@ pub(super) struct RawBoat {
     #[serde(default)]
     pub(super) variant: Vec<RawVariant>,
     #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub(super) screw_shop: Option<RawScrewShop>,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
     pub(super) trial: Option<RawTrial>,
     #[serde(default, skip_serializing_if = "Option::is_none")]
     pub(super) calibration: Option<RawCalibration>,
@@ -278,6 +280,19 @@ pub(super) struct RawCalibration {
     pub(super) trial_date: Option<String>,
     #[serde(default, skip_serializing_if = "Option::is_none")]
     pub(super) note: Option<String>,
+}
+
+#[derive(Debug, Deserialize, Serialize)]
+#[serde(deny_unknown_fields)]
+pub(super) struct RawScrewShop {
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub(super) pitch_step: Option<Spanned<String>>,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub(super) taper: Option<Spanned<String>>,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub(super) bore: Option<Spanned<String>>,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub(super) keyway: Option<Spanned<String>>,
 }
 
 // The names each choice is spelt with in a file (read and written).

@@ -1,6 +1,7 @@
 //! Reading a boat file: TOML text → raw form → typed document, then validation.
 
 use super::MAX_VARIANTS;
+use super::ScrewShopDoc;
 use super::raw::{
     CONDITIONS, DIRECTIONS, INTERACTIONS, METHODS, ROTATIONS, RawBoat, RawCase, RawHull, RawLoad,
     RawTrial, RawVariant, SIDES, WATERS,
@@ -342,6 +343,19 @@ impl BoatDoc {
                     .transpose()?,
             });
         }
+        let screw_shop = match &raw.screw_shop {
+            None => None,
+            Some(shop) => Some(ScrewShopDoc {
+                pitch_step: r.opt_qty(
+                    "screw_shop.pitch_step",
+                    &shop.pitch_step,
+                    Kind::ScrewLength,
+                )?,
+                taper: shop.taper.as_ref().map(|t| r.text("screw_shop.taper", t)),
+                bore: r.opt_qty("screw_shop.bore", &shop.bore, Kind::ScrewLength)?,
+                keyway: shop.keyway.as_ref().map(|k| r.text("screw_shop.keyway", k)),
+            }),
+        };
         let doc = BoatDoc {
             name: r.text("name", &raw.name),
             units,
@@ -362,6 +376,7 @@ impl BoatDoc {
             calibration,
             as_found,
             history,
+            screw_shop,
         };
         match doc.validate().into_iter().next() {
             Some(issue) => Err(r.locate(issue)),

@@ -1,5 +1,6 @@
 //! Validating a boat document: every problem, each naming its file key and what was expected.
 
+use super::MAX_BORE;
 use super::{
     BoatDoc, InteractionDoc, LoadCondition, MAX_PITCH_RATIO, MAX_SCREW_DIAMETER, MAX_SCREW_PITCH,
     MIN_PITCH_RATIO, MIN_SCREW_LENGTH, ResistanceMethodDoc,
@@ -580,6 +581,38 @@ impl BoatDoc {
                     1.0,
                     "a wake fraction from 0 up to (not including) 1",
                 );
+            }
+        }
+        if let Some(shop) = &self.screw_shop {
+            if let Some(step) = &shop.pitch_step {
+                let (max, written) = self.max_pitch_step();
+                if !(step.value > 0.0 && step.value <= max + 1e-12) {
+                    v.push(
+                        "screw_shop.pitch_step",
+                        step.shown(),
+                        format!("expected a positive pitch step of at most {written}, e.g. \"0.5 in\" or \"10 mm\""),
+                    );
+                }
+            }
+            v.opt_positive("screw_shop.bore", &shop.bore, "hub bore");
+            if shop.bore.as_ref().is_some_and(|b| b.value > MAX_BORE) {
+                v.push(
+                    "screw_shop.bore",
+                    shop.bore.as_ref().map_or(String::new(), Quantity::shown),
+                    "expected a hub bore of at most 12 in (305 mm)",
+                );
+            }
+            for (key, text) in [
+                ("screw_shop.taper", &shop.taper),
+                ("screw_shop.keyway", &shop.keyway),
+            ] {
+                if text.as_ref().is_some_and(|t| t.trim().is_empty()) {
+                    v.push(
+                        key,
+                        "\"\"",
+                        "expected the text the shop writes, or leave the key out",
+                    );
+                }
             }
         }
         // The hull's form only once its particulars are each acceptable on their own.

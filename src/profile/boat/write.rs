@@ -1,5 +1,6 @@
 //! Writing a boat back to TOML in its unit system.
 
+use super::raw::RawScrewShop;
 use super::raw::{
     DIRECTIONS, ROTATIONS, RawAsFound, RawBoat, RawCalibration, RawCase, RawHistory, RawHull,
     RawInstallation, RawInteraction, RawLoad, RawMatch, RawResistance, RawRun, RawTrial, RawTrip,
@@ -165,6 +166,12 @@ impl BoatDoc {
                     }),
                 })
                 .collect(),
+            screw_shop: self.screw_shop.as_ref().map(|shop| RawScrewShop {
+                pitch_step: oq(&shop.pitch_step, Kind::ScrewLength),
+                taper: shop.taper.as_deref().map(out_text),
+                bore: oq(&shop.bore, Kind::ScrewLength),
+                keyway: shop.keyway.as_deref().map(out_text),
+            }),
             trial: self.trial.as_ref().map(|t| write_trial(t, s)),
             calibration: self.calibration.as_ref().map(|c| RawCalibration {
                 resistance_factor: out_num(c.resistance_factor),

@@ -55,7 +55,44 @@ pub fn save_boat_file(
             issue,
         });
     }
-    PendingSave::prepare(path, doc.to_toml().as_bytes(), loaded, force)?.commit()
+    PendingSave::prepare_with(path, loaded, force, |previous| {
+        boat_text(previous, doc, &path.display().to_string())
+    })?
+    .commit()
+}
+
+/// The text to save `doc` as, over a file that now holds `previous`: the boat's canonical text
+/// merged into the user's (comments, order and unchanged values kept; [`crate::profile::preserve`]).
+pub(super) fn boat_text(previous: Option<&[u8]>, doc: &BoatDoc, file: &str) -> Vec<u8> {
+    preserved(previous, doc.to_toml(), |text| {
+        BoatDoc::from_toml(text, file)
+    })
+}
+
+/// The text to save the engine sheet `doc` as, as [`boat_text`] does for a boat.
+pub(super) fn engine_text(previous: Option<&[u8]>, doc: &EngineDoc, file: &str) -> Vec<u8> {
+    preserved(previous, doc.to_toml(), |text| {
+        EngineDoc::from_toml(text, file)
+    })
+}
+
+/// `canonical` merged into `previous`, kept only where the merged text reads back (with
+/// `read`) to the very document the canonical text reads back to. The canonical text, not the
+/// document in memory, is the reference: an edited value is written rounded to the file's
+/// precision, and the merge must hold what the writer holds, no more.
+fn preserved<T: PartialEq>(
+    previous: Option<&[u8]>,
+    canonical: String,
+    read: impl Fn(&str) -> Result<T, ProfileError>,
+) -> Vec<u8> {
+    let Ok(target) = read(&canonical) else {
+        return canonical.into_bytes();
+    };
+    let previous = previous.and_then(|bytes| std::str::from_utf8(bytes).ok());
+    crate::profile::preserve::merge_into(previous, &canonical, |text| {
+        read(text).is_ok_and(|doc| doc == target)
+    })
+    .into_bytes()
 }
 
 /// A save whose new content is written and synced to a temporary file beside the target but
@@ -287,6 +324,17 @@ impl PendingSave {
         loaded: Option<&FileStamp>,
         force: bool,
     ) -> Result<Self, ProfileError> {
+        Self::prepare_with(path, loaded, force, |_| contents.to_vec())
+    }
+
+    /// As [`PendingSave::prepare`], with the contents made from the file's current bytes
+    /// (`None` when there is no file yet), read under the lock after the changed-on-disk check.
+    pub fn prepare_with(
+        path: &Path,
+        loaded: Option<&FileStamp>,
+        force: bool,
+        contents: impl FnOnce(Option<&[u8]>) -> Vec<u8>,
+    ) -> Result<Self, ProfileError> {
         let write_error = |os_error| ProfileError::Write {
             path: path.to_owned(),
             os_error,
@@ -324,7 +372,8 @@ impl PendingSave {
             .suffix(TEMPORARY_SUFFIX)
             .tempfile_in(dir)
             .map_err(write_error)?;
-        temp.write_all(contents).map_err(write_error)?;
+        let contents = contents(previous.as_deref());
+        temp.write_all(&contents).map_err(write_error)?;
         temp.as_file().sync_all().map_err(write_error)?;
         Ok(Self {
             path: path.to_owned(),
