@@ -17,6 +17,7 @@ pub mod power_speed;
 pub mod resistance;
 pub mod shortlist;
 pub mod solve;
+pub mod ties;
 pub mod what_if;
 
 use anyhow::Context as _;

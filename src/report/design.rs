@@ -271,6 +271,7 @@ pub fn sweep_text(result: &SweepResult, label: &str, d: &Display, shafts: u32) -
         Column::number("η0 target", ""),
         Column::number("η0 top", ""),
         Column::number("fuel/nm", &d.unit(Kind::FuelPerDistance)),
+        Column::text("tie"),
         Column::text("note"),
     ]);
     for c in &result.candidates {
@@ -303,6 +304,7 @@ pub fn sweep_text(result: &SweepResult, label: &str, d: &Display, shafts: u32) -
             opt(c.fuel_per_distance_at_target, &|v| {
                 d.figure(v, Kind::FuelPerDistance)
             }),
+            c.tie_with.map_or(String::new(), |t| format!("= #{t}")),
             [
                 (c.top_speed_in_method_range == Some(false))
                     .then(|| UNRELIABLE_TOP_NOTE.to_string()),
@@ -315,6 +317,12 @@ pub fn sweep_text(result: &SweepResult, label: &str, d: &Display, shafts: u32) -
         ]);
     }
     out.push_str(&table.to_text("  "));
+    if let Some(band) = result.tie_band {
+        out.push_str(&format!(
+            "  \"= #n\": not told apart from rank n, the leader of its group: within {:.1} % of its figure, the uncertainty from the band's power spread (the shortlist's rule)\n",
+            band * 100.0
+        ));
+    }
     out
 }
 

@@ -125,6 +125,8 @@ struct CandidateJson {
     propulsive_efficiency_at_target: Option<f64>,
     fuel_l_per_nm_at_target: Option<f64>,
     problem: Option<String>,
+    /// Rank of the group leader it is not told apart from, or null.
+    tie_with: Option<usize>,
 }
 
 /// The JSON document of `sweep`.
@@ -137,6 +139,8 @@ pub struct SweepDoc<'a> {
     target: String,
     target_speed_kn: f64,
     calibration: Option<AppliedCalibration>,
+    /// The tie band (fraction of the group leader's figure), or null without a band.
+    tie_band: Option<f64>,
     candidates: Vec<CandidateJson>,
     caution: &'static str,
 }
@@ -152,6 +156,7 @@ pub fn sweep_json<'a>(study: &'a Study, label: &'a str, result: &SweepResult) ->
         target: result.target.describe(),
         target_speed_kn: result.target_speed / KNOT_MPS,
         calibration: study.calibration.clone(),
+        tie_band: result.tie_band,
         candidates: result
             .candidates
             .iter()
@@ -173,6 +178,7 @@ pub fn sweep_json<'a>(study: &'a Study, label: &'a str, result: &SweepResult) ->
                     c.fuel_per_distance_at_target.map(|v| v * nm_per_m),
                 ),
                 problem: c.problem.clone(),
+                tie_with: c.tie_with,
             })
             .collect(),
         caution: CAUTION,

@@ -21,6 +21,9 @@ pub struct ShortlistJson {
     pub boat: String,
     /// The ranking ("fuel", "range", "top", "margin").
     pub rank: &'static str,
+    /// The tie band: the fraction of the leader's value (of rated rpm for the margin) within
+    /// which a candidate ties with its group's leader, or null without a band.
+    pub tie_band: Option<f64>,
     /// The candidates, best first.
     pub candidates: Vec<CandidateJson>,
     /// What more power buys: installed power at top speed beside the hull's effective power.
@@ -60,7 +63,7 @@ pub struct CandidateJson {
     pub range_nm: Option<f64>,
     /// Why the candidate falls short.
     pub problems: Vec<String>,
-    /// 1-based position of the candidate above it that it is not told apart from, if any.
+    /// 1-based position of the leader of its group, which it is not told apart from, if any.
     pub tie_with: Option<usize>,
     /// The change from the boat as found (candidate − as found), or null without a baseline.
     pub delta: Option<HeadlineJson>,
@@ -73,6 +76,7 @@ pub fn shortlist_json(list: &Shortlist) -> ShortlistJson {
     ShortlistJson {
         boat: list.boat.clone(),
         rank: list.rank.name(),
+        tie_band: list.tie_rule.map(|r| r.band),
         candidates: list
             .candidates
             .iter()
@@ -236,10 +240,10 @@ pub fn rank_line(list: &Shortlist, d: &Display) -> String {
         ShortlistRank::Top => "highest top speed".into(),
         ShortlistRank::Margin => "largest free-running rpm margin".into(),
     };
-    let tie = match list.resolution {
-        Some(r) => format!(
-            "; \"= #n\": within {:.1} % of candidate n, the uncertainty band's power spread at the target speed, so not told apart",
-            r * 100.0
+    let tie = match &list.tie_rule {
+        Some(rule) => format!(
+            "; \"= #n\": not told apart from candidate n, the leader of its group: {}",
+            rule.words()
         ),
         None => "; no uncertainty band, so only equal figures tie".into(),
     };

@@ -3,13 +3,14 @@
 
 use anyhow::Context as _;
 
+use super::ties::{TieFigure, TieRule, tie_groups};
 use super::{CALM_WATER_NOTE, Study};
 use crate::profile::CalibrationDoc;
 use crate::propulsion::solver::matching::point_at_engine_rpm;
 use crate::propulsion::solver::pitch::{PitchOptions, PitchRecommendation, recommend_pitch};
 use crate::propulsion::solver::sweep::{
-    SweepOptions, SweepParameter, SweepResult, USUAL_AREA_RATIOS, USUAL_BLADE_COUNTS,
-    gear_ratios_around, sweep,
+    RankCriterion, SweepOptions, SweepParameter, SweepResult, USUAL_AREA_RATIOS,
+    USUAL_BLADE_COUNTS, gear_ratios_around, sweep,
 };
 use crate::propulsion::solver::trial::{
     Calibration, CalibrationFit, CalibrationOptions, FroudeFit, calibrate, calibrate_by_froude,
@@ -149,7 +150,45 @@ impl Study {
         parameter: &SweepParameter,
         options: &SweepOptions,
     ) -> anyhow::Result<SweepResult> {
-        sweep(&self.vessel, index, parameter, options).context("sweep")
+        let mut result = sweep(&self.vessel, index, parameter, options).context("sweep")?;
+        self.mark_sweep_ties(&mut result, options.criterion);
+        Ok(result)
+    }
+
+    /// Marks the sweep's ties by the one rule of `study::ties` (shared with the shortlist).
+    fn mark_sweep_ties(&self, result: &mut SweepResult, criterion: RankCriterion) {
+        let Some(spread) = self.power_spread() else {
+            return;
+        };
+        let figure = match criterion {
+            RankCriterion::LeastFuelPerDistance => TieFigure::FuelPerDistance,
+            RankCriterion::HighestTopSpeed => TieFigure::TopSpeed,
+            RankCriterion::HighestPropulsiveEfficiency => TieFigure::PropulsiveEfficiency,
+        };
+        let fastest = result
+            .candidates
+            .iter()
+            .filter_map(|c| c.top_speed)
+            .fold(0.0, f64::max);
+        let rule = TieRule::of(figure, spread, self.power_exponent_at(fastest));
+        let values: Vec<Option<f64>> = result
+            .candidates
+            .iter()
+            .map(|c| {
+                (c.rank > 0).then_some(match criterion {
+                    RankCriterion::LeastFuelPerDistance => c.fuel_per_distance_at_target,
+                    RankCriterion::HighestTopSpeed => c.top_speed,
+                    RankCriterion::HighestPropulsiveEfficiency => c.propulsive_efficiency_at_target,
+                })?
+            })
+            .collect();
+        let rated = self.vessel.engine.rated_rpm;
+        let groups = tie_groups(&values, |_, lead| rule.tolerance(lead, rated));
+        let ranks: Vec<usize> = result.candidates.iter().map(|c| c.rank).collect();
+        for (c, group) in result.candidates.iter_mut().zip(groups) {
+            c.tie_with = group.map(|position| ranks[position - 1]);
+        }
+        result.tie_band = Some(rule.band);
     }
 
     /// The calibration of variant `index` against the boat's trial log, fitted to the

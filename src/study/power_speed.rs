@@ -70,6 +70,28 @@ impl PowerForSpeed {
 }
 
 impl Study {
+    /// The hull's effective-power exponent n at `speed` m/s (R·V ∝ Vⁿ, from a ±1 % step):
+    /// there one per cent more speed takes about n per cent more power.
+    pub fn power_exponent_at(&self, speed: f64) -> Option<f64> {
+        let model = &self.vessel.resistance;
+        let effective = |v: f64| {
+            model
+                .resistance(v)
+                .ok()
+                .map(|parts| parts.total * v)
+                .filter(|p| p.is_finite() && *p > 0.0)
+        };
+        if !(speed.is_finite() && speed > 0.0) {
+            return None;
+        }
+        let (low, high) = (
+            effective(speed * (1.0 - EXPONENT_SPAN))?,
+            effective(speed * (1.0 + EXPONENT_SPAN))?,
+        );
+        let n = (high / low).ln() / ((1.0 + EXPONENT_SPAN) / (1.0 - EXPONENT_SPAN)).ln();
+        n.is_finite().then_some(n)
+    }
+
     /// What more power buys on this hull for the candidates of `list`, or `None` when no
     /// candidate reaches a top speed.
     pub fn power_for_speed(&self, list: &Shortlist) -> Option<PowerForSpeed> {
@@ -133,16 +155,7 @@ impl Study {
                 })
             })
             .collect();
-        let exponent_at_top = match (
-            effective(fastest * (1.0 - EXPONENT_SPAN)),
-            effective(fastest * (1.0 + EXPONENT_SPAN)),
-        ) {
-            (Some(low), Some(high)) => {
-                let n = (high / low).ln() / ((1.0 + EXPONENT_SPAN) / (1.0 - EXPONENT_SPAN)).ln();
-                n.is_finite().then_some(n)
-            }
-            _ => None,
-        };
+        let exponent_at_top = self.power_exponent_at(fastest);
         Some(PowerForSpeed {
             hull,
             candidates: points,

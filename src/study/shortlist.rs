@@ -8,7 +8,7 @@ use super::baseline::{Baseline, Headline};
 use super::checks::{cavitation, shaft_check};
 use super::power_speed::PowerForSpeed;
 use super::solve::{SolveOptions, solve_variant};
-use super::what_if::WhatIfSettings;
+use super::ties::{TieFigure, TieRule, tie_groups};
 use super::{Study, active_variant};
 use crate::profile::{BoatDoc, EngineDoc, Quantity, Store};
 use crate::propulsion::screw::cavitation::CavitationReport;
@@ -35,6 +35,16 @@ pub enum ShortlistRank {
 impl ShortlistRank {
     /// Every ranking, in the order the options list them.
     pub const ALL: [ShortlistRank; 4] = [Self::Fuel, Self::Range, Self::Top, Self::Margin];
+
+    /// The figure it orders by, for the tie rule.
+    pub fn figure(self) -> TieFigure {
+        match self {
+            Self::Fuel => TieFigure::FuelPerDistance,
+            Self::Range => TieFigure::Range,
+            Self::Top => TieFigure::TopSpeed,
+            Self::Margin => TieFigure::RpmMargin,
+        }
+    }
 
     /// The name on the command line and in JSON ("fuel", "range", "top", "margin").
     pub fn name(self) -> &'static str {
@@ -119,8 +129,8 @@ pub struct Candidate {
     pub top_cavitation: Result<CavitationReport, String>,
     /// Why the candidate falls short (cannot reach the target speed, no pitch, …).
     pub problems: Vec<String>,
-    /// 1-based position of the candidate above it in the ranking when the two differ by less
-    /// than the resolution (a near-tie).
+    /// 1-based position of the leader of its group when the two are not told apart (within
+    /// the ranked figure's uncertainty; `study::ties`).
     pub tie_with: Option<usize>,
     /// The boat document set to this engine, gear and screw (its active variant).
     pub boat: BoatDoc,
@@ -169,9 +179,11 @@ pub struct Shortlist {
     pub rank: ShortlistRank,
     /// The candidates, best first.
     pub candidates: Vec<Candidate>,
-    /// The relative resolution below which two candidates are not told apart: the uncertainty
-    /// band's power spread at the target speed over the nominal power (boat as given).
+    /// The uncertainty band's power spread at the target speed over the nominal power (boat
+    /// as given), the root of the tie rule.
     pub resolution: Option<f64>,
+    /// The tie rule of the ranking: the ranked figure and its band (`None` without a band).
+    pub tie_rule: Option<TieRule>,
     /// The trip profile the fuel ranking used: (speed m/s, fraction of engine hours).
     pub trip_profile: Vec<(f64, f64)>,
     /// Target speed, m/s.
@@ -268,21 +280,20 @@ impl Study {
                 candidates.push(self.candidate(offer, gear));
             }
         }
-        let resolution = self.resolution();
-        let trip = !self.doc.trip.profile.is_empty();
-        rank_candidates(&mut candidates, options.rank, trip, resolution);
         let mut list = Shortlist {
             boat: self.name().to_string(),
             profile_name: self.profile_name.clone(),
             rank: options.rank,
             candidates,
-            resolution,
+            resolution: self.power_spread(),
+            tie_rule: None,
             trip_profile: self.trip_profile(),
             target_speed: self.vessel.trip.target_speed,
             power_for_speed: None,
             baseline: self.baseline_figures(),
         };
         list.power_for_speed = self.power_for_speed(&list);
+        list.rank_by(options.rank);
         Ok(list)
     }
 
@@ -294,30 +305,6 @@ impl Study {
             .iter()
             .map(|(speed, share)| (speed.value, *share))
             .collect()
-    }
-
-    /// The band's relative power spread at the target speed, for the boat as given.
-    fn resolution(&self) -> Option<f64> {
-        let band = self
-            .band(active_variant(&self.vessel), &WhatIfSettings::default())
-            .ok()?;
-        let target = self.vessel.trip.target_speed;
-        let nearest = band
-            .points
-            .iter()
-            .filter(|p| p.nominal_speed.is_some())
-            .min_by(|a, b| {
-                let da = (a.nominal_speed.unwrap_or(0.0) - target).abs();
-                let db = (b.nominal_speed.unwrap_or(0.0) - target).abs();
-                da.total_cmp(&db)
-            })?;
-        let (low, high, nominal) = (
-            nearest.low_power?,
-            nearest.high_power?,
-            nearest.nominal_power?,
-        );
-        let spread = (high - low) / nominal;
-        (spread.is_finite() && spread >= 0.0).then_some(spread)
     }
 
     /// The boat document set to `offer`'s engine, `gear` and the active screw resized to the
@@ -629,16 +616,18 @@ impl Study {
 }
 
 /// Sorts `candidates` best first by `rank` (unsolved last, in their given order) and marks
-/// near-ties: a candidate whose figure differs from the one above by less than `resolution`
-/// of it. For the rpm margin the resolution is taken on the rated rpm over three (the
-/// propeller law P ∝ n³ turns a power spread into a third of it in rpm, common practice).
-/// With `trip` the fuel ranking is over the trip profile.
+/// ties by the one rule of `study::ties`: a candidate ties with its group's leader when its
+/// ranked figure is within that figure's uncertainty — the band's `power_spread` in the
+/// figure's own terms (`exponent`: the hull's R·V ∝ Vⁿ near top speed). With `trip` the fuel
+/// ranking is over the trip profile. Returns the rule used (`None` without a band: then only
+/// equal figures tie).
 pub fn rank_candidates(
     candidates: &mut [Candidate],
     rank: ShortlistRank,
     trip: bool,
-    resolution: Option<f64>,
-) {
+    power_spread: Option<f64>,
+    exponent: Option<f64>,
+) -> Option<TieRule> {
     let lower_is_better = rank == ShortlistRank::Fuel;
     candidates.sort_by(
         |a, b| match (a.ranked_value(rank, trip), b.ranked_value(rank, trip)) {
@@ -654,26 +643,30 @@ pub fn rank_candidates(
             (None, None) => std::cmp::Ordering::Equal,
         },
     );
-    let resolution = resolution.unwrap_or(0.0);
-    // Ranked again (the terminal UI re-sorts), the first has no one above it to tie with.
-    if let Some(first) = candidates.first_mut() {
-        first.tie_with = None;
+    let rule = power_spread.map(|s| TieRule::of(rank.figure(), s, exponent));
+    let values: Vec<Option<f64>> = candidates
+        .iter()
+        .map(|c| c.ranked_value(rank, trip))
+        .collect();
+    let groups = tie_groups(&values, |i, lead| {
+        rule.map_or(0.0, |r| r.tolerance(lead, candidates[i].rated_rpm))
+    });
+    for (c, group) in candidates.iter_mut().zip(groups) {
+        c.tie_with = group;
     }
-    for i in 1..candidates.len() {
-        let (above, here) = (&candidates[i - 1], &candidates[i]);
-        let tie = match (
-            above.ranked_value(rank, trip),
-            here.ranked_value(rank, trip),
-        ) {
-            (Some(x), Some(y)) => {
-                let scale = match rank {
-                    ShortlistRank::Margin => above.rated_rpm / 3.0,
-                    _ => x.abs(),
-                };
-                (x - y).abs() <= resolution * scale
-            }
-            _ => false,
-        };
-        candidates[i].tie_with = tie.then_some(i);
+    rule
+}
+
+impl Shortlist {
+    /// Ranks the list again by `rank` (no re-solving: only the order and ties change).
+    pub fn rank_by(&mut self, rank: ShortlistRank) {
+        let trip = !self.trip_profile.is_empty();
+        let exponent = self
+            .power_for_speed
+            .as_ref()
+            .and_then(|p| p.exponent_at_top);
+        self.tie_rule =
+            rank_candidates(&mut self.candidates, rank, trip, self.resolution, exponent);
+        self.rank = rank;
     }
 }

@@ -10,9 +10,7 @@ use crate::propulsion::solver::trial::Calibration;
 use crate::study::Study;
 use crate::study::design::FittedBy;
 pub use crate::study::design::SweepOver;
-use crate::study::shortlist::{
-    Candidate, Offer, Shortlist, ShortlistOptions, ShortlistRank, rank_candidates,
-};
+use crate::study::shortlist::{Candidate, Offer, Shortlist, ShortlistOptions, ShortlistRank};
 use crate::study::what_if::WhatIfSettings;
 use crate::tui::app::Document;
 
@@ -155,9 +153,7 @@ impl ShortlistView {
     /// Sorts the candidates again by `rank` (no re-solving: only the order and ties change).
     pub fn rank_by(&mut self, rank: ShortlistRank) {
         if let Ok(list) = &mut self.result {
-            let trip = !list.trip_profile.is_empty();
-            rank_candidates(&mut list.candidates, rank, trip, list.resolution);
-            list.rank = rank;
+            list.rank_by(rank);
         }
     }
 }

@@ -152,7 +152,7 @@ fn an_engine_better_on_every_count_ranks_first_under_every_ranking() {
             .shortlist(&offers, &ShortlistOptions { gears: None, rank })
             .unwrap();
         // Ties are a display matter; the order itself must put the better sheet first.
-        rank_candidates(&mut list.candidates, rank, false, None);
+        rank_candidates(&mut list.candidates, rank, false, None, None);
         let first = &list.candidates[0];
         let second = &list.candidates[1];
         assert_eq!(first.engine, "better", "rank {}", rank.name());
@@ -429,41 +429,78 @@ fn export_has_the_shortlist_section_and_its_chart() {
 }
 
 #[test]
-fn near_ties_are_marked_within_the_resolution_and_only_there() {
+fn ties_join_their_groups_leader_within_the_ranked_figures_own_band_never_chained() {
     let study = demo_study("pintle");
     let offers = offers_from_store(&demo(), None).unwrap();
     let list = study
         .shortlist(&offers, &ShortlistOptions::default())
         .unwrap();
-    // The resolution is the band's power spread at the target speed: a few per cent to tens.
-    let resolution = list.resolution.unwrap();
-    assert!(resolution > 0.0 && resolution < 1.0, "{resolution}");
-    let mut candidates = list.candidates.clone();
-    for r in [0.0, 0.02, resolution, 10.0] {
-        rank_candidates(&mut candidates, ShortlistRank::Fuel, false, Some(r));
-        for i in 1..candidates.len() {
-            let above = candidates[i - 1].fuel_per_distance;
-            let here = candidates[i].fuel_per_distance;
-            let want = match (above, here) {
-                (Some(x), Some(y)) => (x - y).abs() <= r * x,
-                _ => false,
+    // The root is the band's power spread at the target speed: a few per cent to tens.
+    let spread = list.resolution.unwrap();
+    assert!(spread > 0.0 && spread < 1.0, "{spread}");
+    let exponent = list
+        .power_for_speed
+        .as_ref()
+        .and_then(|p| p.exponent_at_top);
+    for rank in ShortlistRank::ALL {
+        let mut candidates = list.candidates.clone();
+        let rule = rank_candidates(&mut candidates, rank, false, Some(spread), exponent).unwrap();
+        // Each figure's own band: fuel and range the power spread, top speed the spread over
+        // the hull's exponent, the margin a third of it on rated rpm (P ∝ N³).
+        let want_band = match rank {
+            ShortlistRank::Fuel | ShortlistRank::Range => spread,
+            ShortlistRank::Top => spread / exponent.unwrap(),
+            ShortlistRank::Margin => spread / 3.0,
+        };
+        assert_close!(rule.band, want_band, 1e-12);
+        // Walk the table as a reader would: a leader opens a group; each later candidate ties
+        // with the open group's leader exactly when within its tolerance, else leads anew.
+        let mut leader: Option<usize> = None;
+        for (i, c) in candidates.iter().enumerate() {
+            let Some(v) = c.ranked_value(rank, false) else {
+                assert_eq!(c.tie_with, None);
+                continue;
             };
-            assert_eq!(
-                candidates[i].tie_with == Some(i),
-                want,
-                "resolution {r}, #{}",
-                i + 1
-            );
-            assert!(candidates[i].tie_with.is_none() || want);
+            let tied = leader.is_some_and(|l| {
+                let lead = candidates[l].ranked_value(rank, false).unwrap();
+                let tolerance = match rank {
+                    ShortlistRank::Margin => rule.band * candidates[l].rated_rpm,
+                    _ => rule.band * lead.abs(),
+                };
+                (v - lead).abs() <= tolerance
+            });
+            if tied {
+                assert_eq!(
+                    c.tie_with,
+                    leader.map(|l| l + 1),
+                    "{} #{}",
+                    rank.name(),
+                    i + 1
+                );
+            } else {
+                assert_eq!(c.tie_with, None, "{} #{}", rank.name(), i + 1);
+                leader = Some(i);
+            }
         }
     }
-    // With a resolution of 10 (1000 %) every solved candidate after the first is tied.
-    let solved = candidates
-        .iter()
-        .filter(|c| c.fuel_per_distance.is_some())
-        .count();
-    let tied = candidates.iter().filter(|c| c.tie_with.is_some()).count();
-    assert_eq!(tied, solved - 1);
+    // The defect this replaces: #1 and #5 24 % apart must not read as ties by a chain.
+    let mut candidates = list.candidates.clone();
+    rank_candidates(
+        &mut candidates,
+        ShortlistRank::Fuel,
+        false,
+        Some(spread),
+        exponent,
+    );
+    let first = candidates[0].fuel_per_distance.unwrap();
+    for c in &candidates {
+        if let (Some(1), Some(v)) = (c.tie_with, c.fuel_per_distance) {
+            assert!(
+                (v - first).abs() <= spread * first + 1e-12,
+                "{v} vs {first}"
+            );
+        }
+    }
 }
 
 /// What more power buys: each candidate's installed power at its top speed beside the hull's

@@ -134,13 +134,13 @@ impl RankCriterion {
     pub fn describe(&self) -> &'static str {
         match self {
             RankCriterion::LeastFuelPerDistance => {
-                "least fuel per distance at the target speed; ties (within 0.1 %) by higher top speed"
+                "least fuel per distance at the target speed; equal figures by higher top speed"
             }
             RankCriterion::HighestTopSpeed => {
-                "highest top speed; ties (within 0.1 %) by least fuel per distance at the target speed"
+                "highest top speed; equal figures by least fuel per distance at the target speed"
             }
             RankCriterion::HighestPropulsiveEfficiency => {
-                "highest propulsive efficiency at the target speed; ties (within 0.1 %) by higher top speed"
+                "highest propulsive efficiency at the target speed; equal figures by higher top speed"
             }
         }
     }
@@ -179,6 +179,9 @@ pub struct SweepCandidate {
     pub fuel_per_distance_at_target: Option<f64>,
     /// Why a figure is missing, if one is.
     pub problem: Option<String>,
+    /// 1-based rank of its group's leader when the two are not told apart (the study's tie
+    /// rule; `None` here in the core).
+    pub tie_with: Option<usize>,
 }
 
 /// The ranked result of a sweep.
@@ -194,6 +197,8 @@ pub struct SweepResult {
     pub target_speed: f64,
     /// Candidates in rank order.
     pub candidates: Vec<SweepCandidate>,
+    /// The tie band the study marked ties with (fraction of the leader's figure), if any.
+    pub tie_band: Option<f64>,
 }
 
 /// Settings of a sweep.
@@ -333,6 +338,7 @@ pub fn sweep(
         target: options.pitch.target,
         target_speed,
         candidates,
+        tie_band: None,
     })
 }
 
@@ -364,6 +370,7 @@ fn evaluate_candidate(
         propulsive_efficiency_at_top: None,
         fuel_per_distance_at_target: None,
         problem: None,
+        tie_with: None,
     };
     if let Err(e) = BSeriesScrew::new(geometry) {
         candidate.stop = SearchStop::BracketLost(format!("screw could not be built: {e}"));
@@ -423,8 +430,8 @@ fn evaluate_candidate(
     candidate
 }
 
-/// Sorts candidates by the criterion; values are bucketed to 0.1 % of the best so that ties
-/// fall to the second key while the order stays a total order.
+/// Sorts candidates by the criterion; values equal to a part in 10⁹ of the best fall to the
+/// second key. Which candidates are not told apart is the study's tie rule, not the order's.
 fn rank_candidates(candidates: &mut [SweepCandidate], criterion: RankCriterion) {
     let primary = |c: &SweepCandidate| -> Option<f64> {
         match criterion {
@@ -449,7 +456,7 @@ fn rank_candidates(candidates: &mut [SweepCandidate], criterion: RankCriterion) 
         .map(f64::abs)
         .fold(f64::INFINITY, f64::min);
     let bucket = if scale.is_finite() && scale > 0.0 {
-        0.001 * scale
+        1e-9 * scale
     } else {
         1.0
     };
@@ -524,12 +531,13 @@ mod tests {
             propulsive_efficiency_at_top: None,
             fuel_per_distance_at_target: fuel,
             problem: None,
+            tie_with: None,
         };
         let mut list = vec![
             make(Some(2.0e-6), 4.0),
             make(None, 9.0),
             make(Some(1.0e-6), 4.1),
-            make(Some(1.0000001e-6), 4.3),
+            make(Some(1.0e-6 * (1.0 + 1e-12)), 4.3),
         ];
         rank_candidates(&mut list, RankCriterion::LeastFuelPerDistance);
         let order: Vec<f64> = list.iter().map(|c| c.value).collect();

@@ -143,6 +143,9 @@ fn candidate_line(app: &App, over: SweepOver, c: &SweepCandidate) -> Line<'stati
     );
     if c.rank == 1 && c.pitch.is_some() {
         Line::styled(format!("{text}  ◀ best"), app.theme.accent)
+    } else if let Some(leader) = c.tie_with {
+        // The one tie rule of the study, as the CLI's sweep and the shortlist mark it.
+        Line::raw(format!("{text}  = #{leader}"))
     } else {
         Line::raw(text)
     }
