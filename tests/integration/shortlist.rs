@@ -688,3 +688,40 @@ fn shortlist_prints_exports_and_serialises_what_more_power_buys() {
         }
     }
 }
+
+/// Shortlist and sweep tie by one rule: ranked by fuel, both bands are the boat's power spread,
+/// and every `tie_with` of the sweep names a leader within that band of its figure.
+#[test]
+fn sweep_and_shortlist_share_one_tie_rule() {
+    let json = |args: &[&str]| -> Value {
+        let out = tidewright()
+            .args(["--profiles", "/nonexistent-tidewright-store"])
+            .args(args)
+            .output()
+            .unwrap();
+        assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
+        serde_json::from_slice(&out.stdout).unwrap()
+    };
+    let shortlist = json(&["shortlist", "marram", "--format", "json"]);
+    let sweep = json(&["sweep", "marram", "--format", "json"]);
+    let band = shortlist["tie_band"].as_f64().unwrap();
+    assert_close!(sweep["tie_band"].as_f64().unwrap(), band, 1e-12);
+    let candidates = sweep["candidates"].as_array().unwrap();
+    let mut ties = 0;
+    for c in candidates {
+        if let Some(leader) = c["tie_with"].as_u64() {
+            let lead = candidates
+                .iter()
+                .find(|l| l["rank"].as_u64() == Some(leader))
+                .unwrap();
+            assert!(lead["tie_with"].is_null(), "a leader leads, never ties");
+            let (v, l) = (
+                c["fuel_l_per_nm_at_target"].as_f64().unwrap(),
+                lead["fuel_l_per_nm_at_target"].as_f64().unwrap(),
+            );
+            assert!((v - l).abs() <= band * l + 1e-12, "{v} vs {l}");
+            ties += 1;
+        }
+    }
+    assert!(ties > 0, "the demo sweep has candidates inside the band");
+}
