@@ -203,25 +203,29 @@ pub fn pitch_text(r: &PitchRecommendation, d: &Display, study: &Study) -> String
             signed_rpm(slope * 0.010 / INCH_M)
         ));
     }
-    if let Some(c) = &r.cure
+    if let (Some(c), Some(now)) = (&r.cure, &r.current)
         && c.rpm_to_cure.abs() >= 0.5
     {
+        // One answer: the slope only explains the recommendation, with the same margins the
+        // lines above give; the solved pitch is the recommendation itself.
         let what = if c.rpm_to_cure > 0.0 {
-            format!("{:.0} rpm shortfall", c.rpm_to_cure)
+            format!("{:.0} rpm short of", c.rpm_to_cure)
         } else {
-            format!("{:.0} rpm excess", -c.rpm_to_cure)
+            format!("{:.0} rpm past", -c.rpm_to_cure)
         };
         let sign = if c.change >= -0.0005 { "+" } else { "−" };
         let mut line = format!(
-            "  by that slope the current screw's {what} is cured by {sign}{} of pitch",
+            "  why: the current screw's margin {} is {what} the {} aimed at; by the slope that is about {sign}{} of pitch",
+            signed_rpm(now.rpm_margin),
+            signed_rpm(c.target_margin),
             d.quantity(c.change.abs(), Kind::ScrewLength)
         );
-        if let Some(check) = &c.check {
-            line.push_str(&format!(
-                "; solved at {}: {}",
-                d.quantity(check.pitch, Kind::ScrewLength),
-                summary_words(check, rated_rpm)
-            ));
+        match r.recommended_pitch.filter(|p| p.is_finite()) {
+            Some(p) => line.push_str(&format!(
+                ", a straight-line estimate: the recommended {} above is the pitch solved to the target",
+                d.quantity(p, Kind::ScrewLength)
+            )),
+            None => line.push_str(", a straight-line estimate only"),
         }
         out.push_str(&line);
         out.push('\n');

@@ -757,3 +757,55 @@ fn resistance_rises_for_every_demo_boat_and_names_its_formula() {
         .failure();
     assert!(String::from_utf8_lossy(&out.get_output().stderr).contains("Fn 2"));
 }
+
+/// `pitch` gives one answer: the line that explains the recommendation by the rpm-per-inch
+/// slope uses the same margins as the current-screw and recommended-pitch lines and names the
+/// recommended pitch as the solved one, never a second pitch.
+#[test]
+fn pitch_gives_one_answer_and_explains_it_with_the_margins_it_shows() {
+    let mut explained = 0;
+    for boat in ["marram", "pintle", "samphire", "sorrel"] {
+        let out = tidewright()
+            .args(["--profiles", "/nonexistent-tidewright-store", "pitch", boat])
+            .output()
+            .unwrap();
+        let text = String::from_utf8_lossy(&out.stdout).into_owned();
+        for block in text.split("\nScrew ").skip(1) {
+            let line = |start: &str| block.lines().find(|l| l.trim_start().starts_with(start));
+            let (Some(why), Some(current)) = (line("why:"), line("current screw:")) else {
+                continue;
+            };
+            let margin_of = |l: &str| {
+                l.split("margin ")
+                    .nth(1)
+                    .and_then(|m| m.split_whitespace().next())
+                    .map(str::to_string)
+                    .unwrap()
+            };
+            assert!(
+                why.contains(&format!("margin {} ", margin_of(current))),
+                "{boat}: {why}\n{current}"
+            );
+            if let Some(at) = line("at the recommended pitch:") {
+                let aimed = margin_of(at);
+                assert!(
+                    why.contains(&format!("the {aimed} rpm aimed at")),
+                    "{boat}: {why}\n{at}"
+                );
+            }
+            let recommended = line("recommended pitch")
+                .and_then(|l| l.split("recommended pitch ").nth(1))
+                .and_then(|r| r.split(" (").next())
+                .unwrap()
+                .trim_start_matches("for each screw ")
+                .to_string();
+            assert!(
+                why.contains(&format!("the recommended {recommended} above")),
+                "{boat}: {why}"
+            );
+            assert!(!why.contains("solved at"), "{boat}: no second pitch: {why}");
+            explained += 1;
+        }
+    }
+    assert!(explained >= 3, "{explained} recommendations explained");
+}

@@ -699,7 +699,11 @@ fn sweep_and_shortlist_share_one_tie_rule() {
             .args(args)
             .output()
             .unwrap();
-        assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
+        assert!(
+            out.status.success(),
+            "{}",
+            String::from_utf8_lossy(&out.stderr)
+        );
         serde_json::from_slice(&out.stdout).unwrap()
     };
     let shortlist = json(&["shortlist", "marram", "--format", "json"]);
