@@ -36,6 +36,8 @@ impl WhatIf {
             Column::number("displacement", &d.unit(Kind::Mass)),
             Column::text("verdict"),
             Column::number("full throttle", "rpm"),
+            Column::number("margin", "rpm"),
+            Column::number("absorbs at rated", "%"),
             Column::number("top speed", &d.unit(Kind::Speed)),
             Column::number("cruise", "rpm"),
             Column::number(
@@ -94,6 +96,9 @@ impl WhatIf {
                 o.verdict
                     .map_or_else(dash, |v| verdict_words(v).to_string()),
                 finite(o.full_throttle_rpm).map_or_else(dash, |r| format!("{r:.0}")),
+                finite(o.rpm_margin).map_or_else(dash, |m| format!("{m:+.0}")),
+                finite(o.absorbed_fraction_at_rated)
+                    .map_or_else(dash, |f| format!("{:.0}", f * 100.0)),
                 finite(o.top_speed).map_or_else(dash, |v| {
                     let prefix = if unreliable { "≈" } else { "" };
                     format!("{prefix}{}", d.number(v, Kind::Speed, 2))
@@ -186,7 +191,7 @@ impl WhatIf {
             Err(e) => vec![format!("Uncertainty band not available: {e}")],
             Ok(band) => {
                 let mut lines = vec![format!(
-                    "Uncertainty band: displacement ±{}, wake fraction ±{:.2} (an estimated wake held at its value at {})",
+                    "Uncertainty band: displacement ±{}, wake fraction ±{:.2} (shifted about the estimate at each rpm's own speed; for the pitch, about its value at full throttle, {})",
                     percent(band.ranges.displacement_fraction, 0),
                     band.ranges.wake_shift,
                     d.quantity(band.wake_reference_speed, Kind::Speed)
@@ -336,6 +341,10 @@ pub struct OutcomeJson {
     pub verdict: Option<Verdict>,
     /// Engine rpm at full throttle.
     pub full_throttle_rpm: Option<f64>,
+    /// Free-running rpm margin where the full-load curve meets this case's propeller curve.
+    pub rpm_margin: Option<f64>,
+    /// Brake power of each engine at full throttle, kW.
+    pub full_throttle_kw_per_engine: Option<f64>,
     /// Top speed, kn.
     pub top_speed_kn: Option<f64>,
     /// Whether the top speed lies in the resistance method's range.
@@ -466,6 +475,8 @@ pub fn what_if_json(study: &Study, result: &WhatIf) -> WhatIfJson {
             resistance_factor: o.condition.resistance_factor,
             verdict: o.verdict,
             full_throttle_rpm: finite(o.full_throttle_rpm),
+            rpm_margin: finite(o.rpm_margin),
+            full_throttle_kw_per_engine: kw(o.full_throttle_power),
             top_speed_kn: finite(o.top_speed).map(|v| v / KNOT_MPS),
             top_speed_in_method_range: o.top_speed_in_method_range,
             absorbed_pct_at_rated: finite(o.absorbed_fraction_at_rated).map(|f| f * 100.0),

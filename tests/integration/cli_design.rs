@@ -809,3 +809,53 @@ fn pitch_gives_one_answer_and_explains_it_with_the_margins_it_shows() {
     }
     assert!(explained >= 3, "{explained} recommendations explained");
 }
+
+/// The uncertainty band has a lower and an upper edge at every rpm with the boat as given
+/// between them, and the recommended pitch inside its own range; each what-if case is solved
+/// where the full-load curve meets its propeller curve, so a fouled hull or a seaway (more
+/// resistance, heavier screw loading) never free-runs further past rated than the clean boat.
+#[test]
+fn the_band_is_two_sided_and_every_case_shows_its_margin() {
+    for boat in ["marram", "pintle", "samphire"] {
+        let json = run_json(&[
+            "--profiles",
+            "/nonexistent-tidewright-store",
+            "conditions",
+            boat,
+            "--format",
+            "json",
+        ]);
+        let band = &json["band"];
+        for p in band["points"].as_array().unwrap() {
+            let (low, nominal, high) = (
+                p["low_kw"].as_f64().unwrap(),
+                p["power_kw"].as_f64().unwrap(),
+                p["high_kw"].as_f64().unwrap(),
+            );
+            assert!(
+                low < nominal && nominal < high,
+                "{boat}: {low} {nominal} {high}"
+            );
+        }
+        let (low, nominal, high) = (
+            band["pitch_low_m"].as_f64().unwrap(),
+            band["pitch_nominal_m"].as_f64().unwrap(),
+            band["pitch_high_m"].as_f64().unwrap(),
+        );
+        assert!(
+            low < nominal && nominal < high,
+            "{boat}: pitch {low} {nominal} {high}"
+        );
+        let conditions = json["conditions"].as_array().unwrap();
+        let margin = |label: &str| {
+            conditions
+                .iter()
+                .find(|c| c["label"].as_str().unwrap().starts_with(label))
+                .and_then(|c| c["rpm_margin"].as_f64())
+                .unwrap()
+        };
+        let clean = margin("as given");
+        assert!(margin("fouled") <= clean + 1e-9, "{boat}");
+        assert!(margin("seaway") <= clean + 1e-9, "{boat}");
+    }
+}

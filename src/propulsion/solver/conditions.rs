@@ -243,6 +243,11 @@ pub struct ConditionOutcome {
     pub verdict: Option<Verdict>,
     /// Full-throttle (meeting) engine rpm, rpm.
     pub full_throttle_rpm: Option<f64>,
+    /// Free-running rpm margin where the full-load curve meets this case's propeller curve,
+    /// rpm (negative: short of rated; a governed engine still shows rated rpm above).
+    pub rpm_margin: Option<f64>,
+    /// Brake power each engine gives at full throttle in this case, W.
+    pub full_throttle_power: Option<f64>,
     /// Top speed, m/s.
     pub top_speed: Option<f64>,
     /// Whether the top speed is inside the resistance method's range (false: unreliable).
@@ -302,6 +307,8 @@ fn outcome(vessel: &Vessel, index: usize, label: &str) -> ConditionOutcome {
         condition: ConditionSummary::of(vessel, label),
         verdict: None,
         full_throttle_rpm: None,
+        rpm_margin: None,
+        full_throttle_power: None,
         top_speed: None,
         top_speed_in_method_range: None,
         absorbed_fraction_at_rated: None,
@@ -325,6 +332,8 @@ fn outcome(vessel: &Vessel, index: usize, label: &str) -> ConditionOutcome {
         Ok(m) => {
             out.verdict = Some(m.verdict);
             out.full_throttle_rpm = Some(m.meeting_rpm);
+            out.rpm_margin = Some(m.rpm_margin);
+            out.full_throttle_power = Some(m.top_point.brake_power_per_engine);
             out.top_speed = Some(m.top_speed);
             out.top_speed_in_method_range = Some(m.top_speed_in_method_range);
             out.absorbed_fraction_at_rated = Some(m.absorbed_fraction_at_rated);
@@ -402,7 +411,8 @@ pub struct BandPoint {
 pub struct UncertaintyBand {
     /// The ranges used.
     pub ranges: UncertaintyRanges,
-    /// Speed at which an estimated wake is frozen before shifting it, m/s (the target speed).
+    /// Speed at which the wake is frozen before shifting it for the pitch's cases, m/s (the
+    /// boat's top speed; the curve's cases shift it at each rpm's own speed).
     pub wake_reference_speed: f64,
     /// The band at each rpm from idle to rated.
     pub points: Vec<BandPoint>,
@@ -461,71 +471,80 @@ pub fn uncertainty_band(
     }
     let mut warnings = Vec::new();
     let volume = vessel.resistance.hull.input.displacement_volume;
-    let reference_speed = vessel.trip.target_speed;
-    let mut cases: Vec<Vessel> = Vec::with_capacity(12);
-    for factor in [
+    let factors = [
         1.0 - ranges.displacement_fraction,
         1.0,
         1.0 + ranges.displacement_fraction,
-    ] {
-        let loaded = Condition::displacement("band", volume * factor).apply(vessel)?;
+    ];
+    let loads: Vec<Vessel> = factors
+        .iter()
+        .map(|f| Condition::displacement("band", volume * f).apply(vessel))
+        .collect::<Result<_, _>>()?;
+    // The other resistance method, where the method choice computes one, at the three
+    // displacements: the spread between published methods is a real uncertainty.
+    let others: Vec<Vessel> = match vessel.with_alternative_method() {
+        Some(other) => factors
+            .iter()
+            .map(|f| Condition::displacement("band", volume * f).apply(&other))
+            .collect::<Result<_, _>>()?,
+        None => Vec::new(),
+    };
+    // The wake is shifted either side of the model's own estimate at the speed in question
+    // (each rpm's speed for the curve, top speed for the pitch), so the band has a lower and
+    // an upper edge at every rpm and the nominal lies between them.
+    let mut clamped = false;
+    let shifted_at = |loaded: &Vessel, speed: f64, clamped: &mut bool| -> Vec<Vessel> {
         let system = loaded.system(index);
         let frozen: Interaction = loaded.interaction.at_speed(
             &loaded.resistance.hull,
             &loaded.resistance.water,
             &system.screw_at_stern(),
-            reference_speed,
+            speed,
         );
-        cases.push(loaded.clone());
-        for shift in [-ranges.wake_shift, ranges.wake_shift] {
-            if shift == 0.0 {
-                continue;
-            }
-            let mut wake = frozen.wake_fraction + shift;
-            if wake < 0.0 {
-                warnings.push(Warning::about(
-                    Subject::Interaction,
-                    "uncertainty band",
-                    format!("the shifted wake fraction {wake:.3} was clamped at 0"),
-                ));
-                wake = 0.0;
-            }
-            let mut shifted = loaded.clone();
-            shifted.interaction = InteractionMethod::User(Interaction {
-                wake_fraction: wake,
-                ..frozen
-            });
-            cases.push(shifted);
-        }
-    }
-    // The other resistance method, where the method choice computes one, at the three
-    // displacements: the spread between published methods is a real uncertainty.
-    if let Some(other) = vessel.with_alternative_method() {
-        for factor in [
-            1.0 - ranges.displacement_fraction,
-            1.0,
-            1.0 + ranges.displacement_fraction,
-        ] {
-            cases.push(Condition::displacement("band", volume * factor).apply(&other)?);
-        }
-    }
+        [-ranges.wake_shift, ranges.wake_shift]
+            .into_iter()
+            .filter(|shift| *shift != 0.0)
+            .map(|shift| {
+                let mut wake = frozen.wake_fraction + shift;
+                if wake < 0.0 {
+                    *clamped = true;
+                    wake = 0.0;
+                }
+                let mut shifted = loaded.clone();
+                shifted.interaction = InteractionMethod::User(Interaction {
+                    wake_fraction: wake,
+                    ..frozen
+                });
+                shifted
+            })
+            .collect()
+    };
 
     let engine = &vessel.engine;
     let (idle, rated) = (engine.idle_rpm.max(1.0), engine.rated_rpm);
     let nominal_system = vessel.system(index);
+    let power_of = |case: &Vessel, rpm: f64| {
+        point_at_engine_rpm(&case.system(index), rpm)
+            .ok()
+            .map(|p| p.brake_power_per_engine)
+    };
     let points = (0..ranges.rpm_points)
         .map(|i| {
             let rpm = idle + (rated - idle) * i as f64 / (ranges.rpm_points - 1) as f64;
             let nominal = point_at_engine_rpm(&nominal_system, rpm).ok();
-            let powers: Vec<f64> = cases
+            let mut powers: Vec<f64> = loads
                 .iter()
-                .filter_map(|case| {
-                    point_at_engine_rpm(&case.system(index), rpm)
-                        .ok()
-                        .map(|p| p.brake_power_per_engine)
-                })
+                .chain(&others)
+                .filter_map(|case| power_of(case, rpm))
                 .chain(nominal.map(|p| p.brake_power_per_engine))
                 .collect();
+            if let Some(speed) = nominal.map(|p| p.speed) {
+                for loaded in &loads {
+                    for case in shifted_at(loaded, speed, &mut clamped) {
+                        powers.extend(power_of(&case, rpm));
+                    }
+                }
+            }
             BandPoint {
                 engine_rpm: rpm,
                 nominal_power: nominal.map(|p| p.brake_power_per_engine),
@@ -535,6 +554,25 @@ pub fn uncertainty_band(
             }
         })
         .collect();
+
+    // The pitch is chosen at full throttle: its wake cases are shifted about the wake at the
+    // boat's own top speed (the target speed when it has none).
+    let reference_speed = match_engine(&nominal_system, &vessel.match_criteria)
+        .map(|m| m.top_speed)
+        .unwrap_or(vessel.trip.target_speed);
+    let mut cases: Vec<Vessel> = Vec::with_capacity(12);
+    for loaded in &loads {
+        cases.push(loaded.clone());
+        cases.extend(shifted_at(loaded, reference_speed, &mut clamped));
+    }
+    cases.extend(others.iter().cloned());
+    if clamped {
+        warnings.push(Warning::about(
+            Subject::Interaction,
+            "uncertainty band",
+            "a shifted wake fraction below 0 was clamped at 0",
+        ));
+    }
 
     let (pitch_nominal, _) = matching_pitch(vessel, index, pitch_options)?;
     let mut pitches = Vec::new();
