@@ -165,6 +165,7 @@ pub fn shortlist_table(list: &Shortlist, d: &Display) -> Table {
         columns.push(Column::number("trip fuel", &d.unit(Kind::FuelPerDistance)));
     }
     columns.push(Column::number("range", &d.unit(Kind::Distance)));
+    columns.push(Column::text("checks"));
     columns.push(Column::text("tie"));
     let mut table = Table::new(columns);
     for (i, c) in list.candidates.iter().enumerate() {
@@ -205,11 +206,30 @@ pub fn shortlist_table(list: &Shortlist, d: &Display) -> Table {
             );
         }
         row.push(cell(c.range, Kind::Distance, 0, d));
+        row.push(check_marks(c));
         row.push(c.tie_with.map_or(String::new(), |t| format!("= #{t}")));
         table.push(row);
     }
     table
 }
+
+/// The row's marks for a failed check, explained once under the table ([`CHECK_LEGEND`]).
+pub fn check_marks(c: &Candidate) -> String {
+    let mut marks = Vec::new();
+    if c.top_cavitation.as_ref().is_ok_and(|r| !r.all_passed()) {
+        marks.push("cav!");
+    }
+    if c.shaft.as_ref().is_ok_and(|s| {
+        s.existing_diameter
+            .is_some_and(|have| have < s.min_diameter)
+    }) {
+        marks.push("shaft!");
+    }
+    marks.join(" ")
+}
+
+/// What the row marks mean.
+pub const CHECK_LEGEND: &str = "checks: cav! fails a cavitation or blade-loading check at top speed, shaft! the shaft is thinner than the torque needs (the notes below say which and by how much)";
 
 fn screw_decimals(d: &Display) -> usize {
     match d.system {
@@ -336,7 +356,11 @@ pub fn shortlist_text(list: &Shortlist, d: &Display) -> String {
         rank_line(list, d)
     );
     out.push_str(&shortlist_table(list, d).to_text("  "));
-    out.push_str("  * top speed outside the resistance method's range\n\n");
+    out.push_str("  * top speed outside the resistance method's range\n");
+    if list.candidates.iter().any(|c| !check_marks(c).is_empty()) {
+        out.push_str(&format!("  {CHECK_LEGEND}\n"));
+    }
+    out.push('\n');
     for (i, c) in list.candidates.iter().enumerate() {
         out.push_str(&format!(
             "#{} {} ({}) with {:.2}:1\n",
@@ -376,7 +400,11 @@ pub fn shortlist_csv(list: &Shortlist, d: &Display) -> String {
 pub fn shortlist_markdown(list: &Shortlist, d: &Display) -> String {
     let mut out = format!("## Repower shortlist\n\n{}.\n\n", rank_line(list, d));
     out.push_str(&shortlist_table(list, d).to_markdown());
-    out.push_str("\n\\* top speed outside the resistance method's range.\n\n");
+    out.push_str("\n\\* top speed outside the resistance method's range.\n");
+    if list.candidates.iter().any(|c| !check_marks(c).is_empty()) {
+        out.push_str(&format!("\n{CHECK_LEGEND}.\n"));
+    }
+    out.push('\n');
     for (i, c) in list.candidates.iter().enumerate() {
         out.push_str(&format!(
             "- **#{} {}** ({:.2}:1): {}\n",

@@ -378,11 +378,26 @@ impl Study {
         let diameters = self.sized_diameters(&mut problems);
         let geometry = *self.vessel.variants[index].screw.geometry();
         let mut reason = String::new();
+        // Every diameter the aperture takes is pitched; the screw kept is the one the table
+        // would rank first by fuel (as the diameter sweep ranks them), among those that pass
+        // the cavitation checks when any does: a choice of the figures, never of the order
+        // tried, so a re-run with another ranking keeps the same screw.
+        let mut best: Option<Candidate> = None;
         for &diameter in &diameters {
             match self.sized_candidate(offer, gear, diameter, problems.clone()) {
-                Ok(candidate) => return candidate,
+                Ok(candidate) => {
+                    if best
+                        .as_ref()
+                        .is_none_or(|b| screw_order(&candidate, b).is_lt())
+                    {
+                        best = Some(candidate);
+                    }
+                }
                 Err(why) => reason = why,
             }
+        }
+        if let Some(candidate) = best {
+            return candidate;
         }
         let diameter = diameters.first().copied().unwrap_or(geometry.diameter);
         if diameters.len() > 1 {
@@ -669,4 +684,18 @@ impl Shortlist {
             rank_candidates(&mut self.candidates, rank, trip, self.resolution, exponent);
         self.rank = rank;
     }
+}
+
+/// The order of two sized screws for one engine and gear, better first: passing the cavitation
+/// checks, then least fuel per distance at the target speed, then higher top speed, then the
+/// larger diameter (a total order, so the choice is stable).
+fn screw_order(a: &Candidate, b: &Candidate) -> std::cmp::Ordering {
+    let fails = |c: &Candidate| c.top_cavitation.as_ref().is_ok_and(|r| !r.all_passed());
+    let fuel = |c: &Candidate| c.fuel_per_distance.unwrap_or(f64::INFINITY);
+    let top = |c: &Candidate| c.top_speed.unwrap_or(0.0);
+    fails(a)
+        .cmp(&fails(b))
+        .then(fuel(a).total_cmp(&fuel(b)))
+        .then(top(b).total_cmp(&top(a)))
+        .then(b.diameter.total_cmp(&a.diameter))
 }

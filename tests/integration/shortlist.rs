@@ -729,3 +729,48 @@ fn sweep_and_shortlist_share_one_tie_rule() {
     }
     assert!(ties > 0, "the demo sweep has candidates inside the band");
 }
+
+/// The screw of each candidate is chosen by its figures, not by the table's ranking or the
+/// order diameters are tried: ranked by fuel or by top speed, every engine and gear keeps the
+/// same screw; and a row whose checks fail carries the mark the legend explains.
+#[test]
+fn a_candidates_screw_does_not_depend_on_the_ranking_and_failed_checks_are_marked() {
+    let study = demo_study("pintle");
+    let offers = offers_from_store(&demo(), None).unwrap();
+    let by = |rank| {
+        study
+            .shortlist(&offers, &ShortlistOptions { gears: None, rank })
+            .unwrap()
+    };
+    let (fuel, top) = (by(ShortlistRank::Fuel), by(ShortlistRank::Top));
+    for c in &fuel.candidates {
+        let same = top
+            .candidates
+            .iter()
+            .find(|o| o.engine == c.engine && o.gear_ratio == c.gear_ratio)
+            .unwrap();
+        assert_eq!(
+            (c.diameter, c.pitch, c.area_ratio),
+            (same.diameter, same.pitch, same.area_ratio)
+        );
+    }
+    let text = tidewright::report::shortlist::shortlist_text(
+        &fuel,
+        &tidewright::report::Display::new(study.units),
+    );
+    let marked = fuel
+        .candidates
+        .iter()
+        .filter(|c| !tidewright::report::shortlist::check_marks(c).is_empty())
+        .count();
+    assert!(
+        marked > 0,
+        "the demo's 30 mm shaft is thin for the bigger engines"
+    );
+    assert!(text.contains("checks: cav!"), "{text}");
+    for c in &fuel.candidates {
+        let marks = tidewright::report::shortlist::check_marks(c);
+        let cav_failed = c.top_cavitation.as_ref().is_ok_and(|r| !r.all_passed());
+        assert_eq!(marks.contains("cav!"), cav_failed, "{}", c.engine);
+    }
+}
