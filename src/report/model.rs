@@ -289,44 +289,35 @@ impl BoatReport {
 
     /// The before/after section: the baseline and, per variant, its figures beside it.
     pub fn before_after_text(&self, d: &Display) -> Option<String> {
-        let b = self.baseline.as_ref()?;
-        let mut out = String::new();
-        for line in super::baseline::baseline_lines(b, d) {
-            out.push_str(&format!("{line}\n"));
-        }
-        for v in &self.variants {
-            out.push('\n');
-            out.push_str(
-                &super::baseline::before_after_table(
-                    b,
-                    &format!("screw {}", v.label),
-                    &Headline::of(v),
-                    d,
-                )
-                .to_text("  "),
-            );
-        }
-        Some(out)
+        self.before_after(d, "", |t| t.to_text("  "))
     }
 
     /// The before/after section in Markdown.
     pub fn before_after_markdown(&self, d: &Display) -> Option<String> {
+        self.before_after(d, "- ", super::table::Table::to_markdown)
+    }
+
+    /// The before/after section with lines led by `bullet` and tables laid out by `table`.
+    fn before_after(
+        &self,
+        d: &Display,
+        bullet: &str,
+        table: impl Fn(&super::table::Table) -> String,
+    ) -> Option<String> {
         let b = self.baseline.as_ref()?;
         let mut out = String::new();
         for line in super::baseline::baseline_lines(b, d) {
-            out.push_str(&format!("- {line}\n"));
+            out.push_str(&format!("{bullet}{line}\n"));
         }
         for v in &self.variants {
             out.push('\n');
-            out.push_str(
-                &super::baseline::before_after_table(
-                    b,
-                    &format!("screw {}", v.label),
-                    &Headline::of(v),
-                    d,
-                )
-                .to_markdown(),
-            );
+            let planned = format!("screw {}", v.label);
+            out.push_str(&table(&super::baseline::before_after_table(
+                b,
+                &planned,
+                &Headline::of(v),
+                d,
+            )));
         }
         Some(out)
     }

@@ -720,6 +720,7 @@ pub fn calibrate_by_froude(
     options: &CalibrationOptions,
 ) -> Result<FroudeFit, FroudeFitError> {
     validate(runs, options)?;
+    // On calm water, as `calibrate` fits: the margins go on top of the calibrated resistance.
     let calm_model = system.resistance.calm_water();
     let calm_system = System {
         resistance: &calm_model,
