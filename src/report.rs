@@ -77,6 +77,15 @@ pub fn finite_or_none(value: Option<f64>) -> Option<f64> {
     value.filter(|v| v.is_finite())
 }
 
+/// `n` with its noun in the singular or plural ("1 candidate", "3 candidates").
+pub fn count(n: usize, one: &str, many: &str) -> String {
+    if n == 1 {
+        format!("1 {one}")
+    } else {
+        format!("{n} {many}")
+    }
+}
+
 /// `fraction` as a percentage with `decimals` places ("—" when not finite).
 pub fn percent(fraction: f64, decimals: usize) -> String {
     if fraction.is_finite() {
@@ -89,6 +98,13 @@ pub fn percent(fraction: f64, decimals: usize) -> String {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn counts_take_the_singular_for_one() {
+        assert_eq!(count(1, "candidate", "candidates"), "1 candidate");
+        assert_eq!(count(0, "candidate", "candidates"), "0 candidates");
+        assert_eq!(count(2, "run", "runs"), "2 runs");
+    }
 
     #[test]
     fn percent_never_prints_nan() {

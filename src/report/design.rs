@@ -36,7 +36,7 @@ pub struct PitchJson {
     /// The match at the recommended pitch.
     recommended_match: Option<MatchSummaryJson>,
     cure: Option<CureJson>,
-    condition: String,
+    condition: ConditionJson,
     search: String,
     speed_at_target_kn: Option<f64>,
     froude_at_target: Option<f64>,
@@ -44,8 +44,32 @@ pub struct PitchJson {
     warnings: Vec<String>,
 }
 
-impl From<&PitchRecommendation> for PitchJson {
-    fn from(r: &PitchRecommendation) -> Self {
+/// The loading a pitch was chosen for, in JSON (displacement as a mass).
+#[derive(Debug, Serialize)]
+struct ConditionJson {
+    /// The condition's name ("as loaded in the boat file", "full load", …).
+    label: String,
+    /// Displacement, t (the core's volume times the water's density).
+    displacement_t: f64,
+    /// Service margin, fraction of total resistance (as in the `conditions` document).
+    service_margin: f64,
+    /// Fouling as added friction, fraction of friction.
+    fouling: f64,
+    /// Sea-trial resistance factor applied (1 = none).
+    resistance_factor: f64,
+}
+
+impl PitchJson {
+    /// The JSON of `r`, its displacement weighed in water of `water_density` kg/m³.
+    pub fn of(r: &PitchRecommendation, water_density: f64) -> Self {
+        let c = &r.condition;
+        let condition = ConditionJson {
+            label: c.label.clone(),
+            displacement_t: c.displacement_volume * water_density / 1e3,
+            service_margin: c.service_margin,
+            fouling: c.fouling,
+            resistance_factor: c.resistance_factor,
+        };
         Self {
             label: r.label.clone(),
             current_pitch_m: r.current_pitch,
@@ -62,7 +86,7 @@ impl From<&PitchRecommendation> for PitchJson {
             current: r.current.as_ref().map(MatchSummaryJson::from),
             recommended_match: r.at_recommended.as_ref().map(MatchSummaryJson::from),
             cure: r.cure.as_ref().map(CureJson::from),
-            condition: r.condition.describe(),
+            condition,
             search: stop_text(&r.stop),
             speed_at_target_kn: finite_or_none(r.speed_at_target.map(|v| v / KNOT_MPS)),
             froude_at_target: finite_or_none(r.target_validity.map(|v| v.froude)),
@@ -170,11 +194,12 @@ pub fn pitch_text(r: &PitchRecommendation, d: &Display, study: &Study) -> String
             ));
             if let (Some(false), Some(v)) = (r.in_method_range, r.target_validity) {
                 out.push_str(&format!(
-                    "  UNRELIABLE: at {:.0} rpm this pitch runs the boat at {} (Fn {:.2}), outside the resistance method's range — a sea trial decides\n",
+                    "  UNRELIABLE: at {:.0} rpm this pitch runs the boat at {}, where {} — a sea trial decides\n",
                     r.target_point.engine_rpm,
                     r.speed_at_target
                         .map_or("—".into(), |s| d.quantity(s, Kind::Speed)),
-                    v.froude
+                    v.label()
+                        .unwrap_or_else(|| crate::propulsion::hull::UNRELIABLE_WORDS.to_owned())
                 ));
             }
         }

@@ -6,6 +6,7 @@ use super::svg::{Chart, Series, SeriesStyle};
 use super::text::{match_line, operating_table, screw_spec, target_line};
 use super::{CAUTION, Display};
 use crate::profile::Rotation;
+use crate::propulsion::hull::UNRELIABLE_WORDS;
 use crate::propulsion::solver::Vessel;
 use crate::propulsion::solver::pitch::PitchOptions;
 use crate::study::what_if::WhatIfSettings;
@@ -48,8 +49,10 @@ const MARKER_LOOK: usize = 5;
 const UNRELIABLE_LOOK: usize = 4;
 /// The look of a curve before the sea-trial fit (beside the fitted one).
 const BEFORE_FIT_LOOK: usize = 6;
-/// The legend of those markers.
-const UNRELIABLE_NAME: &str = "past the method's range: unreliable";
+/// The legend of those markers, in the core's words for an unreliable point.
+fn unreliable_name() -> String {
+    format!("unreliable: {UNRELIABLE_WORDS}")
+}
 
 /// The charts of the export, in display units: power, speed, fuel rate and range.
 ///
@@ -139,7 +142,7 @@ pub fn charts(
             .map(|c| f(&c))
             .collect();
         (!points.is_empty()).then(|| Series {
-            name: UNRELIABLE_NAME.into(),
+            name: unreliable_name(),
             points,
             style: SeriesStyle::Markers,
             look: UNRELIABLE_LOOK,
@@ -378,9 +381,17 @@ pub fn document(
         ));
         md.push_str(&format!(
             "- {}\n\n",
-            target_line(v, &d, report.trip.target_speed, &report.engine)
+            target_line(
+                v,
+                &d,
+                report.trip.target_speed,
+                &report.engine,
+                &report.resistance
+            )
         ));
-        md.push_str(&operating_table(v, &d, false, report.shafts).to_markdown());
+        md.push_str(
+            &operating_table(v, &d, false, report.shafts, &report.resistance).to_markdown(),
+        );
         md.push_str(&report.variant_checks_markdown(&v.label, &d));
         md.push('\n');
     }

@@ -106,7 +106,7 @@ pub fn point_line(
     let unreliable = if p.in_method_range {
         ""
     } else {
-        " (outside the resistance method's range)"
+        " (unreliable: past the resistance method's range or the displacement-hull speed/length limit)"
     };
     let mut text = format!(
         "{} {} {:.2}:1: {} installed, top speed {}{unreliable}",

@@ -10,6 +10,7 @@ use super::power_speed::{
 use super::svg::{Chart, Series, SeriesStyle};
 use super::table::{Column, Table};
 use super::{CAUTION, Display, KNOT_MPS, LITRE_M3, NAUTICAL_MILE_M};
+use crate::propulsion::hull::UNRELIABLE_WORDS;
 use crate::study::shortlist::{Candidate, Shortlist, ShortlistRank};
 use crate::units::Kind;
 
@@ -287,13 +288,13 @@ pub fn candidate_notes(c: &Candidate, d: &Display) -> Vec<String> {
 /// The text of `shortlist`.
 pub fn shortlist_text(list: &Shortlist, d: &Display) -> String {
     let mut out = format!(
-        "Repower shortlist for {} ({} candidates)\n{}\n\n",
+        "Repower shortlist for {} ({})\n{}\n\n",
         list.boat,
-        list.candidates.len(),
+        super::count(list.candidates.len(), "candidate", "candidates"),
         rank_line(list, d)
     );
     out.push_str(&shortlist_table(list, d).to_text("  "));
-    out.push_str("  * top speed outside the resistance method's range\n\n");
+    out.push_str(&format!("  * top speed {UNRELIABLE_WORDS}\n\n"));
     for (i, c) in list.candidates.iter().enumerate() {
         out.push_str(&format!(
             "#{} {} ({}) with {:.2}:1\n",
@@ -327,7 +328,7 @@ pub fn shortlist_csv(list: &Shortlist, d: &Display) -> String {
 pub fn shortlist_markdown(list: &Shortlist, d: &Display) -> String {
     let mut out = format!("## Repower shortlist\n\n{}.\n\n", rank_line(list, d));
     out.push_str(&shortlist_table(list, d).to_markdown());
-    out.push_str("\n\\* top speed outside the resistance method's range.\n\n");
+    out.push_str(&format!("\n\\* top speed {UNRELIABLE_WORDS}.\n\n"));
     for (i, c) in list.candidates.iter().enumerate() {
         out.push_str(&format!(
             "- **#{} {}** ({:.2}:1): {}\n",
@@ -352,13 +353,20 @@ pub fn shortlist_markdown(list: &Shortlist, d: &Display) -> String {
 /// The chart of fuel per distance at the target speed against top speed, one point per
 /// candidate that has both.
 pub fn shortlist_chart(list: &Shortlist, d: &Display) -> Option<Chart> {
-    let points: Vec<(f64, f64)> = list
+    // Each point is labelled "#n" by its place in the table, so the chart reads against it.
+    let (points, labels): (Vec<(f64, f64)>, Vec<String>) = list
         .candidates
         .iter()
-        .filter_map(|c| Some((c.top_speed?, c.fuel_per_distance?)))
-        .filter(|(x, y)| x.is_finite() && y.is_finite())
-        .map(|(x, y)| (d.scaled(x, Kind::Speed), d.scaled(y, Kind::FuelPerDistance)))
-        .collect();
+        .enumerate()
+        .filter_map(|(i, c)| Some((i, c.top_speed?, c.fuel_per_distance?)))
+        .filter(|(_, x, y)| x.is_finite() && y.is_finite())
+        .map(|(i, x, y)| {
+            (
+                (d.scaled(x, Kind::Speed), d.scaled(y, Kind::FuelPerDistance)),
+                format!("#{}", i + 1),
+            )
+        })
+        .unzip();
     if points.is_empty() {
         return None;
     }
@@ -367,11 +375,11 @@ pub fn shortlist_chart(list: &Shortlist, d: &Display) -> Option<Chart> {
         x_label: format!("top speed ({})", d.unit(Kind::Speed)),
         y_label: format!("fuel ({})", d.unit(Kind::FuelPerDistance)),
         series: vec![Series {
-            name: "candidates".into(),
+            name: "candidates (#n: place in the table)".into(),
             points,
             style: SeriesStyle::Markers,
             look: 0,
-            labels: Vec::new(),
+            labels,
         }],
     })
 }

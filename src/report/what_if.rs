@@ -18,7 +18,7 @@ use crate::units::Kind;
 pub const OMITTED_MARK: &str = "†";
 
 /// The note of a row whose top speed (marked ≈) lies outside the resistance method's range.
-pub const UNRELIABLE_TOP_NOTE: &str = "≈ top speed unreliable: outside the method's range";
+pub const UNRELIABLE_TOP_NOTE: &str = "≈ top speed unreliable: past the resistance method's range or the displacement-hull speed/length limit";
 
 use super::finite_or_none as finite;
 
@@ -270,8 +270,8 @@ impl WhatIf {
 pub struct OutcomeJson {
     /// The condition's label.
     pub label: String,
-    /// Displacement, kg.
-    pub displacement_kg: f64,
+    /// Displacement, t.
+    pub displacement_t: f64,
     /// Displacement volume, m³.
     pub displacement_m3: f64,
     /// Service (sea-state) margin, fraction of resistance.
@@ -357,7 +357,7 @@ pub fn what_if_json(study: &Study, result: &WhatIf) -> WhatIfJson {
         .zip(&result.pitches)
         .map(|(o, p)| OutcomeJson {
             label: o.condition.label.clone(),
-            displacement_kg: o.condition.displacement_volume * result.water_density,
+            displacement_t: o.condition.displacement_volume * result.water_density / 1e3,
             displacement_m3: o.condition.displacement_volume,
             service_margin: o.condition.service_margin,
             fouling: o.condition.fouling,
