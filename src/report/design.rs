@@ -140,6 +140,14 @@ impl From<&PitchCure> for CureJson {
     }
 }
 
+/// The re-pitch limit (m) in the display unit to a tenth, so that the default ±2 in reads
+/// "50.8 mm" as the boat template writes it, not a rounded "51 mm".
+fn repitch_limit_words(limit: f64, d: &Display) -> String {
+    let text = d.number(limit, Kind::ScrewLength, 1);
+    let text = text.strip_suffix(".0").unwrap_or(&text);
+    format!("{text} {}", d.unit(Kind::ScrewLength))
+}
+
 /// How the pitch search ended, in words.
 pub fn stop_text(stop: &crate::propulsion::solver::pitch::SearchStop) -> String {
     use crate::propulsion::solver::pitch::SearchStop;
@@ -184,11 +192,11 @@ pub fn pitch_text(r: &PitchRecommendation, d: &Display, study: &Study) -> String
                 match r.within_repitch_limit {
                     Some(true) => format!(
                         "within the re-pitch limit of ±{}",
-                        d.quantity(r.repitch_limit, Kind::ScrewLength)
+                        repitch_limit_words(r.repitch_limit, d)
                     ),
                     _ => format!(
                         "BEYOND the re-pitch limit of ±{}: a new screw is needed",
-                        d.quantity(r.repitch_limit, Kind::ScrewLength)
+                        repitch_limit_words(r.repitch_limit, d)
                     ),
                 }
             ));

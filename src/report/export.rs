@@ -487,7 +487,7 @@ pub fn design_sections(study: &Study, d: &Display) -> Vec<Section> {
     sections.push(Section {
         title: "What-if conditions".into(),
         body: match what_if {
-            Ok(w) => w.to_markdown(d),
+            Ok(w) => w.to_markdown(d, &study.doc.load),
             Err(e) => format!("Not available: {e:#}"),
         },
     });

@@ -781,3 +781,33 @@ fn resistance_rises_for_every_demo_boat_and_names_its_formula() {
         .failure();
     assert!(String::from_utf8_lossy(&out.get_output().stderr).contains("Fn 2"));
 }
+
+#[test]
+fn conditions_show_each_loading_once_and_say_which_the_file_lacks() {
+    // Sorrel's file has only [load.half], its default: one "as given" row, no "half load"
+    // row repeating it, and a line naming the missing light and full loads.
+    let text = run_text(&["conditions", "sorrel"]);
+    let rows: Vec<&str> = text.lines().filter(|l| l.starts_with("  ")).collect();
+    assert!(
+        rows.iter()
+            .any(|r| r.contains("as given (the file's half load)")),
+        "{text}"
+    );
+    assert!(
+        !rows.iter().any(|r| r.trim_start().starts_with("half load")),
+        "{text}"
+    );
+    assert!(
+        text.contains("no light ([load.light]) or full ([load.full]) load in the boat file"),
+        "{text}"
+    );
+    // Pintle has all three: light and full are rows, half is the "as given" row, and nothing
+    // is said to be missing.
+    let text = run_text(&["conditions", "pintle"]);
+    let starts = |r: &&str, w: &str| r.trim_start().starts_with(w);
+    let rows: Vec<&str> = text.lines().filter(|l| l.starts_with("  ")).collect();
+    assert!(rows.iter().any(|r| starts(r, "light ")), "{text}");
+    assert!(rows.iter().any(|r| starts(r, "full load ")), "{text}");
+    assert!(!rows.iter().any(|r| starts(r, "half load ")), "{text}");
+    assert!(!text.contains("load in the boat file: add"), "{text}");
+}

@@ -288,17 +288,13 @@ impl SpeedValidity {
             (false, Some((_, high))) if self.froude > high => {
                 parts.push(format!("Fn {:.2} > {high:.2}", self.froude));
             }
-            (false, Some((low, high))) => parts.push(format!(
-                "Fn {:.2} outside {low:.2}–{high:.2}",
-                self.froude
-            )),
+            (false, Some((low, high))) => {
+                parts.push(format!("Fn {:.2} outside {low:.2}–{high:.2}", self.froude))
+            }
             _ => {}
         }
         if let (false, Some(limit)) = (self.speed_length_in_range, self.speed_length_limit) {
-            parts.push(format!(
-                "S/L {:.2} > {limit:.2}",
-                self.speed_length_ratio
-            ));
+            parts.push(format!("S/L {:.2} > {limit:.2}", self.speed_length_ratio));
         }
         if self.regime.is_extrapolation() {
             parts.push(self.regime.phrase().to_owned());

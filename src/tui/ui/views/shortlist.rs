@@ -2,9 +2,9 @@
 //! highlighted; the highlighted candidate's checks under the table.
 
 use super::{UNRELIABLE_TOP_LEGEND, dash, heading, number, top_speed};
-use crate::report::{Display, count};
 use crate::report::power_speed::{point_line, power_summary};
 use crate::report::shortlist::{candidate_notes, rank_line};
+use crate::report::{Display, count};
 use crate::study::power_speed::{PowerForSpeed, PowerPoint};
 use crate::study::shortlist::{Candidate, Shortlist, ShortlistRank};
 use crate::tui::analysis::ShortlistView;
