@@ -65,6 +65,11 @@ impl Display {
         units::to_display(value, kind, self.system)
     }
 
+    /// A core message with its screw lengths in the display unit only ([`units::in_system`]).
+    pub fn words(&self, text: &str) -> String {
+        units::in_system(text, self.system)
+    }
+
     /// `value` (SI) of `kind` with its unit, as the units module writes it.
     pub fn quantity(&self, value: f64, kind: Kind) -> String {
         units::format(value, kind, self.system)

@@ -211,7 +211,10 @@ pub fn pitch_text(r: &PitchRecommendation, d: &Display, study: &Study) -> String
                 ));
             }
         }
-        _ => out.push_str(&format!("  no pitch recommended: {}\n", stop_text(&r.stop))),
+        _ => out.push_str(&format!(
+            "  no pitch recommended: {}\n",
+            d.words(&stop_text(&r.stop))
+        )),
     }
     let rated_rpm = r.rated_rpm;
     if let Some(m) = &r.current {
@@ -333,7 +336,7 @@ pub fn sweep_text(result: &SweepResult, label: &str, d: &Display, shafts: u32) -
             [
                 (c.top_speed_in_method_range == Some(false))
                     .then(|| UNRELIABLE_TOP_NOTE.to_string()),
-                c.problem.clone(),
+                c.problem.as_deref().map(|p| d.words(p)),
             ]
             .into_iter()
             .flatten()

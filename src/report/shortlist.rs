@@ -212,7 +212,11 @@ pub fn rank_line(list: &Shortlist, d: &Display) -> String {
 pub fn candidate_notes(c: &Candidate, d: &Display) -> Vec<String> {
     let mut lines = Vec::new();
     if c.pitch.is_none() {
-        lines.extend(c.problems.iter().map(|p| format!("problem: {p}")));
+        lines.extend(
+            c.problems
+                .iter()
+                .map(|p| format!("problem: {}", d.words(p))),
+        );
         return lines;
     }
     if c.area_raised {
@@ -280,7 +284,7 @@ pub fn candidate_notes(c: &Candidate, d: &Display) -> Vec<String> {
         Err(e) => lines.push(format!("cavitation at top speed: not checked ({e})")),
     }
     for p in &c.problems {
-        lines.push(format!("problem: {p}"));
+        lines.push(format!("problem: {}", d.words(p)));
     }
     lines
 }

@@ -811,3 +811,21 @@ fn conditions_show_each_loading_once_and_say_which_the_file_lacks() {
     assert!(!rows.iter().any(|r| starts(r, "half load ")), "{text}");
     assert!(!text.contains("load in the boat file: add"), "{text}");
 }
+
+#[test]
+fn metric_output_gives_the_core_messages_lengths_in_millimetres_only() {
+    // Samphire's file is metric: the sweep's "no pitch" message names its pitch in mm alone.
+    let text = run_text(&["sweep", "samphire"]);
+    assert!(
+        text.contains("the smallest searched pitch 305 mm"),
+        "{text}"
+    );
+    assert!(!text.contains(" in)"), "{text}");
+    // Asked for imperial, the same message is in inches alone.
+    let text = run_text(&["--units", "imperial", "sweep", "samphire"]);
+    assert!(
+        text.contains("the smallest searched pitch 12.0 in"),
+        "{text}"
+    );
+    assert!(!text.contains(" m ("), "{text}");
+}

@@ -68,7 +68,12 @@ fn serve_once(listener: TcpListener, text: String, hold: Duration) -> std::threa
 fn before_the_first_run_the_live_line_says_what_takes_one() {
     let log = super::trial_import::pintle_log_with(TimePrefix::Iso);
     // The first stretch of the first leg only: steady, but the rpm never changes after it.
-    let first: String = log.nmea.lines().take(120).map(|l| format!("{l}\r\n")).collect();
+    let first: String = log
+        .nmea
+        .lines()
+        .take(120)
+        .map(|l| format!("{l}\r\n"))
+        .collect();
     let listener = TcpListener::bind("127.0.0.1:0").unwrap();
     let address = listener.local_addr().unwrap();
     let server = serve_once(listener, first, Duration::from_millis(50));

@@ -18,6 +18,9 @@ use ratatui::text::{Line, Span};
 /// The widest engine name the table gives room to, characters.
 const ENGINE_WIDTH: usize = 16;
 
+/// The text of one column's cell for candidate `i` (0-based place in the list).
+type Cell = Box<dyn Fn(usize, &Candidate) -> String>;
+
 /// One column of the shortlist table: heading, width, and the cell of each candidate.
 struct Column {
     /// The heading (its unit in it).
@@ -31,7 +34,7 @@ struct Column {
     /// Whether cells are left-aligned.
     left: bool,
     /// The cell of candidate `i` (0-based place in the list).
-    cell: Box<dyn Fn(usize, &Candidate) -> String>,
+    cell: Cell,
 }
 
 /// The table's columns, most wanted first: the ones a narrow screen keeps. The ranked
@@ -46,7 +49,7 @@ fn columns(rank: ShortlistRank, system: UnitSystem, engine_width: usize) -> Vec<
                name: &'static str,
                unit: &str,
                width: usize,
-               cell: Box<dyn Fn(usize, &Candidate) -> String>| Column {
+               cell: Cell| Column {
         width: width.max(head.chars().count()),
         head,
         name,
