@@ -45,11 +45,7 @@ fn columns(rank: ShortlistRank, system: UnitSystem, engine_width: usize) -> Vec<
     let fuel_nm = units::unit_label(Kind::FuelPerDistance, system).to_string();
     let fuel_h = units::unit_label(Kind::FuelRate, system).to_string();
     let distance = units::unit_label(Kind::Distance, system).to_string();
-    let col = |head: String,
-               name: &'static str,
-               unit: &str,
-               width: usize,
-               cell: Cell| Column {
+    let col = |head: String, name: &'static str, unit: &str, width: usize, cell: Cell| Column {
         width: width.max(head.chars().count()),
         head,
         name,
