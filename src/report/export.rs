@@ -122,16 +122,6 @@ pub fn charts(
             )
         })
         .collect();
-    if !meeting.is_empty() {
-        power.push(Series {
-            name: "full-throttle point".into(),
-            points: meeting,
-            style: SeriesStyle::Markers,
-            look: MARKER_LOOK,
-            labels: Vec::new(),
-        });
-    }
-
     // Points outside the resistance method's range (the core's in_method_range) are ringed.
     let unreliable = |f: &dyn Fn(&crate::propulsion::solver::CruisePoint) -> (f64, f64)| {
         let points: Vec<(f64, f64)> = curves
@@ -155,6 +145,16 @@ pub fn charts(
             d.scaled(c.point.brake_power_per_engine, Kind::Power),
         )
     }));
+    // The full-throttle points last of all, so that neither a curve nor a ring covers them.
+    if !meeting.is_empty() {
+        power.push(Series {
+            name: "full-throttle point".into(),
+            points: meeting,
+            style: SeriesStyle::Markers,
+            look: MARKER_LOOK,
+            labels: Vec::new(),
+        });
+    }
     let mut speed = per_variant(&|c| (c.point.engine_rpm, d.scaled(c.point.speed, Kind::Speed)));
     speed.extend(unreliable(&|c| {
         (c.point.engine_rpm, d.scaled(c.point.speed, Kind::Speed))

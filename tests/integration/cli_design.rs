@@ -547,6 +547,19 @@ fn the_exported_charts_ring_points_past_the_method_and_the_report_marks_the_top_
             "{chart}"
         );
     }
+    // The full-throttle marker is drawn last, over every curve and ring.
+    let power = std::fs::read_to_string(out.join("power.svg")).unwrap();
+    let marker = power
+        .find("<title>full-throttle point</title>")
+        .expect("a full-throttle marker");
+    assert!(
+        power.rfind("<polyline").unwrap() < marker,
+        "a curve over the marker"
+    );
+    assert!(
+        !power[marker..].contains("<g class=\"series\">"),
+        "a series drawn over the full-throttle marker"
+    );
     let md = std::fs::read_to_string(out.join("report.md")).unwrap();
     assert!(
         md.contains("(UNRELIABLE: Fn 0.56 is past the method's Froude range"),
