@@ -28,8 +28,10 @@ pub struct PitchJson {
     rpm_per_10mm: Option<f64>,
     target: String,
     target_rpm: f64,
-    target_kw: f64,
-    absorbed_kw: Option<f64>,
+    /// Brake power of each engine at the target, kW.
+    target_kw_per_engine: f64,
+    /// Brake power each engine's screw absorbs at the recommended pitch, kW.
+    absorbed_kw_per_engine: Option<f64>,
     /// The current screw's match.
     #[serde(rename = "match")]
     current: Option<MatchSummaryJson>,
@@ -81,8 +83,8 @@ impl PitchJson {
             rpm_per_10mm: finite_or_none(r.rpm_per_10mm),
             target: r.target.describe(),
             target_rpm: r.target_point.engine_rpm,
-            target_kw: r.target_point.brake_power / 1e3,
-            absorbed_kw: finite_or_none(r.absorbed_power.map(|w| w / 1e3)),
+            target_kw_per_engine: r.target_point.brake_power / 1e3,
+            absorbed_kw_per_engine: finite_or_none(r.absorbed_power.map(|w| w / 1e3)),
             current: r.current.as_ref().map(MatchSummaryJson::from),
             recommended_match: r.at_recommended.as_ref().map(MatchSummaryJson::from),
             cure: r.cure.as_ref().map(CureJson::from),

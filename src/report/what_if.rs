@@ -404,9 +404,9 @@ pub struct OutcomeJson {
 pub struct BandPointJson {
     engine_rpm: f64,
     speed_kn: Option<f64>,
-    power_kw: Option<f64>,
-    low_kw: Option<f64>,
-    high_kw: Option<f64>,
+    power_kw_per_engine: Option<f64>,
+    low_kw_per_engine: Option<f64>,
+    high_kw_per_engine: Option<f64>,
 }
 
 /// The band in JSON.
@@ -480,9 +480,9 @@ pub fn what_if_json(study: &Study, result: &WhatIf) -> WhatIfJson {
             .map(|p| BandPointJson {
                 engine_rpm: p.engine_rpm,
                 speed_kn: finite(p.nominal_speed).map(|v| v / KNOT_MPS),
-                power_kw: kw(p.nominal_power),
-                low_kw: kw(p.low_power),
-                high_kw: kw(p.high_power),
+                power_kw_per_engine: kw(p.nominal_power),
+                low_kw_per_engine: kw(p.low_power),
+                high_kw_per_engine: kw(p.high_power),
             })
             .collect(),
         pitch_nominal_m: finite(b.pitch_nominal),

@@ -239,7 +239,11 @@ fn conditions_heavier_boat_needs_more_power_and_turns_fewer_rpm() {
     assert!(lo < mid && mid < hi, "{lo} {mid} {hi}");
     assert_eq!(band["displacement_spread"].as_f64().unwrap(), 0.10);
     for p in band["points"].as_array().unwrap() {
-        let (l, n, h) = (f(p, "low_kw"), f(p, "power_kw"), f(p, "high_kw"));
+        let (l, n, h) = (
+            f(p, "low_kw_per_engine"),
+            f(p, "power_kw_per_engine"),
+            f(p, "high_kw_per_engine"),
+        );
         assert!(l <= n && n <= h, "{p}");
     }
     assert!(doc["caution"].as_str().unwrap().contains("surveyor"));
