@@ -516,3 +516,18 @@ pub fn what_if_text(study: &Study, result: &WhatIf, d: &Display) -> String {
         result.to_text(d, &study.doc.load)
     )
 }
+
+#[cfg(test)]
+mod tests {
+    use crate::propulsion::hull::UNRELIABLE_WORDS;
+
+    #[test]
+    fn every_legend_of_an_unreliable_figure_uses_the_cores_words() {
+        for legend in [
+            super::UNRELIABLE_TOP_NOTE,
+            crate::report::power_speed::SHARE_NOTE,
+        ] {
+            assert!(legend.contains(UNRELIABLE_WORDS), "{legend}");
+        }
+    }
+}
