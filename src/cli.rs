@@ -311,6 +311,9 @@ pub struct DesignArgs {
     /// rpm held within this many rpm of a run's mean (default 25, or 1.5 % when larger).
     #[arg(long, value_name = "RPM", requires = "import")]
     pub rpm_tolerance: Option<f64>,
+    /// Largest speed scatter (standard deviation of SOG) of a steady run, knots (default 0.25).
+    #[arg(long, value_name = "KN", requires = "import")]
+    pub max_scatter: Option<f64>,
 }
 
 /// The format of an instrument log.

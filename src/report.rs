@@ -67,6 +67,11 @@ impl Display {
         units::to_display(value, kind, self.system)
     }
 
+    /// A core message with its screw lengths in the display unit only ([`units::in_system`]).
+    pub fn words(&self, text: &str) -> String {
+        units::in_system(text, self.system)
+    }
+
     /// `value` (SI) of `kind` with its unit, as the units module writes it.
     pub fn quantity(&self, value: f64, kind: Kind) -> String {
         units::format(value, kind, self.system)
@@ -77,6 +82,15 @@ impl Display {
 /// carries NaN).
 pub fn finite_or_none(value: Option<f64>) -> Option<f64> {
     value.filter(|v| v.is_finite())
+}
+
+/// `n` with its noun in the singular or plural ("1 candidate", "3 candidates").
+pub fn count(n: usize, one: &str, many: &str) -> String {
+    if n == 1 {
+        format!("1 {one}")
+    } else {
+        format!("{n} {many}")
+    }
 }
 
 /// `fraction` as a percentage with `decimals` places ("—" when not finite).
@@ -91,6 +105,13 @@ pub fn percent(fraction: f64, decimals: usize) -> String {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn counts_take_the_singular_for_one() {
+        assert_eq!(count(1, "candidate", "candidates"), "1 candidate");
+        assert_eq!(count(0, "candidate", "candidates"), "0 candidates");
+        assert_eq!(count(2, "run", "runs"), "2 runs");
+    }
 
     #[test]
     fn percent_never_prints_nan() {

@@ -200,6 +200,34 @@ pub fn format(value: f64, kind: Kind, system: UnitSystem) -> String {
     format_in(value, kind, system, text_style())
 }
 
+/// A message from the core with its screw lengths, which the core writes in metres with
+/// inches beside them ("0.305 m (12.0 in)", `propulsion::screw_length_words`), in `system`'s
+/// unit only ("305 mm" or "12.0 in"): metric output stays metric, imperial imperial.
+pub fn in_system(text: &str, system: UnitSystem) -> String {
+    let mut out = String::with_capacity(text.len());
+    let mut rest = text;
+    while let Some(end) = rest.find(" in)") {
+        let head = &rest[..end];
+        // "… 0.305 m (12.0": the metres before " m (", the inches after it.
+        let pair = head.rfind(" m (").and_then(|open| {
+            let inches: f64 = head[open + 4..].parse().ok()?;
+            let start = head[..open].rfind(' ').map_or(0, |i| i + 1);
+            let metres: f64 = head[start..open].parse().ok()?;
+            (metres.is_finite() && inches.is_finite()).then_some((start, metres))
+        });
+        match pair {
+            Some((start, metres)) => {
+                out.push_str(&head[..start]);
+                out.push_str(&format(metres, Kind::ScrewLength, system));
+            }
+            None => out.push_str(&rest[..end + 4]),
+        }
+        rest = &rest[end + 4..];
+    }
+    out.push_str(rest);
+    out
+}
+
 /// Formats `value` like [`format`], in the text style `style` rather than the program's.
 ///
 /// Precision per kind: the unit's usual decimals, more for small values (two significant
@@ -408,6 +436,23 @@ fn decimals_for(shown: f64, usual: usize) -> usize {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn a_core_message_keeps_only_the_display_unit() {
+        let text =
+            "the smallest searched pitch 0.305 m (12.0 in) absorbs still 112 % of the target";
+        let metric = in_system(text, UnitSystem::Metric);
+        assert_eq!(
+            metric,
+            "the smallest searched pitch 305 mm absorbs still 112 % of the target"
+        );
+        let imperial = in_system(text, UnitSystem::Imperial);
+        assert!(imperial.contains("pitch 12.0 in absorbs"), "{imperial}");
+        assert!(!imperial.contains(" m "), "{imperial}");
+        // Text without the core's pair is left as it is, brackets and all.
+        let plain = "a shaft (1.5 in) and 3 m (of chain)";
+        assert_eq!(in_system(plain, UnitSystem::Metric), plain);
+    }
 
     #[test]
     fn every_listed_spelling_parses_to_its_unit() {

@@ -121,7 +121,12 @@ pub fn cruise(ctx: &Context, args: &CruiseArgs, out: &mut dyn Write) -> anyhow::
             writeln!(
                 out,
                 "{}",
-                cruise_line(&screw, &point, &Display::new(study.units))
+                cruise_line(
+                    &screw,
+                    &point,
+                    &Display::new(study.units),
+                    &vessel.resistance
+                )
             )?;
             writeln!(out, "{}", study.calibration_line())?;
             writeln!(out, "Caution: {CAUTION}")?;

@@ -35,6 +35,15 @@ fn run_options(args: &DesignArgs) -> anyhow::Result<RunOptions> {
         options.rpm_tolerance_rpm = rpm;
         options.rpm_tolerance_fraction = 0.0;
     }
+    if let Some(kn) = args.max_scatter {
+        if !(kn.is_finite() && kn > 0.0 && kn <= 2.0) {
+            return Err(UsageError(format!(
+                "--max-scatter: expected knots above 0 and at most 2, got {kn}"
+            ))
+            .into());
+        }
+        options.max_speed_std = kn * crate::units::KNOT_MPS;
+    }
     Ok(options)
 }
 

@@ -42,8 +42,12 @@ pub fn run(ctx: &Context, args: &NewArgs, out: &mut dyn Write) -> anyhow::Result
     let keys = unfilled_keys(&text);
     writeln!(
         out,
-        "fill in these {} keys (each written `KEY = \"FILL IN\"`; the comment beside each says what it wants):",
-        keys.len()
+        "fill in {} (each written `KEY = \"FILL IN\"`; the comment beside each says what it wants):",
+        if keys.len() == 1 {
+            "this key".to_string()
+        } else {
+            format!("these {} keys", keys.len())
+        }
     )?;
     for key in &keys {
         writeln!(out, "  {key}")?;

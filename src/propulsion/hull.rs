@@ -14,7 +14,7 @@ pub use particulars::{HullForm, HullInput};
 pub use regime::{CurveShape, Regime};
 pub use resistance::{
     AirDrag, FroudeFactor, Margins, ResistanceComponents, ResistanceMethod, ResistanceModel,
-    ResistanceTable, SpeedValidity,
+    ResistanceTable, SpeedValidity, UNRELIABLE_WORDS,
 };
 pub use selection::{MethodChoice, choose_method};
 

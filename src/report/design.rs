@@ -28,15 +28,17 @@ pub struct PitchJson {
     rpm_per_10mm: Option<f64>,
     target: String,
     target_rpm: f64,
-    target_kw: f64,
-    absorbed_kw: Option<f64>,
+    /// Brake power of each engine at the target, kW.
+    target_kw_per_engine: f64,
+    /// Brake power each engine's screw absorbs at the recommended pitch, kW.
+    absorbed_kw_per_engine: Option<f64>,
     /// The current screw's match.
     #[serde(rename = "match")]
     current: Option<MatchSummaryJson>,
     /// The match at the recommended pitch.
     recommended_match: Option<MatchSummaryJson>,
     cure: Option<CureJson>,
-    condition: String,
+    condition: ConditionJson,
     search: String,
     speed_at_target_kn: Option<f64>,
     froude_at_target: Option<f64>,
@@ -46,8 +48,32 @@ pub struct PitchJson {
     pub(crate) delta: Option<super::baseline::HeadlineJson>,
 }
 
-impl From<&PitchRecommendation> for PitchJson {
-    fn from(r: &PitchRecommendation) -> Self {
+/// The loading a pitch was chosen for, in JSON (displacement as a mass).
+#[derive(Debug, Serialize)]
+struct ConditionJson {
+    /// The condition's name ("as loaded in the boat file", "full load", …).
+    label: String,
+    /// Displacement, t (the core's volume times the water's density).
+    displacement_t: f64,
+    /// Service margin, fraction of total resistance (as in the `conditions` document).
+    service_margin: f64,
+    /// Fouling as added friction, fraction of friction.
+    fouling: f64,
+    /// Sea-trial resistance factor applied (1 = none).
+    resistance_factor: f64,
+}
+
+impl PitchJson {
+    /// The JSON of `r`, its displacement weighed in water of `water_density` kg/m³.
+    pub fn of(r: &PitchRecommendation, water_density: f64) -> Self {
+        let c = &r.condition;
+        let condition = ConditionJson {
+            label: c.label.clone(),
+            displacement_t: c.displacement_volume * water_density / 1e3,
+            service_margin: c.service_margin,
+            fouling: c.fouling,
+            resistance_factor: c.resistance_factor,
+        };
         Self {
             label: r.label.clone(),
             current_pitch_m: r.current_pitch,
@@ -59,12 +85,12 @@ impl From<&PitchRecommendation> for PitchJson {
             rpm_per_10mm: finite_or_none(r.rpm_per_10mm),
             target: r.target.describe(),
             target_rpm: r.target_point.engine_rpm,
-            target_kw: r.target_point.brake_power / 1e3,
-            absorbed_kw: finite_or_none(r.absorbed_power.map(|w| w / 1e3)),
+            target_kw_per_engine: r.target_point.brake_power / 1e3,
+            absorbed_kw_per_engine: finite_or_none(r.absorbed_power.map(|w| w / 1e3)),
             current: r.current.as_ref().map(MatchSummaryJson::from),
             recommended_match: r.at_recommended.as_ref().map(MatchSummaryJson::from),
             cure: r.cure.as_ref().map(CureJson::from),
-            condition: r.condition.describe(),
+            condition,
             search: stop_text(&r.stop),
             speed_at_target_kn: finite_or_none(r.speed_at_target.map(|v| v / KNOT_MPS)),
             froude_at_target: finite_or_none(r.target_validity.map(|v| v.froude)),
@@ -119,6 +145,14 @@ impl From<&PitchCure> for CureJson {
     }
 }
 
+/// The re-pitch limit (m) in the display unit to a tenth, so that the default ±2 in reads
+/// "50.8 mm" as the boat template writes it, not a rounded "51 mm".
+fn repitch_limit_words(limit: f64, d: &Display) -> String {
+    let text = d.number(limit, Kind::ScrewLength, 1);
+    let text = text.strip_suffix(".0").unwrap_or(&text);
+    format!("{text} {}", d.unit(Kind::ScrewLength))
+}
+
 /// How the pitch search ended, in words.
 pub fn stop_text(stop: &crate::propulsion::solver::pitch::SearchStop) -> String {
     use crate::propulsion::solver::pitch::SearchStop;
@@ -163,25 +197,29 @@ pub fn pitch_text(r: &PitchRecommendation, d: &Display, study: &Study) -> String
                 match r.within_repitch_limit {
                     Some(true) => format!(
                         "within the re-pitch limit of ±{}",
-                        d.quantity(r.repitch_limit, Kind::ScrewLength)
+                        repitch_limit_words(r.repitch_limit, d)
                     ),
                     _ => format!(
                         "BEYOND the re-pitch limit of ±{}: a new screw is needed",
-                        d.quantity(r.repitch_limit, Kind::ScrewLength)
+                        repitch_limit_words(r.repitch_limit, d)
                     ),
                 }
             ));
             if let (Some(false), Some(v)) = (r.in_method_range, r.target_validity) {
                 out.push_str(&format!(
-                    "  UNRELIABLE: at {:.0} rpm this pitch runs the boat at {} (Fn {:.2}), outside the resistance method's range — a sea trial decides\n",
+                    "  UNRELIABLE: at {:.0} rpm this pitch runs the boat at {}, where {} — a sea trial decides\n",
                     r.target_point.engine_rpm,
                     r.speed_at_target
                         .map_or("—".into(), |s| d.quantity(s, Kind::Speed)),
-                    v.froude
+                    v.label()
+                        .unwrap_or_else(|| crate::propulsion::hull::UNRELIABLE_WORDS.to_owned())
                 ));
             }
         }
-        _ => out.push_str(&format!("  no pitch recommended: {}\n", stop_text(&r.stop))),
+        _ => out.push_str(&format!(
+            "  no pitch recommended: {}\n",
+            d.words(&stop_text(&r.stop))
+        )),
     }
     let rated_rpm = r.rated_rpm;
     if let Some(m) = &r.current {
@@ -312,7 +350,7 @@ pub fn sweep_text(result: &SweepResult, label: &str, d: &Display, shafts: u32) -
             [
                 (c.top_speed_in_method_range == Some(false))
                     .then(|| UNRELIABLE_TOP_NOTE.to_string()),
-                c.problem.clone(),
+                c.problem.as_deref().map(|p| d.words(p)),
             ]
             .into_iter()
             .flatten()

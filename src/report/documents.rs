@@ -7,9 +7,11 @@ use super::checks::AppliedCalibration;
 use super::design::PitchJson;
 use super::finite_or_none;
 use super::json::PointJson;
+use super::model::unreliable_label;
 use super::text::cruise_summary;
 use super::{CAUTION, Display, KNOT_MPS, LITRE_M3, NAUTICAL_MILE_M};
 use crate::profile::store::Saved;
+use crate::propulsion::hull::ResistanceModel;
 use crate::propulsion::solver::CruisePoint;
 use crate::propulsion::solver::pitch::PitchRecommendation;
 use crate::propulsion::solver::sweep::SweepResult;
@@ -33,7 +35,7 @@ pub fn cruise_json<'a>(
     index: usize,
     point: &CruisePoint,
 ) -> Option<CruiseJson<'a>> {
-    let json_point = PointJson::from(point);
+    let json_point = PointJson::of(point, &study.vessel.resistance);
     let all_finite = [
         json_point.engine_rpm,
         json_point.speed_kn,
@@ -56,16 +58,18 @@ pub fn cruise_json<'a>(
 
 /// The text line of `cruise`: which screw, the point, past full load, or outside the method's
 /// range. `screw` names the variant ("screw re-pitched 26x17.5 (the boat file's active one)").
-pub fn cruise_line(screw: &str, point: &CruisePoint, d: &Display) -> String {
+pub fn cruise_line(
+    screw: &str,
+    point: &CruisePoint,
+    d: &Display,
+    resistance: &ResistanceModel,
+) -> String {
     let mut line = format!("{screw}: {}", cruise_summary(point, d));
     if point.beyond_full_load {
         line.push_str(" — past the engine's full-load curve: not reachable");
     }
-    if !point.point.in_method_range {
-        line.push_str(&format!(
-            " — UNRELIABLE: Fn {:.2}, outside the resistance method's range; a sea trial decides",
-            point.point.froude
-        ));
+    if let Some(why) = unreliable_label(resistance, &point.point) {
+        line.push_str(&format!(" — UNRELIABLE: {why}; a sea trial decides"));
     }
     line
 }
@@ -93,7 +97,7 @@ pub fn pitch_json(study: &Study, recs: &[PitchRecommendation]) -> PitchDoc {
         variants: recs
             .iter()
             .map(|r| {
-                let mut json = PitchJson::from(r);
+                let mut json = PitchJson::of(r, study.vessel.resistance.water.density);
                 json.delta = study
                     .variant(Some(&r.label))
                     .ok()

@@ -6,6 +6,7 @@ use super::svg::{Chart, Series, SeriesStyle};
 use super::text::{match_line, operating_table, screw_spec, target_line};
 use super::{CAUTION, Display};
 use crate::profile::Rotation;
+use crate::propulsion::hull::UNRELIABLE_WORDS;
 use crate::propulsion::solver::Vessel;
 use crate::propulsion::solver::pitch::PitchOptions;
 use crate::study::what_if::WhatIfSettings;
@@ -48,8 +49,10 @@ const MARKER_LOOK: usize = 5;
 const UNRELIABLE_LOOK: usize = 4;
 /// The look of a curve before the sea-trial fit (beside the fitted one).
 const BEFORE_FIT_LOOK: usize = 6;
-/// The legend of those markers.
-const UNRELIABLE_NAME: &str = "past the method's range: unreliable";
+/// The legend of those markers, in the core's words for an unreliable point.
+fn unreliable_name() -> String {
+    format!("unreliable: {UNRELIABLE_WORDS}")
+}
 
 /// The charts of the export, in display units: power, speed, fuel rate and range.
 ///
@@ -119,16 +122,6 @@ pub fn charts(
             )
         })
         .collect();
-    if !meeting.is_empty() {
-        power.push(Series {
-            name: "full-throttle point".into(),
-            points: meeting,
-            style: SeriesStyle::Markers,
-            look: MARKER_LOOK,
-            labels: Vec::new(),
-        });
-    }
-
     // Points outside the resistance method's range (the core's in_method_range) are ringed.
     let unreliable = |f: &dyn Fn(&crate::propulsion::solver::CruisePoint) -> (f64, f64)| {
         let points: Vec<(f64, f64)> = curves
@@ -139,7 +132,7 @@ pub fn charts(
             .map(|c| f(&c))
             .collect();
         (!points.is_empty()).then(|| Series {
-            name: UNRELIABLE_NAME.into(),
+            name: unreliable_name(),
             points,
             style: SeriesStyle::Markers,
             look: UNRELIABLE_LOOK,
@@ -152,6 +145,16 @@ pub fn charts(
             d.scaled(c.point.brake_power_per_engine, Kind::Power),
         )
     }));
+    // The full-throttle points last of all, so that neither a curve nor a ring covers them.
+    if !meeting.is_empty() {
+        power.push(Series {
+            name: "full-throttle point".into(),
+            points: meeting,
+            style: SeriesStyle::Markers,
+            look: MARKER_LOOK,
+            labels: Vec::new(),
+        });
+    }
     let mut speed = per_variant(&|c| (c.point.engine_rpm, d.scaled(c.point.speed, Kind::Speed)));
     speed.extend(unreliable(&|c| {
         (c.point.engine_rpm, d.scaled(c.point.speed, Kind::Speed))
@@ -378,9 +381,17 @@ pub fn document(
         ));
         md.push_str(&format!(
             "- {}\n\n",
-            target_line(v, &d, report.trip.target_speed, &report.engine)
+            target_line(
+                v,
+                &d,
+                report.trip.target_speed,
+                &report.engine,
+                &report.resistance
+            )
         ));
-        md.push_str(&operating_table(v, &d, false, report.shafts).to_markdown());
+        md.push_str(
+            &operating_table(v, &d, false, report.shafts, &report.resistance).to_markdown(),
+        );
         md.push_str(&report.variant_checks_markdown(&v.label, &d));
         md.push('\n');
     }
@@ -489,7 +500,7 @@ pub fn design_sections(study: &Study, d: &Display) -> Vec<Section> {
     sections.push(Section {
         title: "What-if conditions".into(),
         body: match what_if {
-            Ok(w) => w.to_markdown(d),
+            Ok(w) => w.to_markdown(d, &study.doc.load),
             Err(e) => format!("Not available: {e:#}"),
         },
     });

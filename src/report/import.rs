@@ -5,7 +5,7 @@ use serde::Serialize;
 
 use super::KNOT_MPS;
 use super::table::{Column, Table};
-use crate::instruments::runs::{FoundRuns, NoRunError, RejectedRun};
+use crate::instruments::runs::{FoundRuns, NoRunError, RejectReason, RejectedRun};
 use crate::instruments::time::clock_of;
 use crate::instruments::{LineSummary, LogFormat};
 use crate::propulsion::solver::trial::RunDirection;
@@ -110,8 +110,9 @@ pub fn import_text(imported: &TrialImport) -> String {
     if !rejected.is_empty() {
         out.push_str(&format!("Rejected: {} segment(s)\n", rejected.len()));
         for r in rejected {
+            let hint = rejection_hint(&r.reason).map_or(String::new(), |h| format!(" ({h})"));
             out.push_str(&format!(
-                "  {}–{}  {:.0} rpm  {}\n",
+                "  {}–{}  {:.0} rpm  {}{hint}\n",
                 clock_of(r.start_s),
                 clock_of(r.end_s),
                 r.engine_rpm,
@@ -146,6 +147,23 @@ struct RunJson {
     heading_deg: Option<f64>,
     direction: &'static str,
     paired_with: Option<usize>,
+}
+
+/// Which setting of `trial --import` lets a segment rejected for `reason` through, or what to
+/// do when no setting does, in words for the line after the reason.
+pub fn rejection_hint(reason: &RejectReason) -> Option<&'static str> {
+    match reason {
+        RejectReason::TooShort { .. } => Some("--min-run sets the shortest run kept"),
+        RejectReason::SpeedNotSteady { .. } => Some("--max-scatter sets the limit"),
+        RejectReason::RpmDrifting { .. } => Some("--rpm-tolerance sets the limit"),
+        RejectReason::SpeedDrifting { .. } => {
+            Some("still gaining or losing speed: hold the throttle longer before the run")
+        }
+        RejectReason::NoGpsFix { .. } => {
+            Some("the log needs a speed over ground (RMC or VTG sentences, or a sog column)")
+        }
+        RejectReason::NotUnderWay { .. } => None,
+    }
 }
 
 /// One rejected segment in JSON.

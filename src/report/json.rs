@@ -5,8 +5,10 @@ use crate::study::baseline::Headline;
 use serde::Serialize;
 
 use super::checks::{AppliedCalibration, CavitationJson, DesignChecks, ShaftJson};
-use super::model::{BoatReport, MethodSummary};
+use super::finite_or_none;
+use super::model::{BoatReport, MethodSummary, unreliable_label};
 use super::{CAUTION, KNOT_MPS, LITRE_M3, NAUTICAL_MILE_M};
+use crate::propulsion::hull::ResistanceModel;
 use crate::propulsion::solver::{CruisePoint, MethodSpread, Verdict};
 
 /// Serialises `value` as pretty JSON with a trailing newline.
@@ -45,7 +47,7 @@ impl BoatReport {
                     let mut unsolved = Vec::new();
                     for row in &v.rows {
                         match &row.outcome {
-                            Ok(c) => points.push(PointJson::from(c)),
+                            Ok(c) => points.push(PointJson::of(c, &self.resistance)),
                             Err(reason) => unsolved.push(UnsolvedJson {
                                 engine_rpm: row.engine_rpm,
                                 reason: reason.clone(),
@@ -69,13 +71,17 @@ impl BoatReport {
                             rpm_margin_is_lower_bound: m.margin_is_lower_bound,
                             top_speed_froude: m.top_validity.froude,
                             top_speed_in_method_range: m.top_speed_in_method_range,
-                            top_speed_unreliable_because: m.top_validity.reason(),
+                            top_speed_unreliable_because: m.top_validity.label(),
                         }),
                         match_error: v.matched.as_ref().err().cloned(),
-                        cruise: v.cruise.as_ref().ok().map(PointJson::from),
+                        cruise: v
+                            .cruise
+                            .as_ref()
+                            .ok()
+                            .map(|c| PointJson::of(c, &self.resistance)),
                         cruise_error: v.cruise.as_ref().err().cloned(),
                         duty_note: v.duty.clone(),
-                        method_spread: v.method_spread.clone(),
+                        method_spread: v.method_spread.as_ref().map(MethodSpreadJson::from),
                         cavitation: self
                             .checks
                             .as_ref()
@@ -187,37 +193,42 @@ pub struct VariantJson {
     pub cruise_error: Option<String>,
     /// The engine's duty rating beside the load at the target speed.
     pub duty_note: Option<String>,
-    /// Both resistance methods' top speed (m/s) and target-speed resistance (N), when both run.
-    pub method_spread: Option<MethodSpread>,
+    /// Both resistance methods' top speed and target-speed resistance, when both run.
+    pub method_spread: Option<MethodSpreadJson>,
     /// Cavitation and blade loading at the target speed and at top speed.
     pub cavitation: Vec<CavitationJson>,
     /// The change from the baseline (this variant − as found), or null without one.
     pub delta: Option<HeadlineJson>,
 }
 
-/// One operating point in JSON.
+/// One operating point in JSON. Unsuffixed figures are the boat's (every driven screw or
+/// running engine together); `_per_screw` and `_per_engine` are each one's.
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct PointJson {
-    /// Engine speed, rpm.
+    /// Engine speed, rpm (each running engine turns at it).
     pub engine_rpm: f64,
-    /// Screw speed, rpm.
+    /// Screw speed, rpm (each driven screw turns at it).
     pub prop_rpm: f64,
     /// Boat speed, kn.
     pub speed_kn: f64,
-    /// Resistance, N.
+    /// Resistance of the boat, N.
     pub resistance_n: f64,
-    /// Required thrust, N.
+    /// Thrust of every driven screw together, N.
     pub thrust_n: f64,
-    /// Advance ratio J.
+    /// Thrust of each driven screw, N.
+    pub thrust_n_per_screw: f64,
+    /// Advance ratio J (each screw).
     pub j: f64,
-    /// KT.
+    /// KT (each screw).
     pub kt: f64,
-    /// KQ.
+    /// KQ (each screw).
     pub kq: f64,
-    /// Open-water efficiency.
+    /// Open-water efficiency η0 (each screw).
     pub eta0: f64,
-    /// Delivered power at each driven screw, kW.
+    /// Delivered power of every driven screw together, kW.
     pub delivered_kw: f64,
+    /// Delivered power at each driven screw, kW.
+    pub delivered_kw_per_screw: f64,
     /// Brake power of the boat (every running engine together), kW.
     pub brake_kw: f64,
     /// Brake power of each running engine, kW.
@@ -230,9 +241,9 @@ pub struct PointJson {
     pub fuel_lph_per_engine: f64,
     /// Shafts driven by a running engine (1 or 2).
     pub driven_shafts: u32,
-    /// Fuel per nautical mile, L/nm.
+    /// Fuel of the boat per nautical mile, L/nm.
     pub fuel_l_per_nm: f64,
-    /// Range with usable fuel less reserve, nm.
+    /// Range of the boat with usable fuel less reserve, nm.
     pub range_nm: f64,
     /// Whether the point lies past the full-load curve.
     pub beyond_full_load: bool,
@@ -240,22 +251,28 @@ pub struct PointJson {
     pub froude: f64,
     /// Whether the resistance method is valid at this speed (false: unreliable).
     pub in_method_range: bool,
+    /// Why the point is unreliable (the report row's words), or null.
+    pub unreliable_because: Option<String>,
 }
 
-impl From<&CruisePoint> for PointJson {
-    fn from(c: &CruisePoint) -> Self {
+impl PointJson {
+    /// The JSON of `c`, solved on `resistance` (which says why a point is unreliable).
+    pub fn of(c: &CruisePoint, resistance: &ResistanceModel) -> Self {
         let p = &c.point;
+        let screws = f64::from(p.driven_shafts.max(1));
         Self {
             engine_rpm: p.engine_rpm,
             prop_rpm: p.screw_rps * 60.0,
             speed_kn: p.speed / KNOT_MPS,
             resistance_n: p.resistance,
-            thrust_n: p.thrust,
+            thrust_n: p.thrust * screws,
+            thrust_n_per_screw: p.thrust,
             j: p.advance_ratio,
             kt: p.thrust_coefficient,
             kq: p.torque_coefficient,
             eta0: p.open_water_efficiency,
-            delivered_kw: p.delivered_power / 1e3,
+            delivered_kw: p.delivered_power * screws / 1e3,
+            delivered_kw_per_screw: p.delivered_power / 1e3,
             brake_kw: p.brake_power / 1e3,
             brake_kw_per_engine: p.brake_power_per_engine / 1e3,
             load_pct: p.load_fraction * 100.0,
@@ -267,6 +284,38 @@ impl From<&CruisePoint> for PointJson {
             beyond_full_load: c.beyond_full_load,
             froude: p.froude,
             in_method_range: p.in_method_range,
+            unreliable_because: unreliable_label(resistance, p),
+        }
+    }
+}
+
+/// Both resistance methods side by side in JSON, when both run.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct MethodSpreadJson {
+    /// The method used for every figure.
+    pub method: &'static str,
+    /// The alternative computed beside it.
+    pub alternative: &'static str,
+    /// Resistance of the boat at the target speed by the chosen method, N.
+    pub resistance_at_target_n: Option<f64>,
+    /// The same by the alternative, N.
+    pub alternative_resistance_at_target_n: Option<f64>,
+    /// Top speed by the chosen method, kn.
+    pub top_speed_kn: Option<f64>,
+    /// Top speed by the alternative, kn.
+    pub alternative_top_speed_kn: Option<f64>,
+}
+
+impl From<&MethodSpread> for MethodSpreadJson {
+    fn from(m: &MethodSpread) -> Self {
+        let knots = |v: Option<f64>| finite_or_none(v.map(|v| v / KNOT_MPS));
+        Self {
+            method: m.method,
+            alternative: m.alternative,
+            resistance_at_target_n: finite_or_none(m.resistance_at_target),
+            alternative_resistance_at_target_n: finite_or_none(m.alternative_resistance_at_target),
+            top_speed_kn: knots(m.top_speed),
+            alternative_top_speed_kn: knots(m.alternative_top_speed),
         }
     }
 }

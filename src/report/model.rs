@@ -10,6 +10,8 @@ use serde::Serialize;
 
 use super::checks::{AppliedCalibration, CheckInputs, DesignChecks};
 use crate::propulsion::engine::Duty;
+use crate::propulsion::hull::{ResistanceModel, UNRELIABLE_WORDS};
+use crate::propulsion::solver::OperatingPoint;
 use crate::propulsion::solver::{MatchResult, Trip, Vessel};
 use crate::study::solve::{BadStep, SolveOptions, VariantSolution, solve_variant};
 use crate::study::{Study, UnknownVariant};
@@ -132,6 +134,22 @@ pub struct BoatReport {
     /// The boat as it is today, the planned figures are compared with (`None` without
     /// `[as_found]`).
     pub baseline: Option<Baseline>,
+    /// The resistance model the variants were solved on: it says why a point is unreliable.
+    pub resistance: ResistanceModel,
+}
+
+/// Why `point`, solved on `resistance`, is unreliable ([`label`](crate::propulsion::hull::SpeedValidity::label)), or `None`
+/// when the core put it inside the method's range; the point's own flag decides.
+pub fn unreliable_label(resistance: &ResistanceModel, point: &OperatingPoint) -> Option<String> {
+    if point.in_method_range {
+        return None;
+    }
+    Some(
+        resistance
+            .validity_at(point.speed)
+            .label()
+            .unwrap_or_else(|| UNRELIABLE_WORDS.to_owned()),
+    )
 }
 
 /// The loud warning when a variant's full-throttle point lies outside the resistance method.
@@ -144,6 +162,12 @@ pub fn full_throttle_warning(label: &str, m: &MatchResult, method: &str, reason:
 }
 
 impl BoatReport {
+    /// Why `point` is unreliable, in the core's words ([`label`](crate::propulsion::hull::SpeedValidity::label)), or `None`
+    /// when it lies inside the method's range.
+    pub fn unreliable_label(&self, point: &OperatingPoint) -> Option<String> {
+        unreliable_label(&self.resistance, point)
+    }
+
     /// Whether the boat has two engines on two shafts.
     pub fn is_twin(&self) -> bool {
         self.shafts >= 2
@@ -266,6 +290,7 @@ impl BoatReport {
             methods: MethodSummary::of(vessel),
             shafts: vessel.installation.shafts,
             baseline: None,
+            resistance: vessel.resistance.clone(),
         }
     }
 

@@ -106,7 +106,7 @@ pub fn point_line(
     let unreliable = if p.in_method_range {
         ""
     } else {
-        " (outside the resistance method's range)"
+        " (unreliable: past the resistance method's range or the displacement-hull speed/length limit)"
     };
     let mut text = format!(
         "{} {} {:.2}:1: {} installed, top speed {}{unreliable}",
@@ -130,7 +130,7 @@ pub fn point_line(
 }
 
 /// The legend line under the table.
-pub const SHARE_NOTE: &str = "R·V share: the hull's effective power (resistance × speed) at that top speed over the installed power; the rest goes in the screw, gear and shaft. * top speed outside the resistance method's range";
+pub const SHARE_NOTE: &str = "R·V share: the hull's effective power (resistance × speed) at that top speed over the installed power; the rest goes in the screw, gear and shaft. * top speed past the resistance method's range or the displacement-hull speed/length limit";
 
 /// The SVG chart: the hull's effective power against speed, and each candidate's installed
 /// power at its top speed, marked with its shortlist position.

@@ -146,7 +146,7 @@ fn extrapolation_note(curve: &ResistanceCurve) -> Option<String> {
         first
             .reason
             .as_deref()
-            .unwrap_or("outside the method's range")
+            .unwrap_or(crate::propulsion::hull::UNRELIABLE_WORDS)
     ))
 }
 

@@ -11,6 +11,7 @@ use super::power_speed::{
 use super::svg::{Chart, Series, SeriesStyle};
 use super::table::{Column, Table};
 use super::{CAUTION, Display, KNOT_MPS, LITRE_M3, NAUTICAL_MILE_M};
+use crate::propulsion::hull::UNRELIABLE_WORDS;
 use crate::study::shortlist::{Candidate, Shortlist, ShortlistRank};
 use crate::units::Kind;
 
@@ -274,7 +275,11 @@ pub fn rank_line(list: &Shortlist, d: &Display) -> String {
 pub fn candidate_notes(c: &Candidate, d: &Display) -> Vec<String> {
     let mut lines = Vec::new();
     if c.pitch.is_none() {
-        lines.extend(c.problems.iter().map(|p| format!("problem: {p}")));
+        lines.extend(
+            c.problems
+                .iter()
+                .map(|p| format!("problem: {}", d.words(p))),
+        );
         return lines;
     }
     if c.area_raised {
@@ -342,7 +347,7 @@ pub fn candidate_notes(c: &Candidate, d: &Display) -> Vec<String> {
         Err(e) => lines.push(format!("cavitation at top speed: not checked ({e})")),
     }
     for p in &c.problems {
-        lines.push(format!("problem: {p}"));
+        lines.push(format!("problem: {}", d.words(p)));
     }
     lines
 }
@@ -350,13 +355,13 @@ pub fn candidate_notes(c: &Candidate, d: &Display) -> Vec<String> {
 /// The text of `shortlist`.
 pub fn shortlist_text(list: &Shortlist, d: &Display) -> String {
     let mut out = format!(
-        "Repower shortlist for {} ({} candidates)\n{}\n\n",
+        "Repower shortlist for {} ({})\n{}\n\n",
         list.boat,
-        list.candidates.len(),
+        super::count(list.candidates.len(), "candidate", "candidates"),
         rank_line(list, d)
     );
     out.push_str(&shortlist_table(list, d).to_text("  "));
-    out.push_str("  * top speed outside the resistance method's range\n");
+    out.push_str(&format!("  * top speed {UNRELIABLE_WORDS}\n"));
     if list.candidates.iter().any(|c| !check_marks(c).is_empty()) {
         out.push_str(&format!("  {CHECK_LEGEND}\n"));
     }
@@ -400,7 +405,7 @@ pub fn shortlist_csv(list: &Shortlist, d: &Display) -> String {
 pub fn shortlist_markdown(list: &Shortlist, d: &Display) -> String {
     let mut out = format!("## Repower shortlist\n\n{}.\n\n", rank_line(list, d));
     out.push_str(&shortlist_table(list, d).to_markdown());
-    out.push_str("\n\\* top speed outside the resistance method's range.\n");
+    out.push_str(&format!("\n\\* top speed {UNRELIABLE_WORDS}.\n"));
     if list.candidates.iter().any(|c| !check_marks(c).is_empty()) {
         out.push_str(&format!("\n{CHECK_LEGEND}.\n"));
     }
@@ -435,13 +440,20 @@ pub fn shortlist_markdown(list: &Shortlist, d: &Display) -> String {
 /// The chart of fuel per distance at the target speed against top speed, one point per
 /// candidate that has both.
 pub fn shortlist_chart(list: &Shortlist, d: &Display) -> Option<Chart> {
-    let points: Vec<(f64, f64)> = list
+    // Each point is labelled "#n" by its place in the table, so the chart reads against it.
+    let (points, labels): (Vec<(f64, f64)>, Vec<String>) = list
         .candidates
         .iter()
-        .filter_map(|c| Some((c.top_speed?, c.fuel_per_distance?)))
-        .filter(|(x, y)| x.is_finite() && y.is_finite())
-        .map(|(x, y)| (d.scaled(x, Kind::Speed), d.scaled(y, Kind::FuelPerDistance)))
-        .collect();
+        .enumerate()
+        .filter_map(|(i, c)| Some((i, c.top_speed?, c.fuel_per_distance?)))
+        .filter(|(_, x, y)| x.is_finite() && y.is_finite())
+        .map(|(i, x, y)| {
+            (
+                (d.scaled(x, Kind::Speed), d.scaled(y, Kind::FuelPerDistance)),
+                format!("#{}", i + 1),
+            )
+        })
+        .unzip();
     if points.is_empty() {
         return None;
     }
@@ -450,11 +462,11 @@ pub fn shortlist_chart(list: &Shortlist, d: &Display) -> Option<Chart> {
         x_label: format!("top speed ({})", d.unit(Kind::Speed)),
         y_label: format!("fuel ({})", d.unit(Kind::FuelPerDistance)),
         series: vec![Series {
-            name: "candidates".into(),
+            name: "candidates (#n: place in the table)".into(),
             points,
             style: SeriesStyle::Markers,
             look: 0,
-            labels: Vec::new(),
+            labels,
         }],
     })
 }

@@ -267,8 +267,10 @@ impl Chart {
             escape(&self.y_label)
         );
 
-        // Curves and markers.
-        for (series, points) in self.series.iter().zip(&data) {
+        // Curves first, then markers, so that no curve hides a marker drawn on it.
+        let mut order: Vec<usize> = (0..self.series.len()).collect();
+        order.sort_by_key(|&k| matches!(self.series[k].style, SeriesStyle::Markers));
+        for (series, points) in order.iter().map(|&k| (&self.series[k], &data[k])) {
             let i = series.look;
             let colour = COLOURS[i % COLOURS.len()];
             let _ = writeln!(
@@ -326,12 +328,13 @@ impl Chart {
             );
         }
 
-        // Legend: a sample of each line style beside its name.
+        // Legend: a sample of each line style beside its name, the name wrapped to the space
+        // right of the plot so that no entry runs off the image.
         let legend_x = LEFT + plot_w + 16.0;
         let _ = writeln!(svg, r#"<g class="legend">"#);
-        for (row, series) in self.series.iter().enumerate() {
+        let mut y = TOP + 10.0;
+        for series in &self.series {
             let i = series.look;
-            let y = TOP + 10.0 + 20.0 * row as f64;
             let colour = COLOURS[i % COLOURS.len()];
             match series.style {
                 SeriesStyle::Line => {
@@ -351,18 +354,51 @@ impl Chart {
                     let _ = writeln!(svg, "{}", marker(i, legend_x + 13.0, y, colour));
                 }
             }
-            let _ = writeln!(
+            let lines = wrap(&series.name, LEGEND_CHARS);
+            let _ = write!(
                 svg,
-                r#"<text x="{:.1}" y="{:.1}">{}</text>"#,
+                r#"<text x="{:.1}" y="{:.1}">"#,
                 legend_x + 32.0,
-                y + 4.0,
-                escape(&series.name)
+                y + 4.0
             );
+            for (k, line) in lines.iter().enumerate() {
+                let dy = if k == 0 { 0.0 } else { LEGEND_LINE };
+                let _ = write!(
+                    svg,
+                    r#"<tspan x="{:.1}" dy="{dy:.1}">{}</tspan>"#,
+                    legend_x + 32.0,
+                    escape(line)
+                );
+            }
+            let _ = writeln!(svg, "</text>");
+            y += 20.0 + LEGEND_LINE * (lines.len().max(1) - 1) as f64;
         }
         let _ = writeln!(svg, "</g>");
         svg.push_str("</svg>\n");
         svg
     }
+}
+
+/// Characters of a legend line: the space right of the plot less the sample, at about 6.5 px
+/// per character of the 12 px font (common practice for sans-serif).
+const LEGEND_CHARS: usize = ((RIGHT - 16.0 - 32.0 - 4.0) / 6.5) as usize;
+/// Height of a wrapped legend line, px.
+const LEGEND_LINE: f64 = 14.0;
+
+/// `text` broken at spaces into lines of at most `width` characters (a longer word stands
+/// alone on its line).
+fn wrap(text: &str, width: usize) -> Vec<String> {
+    let mut lines: Vec<String> = Vec::new();
+    for word in text.split_whitespace() {
+        match lines.last_mut() {
+            Some(line) if line.chars().count() + 1 + word.chars().count() <= width => {
+                line.push(' ');
+                line.push_str(word);
+            }
+            _ => lines.push(word.to_owned()),
+        }
+    }
+    lines
 }
 
 /// A marker whose shape depends on the series index (circle, square, triangle, …).
@@ -457,6 +493,41 @@ mod tests {
         );
         assert!(svg.contains("brake power (kW)"));
         assert!(svg.trim_end().ends_with("</svg>"));
+    }
+
+    #[test]
+    fn markers_are_drawn_over_every_curve() {
+        let mut c = chart();
+        // The markers first in the list: they must still come after both curves in the file.
+        c.series.rotate_right(1);
+        let svg = c.to_svg();
+        let marker = svg.find("<polygon").expect("the triangle markers");
+        let last_curve = svg.rfind("<polyline").expect("the curves");
+        assert!(marker > last_curve, "a curve drawn over the markers");
+    }
+
+    #[test]
+    fn a_long_legend_entry_is_wrapped_whole_inside_the_image() {
+        let mut c = chart();
+        c.series[2].name = "past the method's range: unreliable, a sea trial decides".into();
+        let svg = c.to_svg();
+        let legend = &svg[svg.find(r#"<g class="legend">"#).unwrap()..];
+        let words: Vec<String> = legend
+            .split("<tspan")
+            .skip(1)
+            .map(|t| {
+                t[t.find('>').unwrap() + 1..t.find("</tspan>").unwrap()].replace("&apos;", "'")
+            })
+            .collect();
+        assert!(words.iter().all(|w| w.chars().count() <= LEGEND_CHARS));
+        let joined = words.join(" ");
+        assert!(
+            joined.contains("past the method's range: unreliable, a sea trial decides"),
+            "{joined}"
+        );
+        // The longest line fits between the sample and the image's right edge.
+        let widest = LEGEND_CHARS as f64 * 6.5;
+        assert!(WIDTH - RIGHT + 16.0 + 32.0 + widest <= WIDTH);
     }
 
     #[test]

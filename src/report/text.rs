@@ -1,10 +1,11 @@
 //! The text writers of the boat report: the aligned text report, Markdown and CSV, and the
 //! lines the other writers and the TUI share (match, target, verdict, margin, screw spec).
 
-use super::model::{BoatReport, EngineSummary, VariantReport};
+use super::model::{BoatReport, EngineSummary, VariantReport, unreliable_label};
 use super::table::{Column, Table};
 use super::{CAUTION, Display, percent};
 use crate::propulsion::engine::Duty;
+use crate::propulsion::hull::{ResistanceModel, UNRELIABLE_WORDS};
 use crate::propulsion::screw::ScrewGeometry;
 use crate::propulsion::solver::pitch::ConditionSummary;
 use crate::propulsion::solver::{CruisePoint, MatchResult, MethodSpread, Verdict};
@@ -97,14 +98,22 @@ impl BoatReport {
                 v.label,
                 screw_spec(&v.geometry, &d)
             ));
-            out.push_str(&operating_table(v, &d, false, self.shafts).to_text("  "));
+            out.push_str(
+                &operating_table(v, &d, false, self.shafts, &self.resistance).to_text("  "),
+            );
             out.push_str(&format!("  {}\n", match_line(v, &d, self.engine.rated_rpm)));
             if let Some(spread) = &v.method_spread {
                 out.push_str(&format!("  {}\n", method_spread_line(spread, &d)));
             }
             out.push_str(&format!(
                 "  {}\n",
-                target_line(v, &d, self.trip.target_speed, &self.engine)
+                target_line(
+                    v,
+                    &d,
+                    self.trip.target_speed,
+                    &self.engine,
+                    &self.resistance
+                )
             ));
             out.push_str(&self.variant_check_text(v, &d));
         }
@@ -146,14 +155,22 @@ impl BoatReport {
                 v.label,
                 screw_spec(&v.geometry, &d)
             ));
-            out.push_str(&operating_table(v, &d, false, self.shafts).to_markdown());
+            out.push_str(
+                &operating_table(v, &d, false, self.shafts, &self.resistance).to_markdown(),
+            );
             out.push_str(&format!(
                 "\n- {}\n",
                 match_line(v, &d, self.engine.rated_rpm)
             ));
             out.push_str(&format!(
                 "- {}\n",
-                target_line(v, &d, self.trip.target_speed, &self.engine)
+                target_line(
+                    v,
+                    &d,
+                    self.trip.target_speed,
+                    &self.engine,
+                    &self.resistance
+                )
             ));
             out.push_str(&self.variant_check_markdown(v, &d));
         }
@@ -183,7 +200,7 @@ impl BoatReport {
         let d = Display::new(system);
         let mut all = Table::default();
         for v in &self.variants {
-            let table = operating_table(v, &d, true, self.shafts);
+            let table = operating_table(v, &d, true, self.shafts, &self.resistance);
             if all.columns.is_empty() {
                 all.columns = table.columns.clone();
             }
@@ -281,7 +298,13 @@ pub fn screw_spec(g: &ScrewGeometry, d: &Display) -> String {
 
 /// The operating table of one variant; with `with_label` a first column names the variant. On
 /// a twin (`shafts` 2) power and fuel are the boat's, with each engine's power and load beside.
-pub fn operating_table(v: &VariantReport, d: &Display, with_label: bool, shafts: u32) -> Table {
+pub fn operating_table(
+    v: &VariantReport,
+    d: &Display,
+    with_label: bool,
+    shafts: u32,
+    resistance: &ResistanceModel,
+) -> Table {
     let twin = shafts >= 2;
     let mut table = Table::new(operating_columns(d, with_label, shafts));
     let imperial = d.system == UnitSystem::Imperial;
@@ -313,7 +336,7 @@ pub fn operating_table(v: &VariantReport, d: &Display, with_label: bool, shafts:
                     ),
                     d.figure(c.fuel_per_distance, Kind::FuelPerDistance),
                     d.number(c.range, Kind::Distance, 0),
-                    point_note(c),
+                    point_note(c, resistance),
                 ]);
             }
             Err(reason) => {
@@ -369,21 +392,13 @@ fn operating_columns(d: &Display, with_label: bool, shafts: u32) -> Vec<Column> 
 }
 
 /// The note of one operating row: past full load, outside the method's range, or empty.
-fn point_note(c: &CruisePoint) -> String {
+fn point_note(c: &CruisePoint, resistance: &ResistanceModel) -> String {
     let mut notes = Vec::new();
     if c.beyond_full_load {
         notes.push("past full load: not reachable".to_string());
     }
-    if !c.point.in_method_range {
-        let regime = if c.point.regime.is_extrapolation() {
-            format!("; {}", c.point.regime.phrase())
-        } else {
-            String::new()
-        };
-        notes.push(format!(
-            "unreliable: outside the method's range (Fn {:.2}{regime})",
-            c.point.froude
-        ));
+    if let Some(why) = unreliable_label(resistance, &c.point) {
+        notes.push(format!("unreliable: {why}"));
     }
     notes.join("; ")
 }
@@ -464,7 +479,9 @@ pub fn match_line(v: &VariantReport, d: &Display, rated_rpm: f64) -> String {
                 format!(
                     "about {} (UNRELIABLE: {}; a sea trial decides)",
                     d.quantity(m.top_speed, Kind::Speed),
-                    m.top_validity.reason().unwrap_or_default()
+                    m.top_validity
+                        .label()
+                        .unwrap_or_else(|| UNRELIABLE_WORDS.to_owned())
                 )
             };
             let absorbs = if m.top_point.shafts >= 2 {
@@ -499,16 +516,14 @@ pub fn target_line(
     d: &Display,
     target_speed: f64,
     engine: &EngineSummary,
+    resistance: &ResistanceModel,
 ) -> String {
     let at = d.quantity(target_speed, Kind::Speed);
     match &v.cruise {
         Ok(c) => {
             let mut line = format!("At {at}: {}", cruise_summary(c, d));
-            if !c.point.in_method_range {
-                line.push_str(&format!(
-                    " — UNRELIABLE: Fn {:.2}, outside the resistance method's range",
-                    c.point.froude
-                ));
+            if let Some(why) = unreliable_label(resistance, &c.point) {
+                line.push_str(&format!(" — UNRELIABLE: {why}"));
             }
             if c.beyond_full_load {
                 line.push_str(" — past the engine's full-load curve: not reachable");

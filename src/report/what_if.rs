@@ -1,14 +1,15 @@
 //! The what-if comparison laid out: the conditions side by side, the pitch for each and the
 //! uncertainty band, as text, Markdown and JSON over the study's [`WhatIf`].
 
-use crate::propulsion::solver::conditions::ConditionOutcome;
 use serde::Serialize;
 
 use super::checks::AppliedCalibration;
 use super::table::{Column, Table};
 use super::text::{condition_words, verdict_words};
 use super::{CAUTION, Display, KNOT_MPS, LITRE_M3, percent};
+use crate::profile::{LoadCondition, LoadDoc};
 use crate::propulsion::solver::Verdict;
+use crate::propulsion::solver::conditions::ConditionOutcome;
 use crate::propulsion::solver::pitch::PitchRecommendation;
 use crate::study::Study;
 pub use crate::study::what_if::{WhatIf, WhatIfSettings};
@@ -19,7 +20,7 @@ use crate::units::Kind;
 pub const OMITTED_MARK: &str = "†";
 
 /// The note of a row whose top speed (marked ≈) lies outside the resistance method's range.
-pub const UNRELIABLE_TOP_NOTE: &str = "≈ top speed unreliable: outside the method's range";
+pub const UNRELIABLE_TOP_NOTE: &str = "≈ top speed unreliable: past the resistance method's range or the displacement-hull speed/length limit";
 
 use super::finite_or_none as finite;
 
@@ -57,15 +58,19 @@ impl WhatIf {
         } else {
             2
         };
-        for (i, (o, p)) in self.outcomes.iter().zip(&self.pitches).enumerate() {
+        let shown = shown_outcomes(&self.outcomes);
+        let rows = self
+            .outcomes
+            .iter()
+            .zip(&self.pitches)
+            .enumerate()
+            .filter(|(i, _)| shown.contains(i));
+        for (i, (o, p)) in rows {
             let mut note = Vec::new();
             if o.cruise_beyond_full_load == Some(true) {
                 note.push("target speed past full load".to_string());
             }
             let unreliable = o.top_speed_in_method_range == Some(false);
-            if unreliable {
-                note.push(UNRELIABLE_TOP_NOTE.to_string());
-            }
             if let Some(problem) = &o.problem {
                 note.push(problem.clone());
             }
@@ -80,8 +85,9 @@ impl WhatIf {
             }
             let label = if i == 0 {
                 format!(
-                    "{} (file default: {})",
-                    o.condition.label, self.default_load
+                    "{} (the file's {})",
+                    o.condition.label,
+                    default_load_words(&self.default_load)
                 )
             } else {
                 o.condition.label.clone()
@@ -115,13 +121,31 @@ impl WhatIf {
     }
 
     /// "pitch for it" column: which condition each recommendation was made for, the
-    /// displacement as a mass in the display units.
+    /// displacement as a mass in the display units (the rows shown only).
     pub fn pitch_conditions(&self, d: &Display) -> Vec<String> {
+        let shown = shown_outcomes(&self.outcomes);
         self.pitches
             .iter()
-            .filter_map(|p| p.as_ref().ok())
+            .enumerate()
+            .filter(|(i, _)| shown.contains(i))
+            .filter_map(|(_, p)| p.as_ref().ok())
             .map(|r| condition_words(&r.condition, self.water_density, d))
             .collect()
+    }
+
+    /// The lines under the table: the ≈ legend when a top speed is unreliable, and what the
+    /// marked cases leave out.
+    pub fn legend_lines(&self) -> Vec<String> {
+        let mut lines = Vec::new();
+        if self
+            .outcomes
+            .iter()
+            .any(|o| o.top_speed_in_method_range == Some(false))
+        {
+            lines.push(UNRELIABLE_TOP_NOTE.to_string());
+        }
+        lines.extend(self.omitted_lines());
+        lines
     }
 
     /// "Each pitch is made to <its target> for its own condition" (each screw's on a twin).
@@ -265,15 +289,19 @@ impl WhatIf {
     }
 
     /// The whole comparison as text (also the body of the export's section, in a code block).
-    pub fn to_text(&self, d: &Display) -> String {
+    pub fn to_text(&self, d: &Display, load: &LoadDoc) -> String {
         let mut out = format!("Screw {}: what-if conditions side by side\n", self.label);
         out.push_str(&self.conditions_table(d).to_text("  "));
+        for line in self
+            .legend_lines()
+            .into_iter()
+            .chain(missing_loads_line(load))
+        {
+            out.push_str(&format!("  {line}\n"));
+        }
         if let Some(table) = self.as_found_table(d) {
             out.push_str("  Against the boat as found under each condition:\n");
             out.push_str(&table.to_text("  "));
-        }
-        for line in self.omitted_lines() {
-            out.push_str(&format!("  {line}\n"));
         }
         out.push_str(&format!("  {}:\n", self.pitch_target_line()));
         for c in self.pitch_conditions(d) {
@@ -294,13 +322,17 @@ impl WhatIf {
     }
 
     /// The comparison as Markdown for the export.
-    pub fn to_markdown(&self, d: &Display) -> String {
+    pub fn to_markdown(&self, d: &Display, load: &LoadDoc) -> String {
         let mut out = format!(
             "Screw {}: the same boat and screw under each condition.\n\n",
             self.label
         );
         out.push_str(&self.conditions_table(d).to_markdown());
-        for line in self.omitted_lines() {
+        for line in self
+            .legend_lines()
+            .into_iter()
+            .chain(missing_loads_line(load))
+        {
             out.push_str(&format!("\n{line}\n"));
         }
         out.push_str(&format!("\n{}:\n\n", self.pitch_target_line()));
@@ -322,13 +354,69 @@ impl WhatIf {
     }
 }
 
+/// Which of `outcomes` (the boat as given first) a table shows: every one but a load case
+/// that only repeats the boat as given (the file's default load: the same displacement,
+/// margins and sea-trial factor), so no two rows say the same.
+pub fn shown_outcomes(outcomes: &[ConditionOutcome]) -> Vec<usize> {
+    let same = |a: &ConditionOutcome, b: &ConditionOutcome| {
+        let (a, b) = (&a.condition, &b.condition);
+        a.displacement_volume == b.displacement_volume
+            && a.service_margin == b.service_margin
+            && a.fouling == b.fouling
+            && a.resistance_factor == b.resistance_factor
+    };
+    (0..outcomes.len())
+        .filter(|&i| {
+            i == 0 || !same(&outcomes[i], &outcomes[0]) || !outcomes[i].warnings.is_empty()
+        })
+        .collect()
+}
+
+/// The boat file's default load in words for the "as given" row ("half" → "half load").
+fn default_load_words(default: &str) -> String {
+    match default {
+        "light" => "light load".into(),
+        "half" => "half load".into(),
+        "full" => "full load".into(),
+        other => other.to_string(),
+    }
+}
+
+/// Which load cases the boat file lacks, so the table's missing rows are explained, or
+/// `None` when it has light and full load.
+pub fn missing_loads_line(load: &LoadDoc) -> Option<String> {
+    let missing: Vec<&str> = [
+        (LoadCondition::Light, "light ([load.light])"),
+        (LoadCondition::Full, "full ([load.full])"),
+    ]
+    .into_iter()
+    .filter(|(c, _)| load.case(*c).is_none())
+    .map(|(_, words)| words)
+    .collect();
+    (!missing.is_empty()).then(|| {
+        format!(
+            "no {} load in the boat file: add {} with its displacement to compare {}",
+            missing.join(" or "),
+            if missing.len() == 1 { "it" } else { "each" },
+            if missing.len() == 1 {
+                "that loading"
+            } else {
+                "the boat lighter and heavier"
+            }
+        )
+    })
+}
+
 /// One condition in JSON.
 #[derive(Debug, Serialize)]
 pub struct OutcomeJson {
     /// The condition's label.
     pub label: String,
-    /// Displacement, kg.
-    pub displacement_kg: f64,
+    /// Whether the case only repeats the boat as given (the file's default load): the text
+    /// and the screen leave its row out.
+    pub repeats_as_given: bool,
+    /// Displacement, t.
+    pub displacement_t: f64,
     /// Displacement volume, m³.
     pub displacement_m3: f64,
     /// Service (sea-state) margin, fraction of resistance.
@@ -415,9 +503,9 @@ impl AsFoundOutcomeJson {
 pub struct BandPointJson {
     engine_rpm: f64,
     speed_kn: Option<f64>,
-    power_kw: Option<f64>,
-    low_kw: Option<f64>,
-    high_kw: Option<f64>,
+    power_kw_per_engine: Option<f64>,
+    low_kw_per_engine: Option<f64>,
+    high_kw_per_engine: Option<f64>,
 }
 
 /// The band in JSON.
@@ -451,6 +539,7 @@ pub struct WhatIfJson {
 /// The JSON document of `result`, a what-if comparison of `study`.
 pub fn what_if_json(study: &Study, result: &WhatIf) -> WhatIfJson {
     let kw = |v: Option<f64>| finite(v).map(|w| w / 1e3);
+    let shown = shown_outcomes(&result.outcomes);
     let conditions = result
         .outcomes
         .iter()
@@ -468,7 +557,8 @@ pub fn what_if_json(study: &Study, result: &WhatIf) -> WhatIfJson {
                 .and_then(|f| f.get(i))
                 .map(|f| AsFoundOutcomeJson::change(o, f)),
             label: o.condition.label.clone(),
-            displacement_kg: o.condition.displacement_volume * result.water_density,
+            repeats_as_given: !shown.contains(&i),
+            displacement_t: o.condition.displacement_volume * result.water_density / 1e3,
             displacement_m3: o.condition.displacement_volume,
             service_margin: o.condition.service_margin,
             fouling: o.condition.fouling,
@@ -501,9 +591,9 @@ pub fn what_if_json(study: &Study, result: &WhatIf) -> WhatIfJson {
             .map(|p| BandPointJson {
                 engine_rpm: p.engine_rpm,
                 speed_kn: finite(p.nominal_speed).map(|v| v / KNOT_MPS),
-                power_kw: kw(p.nominal_power),
-                low_kw: kw(p.low_power),
-                high_kw: kw(p.high_power),
+                power_kw_per_engine: kw(p.nominal_power),
+                low_kw_per_engine: kw(p.low_power),
+                high_kw_per_engine: kw(p.high_power),
             })
             .collect(),
         pitch_nominal_m: finite(b.pitch_nominal),
@@ -534,6 +624,21 @@ pub fn what_if_text(study: &Study, result: &WhatIf, d: &Display) -> String {
         "{}\n{}\n{}\nCaution: {CAUTION}\n",
         study.vessel.name,
         study.calibration_line(),
-        result.to_text(d)
+        result.to_text(d, &study.doc.load)
     )
+}
+
+#[cfg(test)]
+mod tests {
+    use crate::propulsion::hull::UNRELIABLE_WORDS;
+
+    #[test]
+    fn every_legend_of_an_unreliable_figure_uses_the_cores_words() {
+        for legend in [
+            super::UNRELIABLE_TOP_NOTE,
+            crate::report::power_speed::SHARE_NOTE,
+        ] {
+            assert!(legend.contains(UNRELIABLE_WORDS), "{legend}");
+        }
+    }
 }

@@ -3,6 +3,8 @@
 
 use crossterm::event::{KeyCode, KeyEvent, KeyEventKind, KeyModifiers};
 
+use super::analysis::ViewKind;
+
 /// What the keyboard is talking to at the moment.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Hash)]
 pub enum Mode {
@@ -199,6 +201,8 @@ pub struct Binding {
     pub help: &'static str,
     /// Whether the footer shows it.
     pub in_footer: bool,
+    /// The design views whose footer shows it (View mode only); empty: every view's.
+    pub views: &'static [ViewKind],
 }
 
 const fn bind(
@@ -216,7 +220,13 @@ const fn bind(
         hint,
         help,
         in_footer,
+        views: &[],
     }
+}
+
+/// The same binding, shown in the footer of `views` only (a key that acts in one view).
+const fn only_in(binding: Binding, views: &'static [ViewKind]) -> Binding {
+    Binding { views, ..binding }
 }
 
 use Command as C;
@@ -259,16 +269,16 @@ pub const BINDINGS: &[Binding] = &[
     bind(M::Browse, &[ch('q', "q"), ctrl('c', "Ctrl-c")], C::Quit, "quit", "quit (asks first when there are unsaved changes)", true),
     bind(M::View, &[code(KeyCode::Tab, "Tab"), code(KeyCode::Right, "→"), ch('l', "l")], C::NextView, "view", "next view: sweep → sea trial → what-if → shortlist", true),
     bind(M::View, &[code(KeyCode::BackTab, "Shift-Tab"), code(KeyCode::Left, "←"), ch('h', "h")], C::PrevView, "", "previous view", false),
-    bind(M::View, &[ch('n', "n")], C::NextSweepParameter, "parameter", "sweep view: sweep the next parameter (diameter, gear ratio, blade count, area ratio)", true),
-    bind(M::View, &[ch('a', "a")], C::ApplyCalibration, "apply fit", "sea-trial view: apply the fitted correction to the boat (unsaved until s; u undoes)", true),
-    bind(M::View, &[ch('F', "F")], C::ApplyFroudeCalibration, "", "sea-trial view: apply the two-parameter fit (a factor varying with Froude number between the trial's slowest and fastest speeds) instead of one factor", false),
-    bind(M::View, &[ch('x', "x")], C::ToggleLiveRun, "keep/drop", "sea-trial view: keep or drop the highlighted run captured from the live feed (open --nmea)", false),
-    bind(M::View, &[ch('J', "J")], C::NextLiveRun, "", "sea-trial view: highlight the next captured run", false),
-    bind(M::View, &[ch('K', "K")], C::PrevLiveRun, "", "sea-trial view: highlight the previous captured run", false),
-    bind(M::View, &[ch('g', "g")], C::UseLiveRuns, "use runs", "sea-trial view: make the kept captured runs the boat's trial log, refit (a then applies; u undoes)", false),
-    bind(M::View, &[ch('r', "r")], C::NextRanking, "rank", "shortlist view: rank by the next figure (fuel → range → top → margin)", false),
-    bind(M::View, &[ch('c', "c")], C::ToggleShortlistChart, "power chart", "shortlist view: show each candidate's installed power against its top speed with the hull's effective power (what more power buys), or the table again", false),
-    bind(M::View, &[code(KeyCode::Enter, "Enter")], C::TakeCandidate, "take", "shortlist view: make the highlighted candidate the boat's engine, gear and a new screw variant (unsaved until s; u undoes)", false),
+    only_in(bind(M::View, &[ch('n', "n")], C::NextSweepParameter, "parameter", "sweep view: sweep the next parameter (diameter, gear ratio, blade count, area ratio)", true), &[ViewKind::Sweep]),
+    only_in(bind(M::View, &[ch('a', "a")], C::ApplyCalibration, "apply fit", "sea-trial view: apply the fitted correction to the boat (unsaved until s; u undoes)", true), &[ViewKind::Calibration]),
+    only_in(bind(M::View, &[ch('F', "F")], C::ApplyFroudeCalibration, "", "sea-trial view: apply the two-parameter fit (a factor varying with Froude number between the trial's slowest and fastest speeds) instead of one factor", false), &[ViewKind::Calibration]),
+    only_in(bind(M::View, &[ch('x', "x")], C::ToggleLiveRun, "keep/drop", "sea-trial view: keep or drop the highlighted run captured from the live feed (open --nmea)", false), &[ViewKind::Calibration]),
+    only_in(bind(M::View, &[ch('J', "J")], C::NextLiveRun, "", "sea-trial view: highlight the next captured run", false), &[ViewKind::Calibration]),
+    only_in(bind(M::View, &[ch('K', "K")], C::PrevLiveRun, "", "sea-trial view: highlight the previous captured run", false), &[ViewKind::Calibration]),
+    only_in(bind(M::View, &[ch('g', "g")], C::UseLiveRuns, "use runs", "sea-trial view: make the kept captured runs the boat's trial log, refit (a then applies; u undoes)", false), &[ViewKind::Calibration]),
+    only_in(bind(M::View, &[ch('r', "r")], C::NextRanking, "rank", "shortlist view: rank by the next figure (fuel → range → top → margin)", true), &[ViewKind::Shortlist]),
+    only_in(bind(M::View, &[ch('c', "c")], C::ToggleShortlistChart, "chart", "shortlist view: show each candidate's installed power against its top speed with the hull's effective power (what more power buys), or the table again", true), &[ViewKind::Shortlist]),
+    only_in(bind(M::View, &[code(KeyCode::Enter, "Enter")], C::TakeCandidate, "take", "shortlist view: make the highlighted candidate the boat's engine, gear and a new screw variant (unsaved until s; u undoes)", true), &[ViewKind::Shortlist]),
     bind(M::View, &[ch('u', "u"), ctrl('z', "Ctrl-z")], C::Undo, "undo", "undo the last change", true),
     bind(M::View, &[ctrl('r', "Ctrl-r"), ch('U', "U")], C::Redo, "", "redo the last undone change", false),
     bind(M::View, &[ch('m', "m")], C::ToggleUnits, "", "toggle metric / imperial display", false),
@@ -307,11 +317,13 @@ pub fn lookup(mode: Mode, key: &KeyEvent) -> Option<Command> {
         .map(|b| b.command)
 }
 
-/// The keys of `mode` shown in the footer, as "key hint" pairs.
-pub fn footer_hints(mode: Mode) -> Vec<(&'static str, &'static str)> {
+/// The keys of `mode` shown in the footer, as "key hint" pairs; in a design view, `view`
+/// leaves out the keys that act only in another view.
+pub fn footer_hints(mode: Mode, view: Option<ViewKind>) -> Vec<(&'static str, &'static str)> {
     BINDINGS
         .iter()
         .filter(|b| b.mode == mode && b.in_footer)
+        .filter(|b| b.views.is_empty() || view.is_some_and(|v| b.views.contains(&v)))
         .map(|b| (b.keys[0].label, b.hint))
         .collect()
 }

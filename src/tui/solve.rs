@@ -133,13 +133,17 @@ impl Solution {
             .filter(|s| s.is_finite())
             .map(|s| format!("; {}/in", crate::report::text::signed_rpm(s)))
             .unwrap_or_default();
-        let unreliable = if rec.in_method_range == Some(false) {
-            " UNRELIABLE, a sea trial decides;"
-        } else {
-            ""
+        let unreliable = match (rec.in_method_range, rec.target_validity) {
+            // After the key, so a cut pane keeps "p adds it"; the cause before the advice.
+            (Some(false), Some(v)) => format!(
+                ". UNRELIABLE: {}, a sea trial decides",
+                v.brief()
+                    .unwrap_or_else(|| crate::propulsion::hull::UNRELIABLE_WORDS.to_owned())
+            ),
+            _ => String::new(),
         };
         Some(format!(
-            "Recommended pitch {} ({sign}{}, {limit}{slope}) for {} load;{unreliable} p adds it",
+            "Recommended pitch {} ({sign}{}, {limit}{slope}) for {} load; p adds it{unreliable}",
             units::format(pitch, Kind::ScrewLength, system),
             units::format(change.abs(), Kind::ScrewLength, system),
             self.solved()?.recommendation_load,

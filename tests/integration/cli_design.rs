@@ -208,8 +208,8 @@ fn conditions_heavier_boat_needs_more_power_and_turns_fewer_rpm() {
         by_label("full load"),
     );
     let f = |c: &Value, k: &str| c[k].as_f64().unwrap_or_else(|| panic!("{k} in {c}"));
-    assert!(f(light, "displacement_kg") < f(half, "displacement_kg"));
-    assert!(f(half, "displacement_kg") < f(full, "displacement_kg"));
+    assert!(f(light, "displacement_t") < f(half, "displacement_t"));
+    assert!(f(half, "displacement_t") < f(full, "displacement_t"));
     // More weight: more power at the same (target) speed …
     assert!(f(light, "cruise_kw") < f(half, "cruise_kw"));
     assert!(f(half, "cruise_kw") < f(full, "cruise_kw"));
@@ -239,7 +239,11 @@ fn conditions_heavier_boat_needs_more_power_and_turns_fewer_rpm() {
     assert!(lo < mid && mid < hi, "{lo} {mid} {hi}");
     assert_eq!(band["displacement_spread"].as_f64().unwrap(), 0.10);
     for p in band["points"].as_array().unwrap() {
-        let (l, n, h) = (f(p, "low_kw"), f(p, "power_kw"), f(p, "high_kw"));
+        let (l, n, h) = (
+            f(p, "low_kw_per_engine"),
+            f(p, "power_kw_per_engine"),
+            f(p, "high_kw_per_engine"),
+        );
         assert!(l <= n && n <= h, "{p}");
     }
     assert!(doc["caution"].as_str().unwrap().contains("surveyor"));
@@ -436,7 +440,11 @@ fn pitch_json_names_its_condition_and_calibration() {
     ] {
         assert!(!v[field].is_null(), "{field} missing in {v}");
     }
-    assert!(v["condition"].as_str().unwrap().contains("displacement"));
+    // The condition's displacement is a mass in tonnes: the boat file's half load, 4.6 t.
+    let condition = &v["condition"];
+    assert_close!(condition["displacement_t"].as_f64().unwrap(), 4.6, 1e-9);
+    assert_eq!(condition["label"], "as loaded in the boat file");
+    assert_close!(condition["service_margin"].as_f64().unwrap(), 0.15, 1e-12);
 }
 
 /// The test fixtures' profile directory (boats/ and engines/).
@@ -481,15 +489,32 @@ fn full_throttle_past_the_method_is_marked_unreliable_in_json_report_and_pitch()
 
     let text = run_text(&["--profiles", &store, "report", "stubby"]);
     assert!(
-        text.contains("top speed about") && text.contains("(UNRELIABLE: Froude number"),
+        text.contains("top speed about")
+            && text.contains("(UNRELIABLE: Fn 0.56 is past the method's Froude range (to 0.38)"),
         "{text}"
     );
     assert!(
         text.contains("FULL THROTTLE OUTSIDE THE METHOD'S RANGE (screw only)"),
         "{text}"
     );
+    // Each row names its own cause: at 1000 rpm only the speed/length limit (Fn 0.37 is
+    // inside Holtrop–Mennen's small-ship range to 0.38), above it the Froude range as well.
+    let row = |rpm: &str| {
+        text.lines()
+            .find(|l| l.trim_start().starts_with(rpm))
+            .unwrap_or_else(|| panic!("no {rpm} rpm row in {text}"))
+    };
+    let at_1000 = row("1000 ");
     assert!(
-        text.contains("unreliable: outside the method's range (Fn"),
+        at_1000.contains(
+            "unreliable: speed/length ratio 1.26 is past the displacement-hull limit 1.18"
+        ) && !at_1000.contains("Froude range"),
+        "{at_1000}"
+    );
+    assert!(
+        row("1200 ").contains(
+            "unreliable: Fn 0.40 is past the method's Froude range (to 0.38); speed/length ratio"
+        ),
         "{text}"
     );
 
@@ -522,12 +547,28 @@ fn the_exported_charts_ring_points_past_the_method_and_the_report_marks_the_top_
         let svg = std::fs::read_to_string(out.join(chart)).unwrap();
         // The legend is XML-escaped: the apostrophe is written &apos;.
         assert!(
-            svg.contains("past the method&apos;s range: unreliable"),
+            svg.contains("unreliable: past the resistance method&apos;s range or the"),
             "{chart}"
         );
     }
+    // The full-throttle marker is drawn last, over every curve and ring.
+    let power = std::fs::read_to_string(out.join("power.svg")).unwrap();
+    let marker = power
+        .find("<title>full-throttle point</title>")
+        .expect("a full-throttle marker");
+    assert!(
+        power.rfind("<polyline").unwrap() < marker,
+        "a curve over the marker"
+    );
+    assert!(
+        !power[marker..].contains("<g class=\"series\">"),
+        "a series drawn over the full-throttle marker"
+    );
     let md = std::fs::read_to_string(out.join("report.md")).unwrap();
-    assert!(md.contains("(UNRELIABLE: Froude number"), "{md}");
+    assert!(
+        md.contains("(UNRELIABLE: Fn 0.56 is past the method's Froude range"),
+        "{md}"
+    );
     assert!(!md.contains("top speed 9."), "a plain top speed:\n{md}");
 }
 
@@ -828,9 +869,9 @@ fn the_band_is_two_sided_and_every_case_shows_its_margin() {
         let band = &json["band"];
         for p in band["points"].as_array().unwrap() {
             let (low, nominal, high) = (
-                p["low_kw"].as_f64().unwrap(),
-                p["power_kw"].as_f64().unwrap(),
-                p["high_kw"].as_f64().unwrap(),
+                p["low_kw_per_engine"].as_f64().unwrap(),
+                p["power_kw_per_engine"].as_f64().unwrap(),
+                p["high_kw_per_engine"].as_f64().unwrap(),
             );
             assert!(
                 low < nominal && nominal < high,
@@ -858,4 +899,52 @@ fn the_band_is_two_sided_and_every_case_shows_its_margin() {
         assert!(margin("fouled") <= clean + 1e-9, "{boat}");
         assert!(margin("seaway") <= clean + 1e-9, "{boat}");
     }
+}
+
+#[test]
+fn conditions_show_each_loading_once_and_say_which_the_file_lacks() {
+    // Sorrel's file has only [load.half], its default: one "as given" row, no "half load"
+    // row repeating it, and a line naming the missing light and full loads.
+    let text = run_text(&["conditions", "sorrel"]);
+    let rows: Vec<&str> = text.lines().filter(|l| l.starts_with("  ")).collect();
+    assert!(
+        rows.iter()
+            .any(|r| r.contains("as given (the file's half load)")),
+        "{text}"
+    );
+    assert!(
+        !rows.iter().any(|r| r.trim_start().starts_with("half load")),
+        "{text}"
+    );
+    assert!(
+        text.contains("no light ([load.light]) or full ([load.full]) load in the boat file"),
+        "{text}"
+    );
+    // Pintle has all three: light and full are rows, half is the "as given" row, and nothing
+    // is said to be missing.
+    let text = run_text(&["conditions", "pintle"]);
+    let starts = |r: &&str, w: &str| r.trim_start().starts_with(w);
+    let rows: Vec<&str> = text.lines().filter(|l| l.starts_with("  ")).collect();
+    assert!(rows.iter().any(|r| starts(r, "light ")), "{text}");
+    assert!(rows.iter().any(|r| starts(r, "full load ")), "{text}");
+    assert!(!rows.iter().any(|r| starts(r, "half load ")), "{text}");
+    assert!(!text.contains("load in the boat file: add"), "{text}");
+}
+
+#[test]
+fn metric_output_gives_the_core_messages_lengths_in_millimetres_only() {
+    // Samphire's file is metric: the sweep's "no pitch" message names its pitch in mm alone.
+    let text = run_text(&["sweep", "samphire"]);
+    assert!(
+        text.contains("the smallest searched pitch 305 mm"),
+        "{text}"
+    );
+    assert!(!text.contains(" in)"), "{text}");
+    // Asked for imperial, the same message is in inches alone.
+    let text = run_text(&["--units", "imperial", "sweep", "samphire"]);
+    assert!(
+        text.contains("the smallest searched pitch 12.0 in"),
+        "{text}"
+    );
+    assert!(!text.contains(" m ("), "{text}");
 }

@@ -450,3 +450,37 @@ fn templates_state_the_canoe_body_draft_and_the_margins() {
     }
     assert_eq!(template::BLANK, "FILL IN");
 }
+
+#[test]
+fn templates_give_the_repitch_limit_pitch_prints_and_the_gears_the_shortlist_reads() {
+    use tidewright::propulsion::solver::pitch::DEFAULT_REPITCH_LIMIT;
+    for system in [Metric, Imperial] {
+        let boat = boat_template("x", system);
+        let line = boat
+            .lines()
+            .find(|l| l.starts_with("# repitch_limit = "))
+            .unwrap_or_else(|| panic!("{system:?}: no repitch_limit line"));
+        let value = line.split('"').nth(1).unwrap();
+        // The template's value is the default the solver applies: 2 in = 50.8 mm exactly
+        // (the international inch, NIST SP 811 B.8).
+        let parsed = tidewright::units::parse(value, tidewright::units::Kind::ScrewLength).unwrap();
+        assert!(
+            (parsed - DEFAULT_REPITCH_LIMIT).abs() < 1e-9,
+            "{system:?}: {line}"
+        );
+        let engine = engine_template("x", system);
+        assert!(
+            engine.contains("# gears = [") && engine.contains("shortlist"),
+            "{system:?}: the engine template names no gears"
+        );
+    }
+    // And `pitch` prints that limit as the template writes it, not rounded to 51 mm.
+    let out = assert_cmd::Command::cargo_bin("tidewright")
+        .unwrap()
+        .env_remove("TIDEWRIGHT_PROFILES")
+        .args(["--profiles", "/nonexistent-store", "pitch", "pintle"])
+        .output()
+        .unwrap();
+    let text = String::from_utf8_lossy(&out.stdout);
+    assert!(text.contains("re-pitch limit of ±50.8 mm"), "{text}");
+}

@@ -65,6 +65,41 @@ fn serve_once(listener: TcpListener, text: String, hold: Duration) -> std::threa
 }
 
 #[test]
+fn before_the_first_run_the_live_line_says_what_takes_one() {
+    let log = super::trial_import::pintle_log_with(TimePrefix::Iso);
+    // The first stretch of the first leg only: steady, but the rpm never changes after it.
+    let first: String = log
+        .nmea
+        .lines()
+        .take(120)
+        .map(|l| format!("{l}\r\n"))
+        .collect();
+    let listener = TcpListener::bind("127.0.0.1:0").unwrap();
+    let address = listener.local_addr().unwrap();
+    let server = serve_once(listener, first, Duration::from_millis(50));
+    let store = Store::at("/nonexistent");
+    let mut app = tidewright::tui::open_app(&store, Some("pintle")).unwrap();
+    let text = format!("tcp://{address}");
+    app.update(Action::LiveStarted(text.clone()));
+    let options = FeedOptions {
+        reconnect_initial_s: 5.0,
+        ..FeedOptions::default()
+    };
+    let feed = Feed::start(FeedSource::parse(&text).unwrap(), options);
+    assert!(pump(&mut app, &feed, |a| {
+        let live = a.live.as_ref().unwrap();
+        matches!(live.state, FeedState::Reconnecting { .. }) && live.last.is_some()
+    }));
+    server.join().unwrap();
+    assert!(app.live.as_ref().unwrap().captured.is_empty());
+    let shown = screen(&app);
+    assert!(
+        shown.contains("0 runs captured (a run is taken when the rpm changes"),
+        "{shown}"
+    );
+}
+
+#[test]
 fn live_feed_shows_values_captures_runs_survives_a_drop_and_reconnects() {
     let log = super::trial_import::pintle_log_with(TimePrefix::Iso);
     let lines: Vec<&str> = log.nmea.lines().collect();
@@ -130,12 +165,12 @@ fn live_feed_shows_values_captures_runs_survives_a_drop_and_reconnects() {
     // The sea-trial view lists them; drop the last, make the kept runs the log, apply the fit.
     press(&mut app, 'r');
     let shown = screen(&app);
-    assert!(shown.contains("6 run(s) captured, 6 kept"), "{shown}");
+    assert!(shown.contains("6 runs captured, 6 kept"), "{shown}");
     for _ in 0..5 {
         press(&mut app, 'J');
     }
     press(&mut app, 'x');
-    assert!(screen(&app).contains("6 run(s) captured, 5 kept"));
+    assert!(screen(&app).contains("6 runs captured, 5 kept"));
     // The run left of the broken pair counts one way.
     let kept = app.live.as_ref().unwrap().kept_trial_runs();
     assert_eq!(kept.len(), 5);

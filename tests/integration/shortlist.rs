@@ -426,6 +426,17 @@ fn export_has_the_shortlist_section_and_its_chart() {
     assert_eq!(rows, 11, "{section}");
     let svg = std::fs::read_to_string(out.join("shortlist.svg")).unwrap();
     assert!(svg.starts_with("<?xml") && svg.contains("against top speed"));
+    // Each plotted candidate is labelled by its place in the table: #1, #2, … in order (those
+    // that fall short have no top speed and come last, unplotted).
+    let labels: Vec<&str> = svg
+        .split(r#"class="point-label""#)
+        .skip(1)
+        .map(|t| &t[t.find('>').unwrap() + 1..t.find("</text>").unwrap()])
+        .collect();
+    assert!(labels.len() >= 2 && labels.len() <= rows, "{labels:?}");
+    for (i, label) in labels.iter().enumerate() {
+        assert_eq!(*label, format!("#{}", i + 1));
+    }
 }
 
 #[test]

@@ -243,8 +243,45 @@ fn unusable_logs_say_why_exit_non_zero_and_save_nothing() {
     let (code, out, err) = refused("short.nmea", short.nmea.as_bytes());
     assert_eq!(code, 1);
     assert!(out.contains("Rejected: 4 segment(s)"), "{out}");
-    assert!(out.contains("too short"), "{out}");
+    assert!(
+        out.contains("too short") && out.contains("(--min-run sets the shortest run kept)"),
+        "the rejection names the setting that lets it through:\n{out}"
+    );
     assert!(err.contains("no steady run found"), "{err}");
+}
+
+#[test]
+fn a_scatter_rejection_names_its_setting_and_that_setting_takes_the_runs() {
+    // GPS speed scatter of 0.4 kn (1 kn = 1852/3600 m/s exactly), past the 0.25 kn default.
+    let noisy = synth::generate(
+        &SynthSpec {
+            sog_noise: 0.4 * 1852.0 / 3600.0,
+            ..SynthSpec::default()
+        },
+        |rpm| 0.9 + 1.6e-3 * rpm,
+        None,
+    );
+    let (dir, store, _) = store();
+    let file = write_log(&dir, "noisy.nmea", noisy.nmea.as_bytes());
+    let run = |extra: &[&str]| {
+        let mut args = vec!["--profiles", &store, "trial", "pintle", "--import", &file];
+        args.extend_from_slice(extra);
+        let out = tidewright().args(&args).output().unwrap();
+        (
+            out.status.code(),
+            String::from_utf8_lossy(&out.stdout).into_owned(),
+        )
+    };
+    let (_, out) = run(&[]);
+    assert!(
+        out.contains("speed not steady") && out.contains("(--max-scatter sets the limit)"),
+        "{out}"
+    );
+    let (code, wide) = run(&["--max-scatter", "0.8"]);
+    assert_eq!(code, Some(0), "{wide}");
+    assert!(!wide.contains("speed not steady"), "{wide}");
+    let (code, _) = run(&["--max-scatter", "-1"]);
+    assert_eq!(code, Some(2), "a negative limit is a usage error");
 }
 
 #[test]

@@ -550,6 +550,20 @@ fn help_overlay_lists_every_key() {
     let small = screen(&app, 80, 24);
     assert!(small.contains("Moving and editing"), "{small}");
     assert!(small.contains("select the field above"), "{small}");
+    // The overlay clears what it covers: between the header and the footer, every row is the
+    // overlay's own (its border, or blank in the margin), with nothing of the screen beside it.
+    for size in [(80, 24), (120, 40)] {
+        let drawn = screen(&app, size.0, size.1);
+        let rows: Vec<&str> = drawn.lines().collect();
+        for row in &rows[1..rows.len() - 1] {
+            let first = row.chars().next().unwrap_or(' ');
+            let last = row.chars().last().unwrap_or(' ');
+            assert!(
+                first == ' ' && (last == ' ' || row.chars().count() < size.0 as usize),
+                "the screen shows beside the help overlay at {size:?}:\n{drawn}"
+            );
+        }
+    }
     insta::assert_snapshot!("help_80x24", small);
     // At 80×24 the list scrolls: the later sections come into view.
     let mut scrolled = String::new();
@@ -1170,10 +1184,12 @@ fn tmux_what_if_view_shows_the_cruise_rpm_of_conditions_json() {
         String::from_utf8_lossy(&conditions.stderr)
     );
     let doc: serde_json::Value = serde_json::from_slice(&conditions.stdout).unwrap();
-    let expected: Vec<String> = doc["conditions"]
-        .as_array()
-        .expect("conditions listed")
+    let all = doc["conditions"].as_array().expect("conditions listed");
+    assert_eq!(all.len(), 6, "as given, three loads, fouled, sea state");
+    // The screen leaves out the load case that only repeats the boat as given (half load).
+    let expected: Vec<String> = all
         .iter()
+        .filter(|c| c["repeats_as_given"] == serde_json::Value::Bool(false))
         .map(|c| {
             format!(
                 "{:.0}",
@@ -1183,8 +1199,8 @@ fn tmux_what_if_view_shows_the_cruise_rpm_of_conditions_json() {
         .collect();
     assert_eq!(
         expected.len(),
-        6,
-        "as given, three loads, fouled, sea state"
+        5,
+        "as given, light, full, fouled, sea state"
     );
 
     let session = format!("tidewright-whatif-{}", std::process::id());
@@ -1520,6 +1536,12 @@ fn shortlist_view_sorts_and_takes_a_candidate_in_one_undoable_edit() {
     assert_eq!(app.shortlist_row, row);
     let chosen = list.candidates[row].clone();
     assert!(key(&mut app, KeyCode::Enter).is_none());
+    // The status says what was taken and, whole, which keys save and undo it, at 80 columns.
+    let small = screen(&app, 80, 24);
+    assert!(
+        small.contains("(unsaved: s saves, u undoes)"),
+        "the status is cut:\n{small}"
+    );
     let boat = &app.doc.boat;
     assert_eq!(boat.engine, chosen.engine);
     assert!((boat.installation.gear_ratio - chosen.gear_ratio).abs() < 1e-12);
@@ -1559,18 +1581,64 @@ fn shortlist_view_sorts_and_takes_a_candidate_in_one_undoable_edit() {
 fn shortlist_view_draws_at_both_sizes_and_small_ones() {
     let mut app = shortlist_app();
     key(&mut app, KeyCode::Char('j'));
+    let list = shortlist_of(&app);
     let big = screen(&app, 120, 40);
     assert!(big.contains("Repower shortlist for"), "{big}");
     assert!(
-        big.contains("▶  2 "),
+        big.contains("▶   2 "),
         "the second row is highlighted:\n{big}"
     );
     assert!(big.contains("naval architect"), "the caution stays:\n{big}");
+    assert!(
+        big.contains("! beside # the candidate falls short"),
+        "{big}"
+    );
     insta::assert_snapshot!("shortlist_120x40", big);
+    for (width, height) in [(80, 24), (100, 30), (120, 40)] {
+        let text = screen(&app, width, height);
+        let rows: Vec<&str> = text.lines().collect();
+        // One line per candidate: no row wraps onto the next line.
+        let heading = rows
+            .iter()
+            .position(|r| r.contains("# engine"))
+            .unwrap_or_else(|| panic!("no table heading at {width}:\n{text}"));
+        // Candidate k+1's row follows candidate k's at once (after the highlighted one, its
+        // detail line): no row wraps onto a second line.
+        let place = |k: usize| {
+            let c = &list.candidates[k];
+            rows.iter()
+                .position(|r| r.contains(&format!("{} {}", k + 1, c.engine)))
+                .unwrap_or_else(|| panic!("no row of #{} at {width}:\n{text}", k + 1))
+        };
+        assert_eq!(place(0), heading + 1, "{text}");
+        assert_eq!(place(1), place(0) + 1, "{text}");
+        let detail = usize::from(
+            rows[place(1) + 1]
+                .trim_start_matches('│')
+                .starts_with("      "),
+        );
+        assert_eq!(place(2), place(1) + 1 + detail, "{text}");
+        // The old unexplained column is gone; a candidate that falls short is marked "!".
+        assert!(!rows[heading].contains("prob"), "{text}");
+        // The view's own keys, and none of another view's.
+        let footer = rows.last().unwrap();
+        assert!(
+            footer.contains("Enter take") && !footer.contains("parameter"),
+            "{footer}"
+        );
+        assert!(!footer.contains("apply fit"), "{footer}");
+    }
     let small = screen(&app, 80, 24);
     assert!(
-        small.contains("▶  2 "),
+        small.contains("▶   2 "),
         "the highlighted row stays on screen:\n{small}"
+    );
+    // The columns dropped at 80 are in the highlighted candidate's detail line, under its row.
+    let rows: Vec<&str> = small.lines().collect();
+    let at = rows.iter().position(|r| r.contains("▶   2 ")).unwrap();
+    assert!(
+        rows[at + 1].contains("cruise ") && rows[at + 1].contains("blades 3"),
+        "{small}"
     );
     insta::assert_snapshot!("shortlist_80x24", small);
     for (w, h) in [(40, 10), (20, 5), (1, 1)] {

@@ -321,7 +321,7 @@ fn twin_conditions_add_one_engine_out_slower_with_its_warning_marked() {
     assert!(out.top_speed.unwrap() < both.top_speed.unwrap());
     assert!(!out.warnings.is_empty());
     let d = Display::new(UnitSystem::Metric);
-    let text = result.to_text(&d);
+    let text = result.to_text(&d, &study.doc.load);
     assert!(text.contains("one engine out"), "{text}");
     assert!(
         text.contains("† one engine out: the trailing screw's drag is not included"),

@@ -250,6 +250,11 @@ const FOOT: f64 = 0.3048;
 /// One long ton, kg (2240 lb × 0.45359237 kg, by definition).
 const LONG_TON: f64 = 2240.0 * 0.453_592_37;
 
+/// The words for a prediction the core marks unreliable where its cause is not at hand (a
+/// table of candidates carries only the flag): every front end uses them.
+pub const UNRELIABLE_WORDS: &str =
+    "past the resistance method's range or the displacement-hull speed/length limit";
+
 /// Where one speed lies against the resistance method's range and the displacement regime:
 /// the single in-range decision every front end reads.
 #[derive(Debug, Clone, Copy, PartialEq, serde::Serialize)]
@@ -282,20 +287,78 @@ pub struct SpeedValidity {
 }
 
 impl SpeedValidity {
-    /// Why the prediction is unreliable here, in words, or `None` when it is in range.
+    /// Why the prediction is unreliable here, as a clause for a sentence ("speed/length ratio
+    /// 1.50 is past the displacement-hull limit 1.47; …"), or `None` when it is in range: the
+    /// causes in [`SpeedValidity::causes`]'s words, then what gives the resistance there.
     pub fn reason(&self) -> Option<String> {
         if self.in_method_range {
             return None;
         }
+        let mut parts = self.causes();
+        parts.extend(self.regime_phrase());
+        Some(parts.join("; "))
+    }
+
+    /// Why the prediction is unreliable here, in a few words for a table row, a screen's strip
+    /// or a chart ("speed/length ratio 1.50 is past the displacement-hull limit 1.47; power-law
+    /// continuation"), or `None` when it is in range: the same causes as [`SpeedValidity::reason`].
+    pub fn label(&self) -> Option<String> {
+        if self.in_method_range {
+            return None;
+        }
+        let mut parts = self.causes();
+        if self.regime.is_extrapolation() {
+            parts.push(self.regime.phrase().to_owned());
+        }
+        if parts.is_empty() {
+            parts.push(UNRELIABLE_WORDS.to_owned());
+        }
+        Some(parts.join("; "))
+    }
+
+    /// [`SpeedValidity::label`] in as few characters as a one-line screen strip affords
+    /// ("S/L 1.50 > 1.47": the speed/length ratio past its limit; "Fn 0.56 > 0.38, power-law
+    /// continuation": the Froude number past the method's range),
+    /// or `None` when it is in range.
+    pub fn brief(&self) -> Option<String> {
+        if self.in_method_range {
+            return None;
+        }
+        let mut parts = Vec::new();
+        match (self.froude_in_range, self.froude_range) {
+            (false, Some((_, high))) if self.froude > high => {
+                parts.push(format!("Fn {:.2} > {high:.2}", self.froude));
+            }
+            (false, Some((low, high))) => {
+                parts.push(format!("Fn {:.2} outside {low:.2}–{high:.2}", self.froude))
+            }
+            _ => {}
+        }
+        if let (false, Some(limit)) = (self.speed_length_in_range, self.speed_length_limit) {
+            parts.push(format!("S/L {:.2} > {limit:.2}", self.speed_length_ratio));
+        }
+        if self.regime.is_extrapolation() {
+            parts.push(self.regime.phrase().to_owned());
+        }
+        if parts.is_empty() {
+            parts.push(UNRELIABLE_WORDS.to_owned());
+        }
+        Some(parts.join(", "))
+    }
+
+    /// Each cause that takes this speed out of the method's validity, as a clause: the
+    /// method's Froude range, the displacement-hull speed/length limit. Empty when the only
+    /// cause is the regime (or none).
+    pub fn causes(&self) -> Vec<String> {
         let mut parts = Vec::new();
         if !self.froude_in_range {
             match self.froude_range {
                 Some((_, high)) if self.froude > high => parts.push(format!(
-                    "Froude number {:.2} is past the method's range (up to {high:.2})",
+                    "Fn {:.2} is past the method's Froude range (to {high:.2})",
                     self.froude
                 )),
                 Some((low, high)) => parts.push(format!(
-                    "Froude number {:.2} is outside the method's range {low:.2}–{high:.2}",
+                    "Fn {:.2} is outside the method's Froude range {low:.2}–{high:.2}",
                     self.froude
                 )),
                 None => {}
@@ -303,14 +366,11 @@ impl SpeedValidity {
         }
         if let (false, Some(limit)) = (self.speed_length_in_range, self.speed_length_limit) {
             parts.push(format!(
-                "speed/length ratio {:.2} is past the displacement-hull limit {limit:.2} for this displacement-length ratio",
+                "speed/length ratio {:.2} is past the displacement-hull limit {limit:.2}",
                 self.speed_length_ratio
             ));
         }
-        if let Some(regime) = self.regime_phrase() {
-            parts.push(regime);
-        }
-        Some(parts.join("; "))
+        parts
     }
 
     /// What gives the resistance here when it is not the method itself, as a phrase
@@ -610,6 +670,63 @@ const SOURCE: &str = "resistance";
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    /// A speed's validity with the given causes (the numbers are the demo's marram at full
+    /// throttle: Fn 0.45 inside van Oortmerssen's range to 0.50, speed/length 1.50 past 1.47).
+    fn validity(froude: f64, speed_length_ratio: f64, regime: Regime) -> SpeedValidity {
+        let froude_range = Some((0.0, 0.50));
+        let speed_length_limit = Some(1.47);
+        let froude_in_range = froude <= 0.50;
+        let speed_length_in_range = speed_length_ratio <= 1.47;
+        SpeedValidity {
+            froude,
+            froude_range,
+            speed_length_ratio,
+            speed_length_limit,
+            froude_in_range,
+            speed_length_in_range,
+            regime,
+            regime_words: "",
+            continuation_exponent: None,
+            froude_volume: 0.0,
+            in_method_range: froude_in_range && speed_length_in_range && !regime.is_extrapolation(),
+        }
+    }
+
+    #[test]
+    fn the_words_name_the_cause_that_holds_and_only_it() {
+        let by_length = validity(0.45, 1.50, Regime::Method);
+        for words in [by_length.label(), by_length.reason(), by_length.brief()] {
+            let words = words.unwrap();
+            assert!(words.contains("1.50") && words.contains("1.47"), "{words}");
+            assert!(
+                !words.contains("Fn") && !words.contains("Froude"),
+                "{words}"
+            );
+        }
+        assert_eq!(
+            by_length.label().unwrap(),
+            "speed/length ratio 1.50 is past the displacement-hull limit 1.47"
+        );
+        let by_froude = validity(0.55, 1.40, Regime::Method);
+        let label = by_froude.label().unwrap();
+        assert_eq!(label, "Fn 0.55 is past the method's Froude range (to 0.50)");
+        assert!(by_froude.reason().unwrap().starts_with(&label));
+        assert_eq!(by_froude.brief().unwrap(), "Fn 0.55 > 0.50");
+        let both = validity(0.60, 1.90, Regime::Continuation);
+        let label = both.label().unwrap();
+        assert!(
+            label.contains("Froude range")
+                && label.contains("speed/length")
+                && label.ends_with("power-law continuation"),
+            "{label}"
+        );
+        let inside = validity(0.30, 1.00, Regime::Method);
+        assert_eq!(
+            (inside.label(), inside.reason(), inside.brief()),
+            (None, None, None)
+        );
+    }
 
     #[test]
     fn table_interpolates_between_rows() {

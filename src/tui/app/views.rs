@@ -269,7 +269,14 @@ impl App {
                     self.commit(next);
                     self.set_status(
                         Level::Info,
-                        format!("{runs} captured run(s) are the trial log now (a applies the fit; u undoes)"),
+                        format!(
+                            "{} the trial log now (a applies the fit; u undoes)",
+                            if runs == 1 {
+                                "1 captured run is".to_string()
+                            } else {
+                                format!("{runs} captured runs are")
+                            }
+                        ),
                     );
                 }
                 None => self.set_status(Level::Error, "no captured run is kept"),

@@ -1,5 +1,6 @@
 //! The strips around the panes: header, chart tabs, status line and footer hints.
 
+use crate::tui::analysis::ViewKind;
 use crate::tui::app::{App, Level};
 use crate::tui::fields::Pane;
 use crate::tui::keys::{self, Mode};
@@ -67,12 +68,43 @@ pub(crate) fn draw_status(app: &App, area: Rect, buf: &mut Buffer) {
             Level::Info => app.theme.accent,
             Level::Error => app.theme.error,
         };
-        Line::styled(status.text.clone(), style).render(area, buf);
+        Line::styled(status_fitted(&status.text, area.width as usize), style).render(area, buf);
     } else if let Some(warnings) = app.solution.solved().map(|s| &s.warnings)
         && let Some(line) = warning_line(warnings, area.width as usize)
     {
         Line::styled(line, app.theme.warning).render(area, buf);
     }
+}
+
+/// A status message fitted to `width`: too long, it is cut at a word with "…" before its
+/// closing parenthesis ("(unsaved: s saves, u undoes)"), which always stays: the keys that
+/// act on what was just done.
+pub fn status_fitted(text: &str, width: usize) -> String {
+    if text.chars().count() <= width {
+        return text.to_string();
+    }
+    let (head, tail) = match text.rfind(" (") {
+        Some(at) if text.ends_with(')') => (&text[..at], &text[at..]),
+        _ => (text, ""),
+    };
+    let room = width.saturating_sub(tail.chars().count() + 1);
+    let mut cut = String::new();
+    for word in head.split(' ') {
+        let next = if cut.is_empty() {
+            word.to_string()
+        } else {
+            format!("{cut} {word}")
+        };
+        if next.chars().count() > room {
+            break;
+        }
+        cut = next;
+    }
+    if cut.is_empty() {
+        cut = head.chars().take(room).collect();
+    }
+    let fitted = format!("{cut}…{tail}");
+    fitted.chars().take(width).collect()
 }
 
 /// The first of `warnings` fitted to `width`, cut at a word with "…", and a count of the
@@ -97,9 +129,14 @@ pub fn warning_line(warnings: &[impl std::fmt::Display], width: usize) -> Option
     Some(format!("! {text}{more}"))
 }
 
-/// The footer's hints that fit in `width`: the table's order, but help and quit always stay.
-pub fn footer_hints_fitting(mode: Mode, width: u16) -> Vec<(&'static str, &'static str)> {
-    let hints = keys::footer_hints(mode);
+/// The footer's hints that fit in `width`: the table's order, but help and quit always stay;
+/// in a design view, only that view's keys and those of every view.
+pub fn footer_hints_fitting(
+    mode: Mode,
+    view: Option<ViewKind>,
+    width: u16,
+) -> Vec<(&'static str, &'static str)> {
+    let hints = keys::footer_hints(mode, view);
     let cost = |(k, h): &(&str, &str)| k.chars().count() + h.chars().count() + 3;
     let kept_last: Vec<_> = hints
         .iter()
@@ -121,7 +158,7 @@ pub fn footer_hints_fitting(mode: Mode, width: u16) -> Vec<(&'static str, &'stat
 
 pub(crate) fn draw_footer(app: &App, area: Rect, buf: &mut Buffer) {
     let mut spans = Vec::new();
-    for (key, hint) in footer_hints_fitting(app.mode(), area.width) {
+    for (key, hint) in footer_hints_fitting(app.mode(), app.view_kind(), area.width) {
         spans.push(Span::styled(
             key,
             app.theme.focus.add_modifier(Modifier::BOLD),
@@ -144,7 +181,19 @@ pub(crate) fn centred(area: Rect, width: u16, height: u16) -> Rect {
 
 #[cfg(test)]
 mod warning_tests {
-    use super::warning_line;
+    use super::{status_fitted, warning_line};
+
+    #[test]
+    fn a_long_status_keeps_its_keys_in_view() {
+        let text = "engine brindmoor-4b62 (Brindmoor 4B62), gear 2.50:1 and screw variant shortlist brindmoor-4b62 2.50:1 in use (unsaved: s saves, u undoes)";
+        let line = status_fitted(text, 80);
+        assert!(line.chars().count() <= 80, "{line}");
+        assert!(line.ends_with("… (unsaved: s saves, u undoes)"), "{line}");
+        assert!(line.starts_with("engine brindmoor-4b62"), "{line}");
+        assert_eq!(status_fitted("saved", 80), "saved");
+        // Narrower than the keys themselves: cut, never wider than the line.
+        assert!(status_fitted(text, 10).chars().count() <= 10);
+    }
 
     #[test]
     fn a_long_warning_is_cut_at_a_word_and_the_others_are_counted() {

@@ -3,6 +3,8 @@
 
 use crate::instruments::feed::FeedState;
 use crate::instruments::time::clock_of;
+use crate::report::count;
+use crate::report::import::rejection_hint;
 use crate::tui::app::App;
 use crate::tui::live::{Live, interpolate};
 use crate::units::{self, Kind};
@@ -81,8 +83,28 @@ pub fn readout_line(app: &App, live: &Live) -> Line<'static> {
             theme.dim,
         ));
     }
+    // Why nothing is captured yet: a steady stretch becomes a run only when it ends, and the
+    // last one dropped says what it lacked and which setting of an import would take it.
+    let why = match (live.captured.is_empty(), live.finder.rejected().last()) {
+        (false, _) => String::new(),
+        (true, Some(r)) => {
+            let hint = rejection_hint(&r.reason).map_or(String::new(), |h| {
+                let h = if h.starts_with("--") {
+                    format!("trial --import {h}")
+                } else {
+                    h.to_string()
+                };
+                format!("; {h}")
+            });
+            format!(" (last dropped: {}{hint})", r.reason)
+        }
+        (true, None) => " (a run is taken when the rpm changes after a steady stretch)".into(),
+    };
     spans.push(Span::styled(
-        format!(" · {} run(s) captured", live.captured.len()),
+        format!(
+            " · {} captured{why}",
+            count(live.captured.len(), "run", "runs")
+        ),
         theme.dim,
     ));
     Line::from(spans)
@@ -97,10 +119,10 @@ pub fn captured_lines(app: &App) -> Vec<Line<'static>> {
     let unit = units::unit_label(Kind::Speed, system);
     let mut lines = vec![Line::styled(
         format!(
-            "Live feed {} — {}: {} run(s) captured, {} kept (x keeps/drops, J/K move, g makes the kept runs the trial log)",
+            "Live feed {} — {}: {} captured, {} kept (x keeps/drops, J/K move, g makes the kept runs the trial log)",
             live.source,
             live.state,
-            live.captured.len(),
+            count(live.captured.len(), "run", "runs"),
             live.captured.iter().filter(|c| c.kept).count()
         ),
         Style::default().add_modifier(Modifier::BOLD),

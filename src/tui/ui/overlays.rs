@@ -89,7 +89,16 @@ pub(crate) fn draw_help(app: &App, scroll: u16, area: Rect, buf: &mut Buffer) {
         area.width.saturating_sub(2),
         area.height.saturating_sub(2),
     );
-    Clear.render(rect, buf);
+    // Every row it spans, the side margins included: a pane's border or a letter left beside
+    // the overlay would read as part of it. The header and footer rows stay.
+    Clear.render(
+        Rect {
+            x: area.x,
+            width: area.width,
+            ..rect
+        },
+        buf,
+    );
     let block = Block::default()
         .borders(Borders::ALL)
         .border_style(app.theme.focus)

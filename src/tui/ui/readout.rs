@@ -1,6 +1,7 @@
 //! The readout strip: the target speed and, per variant, its match, cruise and verdict.
 
 use super::CAUTION;
+use crate::propulsion::hull::UNRELIABLE_WORDS;
 use crate::propulsion::solver::Verdict;
 use crate::report::text::signed_rpm;
 use crate::tui::app::{App, EditTarget};
@@ -115,7 +116,9 @@ pub fn readout_lines(app: &App) -> Vec<Line<'static>> {
                         format!(
                             "≈{} UNRELIABLE ({})",
                             units::format(m.top_speed, Kind::Speed, system),
-                            short_reason(&m.top_validity)
+                            m.top_validity
+                                .brief()
+                                .unwrap_or_else(|| UNRELIABLE_WORDS.to_owned())
                         ),
                         theme.warning.add_modifier(Modifier::BOLD),
                     ));
@@ -157,21 +160,4 @@ pub fn readout_lines(app: &App) -> Vec<Line<'static>> {
     }
     lines.push(Line::styled(CAUTION, theme.dim));
     lines
-}
-
-/// Why a speed is out of range, in a few words for the strip: the Froude number past the
-/// method's range, or the speed/length ratio past the displacement-hull limit, and the regime
-/// when the figure is not the method's own.
-fn short_reason(v: &crate::propulsion::hull::SpeedValidity) -> String {
-    let cause = match (v.froude_in_range, v.speed_length_limit) {
-        (false, _) => format!("Fn {:.2}", v.froude),
-        (true, Some(limit)) => format!("S/L {:.2} > {limit:.2}", v.speed_length_ratio),
-        (true, None) => format!("Fn {:.2}", v.froude),
-    };
-    // The regime says what gives the figure there: the strip names it in the table's words.
-    if v.regime.is_extrapolation() {
-        format!("{cause}, {}", v.regime.phrase())
-    } else {
-        cause
-    }
 }

@@ -45,8 +45,7 @@ pub(crate) fn number(
 }
 
 /// The legend of a ≈-marked top speed.
-pub(crate) const UNRELIABLE_TOP_LEGEND: &str =
-    "≈ top speed outside the resistance method's range: unreliable, a sea trial decides";
+pub(crate) const UNRELIABLE_TOP_LEGEND: &str = crate::report::what_if::UNRELIABLE_TOP_NOTE;
 
 /// A top speed, marked ≈ when it lies outside the resistance method's range (unreliable).
 pub(crate) fn top_speed(
@@ -193,7 +192,7 @@ fn view_lines_marked(app: &App, width: usize) -> (Vec<Line<'static>>, Option<usi
         Some(ViewData::Sweep(v)) => (sweep_lines(app, v), None),
         Some(ViewData::Calibration(v)) => (calibration_lines(app, v), None),
         Some(ViewData::WhatIf(v)) => (what_if_lines(app, v, width), None),
-        Some(ViewData::Shortlist(v)) => shortlist_lines(app, v),
+        Some(ViewData::Shortlist(v)) => shortlist_lines(app, v, width),
         None => (vec![Line::raw("nothing solved for this view")], None),
     };
     lines.push(Line::default());

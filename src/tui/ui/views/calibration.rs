@@ -27,12 +27,12 @@ pub(crate) fn calibration_lines(
     lines.push(heading(
         app,
         format!(
-            "Sea trial{}: {} runs, model without correction vs measured",
+            "Sea trial{}: {}, model without correction vs measured",
             view.trial_date
                 .as_ref()
                 .map(|d| format!(" of {d}"))
                 .unwrap_or_default(),
-            view.runs
+            crate::report::count(view.runs, "run", "runs")
         ),
     ));
     lines.push(Line::styled(

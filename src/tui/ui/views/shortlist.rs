@@ -2,9 +2,9 @@
 //! highlighted; the highlighted candidate's checks under the table.
 
 use super::{UNRELIABLE_TOP_LEGEND, dash, heading, number, top_speed};
-use crate::report::Display;
 use crate::report::power_speed::{point_line, power_summary};
 use crate::report::shortlist::{candidate_notes, rank_line};
+use crate::report::{Display, count};
 use crate::study::power_speed::{PowerForSpeed, PowerPoint};
 use crate::study::shortlist::{Candidate, Shortlist, ShortlistRank};
 use crate::tui::analysis::ShortlistView;
@@ -18,10 +18,252 @@ use ratatui::text::{Line, Span};
 /// The widest engine name the table gives room to, characters.
 const ENGINE_WIDTH: usize = 16;
 
-/// The view's lines and the index of the highlighted candidate's line, if any.
+/// The text of one column's cell for candidate `i` (0-based place in the list).
+type Cell = Box<dyn Fn(usize, &Candidate) -> String>;
+
+/// One column of the shortlist table: heading, width, and the cell of each candidate.
+struct Column {
+    /// The heading (its unit in it).
+    head: String,
+    /// The name in the highlighted candidate's detail line when the column is dropped.
+    name: &'static str,
+    /// The unit after the value in that line ("" for none).
+    unit: String,
+    /// Width in characters (cells are right-aligned unless `left`).
+    width: usize,
+    /// Whether cells are left-aligned.
+    left: bool,
+    /// The cell of candidate `i` (0-based place in the list).
+    cell: Cell,
+}
+
+/// The table's columns, most wanted first: the ones a narrow screen keeps. The ranked
+/// figure moves up to stay beside the engine and gear.
+fn columns(rank: ShortlistRank, system: UnitSystem, engine_width: usize) -> Vec<Column> {
+    let len_unit = units::unit_label(Kind::ScrewLength, system);
+    let speed = units::unit_label(Kind::Speed, system).to_string();
+    let fuel_nm = units::unit_label(Kind::FuelPerDistance, system).to_string();
+    let fuel_h = units::unit_label(Kind::FuelRate, system).to_string();
+    let distance = units::unit_label(Kind::Distance, system).to_string();
+    let col = |head: String, name: &'static str, unit: &str, width: usize, cell: Cell| Column {
+        width: width.max(head.chars().count()),
+        head,
+        name,
+        unit: unit.to_string(),
+        left: false,
+        cell,
+    };
+    let mut cols = vec![
+        col(
+            "#".into(),
+            "#",
+            "",
+            3,
+            Box::new(|i, c| {
+                // "!" beside the place: the candidate falls short (problems under the table).
+                let mark = if c.problems.is_empty() { "" } else { "!" };
+                format!("{mark}{}", i + 1)
+            }),
+        ),
+        Column {
+            left: true,
+            ..col(
+                "engine".into(),
+                "engine",
+                "",
+                engine_width,
+                Box::new(move |_, c| {
+                    let mut engine: String = c.engine.chars().take(engine_width).collect();
+                    if c.engine.chars().count() > engine_width {
+                        engine.pop();
+                        engine.push('…');
+                    }
+                    engine
+                }),
+            )
+        },
+        col(
+            "gear".into(),
+            "gear",
+            "",
+            6,
+            Box::new(|_, c| gear_label(c.gear_ratio)),
+        ),
+        col(
+            fuel_nm.clone(),
+            "fuel",
+            &fuel_nm,
+            7,
+            Box::new(move |_, c| number(c.fuel_per_distance, Kind::FuelPerDistance, system, 2)),
+        ),
+        col(
+            format!("top {speed}"),
+            "top",
+            &speed,
+            6,
+            Box::new(move |_, c| top_speed(c.top_speed, c.top_speed_in_method_range, system, 1)),
+        ),
+        col(
+            "margin".into(),
+            "margin",
+            "rpm",
+            6,
+            Box::new(|_, c| {
+                c.rpm_margin
+                    .filter(|m| m.is_finite())
+                    .map_or_else(dash, |m| format!("{m:+.0}"))
+            }),
+        ),
+        col(
+            format!("D×P {len_unit}"),
+            "D×P",
+            len_unit,
+            11,
+            Box::new(move |_, c| match c.pitch {
+                Some(p) => format!(
+                    "{}×{}",
+                    number(
+                        Some(c.diameter),
+                        Kind::ScrewLength,
+                        system,
+                        screw_decimals(system)
+                    ),
+                    number(Some(p), Kind::ScrewLength, system, screw_decimals(system))
+                ),
+                None => "no pitch".into(),
+            }),
+        ),
+        col(
+            "tie".into(),
+            "tie",
+            "",
+            4,
+            Box::new(|_, c| c.tie_with.map_or(String::new(), |t| format!("=#{t}"))),
+        ),
+        col(
+            format!("rng {distance}"),
+            "range",
+            &distance,
+            6,
+            Box::new(move |_, c| number(c.range, Kind::Distance, system, 0)),
+        ),
+        col(
+            "cruise".into(),
+            "cruise",
+            "rpm",
+            6,
+            Box::new(|_, c| {
+                c.cruise_rpm
+                    .filter(|r| r.is_finite())
+                    .map_or_else(dash, |r| format!("{r:.0}"))
+            }),
+        ),
+        col(
+            "load".into(),
+            "load",
+            "",
+            4,
+            Box::new(|_, c| {
+                c.cruise_load
+                    .filter(|l| l.is_finite())
+                    .map_or_else(dash, |l| format!("{:.0}%", l * 100.0))
+            }),
+        ),
+        col(
+            fuel_h.clone(),
+            "fuel",
+            &fuel_h,
+            6,
+            Box::new(move |_, c| number(c.fuel_rate, Kind::FuelRate, system, 2)),
+        ),
+        col(
+            "bl".into(),
+            "blades",
+            "",
+            2,
+            Box::new(|_, c| c.blades.to_string()),
+        ),
+        col(
+            "AE/A0".into(),
+            "AE/A0",
+            "",
+            5,
+            Box::new(|_, c| format!("{:.2}", c.area_ratio)),
+        ),
+    ];
+    let ranked = match rank {
+        ShortlistRank::Fuel => "fuel",
+        ShortlistRank::Range => "range",
+        ShortlistRank::Top => "top",
+        ShortlistRank::Margin => "margin",
+    };
+    if let Some(at) = cols.iter().position(|c| c.name == ranked) {
+        let column = cols.remove(at);
+        cols.insert(3, column);
+    }
+    cols
+}
+
+/// The columns that fit in `width` characters (two go to the row's marker), most wanted first,
+/// in the order of [`columns`]; the rest are returned apart for the detail line.
+fn fit(cols: Vec<Column>, width: usize) -> (Vec<Column>, Vec<Column>) {
+    let mut used = 2;
+    let mut kept = Vec::new();
+    let mut dropped = Vec::new();
+    for c in cols {
+        // Once one column is dropped, every later one goes too, so the table keeps its order.
+        if dropped.is_empty() && used + c.width + usize::from(!kept.is_empty()) <= width {
+            used += c.width + usize::from(!kept.is_empty());
+            kept.push(c);
+        } else {
+            dropped.push(c);
+        }
+    }
+    (kept, dropped)
+}
+
+/// The cells of the `dropped` columns for candidate `i`, named with their units ("range
+/// 1603 nm · cruise 1799 rpm"), or `None` when every column fits.
+fn detail_line(dropped: &[Column], i: usize, c: &Candidate) -> Option<String> {
+    let rest: Vec<String> = dropped
+        .iter()
+        .map(|col| ((col.cell)(i, c), col))
+        .filter(|(cell, _)| !cell.trim().is_empty())
+        .map(|(cell, col)| {
+            let unit = if col.unit.is_empty() {
+                String::new()
+            } else {
+                format!(" {}", col.unit)
+            };
+            format!("{} {}{unit}", col.name, cell.trim())
+        })
+        .collect();
+    (!rest.is_empty()).then(|| rest.join(" · "))
+}
+
+fn row(cols: &[Column], cells: impl Iterator<Item = String>) -> String {
+    cols.iter()
+        .zip(cells)
+        .map(|(c, cell)| {
+            if c.left {
+                format!("{cell:<w$}", w = c.width)
+            } else {
+                format!("{cell:>w$}", w = c.width)
+            }
+        })
+        .collect::<Vec<_>>()
+        .join(" ")
+        .trim_end()
+        .to_string()
+}
+
+/// The view's lines for `width` columns and the index of the highlighted candidate's line, if
+/// any. The table keeps the columns that fit; the highlighted candidate's detail line gives
+/// the others.
 pub(crate) fn shortlist_lines(
     app: &App,
     view: &ShortlistView,
+    width: usize,
 ) -> (Vec<Line<'static>>, Option<usize>) {
     let system = app.units;
     let choices: Vec<String> = ShortlistRank::ALL
@@ -38,7 +280,7 @@ pub(crate) fn shortlist_lines(
         Span::styled("r ranks: ", app.theme.dim),
         Span::raw(choices.join(" · ")),
         Span::styled(
-            "   Enter takes the highlighted candidate as engine, gear and a new screw variant",
+            " · Enter takes the highlighted candidate as engine, gear and a new screw variant",
             app.theme.dim,
         ),
     ])];
@@ -55,40 +297,23 @@ pub(crate) fn shortlist_lines(
     lines.push(heading(
         app,
         format!(
-            "Repower shortlist for {} ({} candidates)",
+            "Repower shortlist for {} ({})",
             list.boat,
-            list.candidates.len()
+            count(list.candidates.len(), "candidate", "candidates")
         ),
     ));
     let d = Display::new(system);
     lines.push(Line::styled(rank_line(list, &d), app.theme.dim));
-    let width = list
+    let engine_width = list
         .candidates
         .iter()
         .map(|c| c.engine.chars().count())
         .max()
         .unwrap_or(6)
         .clamp(6, ENGINE_WIDTH);
-    let len_unit = units::unit_label(Kind::ScrewLength, system);
+    let (kept, dropped) = fit(columns(app.shortlist_rank, system, engine_width), width);
     lines.push(Line::styled(
-        format!(
-            "  {:>2} {:<width$} {:>6} {:>11} {:>2} {:>5} {:>6} {:>6} {:>6} {:>4} {:>9} {:>9} {:>6} {:>4} {}",
-            "#",
-            "engine",
-            "gear",
-            format!("D×P {len_unit}"),
-            "bl",
-            "AE/A0",
-            format!("top {}", units::unit_label(Kind::Speed, system)),
-            "margin",
-            "cruise",
-            "load",
-            units::unit_label(Kind::FuelRate, system),
-            units::unit_label(Kind::FuelPerDistance, system),
-            format!("rng {}", units::unit_label(Kind::Distance, system)),
-            "prob",
-            "tie",
-        ),
+        format!("  {}", row(&kept, kept.iter().map(|c| c.head.clone()))),
         Style::default().add_modifier(Modifier::BOLD),
     ));
     let mut highlighted = None;
@@ -97,7 +322,7 @@ pub(crate) fn shortlist_lines(
         if here {
             highlighted = Some(lines.len());
         }
-        let text = candidate_row(i, c, width, system);
+        let text = row(&kept, kept.iter().map(|col| (col.cell)(i, c)));
         lines.push(if here {
             Line::styled(
                 format!("▶ {text}"),
@@ -106,6 +331,10 @@ pub(crate) fn shortlist_lines(
         } else {
             Line::raw(format!("  {text}"))
         });
+        // Under the highlighted row, the columns the table had no room for.
+        if here && let Some(rest) = detail_line(&dropped, i, c) {
+            lines.push(Line::styled(format!("      {rest}"), app.theme.accent));
+        }
     }
     if list
         .candidates
@@ -113,6 +342,12 @@ pub(crate) fn shortlist_lines(
         .any(|c| c.top_speed_in_method_range == Some(false))
     {
         lines.push(Line::styled(UNRELIABLE_TOP_LEGEND, app.theme.warning));
+    }
+    if list.candidates.iter().any(|c| !c.problems.is_empty()) {
+        lines.push(Line::styled(
+            "! beside # the candidate falls short: its problems are under the table when highlighted",
+            app.theme.warning,
+        ));
     }
     if let Some(c) = list.candidates.get(app.shortlist_row) {
         lines.push(Line::default());
@@ -136,55 +371,6 @@ pub(crate) fn shortlist_lines(
         }
     }
     (lines, highlighted)
-}
-
-fn candidate_row(i: usize, c: &Candidate, width: usize, system: UnitSystem) -> String {
-    let mut engine: String = c.engine.chars().take(width).collect();
-    if c.engine.chars().count() > width {
-        engine.pop();
-        engine.push('…');
-    }
-    let screw = match c.pitch {
-        Some(p) => format!(
-            "{}×{}",
-            number(
-                Some(c.diameter),
-                Kind::ScrewLength,
-                system,
-                screw_decimals(system)
-            ),
-            number(Some(p), Kind::ScrewLength, system, screw_decimals(system))
-        ),
-        None => "no pitch".into(),
-    };
-    format!(
-        "{:>2} {:<width$} {:>6} {:>11} {:>2} {:>5.2} {:>6} {:>6} {:>6} {:>4} {:>9} {:>9} {:>6} {:>4} {}",
-        i + 1,
-        engine,
-        gear_label(c.gear_ratio),
-        screw,
-        c.blades,
-        c.area_ratio,
-        top_speed(c.top_speed, c.top_speed_in_method_range, system, 1),
-        c.rpm_margin
-            .filter(|m| m.is_finite())
-            .map_or_else(dash, |m| format!("{m:+.0}")),
-        c.cruise_rpm
-            .filter(|r| r.is_finite())
-            .map_or_else(dash, |r| format!("{r:.0}")),
-        c.cruise_load
-            .filter(|l| l.is_finite())
-            .map_or_else(dash, |l| format!("{:.0}%", l * 100.0)),
-        number(c.fuel_rate, Kind::FuelRate, system, 2),
-        number(c.fuel_per_distance, Kind::FuelPerDistance, system, 2),
-        number(c.range, Kind::Distance, system, 0),
-        if c.problems.is_empty() {
-            dash()
-        } else {
-            c.problems.len().to_string()
-        },
-        c.tie_with.map_or(String::new(), |t| format!("= #{t}")),
-    )
 }
 
 fn screw_decimals(system: UnitSystem) -> usize {

@@ -112,7 +112,10 @@ pub(crate) fn sweep_lines(app: &App, view: &crate::tui::analysis::SweepView) -> 
             format!(
                 "  {} not solved: {}",
                 sweep_value(view.over, c.value, system),
-                c.problem.clone().unwrap_or_else(|| format!("{:?}", c.stop))
+                c.problem.as_deref().map_or_else(
+                    || format!("{:?}", c.stop),
+                    |p| crate::units::in_system(p, system)
+                )
             ),
             app.theme.warning,
         ));

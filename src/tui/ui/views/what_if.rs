@@ -2,6 +2,7 @@
 
 use super::{UNRELIABLE_TOP_LEGEND, check_lines, dash, heading, number, short_verdict, top_speed};
 use crate::propulsion::solver::conditions::ConditionOutcome;
+use crate::report::what_if::{missing_loads_line, shown_outcomes};
 use crate::tui::app::App;
 use crate::units::{self, Kind, UnitSystem};
 use ratatui::style::{Modifier, Style};
@@ -18,7 +19,17 @@ pub(crate) fn what_if_lines(
         format!("{} under each condition (same screw)", view.label),
     )];
     match &view.outcomes {
-        Ok(outcomes) => lines.extend(outcome_table(app, outcomes, width)),
+        Ok(outcomes) => {
+            // The rows the report shows: no load case that only repeats the boat as given.
+            let shown: Vec<ConditionOutcome> = shown_outcomes(outcomes)
+                .into_iter()
+                .map(|i| outcomes[i].clone())
+                .collect();
+            lines.extend(outcome_table(app, &shown, width));
+            if let Some(line) = missing_loads_line(&app.doc.boat.load) {
+                lines.push(Line::styled(line, app.theme.dim));
+            }
+        }
         Err(why) => lines.push(Line::styled(
             format!("no comparison: {why}"),
             app.theme.error,
