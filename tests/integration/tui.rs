@@ -1584,13 +1584,18 @@ fn shortlist_view_draws_at_both_sizes_and_small_ones() {
     let list = shortlist_of(&app);
     let big = screen(&app, 120, 40);
     assert!(big.contains("Repower shortlist for"), "{big}");
+    // The highlighted second row ("!" before its place when a check fails).
+    let highlighted = |text: &str| {
+        text.lines()
+            .position(|r| r.contains("▶   2 ") || r.contains("▶  !2 "))
+    };
     assert!(
-        big.contains("▶   2 "),
+        highlighted(&big).is_some(),
         "the second row is highlighted:\n{big}"
     );
     assert!(big.contains("naval architect"), "the caution stays:\n{big}");
     assert!(
-        big.contains("! beside # the candidate falls short"),
+        big.contains("! beside # the candidate falls short or fails"),
         "{big}"
     );
     insta::assert_snapshot!("shortlist_120x40", big);
@@ -1630,12 +1635,12 @@ fn shortlist_view_draws_at_both_sizes_and_small_ones() {
     }
     let small = screen(&app, 80, 24);
     assert!(
-        small.contains("▶   2 "),
+        highlighted(&small).is_some(),
         "the highlighted row stays on screen:\n{small}"
     );
     // The columns dropped at 80 are in the highlighted candidate's detail line, under its row.
     let rows: Vec<&str> = small.lines().collect();
-    let at = rows.iter().position(|r| r.contains("▶   2 ")).unwrap();
+    let at = highlighted(&small).unwrap();
     assert!(
         rows[at + 1].contains("cruise ") && rows[at + 1].contains("blades 3"),
         "{small}"

@@ -60,8 +60,14 @@ fn columns(rank: ShortlistRank, system: UnitSystem, engine_width: usize) -> Vec<
             "",
             3,
             Box::new(|i, c| {
-                // "!" beside the place: the candidate falls short (problems under the table).
-                let mark = if c.problems.is_empty() { "" } else { "!" };
+                // "!" beside the place: the candidate falls short or fails a check (the
+                // problems and checks are under the table when it is highlighted).
+                let fails = !crate::report::shortlist::check_marks(c).is_empty();
+                let mark = if c.problems.is_empty() && !fails {
+                    ""
+                } else {
+                    "!"
+                };
                 format!("{mark}{}", i + 1)
             }),
         ),
@@ -343,9 +349,13 @@ pub(crate) fn shortlist_lines(
     {
         lines.push(Line::styled(UNRELIABLE_TOP_LEGEND, app.theme.warning));
     }
-    if list.candidates.iter().any(|c| !c.problems.is_empty()) {
+    if list
+        .candidates
+        .iter()
+        .any(|c| !c.problems.is_empty() || !crate::report::shortlist::check_marks(c).is_empty())
+    {
         lines.push(Line::styled(
-            "! beside # the candidate falls short: its problems are under the table when highlighted",
+            "! beside # the candidate falls short or fails a cavitation or shaft check: see under the table when highlighted",
             app.theme.warning,
         ));
     }
