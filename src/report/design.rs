@@ -147,7 +147,7 @@ impl From<&PitchCure> for CureJson {
 
 /// The re-pitch limit (m) in the display unit to a tenth, so that the default ±2 in reads
 /// "50.8 mm" as the boat template writes it, not a rounded "51 mm".
-fn repitch_limit_words(limit: f64, d: &Display) -> String {
+pub fn repitch_limit_words(limit: f64, d: &Display) -> String {
     let text = d.number(limit, Kind::ScrewLength, 1);
     let text = text.strip_suffix(".0").unwrap_or(&text);
     format!("{text} {}", d.unit(Kind::ScrewLength))

@@ -129,7 +129,8 @@ fn items(sheet: &OrderSheet, d: &Display) -> Vec<(String, String)> {
         )
     } else {
         let sign = if change > 0.0 { "+" } else { "−" };
-        let limit = length(sheet.repitch_limit);
+        // Written as `pitch` writes it, so the two never disagree on the limit.
+        let limit = super::design::repitch_limit_words(sheet.repitch_limit, d);
         format!(
             "now {}: a change of {sign}{}, {}",
             length(sheet.current_pitch),

@@ -285,3 +285,29 @@ fn the_export_has_the_order_section() {
     assert_eq!(section.matches("<blockquote>").count(), 2, "{section}");
     assert!(!section.contains("<p>&gt;</p>"), "{section}");
 }
+
+/// `order` and `pitch` write the re-pitch limit alike (the template's 50.8 mm, never "51 mm").
+#[test]
+fn order_and_pitch_agree_on_the_repitch_limit() {
+    let run = |cmd: &str| {
+        let out = assert_cmd::Command::cargo_bin("tidewright")
+            .unwrap()
+            .env_remove("TIDEWRIGHT_PROFILES")
+            .args(["--profiles", "/nonexistent-tidewright-store", cmd])
+            .arg(concat!(
+                env!("CARGO_MANIFEST_DIR"),
+                "/tests/fixtures/repower/boats/pintle-repower.toml"
+            ))
+            .output()
+            .unwrap();
+        String::from_utf8_lossy(&out.stdout).into_owned()
+    };
+    let limit = |text: &str| {
+        text.split("re-pitch limit of ±")
+            .nth(1)
+            .map(|rest| rest.split(' ').take(2).collect::<Vec<_>>().join(" "))
+    };
+    let (order, pitch) = (run("order"), run("pitch"));
+    assert_eq!(limit(&order), limit(&pitch), "{order}\n{pitch}");
+    assert_eq!(limit(&pitch).as_deref(), Some("50.8 mm"), "{pitch}");
+}
