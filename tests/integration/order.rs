@@ -303,9 +303,14 @@ fn order_and_pitch_agree_on_the_repitch_limit() {
         String::from_utf8_lossy(&out.stdout).into_owned()
     };
     let limit = |text: &str| {
-        text.split("re-pitch limit of ±")
-            .nth(1)
-            .map(|rest| rest.split(' ').take(2).collect::<Vec<_>>().join(" "))
+        text.split("re-pitch limit of ±").nth(1).map(|rest| {
+            rest.split(' ')
+                .take(2)
+                .collect::<Vec<_>>()
+                .join(" ")
+                .trim_end_matches([':', ','])
+                .to_string()
+        })
     };
     let (order, pitch) = (run("order"), run("pitch"));
     assert_eq!(limit(&order), limit(&pitch), "{order}\n{pitch}");
