@@ -509,11 +509,20 @@ impl EngineSheet {
     /// Fuel volume flow at `rpm` and brake power `power` (W), m³/s (0 if the fuel density is
     /// not positive; `validate` rejects such a sheet).
     pub fn fuel_volume_flow(&self, rpm: f64, power: f64) -> f64 {
-        if self.fuel_density > 0.0 && self.fuel_density.is_finite() {
-            self.fuel_mass_flow(rpm, power) / self.fuel_density
+        self.fuel_flows(rpm, power).1
+    }
+
+    /// Fuel mass flow (kg/s) and volume flow (m³/s) at `rpm` and brake power `power` (W): the
+    /// two of [`EngineSheet::fuel_mass_flow`] and [`EngineSheet::fuel_volume_flow`] from one
+    /// look-up of the fuel model.
+    pub fn fuel_flows(&self, rpm: f64, power: f64) -> (f64, f64) {
+        let mass = self.fuel_mass_flow(rpm, power);
+        let volume = if self.fuel_density > 0.0 && self.fuel_density.is_finite() {
+            mass / self.fuel_density
         } else {
             0.0
-        }
+        };
+        (mass, volume)
     }
 }
 

@@ -229,6 +229,29 @@ impl BSeriesScrew {
         }
     }
 
+    /// KT(J) and KQ(J) at Rn(0.75R) = `reynolds` (the nominal 2·10⁶ when `None`) as two cubics
+    /// in J, coefficients of J⁰..J³ (dimensionless): the correction's powers of
+    /// x = log10(Rn) − 0.301 folded in once, so that a root search at one Rn pays for the
+    /// logarithm once instead of at every J. Agrees with [`BSeriesScrew::coefficients`] to
+    /// rounding.
+    pub fn cubics_at(&self, reynolds: Option<f64>) -> ([f64; J_TERMS], [f64; J_TERMS]) {
+        let (mut thrust, mut torque) = (self.cubics.thrust, self.cubics.torque);
+        let Some(x) = reynolds
+            .filter(|rn| rn.is_finite() && *rn > NOMINAL_REYNOLDS)
+            .map(|rn| rn.log10() - 0.301)
+        else {
+            return (thrust, torque);
+        };
+        let fold = |cubics: &[Cubic; X_TERMS], s: usize| {
+            cubics.iter().rev().fold(0.0, |acc, cubic| acc * x + cubic[s])
+        };
+        for s in 0..J_TERMS {
+            thrust[s] += fold(&self.cubics.thrust_correction, s);
+            torque[s] += fold(&self.cubics.torque_correction, s);
+        }
+        (thrust, torque)
+    }
+
     /// The Reynolds-number correction (ΔKT, ΔKQ) at `j` for Rn(0.75R) = `reynolds`;
     /// (0, 0) at or below the nominal 2·10⁶ or for a non-finite Rn.
     pub fn reynolds_correction(&self, j: f64, reynolds: f64) -> (f64, f64) {
@@ -416,6 +439,19 @@ mod tests {
             let point = s.coefficients(j, None);
             assert!((point.thrust_coefficient - kt).abs() < 1e-14);
             assert!((point.torque_coefficient - kq).abs() < 1e-14);
+        }
+    }
+
+    #[test]
+    fn folded_cubics_agree_with_the_corrected_coefficients() {
+        let s = screw(4, 0.55, 0.9);
+        for reynolds in [None, Some(1.0e6), Some(2.0e6), Some(8.0e6), Some(3.0e7)] {
+            let (thrust, torque) = s.cubics_at(reynolds);
+            for j in [0.0_f64, 0.3, 0.62, 0.9] {
+                let point = s.coefficients(j, reynolds);
+                assert!((cubic_at(&thrust, j) - point.thrust_coefficient).abs() < 1e-15);
+                assert!((cubic_at(&torque, j) - point.torque_coefficient).abs() < 1e-15);
+            }
         }
     }
 

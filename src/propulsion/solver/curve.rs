@@ -1,7 +1,7 @@
 //! The propeller curve: operating points over a speed range for one screw and gear.
 
 use super::System;
-use super::point::{OperatingPoint, PointFailure, solve_point};
+use super::point::{OperatingPoint, PointFailure, PointSolver};
 
 /// Operating points over a range of speeds; failures are kept with their speed and reason.
 #[derive(Debug, Clone, PartialEq, Default)]
@@ -33,13 +33,14 @@ impl PropellerCurve {
         } else {
             0.0
         };
+        let mut solver = PointSolver::new(system);
         for index in 0..count {
             let speed = if index + 1 == count && count > 1 {
                 max_speed
             } else {
                 min_speed + step * index as f64
             };
-            self.points.push((speed, solve_point(system, speed)));
+            self.points.push((speed, solver.solve(speed)));
         }
     }
 
