@@ -11,6 +11,7 @@
 pub mod checks;
 pub mod design;
 pub mod import;
+pub mod progress;
 pub mod resistance;
 pub mod shortlist;
 pub mod solve;

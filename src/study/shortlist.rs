@@ -5,6 +5,7 @@
 //! profile's to-vessel, never patched in the core's vessel. All values are SI.
 
 use super::checks::{cavitation, shaft_check};
+use super::progress::Progress;
 use super::solve::{SolveOptions, solve_variant};
 use super::what_if::WhatIfSettings;
 use super::{Study, active_variant};
@@ -15,6 +16,7 @@ use crate::propulsion::solver::pitch::{PitchOptions, SearchStop, recommend_pitch
 use crate::propulsion::solver::shaft::ShaftCheck;
 use crate::propulsion::solver::sweep::SweepParameter;
 use crate::units::KNOT_MPS;
+use rayon::prelude::*;
 
 /// What the shortlist ranks by.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Default)]
@@ -172,6 +174,9 @@ pub enum ShortlistError {
     /// A gear ratio asked for that no gearbox has.
     #[error("gear ratio {0}: expected a reduction ratio above 1 and at most 6")]
     BadGear(f64),
+    /// The front end asked the shortlist to stop before it was done.
+    #[error("the shortlist was cancelled")]
+    Cancelled,
 }
 
 /// The engine sheets named (or all in `store` when `names` is `None`), each with its name.
@@ -205,6 +210,17 @@ impl Study {
         offers: &[Offer],
         options: &ShortlistOptions,
     ) -> Result<Shortlist, ShortlistError> {
+        self.shortlist_counted(offers, options, &Progress::new())
+    }
+
+    /// [`Study::shortlist`], counting each candidate solved in `progress` and stopping with
+    /// [`ShortlistError::Cancelled`] once it is cancelled.
+    pub fn shortlist_counted(
+        &self,
+        offers: &[Offer],
+        options: &ShortlistOptions,
+        progress: &Progress,
+    ) -> Result<Shortlist, ShortlistError> {
         if offers.is_empty() {
             return Err(ShortlistError::NoEngines(
                 "the list of engines given".into(),
@@ -218,17 +234,29 @@ impl Study {
         {
             return Err(ShortlistError::BadGear(*bad));
         }
-        let mut candidates = Vec::new();
+        let mut asked = Vec::new();
         for offer in offers {
             let gears = match &options.gears {
                 Some(g) => g.clone(),
                 None if !offer.doc.gears.is_empty() => offer.doc.gears.clone(),
                 None => vec![self.doc.installation.gear_ratio],
             };
-            for gear in gears {
-                candidates.push(self.candidate(offer, gear));
-            }
+            asked.extend(gears.into_iter().map(|gear| (offer, gear)));
         }
+        // Each candidate is its own study: solved on every core, collected in the order asked.
+        progress.start(asked.len());
+        let solved: Option<Vec<Candidate>> = asked
+            .par_iter()
+            .map(|&(offer, gear)| {
+                if progress.is_cancelled() {
+                    return None;
+                }
+                let candidate = self.candidate(offer, gear);
+                progress.step();
+                Some(candidate)
+            })
+            .collect();
+        let mut candidates = solved.ok_or(ShortlistError::Cancelled)?;
         let resolution = self.resolution();
         let trip = !self.doc.trip.profile.is_empty();
         rank_candidates(&mut candidates, options.rank, trip, resolution);

@@ -349,14 +349,15 @@ impl<'a> PassScrew<'a> {
     }
 }
 
-/// The root of the thrust identity KT(J) = loading·J² with KT a cubic in J, on [`low_j`,
-/// `high_j`] (KT − loading·J² > 0 at `low_j`, ≤ 0 at `high_j`), by Newton's method from
+/// The root of the thrust identity KT(J) = loading·J² with KT a cubic in J, on the bracket
+/// ((low J, excess there), (high J, excess there)), the excess KT − loading·J² > 0 at the low
+/// end and ≤ 0 at the high one, by Newton's method from
 /// `guess` (any J inside the bracket; otherwise the secant through its ends), each step kept
 /// inside the shrinking bracket by bisection. Stops as [`advance_ratio_for_loading`] does.
 fn cubic_advance_ratio(
     thrust: &[f64; 4],
     loading: f64,
-    (low_j, high_j): (f64, f64),
+    ((low_j, f_low), (high_j, f_high)): ((f64, f64), (f64, f64)),
     guess: f64,
 ) -> Result<f64, AdvanceRatioFailure> {
     let bracket_ok = low_j.is_finite() && low_j >= 0.0 && high_j.is_finite() && high_j > low_j;
@@ -364,10 +365,7 @@ fn cubic_advance_ratio(
         return Err(AdvanceRatioFailure::NoRoot);
     }
     let excess = |j: f64| cubic_at(thrust, j) - loading * j * j;
-    let slope = |j: f64| {
-        thrust[1] + j * (2.0 * (thrust[2] - loading) + 3.0 * thrust[3] * j)
-    };
-    let (f_low, f_high) = (excess(low_j), excess(high_j));
+    let slope = |j: f64| thrust[1] + j * (2.0 * (thrust[2] - loading) + 3.0 * thrust[3] * j);
     if !(f_low > 0.0 && f_high <= 0.0) {
         return Err(AdvanceRatioFailure::NoRoot);
     }
@@ -470,30 +468,52 @@ fn solve_warm(
     };
     let mut reynolds: Option<f64> = None;
     let mut previous_j: Option<f64> = None;
+    let mut previous_thrust: Option<[f64; 4]> = None;
     let mut found = [0.0; MAX_REYNOLDS_PASSES as usize];
     let mut pass = 1;
     let (advance_ratio, coefficients) = loop {
         let polynomials = PassScrew::new(drive.screw, reynolds);
         let kt = |j: f64| polynomials.thrust_coefficient(j);
-        let (low_j, high_j) = match previous_j {
-            // A later pass of the Reynolds iteration moves J very little: a tight bracket
-            // around the last root, widened to the full one where it does not hold.
-            Some(j) => {
-                let excess = |j: f64| kt(j) - loading * j * j;
-                if excess(0.97 * j) > 0.0 && excess(1.03 * j) <= 0.0 {
-                    (0.97 * j, 1.03 * j)
-                } else {
-                    bracket(drive.screw, reynolds, loading, kt)
-                }
+        let excess = |j: f64| kt(j) - loading * j * j;
+        let root = match (&polynomials, previous_j) {
+            // Below the nominal Reynolds number the correction is nil: the pass has the last
+            // pass's polynomial, so the last pass's root.
+            (PassScrew::Cubics { thrust, .. }, Some(j)) if previous_thrust == Some(*thrust) => {
+                Ok(j)
             }
-            None => bracket(drive.screw, reynolds, loading, kt),
-        };
-        let root = match &polynomials {
-            PassScrew::Cubics { thrust, .. } => {
+            (PassScrew::Cubics { thrust, .. }, _) => {
+                let ends = match previous_j {
+                    // A later pass of the Reynolds iteration moves J very little: a tight
+                    // bracket around the last root, widened to the full one where it does
+                    // not hold.
+                    Some(j) => {
+                        let (low, high) = (0.97 * j, 1.03 * j);
+                        let (f_low, f_high) = (excess(low), excess(high));
+                        if f_low > 0.0 && f_high <= 0.0 {
+                            ((low, f_low), (high, f_high))
+                        } else {
+                            let (low, high) = bracket(drive.screw, reynolds, loading, kt);
+                            ((low, excess(low)), (high, excess(high)))
+                        }
+                    }
+                    None => {
+                        let (low, high) = bracket(drive.screw, reynolds, loading, kt);
+                        ((low, excess(low)), (high, excess(high)))
+                    }
+                };
+                previous_thrust = Some(*thrust);
                 let guess = warm.guess(pass as usize - 1, &found);
-                cubic_advance_ratio(thrust, loading, (low_j, high_j), guess)
+                cubic_advance_ratio(thrust, loading, ends, guess)
             }
-            PassScrew::Model(..) => advance_ratio_between(loading, low_j, high_j, kt),
+            (PassScrew::Model(..), _) => {
+                let (low_j, high_j) = match previous_j {
+                    Some(j) if excess(0.97 * j) > 0.0 && excess(1.03 * j) <= 0.0 => {
+                        (0.97 * j, 1.03 * j)
+                    }
+                    _ => bracket(drive.screw, reynolds, loading, kt),
+                };
+                advance_ratio_between(loading, low_j, high_j, kt)
+            }
         };
         let advance_ratio = root.map_err(|f| match f {
             AdvanceRatioFailure::NoRoot => PointFailure::NoRoot { speed, thrust },
@@ -574,7 +594,7 @@ fn solve_warm(
         in_method_range: true,
         regime: crate::propulsion::hull::Regime::Method,
     };
-    let point = point.check_finite()?;
+    point.check_finite()?;
     // Passes past the last one run keep no guess from an earlier point.
     warm.passes = found;
     Ok(point)
@@ -687,7 +707,7 @@ impl OperatingPoint {
     }
 
     /// Every field finite, or the first that is not as a failure.
-    fn check_finite(self) -> Result<Self, PointFailure> {
+    fn check_finite(&self) -> Result<(), PointFailure> {
         // The common case first, without building the named list.
         let all_finite = [
             self.resistance,
@@ -713,7 +733,7 @@ impl OperatingPoint {
         .iter()
         .all(|value| value.is_finite());
         if all_finite {
-            return Ok(self);
+            return Ok(());
         }
         let fields = [
             ("resistance", self.resistance),
@@ -745,7 +765,7 @@ impl OperatingPoint {
                 quantity,
                 value,
             }),
-            None => Ok(self),
+            None => Ok(()),
         }
     }
 }
@@ -812,18 +832,22 @@ impl<'a> PointSolver<'a> {
             return solve_with_resistance(&system.drive(), 0.0, 0.0, interaction);
         }
         let resistance = model.resistance(speed)?.total;
-        let mut point = solve_warm(
+        // Filled in where it lies: an operating point is large, and copies of it showed in
+        // the profile of a curve.
+        let mut solved = solve_warm(
             &system.drive(),
             speed,
             resistance,
             interaction,
             &mut self.warm,
-        )?;
-        let validity = model.validity_with(&self.validity, speed);
-        point.froude = validity.froude;
-        point.in_method_range = validity.in_method_range;
-        point.regime = validity.regime;
-        Ok(point)
+        );
+        if let Ok(point) = &mut solved {
+            let validity = model.validity_with(&self.validity, speed);
+            point.froude = validity.froude;
+            point.in_method_range = validity.in_method_range;
+            point.regime = validity.regime;
+        }
+        solved
     }
 }
 
