@@ -8,10 +8,11 @@ use crate::propulsion::solver::conditions::{Condition, ConditionOutcome, Uncerta
 use crate::propulsion::solver::sweep::{SweepOptions, SweepParameter, SweepResult};
 use crate::propulsion::solver::trial::Calibration;
 use crate::study::Study;
+use crate::study::progress::Progress;
 use crate::study::design::FittedBy;
 pub use crate::study::design::SweepOver;
 use crate::study::shortlist::{
-    Candidate, Offer, Shortlist, ShortlistOptions, ShortlistRank, rank_candidates,
+    Candidate, Offer, Shortlist, ShortlistError, ShortlistOptions, ShortlistRank, rank_candidates,
 };
 use crate::study::what_if::WhatIfSettings;
 
@@ -290,12 +291,38 @@ fn shortlist(
     offers: &[Offer],
     rank: ShortlistRank,
 ) -> Result<Shortlist, String> {
+    shortlist_counted(boat, engine, offers, rank, &Progress::new())
+        .unwrap_or_else(|| Err("the shortlist was cancelled".into()))
+}
+
+/// The shortlist of `boat` over `offers`, each candidate counted in `progress`; `None` when
+/// `progress` was cancelled before it was done.
+pub fn shortlist_counted(
+    boat: &BoatDoc,
+    engine: &EngineDoc,
+    offers: &[Offer],
+    rank: ShortlistRank,
+    progress: &Progress,
+) -> Option<Result<Shortlist, String>> {
     if offers.is_empty() {
-        return Err("no engine sheets were read from the store (S reads them)".into());
+        return Some(Err(
+            "no engine sheets were read from the store (S reads them)".into(),
+        ));
     }
-    let study = Study::of_documents(boat, engine)?;
+    let study = match Study::of_documents(boat, engine) {
+        Ok(study) => study,
+        Err(why) => return Some(Err(why)),
+    };
     let options = ShortlistOptions { gears: None, rank };
-    study.shortlist(offers, &options).map_err(|e| e.to_string())
+    match study.shortlist_counted(offers, &options, progress) {
+        Err(ShortlistError::Cancelled) => None,
+        other => Some(other.map_err(|e| e.to_string())),
+    }
+}
+
+/// The sweep view of `boat` over `over` (the work a background solve does for the sweep).
+pub fn sweep_of(over: SweepOver, boat: &BoatDoc, engine: &EngineDoc) -> SweepView {
+    sweep_view(over, boat, engine)
 }
 
 /// The what-if conditions of `study`: the study's one definition of the cases.
