@@ -167,12 +167,15 @@ impl InteractionMethod {
     ) -> PreparedInteraction<'a> {
         let single_screw = matches!(self, InteractionMethod::Holtrop1984SingleScrew)
             .then(|| SingleScrewTerms::new(hull, water, screw));
+        let oortmerssen = matches!(self, InteractionMethod::VanOortmerssen)
+            .then(|| super::oortmerssen::PreparedFactors::new(hull, screw));
         PreparedInteraction {
             method: *self,
             hull,
             water,
             screw: *screw,
             single_screw,
+            oortmerssen,
         }
     }
 }
@@ -185,6 +188,7 @@ pub struct PreparedInteraction<'a> {
     water: &'a WaterProperties,
     screw: ScrewAtStern,
     single_screw: Option<SingleScrewTerms>,
+    oortmerssen: Option<super::oortmerssen::PreparedFactors>,
 }
 
 impl PreparedInteraction<'_> {
@@ -212,9 +216,10 @@ impl PreparedInteraction<'_> {
                     relative_rotative_efficiency: 1.0,
                 }
             }
-            InteractionMethod::VanOortmerssen => {
-                super::oortmerssen::propulsion_factors(hull, screw, speed)
-            }
+            InteractionMethod::VanOortmerssen => match &self.oortmerssen {
+                Some(factors) => factors.at_speed(speed),
+                None => super::oortmerssen::propulsion_factors(hull, screw, speed),
+            },
             InteractionMethod::User(values) => values,
         };
         let finite = |x: f64, fallback: f64| if x.is_finite() { x } else { fallback };

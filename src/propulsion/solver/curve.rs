@@ -34,14 +34,15 @@ impl PropellerCurve {
             0.0
         };
         let mut solver = PointSolver::new(system);
-        for index in 0..count {
+        // `extend` writes each point where it will stay (a `push` copied every point once).
+        self.points.extend((0..count).map(|index| {
             let speed = if index + 1 == count && count > 1 {
                 max_speed
             } else {
                 min_speed + step * index as f64
             };
-            self.points.push((speed, solver.solve(speed)));
-        }
+            (speed, solver.solve(speed))
+        }));
     }
 
     /// The successfully solved points, in increasing speed.

@@ -290,6 +290,8 @@ pub fn solve_with_resistance(
 #[derive(Debug, Clone, Copy, Default, PartialEq)]
 pub struct WarmStart {
     passes: [f64; MAX_REYNOLDS_PASSES as usize],
+    /// The first pass's J of the point before the last one (0 for none).
+    first_before: f64,
 }
 
 impl WarmStart {
@@ -299,7 +301,13 @@ impl WarmStart {
     fn guess(&self, pass: usize, own: &[f64; MAX_REYNOLDS_PASSES as usize]) -> f64 {
         let neighbour = self.passes[pass];
         if pass == 0 {
-            return neighbour;
+            // Along a curve of even steps J changes smoothly: carried on in a straight line
+            // from the last two points.
+            return if neighbour > 0.0 && self.first_before > 0.0 {
+                2.0 * neighbour - self.first_before
+            } else {
+                neighbour
+            };
         }
         let (before, own_before) = (self.passes[pass - 1], own[pass - 1]);
         if neighbour > 0.0 && before > 0.0 {
@@ -351,7 +359,7 @@ impl<'a> PassScrew<'a> {
 
 /// The root of the thrust identity KT(J) = loading·J² with KT a cubic in J, on the bracket
 /// ((low J, excess there), (high J, excess there)), the excess KT − loading·J² > 0 at the low
-/// end and ≤ 0 at the high one, by Newton's method from
+/// end and ≤ 0 at the high one, by Halley's method from
 /// `guess` (any J inside the bracket; otherwise the secant through its ends), each step kept
 /// inside the shrinking bracket by bisection. Stops as [`advance_ratio_for_loading`] does.
 fn cubic_advance_ratio(
@@ -366,6 +374,7 @@ fn cubic_advance_ratio(
     }
     let excess = |j: f64| cubic_at(thrust, j) - loading * j * j;
     let slope = |j: f64| thrust[1] + j * (2.0 * (thrust[2] - loading) + 3.0 * thrust[3] * j);
+    let curvature = |j: f64| 2.0 * (thrust[2] - loading) + 6.0 * thrust[3] * j;
     if !(f_low > 0.0 && f_high <= 0.0) {
         return Err(AdvanceRatioFailure::NoRoot);
     }
@@ -397,7 +406,10 @@ fn cubic_advance_ratio(
                 Err(AdvanceRatioFailure::NoRoot)
             };
         }
-        let next = j - fj / slope(j);
+        // Halley's step (the cubic's second derivative is at hand): from a neighbour's root
+        // one step reaches the tolerance.
+        let (d1, d2) = (slope(j), curvature(j));
+        let next = j - 2.0 * fj * d1 / (2.0 * d1 * d1 - fj * d2);
         j = if next > low && next < high {
             next
         } else {
@@ -497,8 +509,17 @@ fn solve_warm(
                         }
                     }
                     None => {
-                        let (low, high) = bracket(drive.screw, reynolds, loading, kt);
-                        ((low, excess(low)), (high, excess(high)))
+                        // The last point's root, carried on, usually lies within 1 % of this
+                        // one's: a tight bracket around it, the full one where it does not hold.
+                        let guess = warm.guess(0, &found);
+                        let (low, high) = (0.99 * guess, 1.01 * guess);
+                        let (f_low, f_high) = (excess(low), excess(high));
+                        if guess > 0.0 && f_low > 0.0 && f_high <= 0.0 {
+                            ((low, f_low), (high, f_high))
+                        } else {
+                            let (low, high) = bracket(drive.screw, reynolds, loading, kt);
+                            ((low, excess(low)), (high, excess(high)))
+                        }
                     }
                 };
                 previous_thrust = Some(*thrust);
@@ -562,7 +583,7 @@ fn solve_warm(
     };
     let (fuel_mass_flow_per_engine, fuel_volume_flow_per_engine) = drive
         .engine
-        .fuel_flows(engine_rpm, brake_power_per_engine);
+        .fuel_flows_below(engine_rpm, brake_power_per_engine, full_load);
     let point = OperatingPoint {
         speed,
         resistance,
@@ -596,6 +617,7 @@ fn solve_warm(
     };
     point.check_finite()?;
     // Passes past the last one run keep no guess from an earlier point.
+    warm.first_before = warm.passes[0];
     warm.passes = found;
     Ok(point)
 }
@@ -708,7 +730,8 @@ impl OperatingPoint {
 
     /// Every field finite, or the first that is not as a failure.
     fn check_finite(&self) -> Result<(), PointFailure> {
-        // The common case first, without building the named list.
+        // The common case first, without building the named list; `&` rather than `&&`, so
+        // that the checks run side by side instead of one after the other.
         let all_finite = [
             self.resistance,
             self.thrust,
@@ -731,7 +754,7 @@ impl OperatingPoint {
             self.fuel_volume_flow_per_engine,
         ]
         .iter()
-        .all(|value| value.is_finite());
+        .fold(true, |all, value| all & value.is_finite());
         if all_finite {
             return Ok(());
         }
