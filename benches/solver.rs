@@ -6,14 +6,14 @@ use criterion::{BenchmarkId, Criterion, Throughput, criterion_group, criterion_m
 use std::hint::black_box;
 use std::time::Duration;
 use tidewright::profile::{EngineDoc, Store};
-use tidewright::study::Study;
-use tidewright::study::shortlist::{Offer, ShortlistOptions};
 use tidewright::propulsion::hull::holtrop::HoltropCoefficients;
 use tidewright::propulsion::hull::resistance::HOLTROP_EDITION;
 use tidewright::propulsion::solver::pitch::{PitchOptions, recommend_pitch};
 use tidewright::propulsion::solver::point::solve_point;
 use tidewright::propulsion::solver::sweep::{SweepOptions, SweepParameter, sweep};
 use tidewright::propulsion::solver::{PropellerCurve, Variant, Vessel};
+use tidewright::study::Study;
+use tidewright::study::shortlist::{Offer, ShortlistOptions};
 
 /// Standard gravity, m/s² (NIST SP 811).
 const GRAVITY: f64 = 9.80665;

@@ -512,7 +512,11 @@ impl Study {
         let vessel = &self.vessel;
         let index = active_variant(vessel);
         let geometry = *vessel.variants[index].screw.geometry();
-        let solution = solve_variant(vessel, index, &SolveOptions::default());
+        let options = SolveOptions {
+            without_method_spread: true,
+            ..SolveOptions::default()
+        };
+        let solution = solve_variant(vessel, index, &options);
         let target_kn = vessel.trip.target_speed / KNOT_MPS;
         let (top_speed, in_range, margin, top_cavitation) = match &solution.matched {
             Ok(m) => (

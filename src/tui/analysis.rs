@@ -8,9 +8,9 @@ use crate::propulsion::solver::conditions::{Condition, ConditionOutcome, Uncerta
 use crate::propulsion::solver::sweep::{SweepOptions, SweepParameter, SweepResult};
 use crate::propulsion::solver::trial::Calibration;
 use crate::study::Study;
-use crate::study::progress::Progress;
 use crate::study::design::FittedBy;
 pub use crate::study::design::SweepOver;
+use crate::study::progress::Progress;
 use crate::study::shortlist::{
     Candidate, Offer, Shortlist, ShortlistError, ShortlistOptions, ShortlistRank, rank_candidates,
 };

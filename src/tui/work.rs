@@ -40,16 +40,14 @@ impl Job {
     /// Solves the view, counting in `progress`; `None` when cancelled first.
     pub fn run(&self, progress: &Progress) -> Option<ViewData> {
         match self.kind {
-            ViewKind::Shortlist => {
-                analysis::shortlist_counted(
-                    &self.boat,
-                    &self.engine,
-                    &self.offers,
-                    self.rank,
-                    progress,
-                )
-                .map(|result| ViewData::Shortlist(analysis::ShortlistView { result }))
-            }
+            ViewKind::Shortlist => analysis::shortlist_counted(
+                &self.boat,
+                &self.engine,
+                &self.offers,
+                self.rank,
+                progress,
+            )
+            .map(|result| ViewData::Shortlist(analysis::ShortlistView { result })),
             ViewKind::Sweep => {
                 // A sweep's candidates are solved in one call: the count goes from none to all.
                 progress.start(1);

@@ -42,10 +42,7 @@ fn screen(app: &App, width: u16, height: u16) -> String {
 
 /// Opens the shortlist as the loop would and returns the job `update` handed out.
 fn ask_shortlist(app: &mut App) -> Job {
-    assert_eq!(
-        key(app, KeyCode::Char('S')),
-        Some(Effect::LoadEngineSheets)
-    );
+    assert_eq!(key(app, KeyCode::Char('S')), Some(Effect::LoadEngineSheets));
     let offers = offers_from_store(&demo_store(), None).expect("demo engine sheets");
     match app.update(Action::EngineSheets(offers)) {
         Some(Effect::Solve(job)) => *job,
@@ -85,7 +82,10 @@ fn the_shortlist_goes_to_the_worker_and_its_result_fills_the_view() {
     assert_ne!(app.units, units, "the units toggle was handled");
 
     let data = job.run(&Progress::new()).expect("not cancelled");
-    assert!(app.update(Action::Solved(job.id, Box::new(data.clone()))).is_none());
+    assert!(
+        app.update(Action::Solved(job.id, Box::new(data.clone())))
+            .is_none()
+    );
     assert!(app.computing.is_none());
     assert_eq!(app.view, Some(data));
     // The same list the inline solve gives (the CLI's and the headless screen's).
@@ -106,11 +106,18 @@ fn esc_cancels_the_solve_and_a_late_result_is_dropped() {
     assert_eq!(key(&mut app, KeyCode::Esc), Some(Effect::CancelSolve));
     assert!(app.computing.is_none());
     assert!(app.view_kind().is_none(), "the view is closed");
-    let status = app.status.as_ref().map(|s| s.text.clone()).unwrap_or_default();
+    let status = app
+        .status
+        .as_ref()
+        .map(|s| s.text.clone())
+        .unwrap_or_default();
     assert!(status.contains("cancelled"), "{status}");
     let data = job.run(&Progress::new()).unwrap();
     app.update(Action::Solved(job.id, Box::new(data)));
-    assert!(app.view.is_none(), "a cancelled solve's result is not shown");
+    assert!(
+        app.view.is_none(),
+        "a cancelled solve's result is not shown"
+    );
 }
 
 #[test]
@@ -191,7 +198,11 @@ fn tmux_a_long_shortlist_shows_progress_keeps_keys_and_esc_cancels() {
     }
     // 300 candidates: long enough in a debug build for the progress line to be seen.
     for i in 0..75 {
-        std::fs::write(engines.join(format!("test-diesel-{i:02}.toml")), test_sheet(i)).unwrap();
+        std::fs::write(
+            engines.join(format!("test-diesel-{i:02}.toml")),
+            test_sheet(i),
+        )
+        .unwrap();
     }
     let bin = env!("CARGO_BIN_EXE_tidewright");
     let session = format!("tidewright-background-{}", std::process::id());
@@ -200,8 +211,10 @@ fn tmux_a_long_shortlist_shows_progress_keeps_keys_and_esc_cancels() {
         store.path().display()
     );
     let _kill = start_session(&session, 100, 30, &command);
-    wait_for(&session, 5.0, |t| t.contains("Screw") && t.contains("At 7.0 kn"))
-        .expect("the UI came up");
+    wait_for(&session, 5.0, |t| {
+        t.contains("Screw") && t.contains("At 7.0 kn")
+    })
+    .expect("the UI came up");
     tmux_on(&session, &["send-keys", "-t", &session, "S"]);
     // The count moves while the list is solved (or it finished first: then no line is left).
     let shown = wait_for(&session, 5.0, |t| {
@@ -214,9 +227,12 @@ fn tmux_a_long_shortlist_shows_progress_keeps_keys_and_esc_cancels() {
     );
     // Keys are read while it solves: Esc closes the view and cancels the solve at once.
     tmux_on(&session, &["send-keys", "-t", &session, "Escape"]);
-    let cancelled = wait_for(&session, 3.0, |t| t.contains("cancelled"))
-        .expect("Esc cancelled the solve");
-    assert!(cancelled.contains("At 7.0 kn"), "back on the panes:\n{cancelled}");
+    let cancelled =
+        wait_for(&session, 3.0, |t| t.contains("cancelled")).expect("Esc cancelled the solve");
+    assert!(
+        cancelled.contains("At 7.0 kn"),
+        "back on the panes:\n{cancelled}"
+    );
     // And the app goes on answering: the help overlay opens and closes.
     tmux_on(&session, &["send-keys", "-t", &session, "?"]);
     wait_for(&session, 3.0, |t| t.contains("Esc")).expect("help opens");

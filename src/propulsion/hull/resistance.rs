@@ -106,6 +106,9 @@ pub struct ResistanceModel {
     /// Where the method hands over and where the continuation starts, found once.
     #[serde(skip)]
     shape: CurveShape,
+    /// The speed-independent parts of the in-range decision, found once with the shape.
+    #[serde(skip)]
+    validity: ValidityScale,
 }
 
 impl ResistanceTable {
@@ -242,7 +245,7 @@ pub struct SpeedValidity {
 
 /// What [`SpeedValidity`] needs of a model that does not change with speed
 /// ([`ResistanceModel::validity_scale`]).
-#[derive(Debug, Clone, Copy, PartialEq)]
+#[derive(Debug, Clone, Copy, PartialEq, Default)]
 pub struct ValidityScale {
     /// The method's Froude range (low, high), dimensionless; `None` if it states none.
     froude_range: Option<(f64, f64)>,
@@ -336,14 +339,17 @@ impl ResistanceModel {
         margins: Margins,
     ) -> Self {
         let shape = CurveShape::new(&hull, &method, &water);
-        Self {
+        let mut model = Self {
             hull,
             method,
             water,
             air,
             margins,
             shape,
-        }
+            validity: ValidityScale::default(),
+        };
+        model.validity = model.find_validity_scale();
+        model
     }
 
     /// The same model on another hull (a new load, say); the curve's shape is found anew.
@@ -398,12 +404,16 @@ impl ResistanceModel {
     /// A table is measured data, so only its own speed range counts; a regression also has to
     /// stay inside the displacement regime (speed/length limit for the hull's D/L ratio).
     pub fn validity_at(&self, speed: f64) -> SpeedValidity {
-        self.validity_with(&self.validity_scale(), speed)
+        self.validity_with(&self.validity, speed)
     }
 
-    /// The speed-independent parts of [`ResistanceModel::validity_at`], for asking it at many
-    /// speeds of this model ([`ResistanceModel::validity_with`]).
+    /// The speed-independent parts of [`ResistanceModel::validity_at`] (found with the model),
+    /// for asking it at many speeds ([`ResistanceModel::validity_with`]).
     pub fn validity_scale(&self) -> ValidityScale {
+        self.validity
+    }
+
+    fn find_validity_scale(&self) -> ValidityScale {
         let length = self.hull.input.length_waterline;
         // Every regression method stays inside the displacement regime; a table does not need to.
         let speed_length_limit = (!matches!(self.method, ResistanceMethod::Table(_))).then(|| {

@@ -341,7 +341,9 @@ impl<'a> PassScrew<'a> {
     fn thrust_coefficient(&self, j: f64) -> f64 {
         match self {
             PassScrew::Cubics { thrust, .. } => cubic_at(thrust, j),
-            PassScrew::Model(screw, reynolds) => screw.coefficients(j, *reynolds).thrust_coefficient,
+            PassScrew::Model(screw, reynolds) => {
+                screw.coefficients(j, *reynolds).thrust_coefficient
+            }
         }
     }
 
@@ -581,9 +583,10 @@ fn solve_warm(
     } else {
         f64::INFINITY
     };
-    let (fuel_mass_flow_per_engine, fuel_volume_flow_per_engine) = drive
-        .engine
-        .fuel_flows_below(engine_rpm, brake_power_per_engine, full_load);
+    let (fuel_mass_flow_per_engine, fuel_volume_flow_per_engine) =
+        drive
+            .engine
+            .fuel_flows_below(engine_rpm, brake_power_per_engine, full_load);
     let point = OperatingPoint {
         speed,
         resistance,
