@@ -1,7 +1,7 @@
 //! Matching the propeller curve to the engine's full-load envelope.
 
 use super::System;
-use super::point::{OperatingPoint, PointFailure, solve_point};
+use super::point::{OperatingPoint, PointFailure, PointSolver, solve_point};
 use crate::propulsion::STANDARD_GRAVITY;
 use crate::propulsion::hull::SpeedValidity;
 use crate::propulsion::numeric::{RootOutcome, brent};
@@ -251,9 +251,11 @@ fn root_in_speed(
 ) -> Result<OperatingPoint, PointFailure> {
     let mut last = high_point;
     let accept = |_: f64, value: f64| value.abs() <= SPEED_SEARCH_TOLERANCE * scale;
+    // One solver for the whole search: its terms found once, each root started from the last.
+    let mut solver = PointSolver::new(system);
     let outcome = brent(
         |speed| {
-            last = solve_point(system, speed)?;
+            last = solver.solve(speed)?;
             Ok::<_, PointFailure>(quantity(&last))
         },
         low,
@@ -264,7 +266,7 @@ fn root_in_speed(
     )?;
     match outcome {
         RootOutcome::Converged { x, .. } if x == last.speed => Ok(last),
-        RootOutcome::Converged { x, .. } => solve_point(system, x),
+        RootOutcome::Converged { x, .. } => solver.solve(x),
         RootOutcome::IterationCap { iterations } => Err(PointFailure::NotConverged {
             speed: last.speed,
             iterations,

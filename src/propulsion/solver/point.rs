@@ -292,6 +292,10 @@ pub struct WarmStart {
     passes: [f64; MAX_REYNOLDS_PASSES as usize],
     /// The first pass's J of the point before the last one (0 for none).
     first_before: f64,
+    /// The speeds of the last point and the one before it, m/s (0 for none).
+    speeds: (f64, f64),
+    /// The speed of the point being solved, m/s.
+    speed: f64,
 }
 
 impl WarmStart {
@@ -301,10 +305,12 @@ impl WarmStart {
     fn guess(&self, pass: usize, own: &[f64; MAX_REYNOLDS_PASSES as usize]) -> f64 {
         let neighbour = self.passes[pass];
         if pass == 0 {
-            // Along a curve of even steps J changes smoothly: carried on in a straight line
-            // from the last two points.
-            return if neighbour > 0.0 && self.first_before > 0.0 {
-                2.0 * neighbour - self.first_before
+            // J changes smoothly with speed: carried on in a straight line from the last two
+            // points (on a curve of even steps, 2·J₁ − J₂).
+            let (last, before) = self.speeds;
+            let step = (self.speed - last) / (last - before);
+            return if neighbour > 0.0 && self.first_before > 0.0 && step.is_finite() {
+                neighbour + (neighbour - self.first_before) * step
             } else {
                 neighbour
             };
@@ -432,6 +438,7 @@ fn solve_warm(
     interaction: Interaction,
     warm: &mut WarmStart,
 ) -> Result<OperatingPoint, PointFailure> {
+    warm.speed = speed;
     if !(speed.is_finite() && speed >= 0.0) {
         return Err(PointFailure::InvalidSpeed(speed));
     }
@@ -622,6 +629,7 @@ fn solve_warm(
     // Passes past the last one run keep no guess from an earlier point.
     warm.first_before = warm.passes[0];
     warm.passes = found;
+    warm.speeds = (speed, warm.speeds.0);
     Ok(point)
 }
 
