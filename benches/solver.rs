@@ -1,16 +1,19 @@
 //! Solver benchmarks on the demo fleet: one propeller curve, its growth with points and
-//! variants, a pitch recommendation and a 20-candidate sweep. Budgets in docs/performance.md.
+//! variants, a pitch recommendation, a 20-candidate sweep and a 200-candidate shortlist over a
+//! catalogue the bench makes up. Budgets in docs/performance.md.
 
 use criterion::{BenchmarkId, Criterion, Throughput, criterion_group, criterion_main};
 use std::hint::black_box;
 use std::time::Duration;
-use tidewright::profile::Store;
+use tidewright::profile::{EngineDoc, Store};
 use tidewright::propulsion::hull::holtrop::HoltropCoefficients;
 use tidewright::propulsion::hull::resistance::HOLTROP_EDITION;
 use tidewright::propulsion::solver::pitch::{PitchOptions, recommend_pitch};
 use tidewright::propulsion::solver::point::solve_point;
 use tidewright::propulsion::solver::sweep::{SweepOptions, SweepParameter, sweep};
 use tidewright::propulsion::solver::{PropellerCurve, Variant, Vessel};
+use tidewright::study::Study;
+use tidewright::study::shortlist::{Offer, ShortlistOptions};
 
 /// Standard gravity, m/s² (NIST SP 811).
 const GRAVITY: f64 = 9.80665;
@@ -139,6 +142,57 @@ fn design(c: &mut Criterion) {
     group.finish();
 }
 
+/// A made-up catalogue of `count` engine sheets for the shortlist bench, four gears each:
+/// three- to six-cylinder diesels from 30 to 128 kW, rated 2600 to 3800 rpm, Willans fuel
+/// model. Invented numbers under invented names; never shipped as demo data.
+fn bench_catalogue(count: usize) -> Vec<Offer> {
+    (0..count)
+        .map(|i| {
+            let step = i as f64;
+            let rated_kw = 30.0 + 2.0 * step;
+            let rated_rpm = 2600.0 + 100.0 * (i % 13) as f64;
+            let curve: Vec<String> = [0.40, 0.55, 0.70, 0.85, 1.0]
+                .iter()
+                .map(|&share: &f64| {
+                    let rpm = rated_rpm * share;
+                    // A full-load curve rising less than linearly in rpm, as diesels' do.
+                    let kw = rated_kw * share.powf(0.8);
+                    format!("[\"{rpm:.0} rpm\", \"{kw:.1} kW\"]")
+                })
+                .collect();
+            let name = format!("Benchmark Diesel {i:02}");
+            let toml = format!(
+                "schema = 1\nname = \"{name}\"\nunits = \"metric\"\nrated_rpm = \"{rated_rpm:.0} rpm\"\n\
+                 idle_rpm = \"800 rpm\"\nfuel_density = \"0.84 kg/L\"\ngears = [1.5, 2.0, 2.5, 3.0]\n\
+                 full_load_power = [{}]\n\n[fuel]\nform = \"willans\"\nfull_load_sfc = \"{:.0} g/kWh\"\n\
+                 zero_load_fraction = 0.15\n",
+                curve.join(", "),
+                235.0 + (i % 7) as f64 * 3.0
+            );
+            Offer {
+                name: format!("benchmark-diesel-{i:02}"),
+                doc: EngineDoc::from_toml(&toml, &name).expect("bench engine sheet parses"),
+            }
+        })
+        .collect()
+}
+
+fn shortlist(c: &mut Criterion) {
+    let demo = Store::at("/nonexistent/tidewright-bench-demo");
+    let study = Study::load(&demo, "marram", None).expect("demo boat loads");
+    let offers = bench_catalogue(50);
+    let options = ShortlistOptions::default();
+    let listed = study.shortlist(&offers, &options).expect("shortlist");
+    assert_eq!(listed.candidates.len(), 200, "50 sheets × 4 gears");
+    let mut group = c.benchmark_group("shortlist");
+    group.sample_size(10);
+    // RAYON_NUM_THREADS=1 gives the single-core figure.
+    group.bench_function("catalogue_200", |b| {
+        b.iter(|| study.shortlist(black_box(&offers), &options))
+    });
+    group.finish();
+}
+
 fn config() -> Criterion {
     Criterion::default()
         .sample_size(30)
@@ -149,6 +203,6 @@ fn config() -> Criterion {
 criterion_group! {
     name = benches;
     config = config();
-    targets = curve, design
+    targets = curve, design, shortlist
 }
 criterion_main!(benches);

@@ -14,6 +14,7 @@ pub mod design;
 pub mod import;
 pub mod order;
 pub mod power_speed;
+pub mod progress;
 pub mod resistance;
 pub mod shortlist;
 pub mod solve;

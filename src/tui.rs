@@ -18,6 +18,7 @@ pub mod recovery;
 pub mod solve;
 pub mod theme;
 pub mod ui;
+pub mod work;
 
 use crate::profile::store::save_boat_file;
 use crate::profile::{FileStamp, Loaded, Origin, ProfileError, Store};
@@ -35,6 +36,8 @@ use std::time::{Duration, Instant};
 const SIGNAL_CHECK: Duration = Duration::from_millis(250);
 /// How often, at most, the boat's file is compared with what was loaded.
 const DISK_CHECK: Duration = Duration::from_secs(2);
+/// How often the loop looks at a view being solved off the loop (a few times a frame).
+const WORK_CHECK: Duration = Duration::from_millis(30);
 
 /// Where the boat being edited is saved.
 #[derive(Debug, Clone)]
@@ -57,6 +60,8 @@ struct Session {
     feed: Option<crate::instruments::feed::Feed>,
     /// The boat's name, for the demo's recovery file.
     name: String,
+    /// The view being solved off the loop, if any.
+    work: Option<work::Worker>,
 }
 
 impl Session {
@@ -210,6 +215,8 @@ pub fn run_with_feed(
     let units = units.unwrap_or(opened.boat.units);
     let name = opened.name.clone();
     let mut app = App::new(opened, units, theme::Theme::from_env());
+    // This loop has a worker for the long views (src/tui/work.rs).
+    app.background = true;
     let mut session = Session {
         store: store.clone(),
         target,
@@ -217,6 +224,7 @@ pub fn run_with_feed(
         last_disk_check: Instant::now(),
         feed: None,
         name,
+        work: None,
     };
     if let Some((text, source)) = feed {
         app.update(Action::LiveStarted(text));
@@ -463,7 +471,13 @@ fn event_loop(
     }
     while !flags.stop.load(Ordering::Relaxed) {
         let mut redraw = flags.resized.swap(false, Ordering::Relaxed);
-        match input.wait(SIGNAL_CHECK) {
+        // While a view is solved off the loop, its progress is looked at a few times a frame.
+        let wait = if session.work.is_some() {
+            WORK_CHECK
+        } else {
+            SIGNAL_CHECK
+        };
+        match input.wait(wait) {
             Input::HungUp => return Ok(Ended::Dropped),
             Input::Timeout => {}
             Input::Ready => {
@@ -497,6 +511,21 @@ fn event_loop(
                 }
                 note_pending(app, session, pending);
             }
+        }
+        if let Some(worker) = session.work.as_mut()
+            && let Some(report) = worker.poll()
+        {
+            let id = worker.id();
+            let action = match report {
+                work::Report::Progress(done, total) => Action::Progress { id, done, total },
+                work::Report::Done(data) => Action::Solved(id, data),
+                work::Report::Lost => Action::SolveLost(id),
+            };
+            if !matches!(action, Action::Progress { .. }) {
+                session.work = None;
+            }
+            app.update(action);
+            redraw = true;
         }
         // The feed's thread queues what it read; taking it never blocks.
         if let Some(events) = session.feed.as_ref().map(|f| f.drain())
@@ -594,6 +623,15 @@ fn carry_out(effect: Effect, session: &mut Session) -> Action {
             Err(e) => failed(&format!("cannot load engine sheet {name}"), &e),
         },
         Effect::Quit => Action::Resize,
+        Effect::Solve(job) => {
+            // A new solve replaces the one under way, which stops at its next candidate.
+            session.work = Some(work::Worker::start(*job));
+            Action::Resize
+        }
+        Effect::CancelSolve => {
+            session.work = None;
+            Action::Resize
+        }
         Effect::RestoreRecovery => {
             let Some(path) = session.waiting_recovery() else {
                 return Action::Failed("no recovery file".into());

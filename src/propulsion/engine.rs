@@ -424,6 +424,12 @@ impl EngineSheet {
     ///
     /// Negative power is taken as 0; a non-finite input gives 0.
     pub fn fuel_mass_flow(&self, rpm: f64, power: f64) -> f64 {
+        self.fuel_mass_flow_below(rpm, power, self.full_load_power_at(rpm))
+    }
+
+    /// [`EngineSheet::fuel_mass_flow`] given the full-load power at `rpm`, `full_load` (W, as
+    /// [`EngineSheet::full_load_power_at`] gives it), for a caller that has it already, kg/s.
+    fn fuel_mass_flow_below(&self, rpm: f64, power: f64, full_load: f64) -> f64 {
         if !(rpm.is_finite() && power.is_finite()) {
             return 0.0;
         }
@@ -433,7 +439,7 @@ impl EngineSheet {
                 rpm: rpms,
                 load,
                 sfc,
-            } => self.sfc_map_flow(rpms, load, sfc, rpm, power),
+            } => self.sfc_map_flow(rpms, load, sfc, rpm, power, full_load),
             FuelModel::RateAlongPropellerCurve(rates) => {
                 if rates.points.is_empty() {
                     return 0.0;
@@ -450,8 +456,8 @@ impl EngineSheet {
                 full_load_sfc,
                 zero_load_fraction,
             } => {
-                let full = self.full_load_power_at(rpm);
-                full_load_sfc * (zero_load_fraction * full + (1.0 - zero_load_fraction) * power)
+                full_load_sfc
+                    * (zero_load_fraction * full_load + (1.0 - zero_load_fraction) * power)
             }
         };
         if flow.is_finite() { flow.max(0.0) } else { 0.0 }
@@ -464,11 +470,11 @@ impl EngineSheet {
         sfc: &[Vec<f64>],
         rpm: f64,
         power: f64,
+        full: f64,
     ) -> f64 {
         if rpms.len() < 2 || loads.len() < 2 || sfc.len() != rpms.len() {
             return 0.0;
         }
-        let full = self.full_load_power_at(rpm);
         if full <= 0.0 {
             return 0.0;
         }
@@ -509,11 +515,26 @@ impl EngineSheet {
     /// Fuel volume flow at `rpm` and brake power `power` (W), m³/s (0 if the fuel density is
     /// not positive; `validate` rejects such a sheet).
     pub fn fuel_volume_flow(&self, rpm: f64, power: f64) -> f64 {
-        if self.fuel_density > 0.0 && self.fuel_density.is_finite() {
-            self.fuel_mass_flow(rpm, power) / self.fuel_density
+        self.fuel_flows(rpm, power).1
+    }
+
+    /// Fuel mass flow (kg/s) and volume flow (m³/s) at `rpm` and brake power `power` (W): the
+    /// two of [`EngineSheet::fuel_mass_flow`] and [`EngineSheet::fuel_volume_flow`] from one
+    /// look-up of the fuel model.
+    pub fn fuel_flows(&self, rpm: f64, power: f64) -> (f64, f64) {
+        self.fuel_flows_below(rpm, power, self.full_load_power_at(rpm))
+    }
+
+    /// [`EngineSheet::fuel_flows`] given the full-load power at `rpm`, `full_load` (W, as
+    /// [`EngineSheet::full_load_power_at`] gives it): kg/s and m³/s.
+    pub fn fuel_flows_below(&self, rpm: f64, power: f64, full_load: f64) -> (f64, f64) {
+        let mass = self.fuel_mass_flow_below(rpm, power, full_load);
+        let volume = if self.fuel_density > 0.0 && self.fuel_density.is_finite() {
+            mass / self.fuel_density
         } else {
             0.0
-        }
+        };
+        (mass, volume)
     }
 }
 

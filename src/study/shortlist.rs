@@ -7,6 +7,7 @@
 use super::baseline::{Baseline, Headline};
 use super::checks::{cavitation, shaft_check};
 use super::power_speed::PowerForSpeed;
+use super::progress::Progress;
 use super::solve::{SolveOptions, solve_variant};
 use super::ties::{TieFigure, TieRule, tie_groups};
 use super::{Study, active_variant};
@@ -17,6 +18,7 @@ use crate::propulsion::solver::pitch::{PitchOptions, SearchStop, recommend_pitch
 use crate::propulsion::solver::shaft::ShaftCheck;
 use crate::propulsion::solver::sweep::SweepParameter;
 use crate::units::KNOT_MPS;
+use rayon::prelude::*;
 
 /// What the shortlist ranks by.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Default)]
@@ -207,6 +209,9 @@ pub enum ShortlistError {
     /// A gear ratio asked for that no gearbox has.
     #[error("gear ratio {0}: expected a reduction ratio above 1 and at most 6")]
     BadGear(f64),
+    /// The front end asked the shortlist to stop before it was done.
+    #[error("the shortlist was cancelled")]
+    Cancelled,
 }
 
 /// One engine's rated power from its sheet, W (`None` when the sheet cannot be read).
@@ -256,6 +261,17 @@ impl Study {
         offers: &[Offer],
         options: &ShortlistOptions,
     ) -> Result<Shortlist, ShortlistError> {
+        self.shortlist_counted(offers, options, &Progress::new())
+    }
+
+    /// [`Study::shortlist`], counting each candidate solved in `progress` and stopping with
+    /// [`ShortlistError::Cancelled`] once it is cancelled.
+    pub fn shortlist_counted(
+        &self,
+        offers: &[Offer],
+        options: &ShortlistOptions,
+        progress: &Progress,
+    ) -> Result<Shortlist, ShortlistError> {
         if offers.is_empty() {
             return Err(ShortlistError::NoEngines(
                 "the list of engines given".into(),
@@ -269,17 +285,29 @@ impl Study {
         {
             return Err(ShortlistError::BadGear(*bad));
         }
-        let mut candidates = Vec::new();
+        let mut asked = Vec::new();
         for offer in offers {
             let gears = match &options.gears {
                 Some(g) => g.clone(),
                 None if !offer.doc.gears.is_empty() => offer.doc.gears.clone(),
                 None => vec![self.doc.installation.gear_ratio],
             };
-            for gear in gears {
-                candidates.push(self.candidate(offer, gear));
-            }
+            asked.extend(gears.into_iter().map(|gear| (offer, gear)));
         }
+        // Each candidate is its own study: solved on every core, collected in the order asked.
+        progress.start(asked.len());
+        let solved: Option<Vec<Candidate>> = asked
+            .par_iter()
+            .map(|&(offer, gear)| {
+                if progress.is_cancelled() {
+                    return None;
+                }
+                let candidate = self.candidate(offer, gear);
+                progress.step();
+                Some(candidate)
+            })
+            .collect();
+        let candidates = solved.ok_or(ShortlistError::Cancelled)?;
         let mut list = Shortlist {
             boat: self.name().to_string(),
             profile_name: self.profile_name.clone(),
@@ -531,7 +559,11 @@ impl Study {
         let vessel = &self.vessel;
         let index = active_variant(vessel);
         let geometry = *vessel.variants[index].screw.geometry();
-        let solution = solve_variant(vessel, index, &SolveOptions::default());
+        let options = SolveOptions {
+            without_method_spread: true,
+            ..SolveOptions::default()
+        };
+        let solution = solve_variant(vessel, index, &options);
         let target_kn = vessel.trip.target_speed / KNOT_MPS;
         let (top_speed, in_range, margin, top_cavitation) = match &solution.matched {
             Ok(m) => (

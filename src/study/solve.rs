@@ -68,6 +68,9 @@ pub struct SolveOptions {
     /// Whether the other resistance method's figures are solved for the active variant only
     /// (the screen shows them for that one; each costs a second match).
     pub spread_for_active_only: bool,
+    /// Whether to leave the other resistance method's figures out altogether (the shortlist
+    /// shows none, and each costs a second resistance model and two matches).
+    pub without_method_spread: bool,
 }
 
 impl SolveOptions {
@@ -77,6 +80,7 @@ impl SolveOptions {
             rpm_rows: Vec::new(),
             curve_points: CURVE_POINTS,
             spread_for_active_only: true,
+            without_method_spread: false,
         }
     }
 
@@ -86,6 +90,7 @@ impl SolveOptions {
             rpm_rows,
             curve_points: 0,
             spread_for_active_only: false,
+            without_method_spread: false,
         }
     }
 }
@@ -238,7 +243,8 @@ pub fn solve_variant(vessel: &Vessel, index: usize, options: &SolveOptions) -> V
         interaction_warning: small_craft_warning(&vessel.interaction, &factors),
         curve_failure: None,
         unreliable_from: None,
-        method_spread: (!options.spread_for_active_only || index == vessel.active_variant)
+        method_spread: (!options.without_method_spread
+            && (!options.spread_for_active_only || index == vessel.active_variant))
             .then(|| vessel.method_spread(index))
             .flatten(),
     };

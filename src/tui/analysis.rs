@@ -10,7 +10,10 @@ use crate::propulsion::solver::trial::Calibration;
 use crate::study::Study;
 use crate::study::design::FittedBy;
 pub use crate::study::design::SweepOver;
-use crate::study::shortlist::{Candidate, Offer, Shortlist, ShortlistOptions, ShortlistRank};
+use crate::study::progress::Progress;
+use crate::study::shortlist::{
+    Candidate, Offer, Shortlist, ShortlistError, ShortlistOptions, ShortlistRank,
+};
 use crate::study::what_if::WhatIfSettings;
 use crate::tui::app::Document;
 
@@ -306,12 +309,37 @@ fn calibration_view(doc: &Document) -> CalibrationView {
 /// The shortlist of `boat` over `offers` (each sheet's offered gears, else the boat's own),
 /// ranked by `rank`: the study's one definition, as `tidewright shortlist` gives it.
 fn shortlist(doc: &Document, offers: &[Offer], rank: ShortlistRank) -> Result<Shortlist, String> {
+    shortlist_counted(doc, offers, rank, &Progress::new())
+        .unwrap_or_else(|| Err("the shortlist was cancelled".into()))
+}
+
+/// The shortlist of the document over `offers`, each candidate counted in `progress`; `None`
+/// when `progress` was cancelled before it was done.
+pub fn shortlist_counted(
+    doc: &Document,
+    offers: &[Offer],
+    rank: ShortlistRank,
+    progress: &Progress,
+) -> Option<Result<Shortlist, String>> {
     if offers.is_empty() {
-        return Err("no engine sheets were read from the store (S reads them)".into());
+        return Some(Err(
+            "no engine sheets were read from the store (S reads them)".into(),
+        ));
     }
-    let study = doc.study()?;
+    let study = match doc.study() {
+        Ok(study) => study,
+        Err(why) => return Some(Err(why)),
+    };
     let options = ShortlistOptions { gears: None, rank };
-    study.shortlist(offers, &options).map_err(|e| e.to_string())
+    match study.shortlist_counted(offers, &options, progress) {
+        Err(ShortlistError::Cancelled) => None,
+        other => Some(other.map_err(|e| e.to_string())),
+    }
+}
+
+/// The sweep view of the document over `over` (the work a background solve does for the sweep).
+pub fn sweep_of(over: SweepOver, doc: &Document) -> SweepView {
+    sweep_view(over, doc)
 }
 
 /// The what-if conditions of `study`: the study's one definition of the cases.

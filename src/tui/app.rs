@@ -12,6 +12,7 @@ use super::issues::Issues;
 use super::keys::{self, Command, Mode};
 use super::solve::Solution;
 use super::theme::Theme;
+use super::work::{Computing, Job};
 use crate::profile::{BoatDoc, EngineDoc};
 use crate::propulsion::solver::conditions::UncertaintyBand;
 use crate::study::shortlist::{Offer, ShortlistRank};
@@ -83,6 +84,15 @@ pub struct App {
     pub shortlist_chart: bool,
     /// Which sea-trial fit `a`/`F` last asked to apply (kept across the replace question).
     pub pending_fit: FitChoice,
+    /// Whether the shortlist and sweep views are solved on a worker (the terminal's loop has
+    /// one); false solves them inside `update`, as the headless screen and the tests do.
+    pub background: bool,
+    /// The view solve under way on the worker, for the progress line.
+    pub computing: Option<Computing>,
+    /// The number of the last solve asked for.
+    pub last_job: u64,
+    /// A solve (or its cancelling) for the loop, handed out by `update` with its effect.
+    outbox: Option<Effect>,
 }
 
 /// Which sea-trial fit to apply.
@@ -133,6 +143,10 @@ impl App {
             shortlist_row: 0,
             shortlist_chart: false,
             pending_fit: FitChoice::OneFactor,
+            background: false,
+            computing: None,
+            last_job: 0,
+            outbox: None,
         }
     }
 
@@ -188,6 +202,12 @@ impl App {
 
     /// Applies `action`: the only place the state changes. Returns I/O for the loop to do.
     pub fn update(&mut self, action: Action) -> Option<Effect> {
+        let effect = self.apply(action);
+        // A solve asked for on the way goes out once the loop has carried out the effect.
+        effect.or_else(|| self.outbox.take())
+    }
+
+    fn apply(&mut self, action: Action) -> Option<Effect> {
         match action {
             Action::Command(command) => self.command(command),
             Action::Type(c) => {
@@ -212,6 +232,34 @@ impl App {
                 self.open_view(ViewKind::Shortlist);
                 None
             }
+            Action::Progress { id, done, total } => {
+                if let Some(computing) = self.computing.as_mut().filter(|c| c.id == id) {
+                    computing.done = done;
+                    computing.total = total;
+                }
+                None
+            }
+            Action::Solved(id, data) => {
+                if self.computing.is_some_and(|c| c.id == id) {
+                    self.computing = None;
+                    let highlighted = self.highlighted_candidate();
+                    let mut data = *data;
+                    // The ranking may have changed while the list was solved.
+                    if let ViewData::Shortlist(view) = &mut data {
+                        view.rank_by(self.shortlist_rank);
+                    }
+                    self.view = Some(data);
+                    self.keep_highlight(highlighted);
+                }
+                None
+            }
+            Action::SolveLost(id) => {
+                if self.computing.is_some_and(|c| c.id == id) {
+                    self.computing = None;
+                    self.set_status(Level::Error, "the view could not be solved");
+                }
+                None
+            }
             Action::BoatOpened(opened) => {
                 let opened = *opened;
                 let (units, theme, chart) = (self.units, self.theme.clone(), self.chart);
@@ -219,8 +267,11 @@ impl App {
                 let (offers, rank) = (std::mem::take(&mut self.offers), self.shortlist_rank);
                 let name = opened.name.clone();
                 let live = self.live.take();
+                let (background, last_job) = (self.background, self.last_job);
                 *self = App::new(opened, units, theme);
                 self.live = live;
+                self.background = background;
+                self.last_job = last_job;
                 self.chart = chart;
                 self.band_shown = band_shown;
                 self.sweep_over = sweep_over;

@@ -4,6 +4,7 @@
 #[macro_use]
 mod support;
 
+mod background;
 mod cli;
 mod cli_design;
 mod design;

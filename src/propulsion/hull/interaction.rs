@@ -153,10 +153,54 @@ impl InteractionMethod {
         screw: &ScrewAtStern,
         speed: f64,
     ) -> Interaction {
-        let raw = match self {
-            InteractionMethod::Holtrop1984SingleScrew => {
-                holtrop_single_screw(hull, water, screw, speed)
-            }
+        self.prepared(hull, water, screw).at_speed(speed)
+    }
+
+    /// The method readied for `hull`, `water` and `screw`: its speed-independent terms found
+    /// once, for a curve that asks at many speeds. Gives the same values as
+    /// [`InteractionMethod::at_speed`].
+    pub fn prepared<'a>(
+        &self,
+        hull: &'a HullForm,
+        water: &'a WaterProperties,
+        screw: &ScrewAtStern,
+    ) -> PreparedInteraction<'a> {
+        let single_screw = matches!(self, InteractionMethod::Holtrop1984SingleScrew)
+            .then(|| SingleScrewTerms::new(hull, water, screw));
+        let oortmerssen = matches!(self, InteractionMethod::VanOortmerssen)
+            .then(|| super::oortmerssen::PreparedFactors::new(hull, screw));
+        PreparedInteraction {
+            method: *self,
+            hull,
+            water,
+            screw: *screw,
+            single_screw,
+            oortmerssen,
+        }
+    }
+}
+
+/// An interaction method readied for one hull, water and screw ([`InteractionMethod::prepared`]).
+#[derive(Debug, Clone, Copy)]
+pub struct PreparedInteraction<'a> {
+    method: InteractionMethod,
+    hull: &'a HullForm,
+    water: &'a WaterProperties,
+    screw: ScrewAtStern,
+    single_screw: Option<SingleScrewTerms>,
+    oortmerssen: Option<super::oortmerssen::PreparedFactors>,
+}
+
+impl PreparedInteraction<'_> {
+    /// The interaction coefficients at `speed` (m/s); always finite and inside the ranges of
+    /// [`Interaction::clamped`]; no allocation.
+    pub fn at_speed(&self, speed: f64) -> Interaction {
+        let (hull, water, screw) = (self.hull, self.water, &self.screw);
+        let raw = match self.method {
+            InteractionMethod::Holtrop1984SingleScrew => match &self.single_screw {
+                Some(terms) => terms.at_speed(speed),
+                None => holtrop_single_screw(hull, water, screw, speed),
+            },
             InteractionMethod::Holtrop1984TwinScrew => {
                 holtrop_twin_screw(hull, water, screw, speed)
             }
@@ -172,10 +216,11 @@ impl InteractionMethod {
                     relative_rotative_efficiency: 1.0,
                 }
             }
-            InteractionMethod::VanOortmerssen => {
-                super::oortmerssen::propulsion_factors(hull, screw, speed)
-            }
-            InteractionMethod::User(values) => *values,
+            InteractionMethod::VanOortmerssen => match &self.oortmerssen {
+                Some(factors) => factors.at_speed(speed),
+                None => super::oortmerssen::propulsion_factors(hull, screw, speed),
+            },
+            InteractionMethod::User(values) => values,
         };
         let finite = |x: f64, fallback: f64| if x.is_finite() { x } else { fallback };
         Interaction {
@@ -215,14 +260,39 @@ pub fn small_craft_warning(
 /// Holtrop's viscous resistance coefficient CV = (1+k)·CF + CA at `speed` (m/s), with 1+k the
 /// hull form factor blended with the appendage form factor by wetted area (dimensionless).
 pub fn viscous_coefficient(hull: &HullForm, water: &WaterProperties, speed: f64) -> f64 {
-    let input = &hull.input;
-    let coefficients = hull.holtrop_coefficients();
-    let rn = reynolds_number(speed, input.length_waterline, water.kinematic_viscosity);
-    let cf = ittc1957_friction_coefficient(rn);
-    let s_total = hull.wetted_surface.value + input.appendage_area;
-    let k_total = coefficients.form_factor
-        + (input.appendage_form_factor - coefficients.form_factor) * input.appendage_area / s_total;
-    k_total * cf + coefficients.correlation_allowance
+    ViscousTerms::new(hull, water).at_speed(speed)
+}
+
+/// The speed-independent parts of [`viscous_coefficient`].
+#[derive(Debug, Clone, Copy)]
+struct ViscousTerms {
+    length: f64,
+    viscosity: f64,
+    form_factor: f64,
+    correlation_allowance: f64,
+}
+
+impl ViscousTerms {
+    fn new(hull: &HullForm, water: &WaterProperties) -> Self {
+        let input = &hull.input;
+        let coefficients = hull.holtrop_coefficients();
+        let s_total = hull.wetted_surface.value + input.appendage_area;
+        let k_total = coefficients.form_factor
+            + (input.appendage_form_factor - coefficients.form_factor) * input.appendage_area
+                / s_total;
+        Self {
+            length: input.length_waterline,
+            viscosity: water.kinematic_viscosity,
+            form_factor: k_total,
+            correlation_allowance: coefficients.correlation_allowance,
+        }
+    }
+
+    fn at_speed(&self, speed: f64) -> f64 {
+        let rn = reynolds_number(speed, self.length, self.viscosity);
+        let cf = ittc1957_friction_coefficient(rn);
+        self.form_factor * cf + self.correlation_allowance
+    }
 }
 
 /// Holtrop (1984) twin-screw wake, thrust deduction and ηR (unclamped).
@@ -269,57 +339,100 @@ pub fn holtrop_single_screw(
     screw: &ScrewAtStern,
     speed: f64,
 ) -> Interaction {
-    let input = &hull.input;
-    let (l, b) = (input.length_waterline, input.beam_waterline);
-    let ta = input.draft_aft;
-    let d = screw.diameter;
-    let s = hull.wetted_surface.value;
-    let cb = hull.block_coefficient;
-    let cp = hull.prismatic_coefficient;
-    let cm = hull.midship_coefficient.value;
-    let lcb = hull.lcb_percent();
-    let cstern = input.stern_coefficient;
+    SingleScrewTerms::new(hull, water, screw).at_speed(speed)
+}
 
-    let cv = viscous_coefficient(hull, water, speed);
+/// The terms of [`holtrop_single_screw`] that do not depend on speed, grouped so that the
+/// wake at a speed is formed in the formula's own order (the same rounding as term by term).
+#[derive(Debug, Clone, Copy)]
+struct SingleScrewTerms {
+    viscous: ViscousTerms,
+    /// c9·c20.
+    c9_c20: f64,
+    /// L/TA.
+    length_over_draft: f64,
+    /// 0.93405·c11.
+    c11_term: f64,
+    /// 1 − CP1 (floored).
+    one_minus_cp1: f64,
+    /// 0.27915·c20·√(B/(L·(1 − CP1))).
+    beam_term: f64,
+    /// c19·c20.
+    c19_c20: f64,
+    thrust_deduction: f64,
+    relative_rotative_efficiency: f64,
+}
 
-    let c8 = if b / ta < 5.0 {
-        b * s / (l * d * ta)
-    } else {
-        s * (7.0 * b / ta - 25.0) / (l * d * (b / ta - 3.0))
-    };
-    let c9 = if c8 < 28.0 {
-        c8
-    } else {
-        32.0 - 16.0 / (c8 - 24.0)
-    };
-    let ta_d = ta / d;
-    let c11 = if ta_d < 2.0 {
-        ta_d
-    } else {
-        0.0833333 * ta_d.powi(3) + 1.33333
-    };
-    let c19 = if cp < 0.7 {
-        0.12997 / (0.95 - cb) - 0.11056 / (0.95 - cp)
-    } else {
-        0.18567 / (1.3571 - cm) - 0.71276 + 0.38648 * cp
-    };
-    let c20 = 1.0 + 0.015 * cstern;
-    // CP1 < 1 always for Cp ≤ 0.98 and |lcb| ≤ 10 %; the floor only guards the square root.
-    let one_minus_cp1 = (1.0 - (1.45 * cp - 0.315 - 0.0225 * lcb)).max(0.05);
+impl SingleScrewTerms {
+    fn new(hull: &HullForm, water: &WaterProperties, screw: &ScrewAtStern) -> Self {
+        let input = &hull.input;
+        let (l, b) = (input.length_waterline, input.beam_waterline);
+        let ta = input.draft_aft;
+        let d = screw.diameter;
+        let s = hull.wetted_surface.value;
+        let cb = hull.block_coefficient;
+        let cp = hull.prismatic_coefficient;
+        let cm = hull.midship_coefficient.value;
+        let lcb = hull.lcb_percent();
+        let cstern = input.stern_coefficient;
 
-    let wake_fraction = c9 * c20 * cv * (l / ta) * (0.050776 + 0.93405 * c11 * cv / one_minus_cp1)
-        + 0.27915 * c20 * (b / (l * one_minus_cp1)).sqrt()
-        + c19 * c20;
-    let thrust_deduction =
-        0.25014 * (b / l).powf(0.28956) * ((b * hull.draft_mean).sqrt() / d).powf(0.2624)
-            / (1.0 - cp + 0.0225 * lcb).max(0.01).powf(0.01762)
-            + 0.0015 * cstern;
-    let relative_rotative_efficiency =
-        0.9922 - 0.05908 * screw.area_ratio + 0.07424 * (cp - 0.0225 * lcb);
-    Interaction {
-        wake_fraction,
-        thrust_deduction,
-        relative_rotative_efficiency,
+        let c8 = if b / ta < 5.0 {
+            b * s / (l * d * ta)
+        } else {
+            s * (7.0 * b / ta - 25.0) / (l * d * (b / ta - 3.0))
+        };
+        let c9 = if c8 < 28.0 {
+            c8
+        } else {
+            32.0 - 16.0 / (c8 - 24.0)
+        };
+        let ta_d = ta / d;
+        let c11 = if ta_d < 2.0 {
+            ta_d
+        } else {
+            0.0833333 * ta_d.powi(3) + 1.33333
+        };
+        let c19 = if cp < 0.7 {
+            0.12997 / (0.95 - cb) - 0.11056 / (0.95 - cp)
+        } else {
+            0.18567 / (1.3571 - cm) - 0.71276 + 0.38648 * cp
+        };
+        let c20 = 1.0 + 0.015 * cstern;
+        // CP1 < 1 always for Cp ≤ 0.98 and |lcb| ≤ 10 %; the floor only guards the square root.
+        let one_minus_cp1 = (1.0 - (1.45 * cp - 0.315 - 0.0225 * lcb)).max(0.05);
+        let thrust_deduction =
+            0.25014 * (b / l).powf(0.28956) * ((b * hull.draft_mean).sqrt() / d).powf(0.2624)
+                / (1.0 - cp + 0.0225 * lcb).max(0.01).powf(0.01762)
+                + 0.0015 * cstern;
+        let relative_rotative_efficiency =
+            0.9922 - 0.05908 * screw.area_ratio + 0.07424 * (cp - 0.0225 * lcb);
+        Self {
+            viscous: ViscousTerms::new(hull, water),
+            c9_c20: c9 * c20,
+            length_over_draft: l / ta,
+            c11_term: 0.93405 * c11,
+            one_minus_cp1,
+            beam_term: 0.27915 * c20 * (b / (l * one_minus_cp1)).sqrt(),
+            c19_c20: c19 * c20,
+            thrust_deduction,
+            relative_rotative_efficiency,
+        }
+    }
+
+    /// Holtrop (1984) single-screw w, t and ηR at `speed` m/s (unclamped).
+    fn at_speed(&self, speed: f64) -> Interaction {
+        let cv = self.viscous.at_speed(speed);
+        let wake_fraction = self.c9_c20
+            * cv
+            * self.length_over_draft
+            * (0.050776 + self.c11_term * cv / self.one_minus_cp1)
+            + self.beam_term
+            + self.c19_c20;
+        Interaction {
+            wake_fraction,
+            thrust_deduction: self.thrust_deduction,
+            relative_rotative_efficiency: self.relative_rotative_efficiency,
+        }
     }
 }
 

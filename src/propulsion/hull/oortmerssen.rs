@@ -331,27 +331,57 @@ pub fn factor_terms(hull: &HullForm, diameter: f64, fn_l: f64) -> [f64; FACTOR_T
 /// Van Oortmerssen's single-screw t, w and ηR at `speed` m/s (unclamped; NaN when the tables
 /// are damaged, which `InteractionMethod::at_speed` replaces by neutral values).
 pub fn propulsion_factors(hull: &HullForm, screw: &ScrewAtStern, speed: f64) -> Interaction {
-    let Ok(tables) = tables() else {
-        return Interaction {
-            wake_fraction: f64::NAN,
-            thrust_deduction: f64::NAN,
-            relative_rotative_efficiency: f64::NAN,
+    PreparedFactors::new(hull, screw).at_speed(speed)
+}
+
+/// [`propulsion_factors`] readied for one hull and screw: the terms that do not change with
+/// speed found once, for a curve that asks at many speeds (the same values).
+#[derive(Debug, Clone, Copy)]
+pub struct PreparedFactors {
+    /// The terms of [`factor_terms`] at Fn 0; the two in Fn are filled in at each speed.
+    terms: [f64; FACTOR_TERMS],
+    prismatic: f64,
+    /// √(g·LWL), m/s: speed over it is the Froude number.
+    froude_root: f64,
+}
+
+impl PreparedFactors {
+    /// The factors of `hull` with `screw`.
+    pub fn new(hull: &HullForm, screw: &ScrewAtStern) -> Self {
+        Self {
+            terms: factor_terms(hull, screw.diameter, 0.0),
+            prismatic: hull.prismatic_coefficient,
+            froude_root: (STANDARD_GRAVITY * hull.input.length_waterline).sqrt(),
+        }
+    }
+
+    /// t, w and ηR at `speed` m/s (unclamped; NaN when the tables are damaged).
+    pub fn at_speed(&self, speed: f64) -> Interaction {
+        let Ok(tables) = tables() else {
+            return Interaction {
+                wake_fraction: f64::NAN,
+                thrust_deduction: f64::NAN,
+                relative_rotative_efficiency: f64::NAN,
+            };
         };
-    };
-    // The regression's data end at Fn 0.50; past it the factors are held at their Fn 0.50 value.
-    let fn_l = hull.froude_number(speed).min(FROUDE_MAX);
-    let x = factor_terms(hull, screw.diameter, fn_l);
-    let column = |j: usize| {
-        tables
-            .factors
-            .iter()
-            .zip(&x)
-            .map(|(row, xk)| row[j] * xk)
-            .sum()
-    };
-    Interaction {
-        thrust_deduction: column(0),
-        wake_fraction: column(1),
-        relative_rotative_efficiency: column(2),
+        // The regression's data end at Fn 0.50; past it the factors are held at their Fn 0.50
+        // value.
+        let fn_l = (speed / self.froude_root).min(FROUDE_MAX);
+        let mut x = self.terms;
+        x[3] = fn_l * self.prismatic;
+        x[4] = fn_l * fn_l * self.prismatic;
+        let column = |j: usize| {
+            tables
+                .factors
+                .iter()
+                .zip(&x)
+                .map(|(row, xk)| row[j] * xk)
+                .sum()
+        };
+        Interaction {
+            thrust_deduction: column(0),
+            wake_fraction: column(1),
+            relative_rotative_efficiency: column(2),
+        }
     }
 }

@@ -176,6 +176,29 @@ impl CurveShape {
     /// continuation found by scanning the formulas' curve for the first speed where it stops
     /// rising (or the end of the last method's reach).
     pub fn new(hull: &HullForm, method: &ResistanceMethod, water: &WaterProperties) -> Self {
+        // The scan costs a couple of hundred evaluations of the formulas, and a shortlist
+        // rebuilds the same hull in the same water for every candidate: each thread keeps the
+        // last shape it found with what it was found for (the same inputs, the same shape).
+        type Found = (HullForm, ResistanceMethod, WaterProperties, CurveShape);
+        thread_local! {
+            static LAST: std::cell::RefCell<Option<Found>> = const { std::cell::RefCell::new(None) };
+        }
+        LAST.with(|last| {
+            if let Some((h, m, w, shape)) = &*last.borrow()
+                && h == hull
+                && m == method
+                && w == water
+            {
+                return *shape;
+            }
+            let shape = Self::scanned(hull, method, water);
+            *last.borrow_mut() = Some((hull.clone(), method.clone(), *water, shape));
+            shape
+        })
+    }
+
+    /// [`CurveShape::new`] found by scanning the formulas.
+    fn scanned(hull: &HullForm, method: &ResistanceMethod, water: &WaterProperties) -> Self {
         let oortmerssen = match method {
             ResistanceMethod::VanOortmerssen => OortmerssenCoefficients::new(hull).ok(),
             _ => None,

@@ -147,6 +147,9 @@ pub struct ResistanceModel {
     /// Where the method hands over and where the continuation starts, found once.
     #[serde(skip)]
     shape: CurveShape,
+    /// The speed-independent parts of the in-range decision, found once with the shape.
+    #[serde(skip)]
+    validity: ValidityScale,
 }
 
 impl ResistanceTable {
@@ -286,6 +289,20 @@ pub struct SpeedValidity {
     pub in_method_range: bool,
 }
 
+/// What [`SpeedValidity`] needs of a model that does not change with speed
+/// ([`ResistanceModel::validity_scale`]).
+#[derive(Debug, Clone, Copy, PartialEq, Default)]
+pub struct ValidityScale {
+    /// The method's Froude range (low, high), dimensionless; `None` if it states none.
+    froude_range: Option<(f64, f64)>,
+    /// √(LWL in feet).
+    length_root: f64,
+    /// Speed/length limit of the displacement regime, kn/√ft; `None` for a table.
+    speed_length_limit: Option<f64>,
+    /// √(g·∇^⅓), m/s.
+    volume_root: f64,
+}
+
 impl SpeedValidity {
     /// Why the prediction is unreliable here, as a clause for a sentence ("speed/length ratio
     /// 1.50 is past the displacement-hull limit 1.47; …"), or `None` when it is in range: the
@@ -423,14 +440,17 @@ impl ResistanceModel {
         margins: Margins,
     ) -> Self {
         let shape = CurveShape::new(&hull, &method, &water);
-        Self {
+        let mut model = Self {
             hull,
             method,
             water,
             air,
             margins,
             shape,
-        }
+            validity: ValidityScale::default(),
+        };
+        model.validity = model.find_validity_scale();
+        model
     }
 
     /// The same model on another hull (a new load, say); the curve's shape is found anew.
@@ -485,22 +505,44 @@ impl ResistanceModel {
     /// A table is measured data, so only its own speed range counts; a regression also has to
     /// stay inside the displacement regime (speed/length limit for the hull's D/L ratio).
     pub fn validity_at(&self, speed: f64) -> SpeedValidity {
-        let froude = self.hull.froude_number(speed);
-        let froude_range = self.froude_range();
-        // A small tolerance keeps a table's own end speeds inside despite rounding.
-        let froude_in_range =
-            froude_range.is_none_or(|(low, high)| froude >= low - 1e-9 && froude <= high + 1e-9);
+        self.validity_with(&self.validity, speed)
+    }
+
+    /// The speed-independent parts of [`ResistanceModel::validity_at`] (found with the model),
+    /// for asking it at many speeds ([`ResistanceModel::validity_with`]).
+    pub fn validity_scale(&self) -> ValidityScale {
+        self.validity
+    }
+
+    fn find_validity_scale(&self) -> ValidityScale {
         let length = self.hull.input.length_waterline;
-        let speed_length_ratio = (speed / KNOT) / (length / FOOT).sqrt();
         // Every regression method stays inside the displacement regime; a table does not need to.
         let speed_length_limit = (!matches!(self.method, ResistanceMethod::Table(_))).then(|| {
             let mass = self.water.density * self.hull.input.displacement_volume;
             speed_length_limit(displacement_length_ratio(mass, length))
         });
+        let volume_length = self.hull.input.displacement_volume.max(0.0).cbrt();
+        ValidityScale {
+            froude_range: self.froude_range(),
+            length_root: (length / FOOT).sqrt(),
+            speed_length_limit,
+            volume_root: (STANDARD_GRAVITY * volume_length).sqrt(),
+        }
+    }
+
+    /// [`ResistanceModel::validity_at`] with its speed-independent parts from `scale`, which
+    /// must come from this model's [`ResistanceModel::validity_scale`].
+    pub fn validity_with(&self, scale: &ValidityScale, speed: f64) -> SpeedValidity {
+        let froude = self.hull.froude_number(speed);
+        let froude_range = scale.froude_range;
+        // A small tolerance keeps a table's own end speeds inside despite rounding.
+        let froude_in_range =
+            froude_range.is_none_or(|(low, high)| froude >= low - 1e-9 && froude <= high + 1e-9);
+        let speed_length_ratio = (speed / KNOT) / scale.length_root;
+        let speed_length_limit = scale.speed_length_limit;
         let speed_length_in_range =
             speed_length_limit.is_none_or(|limit| speed_length_ratio <= limit);
         let regime = self.shape.regime_at(&self.hull, speed);
-        let volume_length = self.hull.input.displacement_volume.max(0.0).cbrt();
         SpeedValidity {
             froude,
             froude_range,
@@ -512,7 +554,7 @@ impl ResistanceModel {
             regime_words: regime.words(&self.method),
             continuation_exponent: (regime == Regime::Continuation)
                 .then_some(self.shape.continuation_exponent),
-            froude_volume: speed / (STANDARD_GRAVITY * volume_length).sqrt(),
+            froude_volume: speed / scale.volume_root,
             in_method_range: froude.is_finite()
                 && froude_in_range
                 && speed_length_in_range

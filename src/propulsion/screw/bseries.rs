@@ -188,11 +188,19 @@ impl BSeriesScrew {
             torque_correction: [[0.0; J_TERMS]; X_TERMS],
         };
         let blades = f64::from(geometry.blades);
+        // Each power once (the exponents run to 12): a pitch search builds a screw per trial
+        // pitch, and `powi` per term was a tenth of a shortlist's time.
+        let powers = |x: f64| -> [f64; 13] { std::array::from_fn(|k| x.powi(k as i32)) };
+        let (pitch_powers, area_powers, blade_powers) = (
+            powers(pitch_ratio),
+            powers(geometry.area_ratio),
+            powers(blades),
+        );
         for term in coefficient_table()? {
             let weight = term.coefficient
-                * pitch_ratio.powi(term.pitch_power)
-                * geometry.area_ratio.powi(term.area_power)
-                * blades.powi(term.blade_power);
+                * pitch_powers[term.pitch_power as usize]
+                * area_powers[term.area_power as usize]
+                * blade_powers[term.blade_power as usize];
             let s = term.advance_power;
             match term.series {
                 Series::Thrust => cubics.thrust[s] += weight,
@@ -227,6 +235,32 @@ impl BSeriesScrew {
             thrust_coefficient: cubic_at(&self.cubics.thrust, j) + thrust_change,
             torque_coefficient: cubic_at(&self.cubics.torque, j) + torque_change,
         }
+    }
+
+    /// KT(J) and KQ(J) at Rn(0.75R) = `reynolds` (the nominal 2·10⁶ when `None`) as two cubics
+    /// in J, coefficients of J⁰..J³ (dimensionless): the correction's powers of
+    /// x = log10(Rn) − 0.301 folded in once, so that a root search at one Rn pays for the
+    /// logarithm once instead of at every J. Agrees with [`BSeriesScrew::coefficients`] to
+    /// rounding.
+    pub fn cubics_at(&self, reynolds: Option<f64>) -> ([f64; J_TERMS], [f64; J_TERMS]) {
+        let (mut thrust, mut torque) = (self.cubics.thrust, self.cubics.torque);
+        let Some(x) = reynolds
+            .filter(|rn| rn.is_finite() && *rn > NOMINAL_REYNOLDS)
+            .map(|rn| rn.log10() - 0.301)
+        else {
+            return (thrust, torque);
+        };
+        let fold = |cubics: &[Cubic; X_TERMS], s: usize| {
+            cubics
+                .iter()
+                .rev()
+                .fold(0.0, |acc, cubic| acc * x + cubic[s])
+        };
+        for s in 0..J_TERMS {
+            thrust[s] += fold(&self.cubics.thrust_correction, s);
+            torque[s] += fold(&self.cubics.torque_correction, s);
+        }
+        (thrust, torque)
     }
 
     /// The Reynolds-number correction (ΔKT, ΔKQ) at `j` for Rn(0.75R) = `reynolds`;
@@ -416,6 +450,19 @@ mod tests {
             let point = s.coefficients(j, None);
             assert!((point.thrust_coefficient - kt).abs() < 1e-14);
             assert!((point.torque_coefficient - kq).abs() < 1e-14);
+        }
+    }
+
+    #[test]
+    fn folded_cubics_agree_with_the_corrected_coefficients() {
+        let s = screw(4, 0.55, 0.9);
+        for reynolds in [None, Some(1.0e6), Some(2.0e6), Some(8.0e6), Some(3.0e7)] {
+            let (thrust, torque) = s.cubics_at(reynolds);
+            for j in [0.0_f64, 0.3, 0.62, 0.9] {
+                let point = s.coefficients(j, reynolds);
+                assert!((cubic_at(&thrust, j) - point.thrust_coefficient).abs() < 1e-15);
+                assert!((cubic_at(&torque, j) - point.torque_coefficient).abs() < 1e-15);
+            }
         }
     }
 

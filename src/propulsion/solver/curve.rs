@@ -1,7 +1,7 @@
 //! The propeller curve: operating points over a speed range for one screw and gear.
 
 use super::System;
-use super::point::{OperatingPoint, PointFailure, solve_point};
+use super::point::{OperatingPoint, PointFailure, PointSolver};
 
 /// Operating points over a range of speeds; failures are kept with their speed and reason.
 #[derive(Debug, Clone, PartialEq, Default)]
@@ -33,14 +33,16 @@ impl PropellerCurve {
         } else {
             0.0
         };
-        for index in 0..count {
+        let mut solver = PointSolver::new(system);
+        // `extend` writes each point where it will stay (a `push` copied every point once).
+        self.points.extend((0..count).map(|index| {
             let speed = if index + 1 == count && count > 1 {
                 max_speed
             } else {
                 min_speed + step * index as f64
             };
-            self.points.push((speed, solve_point(system, speed)));
-        }
+            (speed, solver.solve(speed))
+        }));
     }
 
     /// The successfully solved points, in increasing speed.

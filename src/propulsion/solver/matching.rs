@@ -1,7 +1,7 @@
 //! Matching the propeller curve to the engine's full-load envelope.
 
 use super::System;
-use super::point::{OperatingPoint, PointFailure, solve_point};
+use super::point::{OperatingPoint, PointFailure, PointSolver, solve_point};
 use crate::propulsion::STANDARD_GRAVITY;
 use crate::propulsion::hull::SpeedValidity;
 use crate::propulsion::numeric::{RootOutcome, brent};
@@ -189,11 +189,13 @@ pub fn point_at_engine_rpm(
         });
     }
     let excess = |p: &OperatingPoint| p.engine_rpm - engine_rpm;
+    // One solver for the whole search: its terms found once, each root started from the last.
+    let mut solver = PointSolver::new(system);
     let mut ceiling = ceiling;
     let mut low = (0.0, -engine_rpm);
     let mut speed = FIRST_PROBE_FROUDE_NUMBER / MAX_FROUDE_NUMBER * ceiling;
     for _ in 0..MAX_SPEED_ITERATIONS {
-        let point = match solve_point(system, speed) {
+        let point = match solver.solve(speed) {
             Ok(point) => point,
             // Past the reach of the resistance model (e.g. the end of a resistance table):
             // search below it, and report the failure if the target lies beyond it.
@@ -209,7 +211,7 @@ pub fn point_at_engine_rpm(
         };
         if point.engine_rpm >= engine_rpm {
             return root_in_speed(
-                system,
+                &mut solver,
                 low,
                 (speed, excess(&point)),
                 point,
@@ -242,7 +244,7 @@ pub fn point_at_engine_rpm(
 /// signs) where `quantity` is 0, to within `SPEED_SEARCH_TOLERANCE`·`scale`. `high_point` is the
 /// point already solved at `high`.
 fn root_in_speed(
-    system: &System<'_>,
+    solver: &mut PointSolver<'_>,
     low: (f64, f64),
     high: (f64, f64),
     high_point: OperatingPoint,
@@ -253,7 +255,7 @@ fn root_in_speed(
     let accept = |_: f64, value: f64| value.abs() <= SPEED_SEARCH_TOLERANCE * scale;
     let outcome = brent(
         |speed| {
-            last = solve_point(system, speed)?;
+            last = solver.solve(speed)?;
             Ok::<_, PointFailure>(quantity(&last))
         },
         low,
@@ -264,7 +266,7 @@ fn root_in_speed(
     )?;
     match outcome {
         RootOutcome::Converged { x, .. } if x == last.speed => Ok(last),
-        RootOutcome::Converged { x, .. } => solve_point(system, x),
+        RootOutcome::Converged { x, .. } => solver.solve(x),
         RootOutcome::IterationCap { iterations } => Err(PointFailure::NotConverged {
             speed: last.speed,
             iterations,
@@ -291,6 +293,7 @@ pub fn match_engine(
     let absorbed = rated_point.brake_power_per_engine / engine.rated_power();
     let overload = |p: &OperatingPoint| p.load_fraction - 1.0;
     let top_rpm = engine.full_load_power.last_rpm().max(engine.rated_rpm);
+    let mut solver = PointSolver::new(system);
 
     let (top_point, governed) = if overload(&rated_point) >= 0.0 {
         // Over-propped (or exactly matched): the meeting point lies below rated speed. Near
@@ -300,7 +303,7 @@ pub fn match_engine(
         let mut low = None;
         for _ in 0..60 {
             let speed = 0.5 * high.0;
-            let point = solve_point(system, speed)?;
+            let point = solver.solve(speed)?;
             if overload(&point) < 0.0 {
                 low = Some((speed, overload(&point)));
                 break;
@@ -312,7 +315,7 @@ pub fn match_engine(
             iterations: 60,
         })?;
         (
-            root_in_speed(system, low, (high.0, high.1), high.2, overload, 1.0)?,
+            root_in_speed(&mut solver, low, (high.0, high.1), high.2, overload, 1.0)?,
             false,
         )
     } else if top_rpm > engine.rated_rpm {
@@ -320,7 +323,14 @@ pub fn match_engine(
         if overload(&top) >= 0.0 {
             let low = (rated_point.speed, overload(&rated_point));
             (
-                root_in_speed(system, low, (top.speed, overload(&top)), top, overload, 1.0)?,
+                root_in_speed(
+                    &mut solver,
+                    low,
+                    (top.speed, overload(&top)),
+                    top,
+                    overload,
+                    1.0,
+                )?,
                 false,
             )
         } else {
@@ -368,6 +378,7 @@ fn free_running(
     top: &OperatingPoint,
 ) -> Result<Option<OperatingPoint>, PointFailure> {
     let overload = |p: &OperatingPoint| p.load_fraction - 1.0;
+    let mut solver = PointSolver::new(system);
     let ceiling = max_speed(system);
     let mut low = (top.speed, overload(top));
     let mut speed = top.speed;
@@ -375,15 +386,21 @@ fn free_running(
         // Absorbed power grows about as speed³, so this step is aimed at load 1.
         let aim = (1.0 / top.load_fraction.max(1e-3)).cbrt().clamp(1.02, 2.0);
         speed = (speed * aim).min(ceiling);
-        let point = match solve_point(system, speed) {
+        let point = match solver.solve(speed) {
             Ok(point) => point,
             // Past the resistance model's reach: report "not found" rather than failing the match.
             Err(PointFailure::Resistance(_)) => return Ok(None),
             Err(other) => return Err(other),
         };
         if overload(&point) >= 0.0 {
-            let found =
-                root_in_speed(system, low, (speed, overload(&point)), point, overload, 1.0)?;
+            let found = root_in_speed(
+                &mut solver,
+                low,
+                (speed, overload(&point)),
+                point,
+                overload,
+                1.0,
+            )?;
             return Ok(Some(found));
         }
         low = (speed, overload(&point));

@@ -261,7 +261,10 @@ pub fn reynolds_at_075r(
     viscosity: f64,
 ) -> f64 {
     let section_speed = 0.75 * PI * screw_rps * diameter;
-    chord * advance_speed.hypot(section_speed) / viscosity
+    // √(a² + b²) rather than `hypot`: boat speeds cannot overflow the squares, and the solver
+    // asks this at every pass of every point.
+    let resultant = (advance_speed * advance_speed + section_speed * section_speed).sqrt();
+    chord * resultant / viscosity
 }
 
 /// The operating point at `speed` (m/s) with resistance `resistance` (N) and the interaction
@@ -273,6 +276,169 @@ pub fn solve_with_resistance(
     resistance: f64,
     interaction: Interaction,
 ) -> Result<OperatingPoint, PointFailure> {
+    solve_warm(
+        drive,
+        speed,
+        resistance,
+        interaction,
+        &mut WarmStart::default(),
+    )
+}
+
+/// The advance ratio of each Reynolds pass of the last point solved (0 for a pass not run):
+/// where the next, nearby speed starts its roots.
+#[derive(Debug, Clone, Copy, Default, PartialEq)]
+pub struct WarmStart {
+    passes: [f64; MAX_REYNOLDS_PASSES as usize],
+    /// The first pass's J of the point before the last one (0 for none).
+    first_before: f64,
+    /// The speeds of the last point and the one before it, m/s (0 for none).
+    speeds: (f64, f64),
+    /// The speed of the point being solved, m/s.
+    speed: f64,
+}
+
+impl WarmStart {
+    /// The guess for pass `pass` (0-based) of a point whose earlier passes found `own`: the
+    /// last point's J of that pass, moved by how much this point's J has already moved from
+    /// the last point's; 0 for none.
+    fn guess(&self, pass: usize, own: &[f64; MAX_REYNOLDS_PASSES as usize]) -> f64 {
+        let neighbour = self.passes[pass];
+        if pass == 0 {
+            // J changes smoothly with speed: carried on in a straight line from the last two
+            // points (on a curve of even steps, 2·J₁ − J₂).
+            let (last, before) = self.speeds;
+            let step = (self.speed - last) / (last - before);
+            return if neighbour > 0.0 && self.first_before > 0.0 && step.is_finite() {
+                neighbour + (neighbour - self.first_before) * step
+            } else {
+                neighbour
+            };
+        }
+        let (before, own_before) = (self.passes[pass - 1], own[pass - 1]);
+        if neighbour > 0.0 && before > 0.0 {
+            own_before * (neighbour / before)
+        } else {
+            own_before
+        }
+    }
+}
+
+/// The open-water polynomials of one Reynolds pass: cubics in J for a B-series screw (the
+/// correction folded in once per pass), the model itself for a table.
+enum PassScrew<'a> {
+    Cubics { thrust: [f64; 4], torque: [f64; 4] },
+    Model(&'a ScrewModel, Option<f64>),
+}
+
+/// A cubic's value at `j` by Horner's rule.
+fn cubic_at(c: &[f64; 4], j: f64) -> f64 {
+    ((c[3] * j + c[2]) * j + c[1]) * j + c[0]
+}
+
+impl<'a> PassScrew<'a> {
+    fn new(screw: &'a ScrewModel, reynolds: Option<f64>) -> Self {
+        match screw.cubics_at(reynolds) {
+            Some((thrust, torque)) => PassScrew::Cubics { thrust, torque },
+            None => PassScrew::Model(screw, reynolds),
+        }
+    }
+
+    fn thrust_coefficient(&self, j: f64) -> f64 {
+        match self {
+            PassScrew::Cubics { thrust, .. } => cubic_at(thrust, j),
+            PassScrew::Model(screw, reynolds) => {
+                screw.coefficients(j, *reynolds).thrust_coefficient
+            }
+        }
+    }
+
+    fn coefficients(&self, j: f64) -> crate::propulsion::screw::OpenWaterPoint {
+        match self {
+            PassScrew::Cubics { thrust, torque } => crate::propulsion::screw::OpenWaterPoint {
+                advance_ratio: j,
+                thrust_coefficient: cubic_at(thrust, j),
+                torque_coefficient: cubic_at(torque, j),
+            },
+            PassScrew::Model(screw, reynolds) => screw.coefficients(j, *reynolds),
+        }
+    }
+}
+
+/// The root of the thrust identity KT(J) = loading·J² with KT a cubic in J, on the bracket
+/// ((low J, excess there), (high J, excess there)), the excess KT − loading·J² > 0 at the low
+/// end and ≤ 0 at the high one, by Halley's method from
+/// `guess` (any J inside the bracket; otherwise the secant through its ends), each step kept
+/// inside the shrinking bracket by bisection. Stops as [`advance_ratio_for_loading`] does.
+fn cubic_advance_ratio(
+    thrust: &[f64; 4],
+    loading: f64,
+    ((low_j, f_low), (high_j, f_high)): ((f64, f64), (f64, f64)),
+    guess: f64,
+) -> Result<f64, AdvanceRatioFailure> {
+    let bracket_ok = low_j.is_finite() && low_j >= 0.0 && high_j.is_finite() && high_j > low_j;
+    if !(loading.is_finite() && loading > 0.0 && bracket_ok) {
+        return Err(AdvanceRatioFailure::NoRoot);
+    }
+    let excess = |j: f64| cubic_at(thrust, j) - loading * j * j;
+    let slope = |j: f64| thrust[1] + j * (2.0 * (thrust[2] - loading) + 3.0 * thrust[3] * j);
+    let curvature = |j: f64| 2.0 * (thrust[2] - loading) + 6.0 * thrust[3] * j;
+    if !(f_low > 0.0 && f_high <= 0.0) {
+        return Err(AdvanceRatioFailure::NoRoot);
+    }
+    let accept =
+        |j: f64, fj: f64| j > 0.0 && fj.abs() <= THRUST_IDENTITY_TOLERANCE * loading * j * j;
+    if accept(high_j, f_high) {
+        return Ok(high_j);
+    }
+    let (mut low, mut high) = (low_j, high_j);
+    let mut j = if guess > low && guess < high {
+        guess
+    } else {
+        low + (high - low) * f_low / (f_low - f_high)
+    };
+    for _ in 0..MAX_ADVANCE_RATIO_ITERATIONS {
+        let fj = excess(j);
+        if accept(j, fj) {
+            return Ok(j);
+        }
+        if fj > 0.0 {
+            low = j;
+        } else {
+            high = j;
+        }
+        if high - low <= 1e-15 * high_j {
+            return if j > 0.0 {
+                Ok(j)
+            } else {
+                Err(AdvanceRatioFailure::NoRoot)
+            };
+        }
+        // Halley's step (the cubic's second derivative is at hand): from a neighbour's root
+        // one step reaches the tolerance.
+        let (d1, d2) = (slope(j), curvature(j));
+        let next = j - 2.0 * fj * d1 / (2.0 * d1 * d1 - fj * d2);
+        j = if next > low && next < high {
+            next
+        } else {
+            0.5 * (low + high)
+        };
+    }
+    Err(AdvanceRatioFailure::NotConverged {
+        iterations: MAX_ADVANCE_RATIO_ITERATIONS,
+    })
+}
+
+/// [`solve_with_resistance`], its roots started from `warm` (the last nearby point), which it
+/// updates when the point solves.
+fn solve_warm(
+    drive: &Drive<'_>,
+    speed: f64,
+    resistance: f64,
+    interaction: Interaction,
+    warm: &mut WarmStart,
+) -> Result<OperatingPoint, PointFailure> {
+    warm.speed = speed;
     if !(speed.is_finite() && speed >= 0.0) {
         return Err(PointFailure::InvalidSpeed(speed));
     }
@@ -323,30 +489,70 @@ pub fn solve_with_resistance(
     };
     let mut reynolds: Option<f64> = None;
     let mut previous_j: Option<f64> = None;
+    let mut previous_thrust: Option<[f64; 4]> = None;
+    let mut found = [0.0; MAX_REYNOLDS_PASSES as usize];
     let mut pass = 1;
     let (advance_ratio, coefficients) = loop {
-        let kt = |j: f64| drive.screw.coefficients(j, reynolds).thrust_coefficient;
-        let (low_j, high_j) = match previous_j {
-            // A later pass of the Reynolds iteration moves J very little: a tight bracket
-            // around the last root, widened to the full one where it does not hold.
-            Some(j) => {
-                let excess = |j: f64| kt(j) - loading * j * j;
-                if excess(0.97 * j) > 0.0 && excess(1.03 * j) <= 0.0 {
-                    (0.97 * j, 1.03 * j)
-                } else {
-                    bracket(drive.screw, reynolds, loading, kt)
-                }
+        let polynomials = PassScrew::new(drive.screw, reynolds);
+        let kt = |j: f64| polynomials.thrust_coefficient(j);
+        let excess = |j: f64| kt(j) - loading * j * j;
+        let root = match (&polynomials, previous_j) {
+            // Below the nominal Reynolds number the correction is nil: the pass has the last
+            // pass's polynomial, so the last pass's root.
+            (PassScrew::Cubics { thrust, .. }, Some(j)) if previous_thrust == Some(*thrust) => {
+                Ok(j)
             }
-            None => bracket(drive.screw, reynolds, loading, kt),
+            (PassScrew::Cubics { thrust, .. }, _) => {
+                let ends = match previous_j {
+                    // A later pass of the Reynolds iteration moves J very little: a tight
+                    // bracket around the last root, widened to the full one where it does
+                    // not hold.
+                    Some(j) => {
+                        let (low, high) = (0.97 * j, 1.03 * j);
+                        let (f_low, f_high) = (excess(low), excess(high));
+                        if f_low > 0.0 && f_high <= 0.0 {
+                            ((low, f_low), (high, f_high))
+                        } else {
+                            let (low, high) = bracket(drive.screw, reynolds, loading, kt);
+                            ((low, excess(low)), (high, excess(high)))
+                        }
+                    }
+                    None => {
+                        // The last point's root, carried on, usually lies within 1 % of this
+                        // one's: a tight bracket around it, the full one where it does not hold.
+                        let guess = warm.guess(0, &found);
+                        let (low, high) = (0.99 * guess, 1.01 * guess);
+                        let (f_low, f_high) = (excess(low), excess(high));
+                        if guess > 0.0 && f_low > 0.0 && f_high <= 0.0 {
+                            ((low, f_low), (high, f_high))
+                        } else {
+                            let (low, high) = bracket(drive.screw, reynolds, loading, kt);
+                            ((low, excess(low)), (high, excess(high)))
+                        }
+                    }
+                };
+                previous_thrust = Some(*thrust);
+                let guess = warm.guess(pass as usize - 1, &found);
+                cubic_advance_ratio(thrust, loading, ends, guess)
+            }
+            (PassScrew::Model(..), _) => {
+                let (low_j, high_j) = match previous_j {
+                    Some(j) if excess(0.97 * j) > 0.0 && excess(1.03 * j) <= 0.0 => {
+                        (0.97 * j, 1.03 * j)
+                    }
+                    _ => bracket(drive.screw, reynolds, loading, kt),
+                };
+                advance_ratio_between(loading, low_j, high_j, kt)
+            }
         };
-        let advance_ratio =
-            advance_ratio_between(loading, low_j, high_j, kt).map_err(|f| match f {
-                AdvanceRatioFailure::NoRoot => PointFailure::NoRoot { speed, thrust },
-                AdvanceRatioFailure::NotConverged { iterations } => {
-                    PointFailure::NotConverged { speed, iterations }
-                }
-            })?;
-        let coefficients = drive.screw.coefficients(advance_ratio, reynolds);
+        let advance_ratio = root.map_err(|f| match f {
+            AdvanceRatioFailure::NoRoot => PointFailure::NoRoot { speed, thrust },
+            AdvanceRatioFailure::NotConverged { iterations } => {
+                PointFailure::NotConverged { speed, iterations }
+            }
+        })?;
+        found[pass as usize - 1] = advance_ratio;
+        let coefficients = polynomials.coefficients(advance_ratio);
         let Some(chord) = chord else {
             break (advance_ratio, coefficients);
         };
@@ -384,12 +590,10 @@ pub fn solve_with_resistance(
     } else {
         f64::INFINITY
     };
-    let fuel_mass_flow_per_engine = drive
-        .engine
-        .fuel_mass_flow(engine_rpm, brake_power_per_engine);
-    let fuel_volume_flow_per_engine = drive
-        .engine
-        .fuel_volume_flow(engine_rpm, brake_power_per_engine);
+    let (fuel_mass_flow_per_engine, fuel_volume_flow_per_engine) =
+        drive
+            .engine
+            .fuel_flows_below(engine_rpm, brake_power_per_engine, full_load);
     let point = OperatingPoint {
         speed,
         resistance,
@@ -421,7 +625,12 @@ pub fn solve_with_resistance(
         in_method_range: true,
         regime: crate::propulsion::hull::Regime::Method,
     };
-    point.check_finite()
+    point.check_finite()?;
+    // Passes past the last one run keep no guess from an earlier point.
+    warm.first_before = warm.passes[0];
+    warm.passes = found;
+    warm.speeds = (speed, warm.speeds.0);
+    Ok(point)
 }
 
 /// A bracket [low, high] of the advance-ratio root, found without searching for zero thrust
@@ -531,7 +740,35 @@ impl OperatingPoint {
     }
 
     /// Every field finite, or the first that is not as a failure.
-    fn check_finite(self) -> Result<Self, PointFailure> {
+    fn check_finite(&self) -> Result<(), PointFailure> {
+        // The common case first, without building the named list; `&` rather than `&&`, so
+        // that the checks run side by side instead of one after the other.
+        let all_finite = [
+            self.resistance,
+            self.thrust,
+            self.advance_speed,
+            self.advance_ratio,
+            self.thrust_coefficient,
+            self.open_water_efficiency,
+            self.reynolds,
+            self.screw_rps,
+            self.engine_rpm,
+            self.torque,
+            self.effective_power,
+            self.delivered_power,
+            self.brake_power,
+            self.brake_power_per_engine,
+            self.load_fraction,
+            self.fuel_mass_flow,
+            self.fuel_volume_flow,
+            self.fuel_mass_flow_per_engine,
+            self.fuel_volume_flow_per_engine,
+        ]
+        .iter()
+        .fold(true, |all, value| all & value.is_finite());
+        if all_finite {
+            return Ok(());
+        }
         let fields = [
             ("resistance", self.resistance),
             ("thrust", self.thrust),
@@ -562,7 +799,7 @@ impl OperatingPoint {
                 quantity,
                 value,
             }),
-            None => Ok(self),
+            None => Ok(()),
         }
     }
 }
@@ -570,37 +807,82 @@ impl OperatingPoint {
 /// Solves the thrust identity at `speed` m/s (design §2.6). A speed of 0 gives a zero point.
 ///
 /// Resistance from the system's model; wake, thrust deduction and ηR at that speed; then
-/// [`solve_with_resistance`]. No allocation on the success path.
+/// [`solve_with_resistance`]. No allocation on the success path. For many speeds of one
+/// system, [`PointSolver`] finds the same points faster.
 pub fn solve_point(system: &System<'_>, speed: f64) -> Result<OperatingPoint, PointFailure> {
-    if !(speed.is_finite() && speed >= 0.0) {
-        return Err(PointFailure::InvalidSpeed(speed));
+    PointSolver::new(system).solve(speed)
+}
+
+/// One system solved at many speeds (a propeller curve): what does not change with speed —
+/// the interaction's hull and screw terms, the validity limits, the shaft-count check — found
+/// once, and each point's roots started from the last point's. Gives the points of
+/// [`solve_point`] to rounding (within the thrust identity's tolerance).
+#[derive(Debug, Clone)]
+pub struct PointSolver<'a> {
+    system: &'a System<'a>,
+    interaction: crate::propulsion::hull::interaction::PreparedInteraction<'a>,
+    validity: crate::propulsion::hull::resistance::ValidityScale,
+    fits: Result<(), PointFailure>,
+    warm: WarmStart,
+}
+
+impl<'a> PointSolver<'a> {
+    /// The solver of `system`.
+    pub fn new(system: &'a System<'a>) -> Self {
+        let model = system.resistance;
+        Self {
+            system,
+            interaction: system.interaction.prepared(
+                &model.hull,
+                &model.water,
+                &system.screw_at_stern(),
+            ),
+            validity: model.validity_scale(),
+            fits: system.check_interaction_fits(),
+            warm: WarmStart::default(),
+        }
     }
-    system.check_interaction_fits()?;
-    let model = system.resistance;
-    let interaction =
-        system
-            .interaction
-            .at_speed(&model.hull, &model.water, &system.screw_at_stern(), speed);
-    if speed == 0.0 {
-        // The estimates may be undefined at rest; a boat at rest needs none of them.
-        let interaction = if check_interaction(&interaction).is_ok() {
-            interaction
-        } else {
-            Interaction {
-                wake_fraction: 0.0,
-                thrust_deduction: 0.0,
-                relative_rotative_efficiency: 1.0,
-            }
-        };
-        return solve_with_resistance(&system.drive(), 0.0, 0.0, interaction);
+
+    /// The operating point at `speed` m/s, as [`solve_point`] gives it.
+    pub fn solve(&mut self, speed: f64) -> Result<OperatingPoint, PointFailure> {
+        if !(speed.is_finite() && speed >= 0.0) {
+            return Err(PointFailure::InvalidSpeed(speed));
+        }
+        self.fits.clone()?;
+        let system = self.system;
+        let model = system.resistance;
+        let interaction = self.interaction.at_speed(speed);
+        if speed == 0.0 {
+            // The estimates may be undefined at rest; a boat at rest needs none of them.
+            let interaction = if check_interaction(&interaction).is_ok() {
+                interaction
+            } else {
+                Interaction {
+                    wake_fraction: 0.0,
+                    thrust_deduction: 0.0,
+                    relative_rotative_efficiency: 1.0,
+                }
+            };
+            return solve_with_resistance(&system.drive(), 0.0, 0.0, interaction);
+        }
+        let resistance = model.resistance(speed)?.total;
+        // Filled in where it lies: an operating point is large, and copies of it showed in
+        // the profile of a curve.
+        let mut solved = solve_warm(
+            &system.drive(),
+            speed,
+            resistance,
+            interaction,
+            &mut self.warm,
+        );
+        if let Ok(point) = &mut solved {
+            let validity = model.validity_with(&self.validity, speed);
+            point.froude = validity.froude;
+            point.in_method_range = validity.in_method_range;
+            point.regime = validity.regime;
+        }
+        solved
     }
-    let resistance = model.resistance(speed)?.total;
-    let mut point = solve_with_resistance(&system.drive(), speed, resistance, interaction)?;
-    let validity = model.validity_at(speed);
-    point.froude = validity.froude;
-    point.in_method_range = validity.in_method_range;
-    point.regime = validity.regime;
-    Ok(point)
 }
 
 #[cfg(test)]

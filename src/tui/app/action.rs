@@ -42,6 +42,19 @@ pub enum Action {
     Reloaded(Box<Opened>),
     /// Something the loop did that is worth a line of news.
     Notice(String),
+    /// The worker solving job `id` has done `done` of `total` candidates.
+    Progress {
+        /// The job's number.
+        id: u64,
+        /// Candidates solved (count).
+        done: usize,
+        /// Candidates in all (count).
+        total: usize,
+    },
+    /// The worker solved job `id`.
+    Solved(u64, Box<ViewData>),
+    /// The worker of job `id` ended without a result.
+    SolveLost(u64),
 }
 
 /// A boat opened by the loop, ready to edit.
@@ -87,6 +100,10 @@ pub enum Effect {
     DiscardRecovery,
     /// Read the boat's file again from disk, dropping unsaved edits.
     Reload,
+    /// Solve this view on a worker thread (replacing any solve under way).
+    Solve(Box<Job>),
+    /// Stop the solve under way.
+    CancelSolve,
 }
 
 /// A question waiting for y/n.

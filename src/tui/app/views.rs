@@ -2,6 +2,7 @@
 //! shortlist's ranking and taking a candidate, the live feed's commands, applying a fit.
 
 use super::*;
+use crate::tui::work;
 
 impl App {
     /// The open view's kind, if a view is open.
@@ -22,16 +23,51 @@ impl App {
     /// highlight stays on the same engine and gear when it is still listed.
     pub(super) fn refresh_analysis(&mut self) {
         let kind = self.view_kind();
-        let highlighted = self.highlighted_candidate();
-        let inputs = ViewInputs {
-            over: self.sweep_over,
-            offers: &self.offers,
-            rank: self.shortlist_rank,
-        };
-        self.view = kind.map(|kind| ViewData::compute(kind, inputs, &self.doc));
-        self.keep_highlight(highlighted);
+        let was_computing = self.computing.take().is_some();
+        match kind {
+            Some(kind) if self.background && work::solved_in_background(kind) => {
+                self.ask_solve(kind);
+            }
+            _ => {
+                if was_computing {
+                    self.outbox = Some(Effect::CancelSolve);
+                }
+                let highlighted = self.highlighted_candidate();
+                let inputs = ViewInputs {
+                    over: self.sweep_over,
+                    offers: &self.offers,
+                    rank: self.shortlist_rank,
+                };
+                self.view = kind.map(|kind| ViewData::compute(kind, inputs, &self.doc));
+                self.keep_highlight(highlighted);
+            }
+        }
         let band_wanted = self.band_shown || kind == Some(ViewKind::WhatIf);
         self.band = band_wanted.then(|| analysis::band(&self.doc));
+    }
+
+    /// Asks the loop to solve view `kind` on its worker; the results so far stay on screen
+    /// under the progress line when they are of the same view.
+    fn ask_solve(&mut self, kind: ViewKind) {
+        self.last_job += 1;
+        let id = self.last_job;
+        self.computing = Some(Computing {
+            id,
+            kind,
+            done: 0,
+            total: 0,
+        });
+        if self.view.as_ref().map(ViewData::kind) != Some(kind) {
+            self.view = None;
+        }
+        self.outbox = Some(Effect::Solve(Box::new(Job {
+            id,
+            kind,
+            doc: self.doc.clone(),
+            over: self.sweep_over,
+            offers: self.offers.clone(),
+            rank: self.shortlist_rank,
+        })));
     }
 
     /// The engine sheet and gear of the highlighted shortlist candidate, if the view shows one.
@@ -68,6 +104,10 @@ impl App {
         let highlighted = self.highlighted_candidate();
         match &mut self.view {
             Some(ViewData::Shortlist(view)) => view.rank_by(self.shortlist_rank),
+            // Ranked so when the list being solved comes in.
+            _ if self
+                .computing
+                .is_some_and(|c| c.kind == ViewKind::Shortlist) => {}
             _ => {
                 self.set_status(Level::Info, "r ranks the shortlist in the shortlist view");
                 return;
@@ -163,6 +203,9 @@ impl App {
         let kind = *kind;
         match command {
             Command::CloseView => {
+                if let Some(computing) = self.computing {
+                    self.set_status(Level::Info, format!("{} cancelled", computing.kind.title()));
+                }
                 self.overlay = Overlay::None;
                 self.view = None;
                 self.refresh_analysis();

@@ -188,6 +188,16 @@ pub fn view_lines(app: &App, width: usize) -> Vec<Line<'static>> {
 
 /// The open view's lines and the index of the highlighted one (the shortlist's row), if any.
 fn view_lines_marked(app: &App, width: usize) -> (Vec<Line<'static>>, Option<usize>) {
+    if let Some(computing) = &app.computing {
+        return (
+            vec![
+                heading(app, computing.kind.title()),
+                Line::default(),
+                Line::raw(computing.line()),
+            ],
+            None,
+        );
+    }
     let (mut lines, highlighted) = match &app.view {
         Some(ViewData::Sweep(v)) => (sweep_lines(app, v), None),
         Some(ViewData::Calibration(v)) => (calibration_lines(app, v), None),
