@@ -410,16 +410,28 @@ impl Study {
         // would rank first by fuel (as the diameter sweep ranks them), among those that pass
         // the cavitation checks when any does: a choice of the figures, never of the order
         // tried, so a re-run with another ranking keeps the same screw.
+        // For a given power and rpm fuel has one minimum over diameter (the single optimum
+        // diameter of the Bp–δ charts), so the descent from the largest stops once fuel rises
+        // again past a screw that passes its checks.
         let mut best: Option<Candidate> = None;
+        let mut last_fuel: Option<f64> = None;
         for &diameter in &diameters {
             match self.sized_candidate(offer, gear, diameter, problems.clone()) {
                 Ok(candidate) => {
+                    let fuel = candidate.fuel_per_distance;
+                    let rising =
+                        matches!((last_fuel, fuel), (Some(before), Some(now)) if now > before);
                     if best
                         .as_ref()
                         .is_none_or(|b| screw_order(&candidate, b).is_lt())
                     {
                         best = Some(candidate);
                     }
+                    let settled = best.as_ref().is_some_and(|b| !fails_checks(b));
+                    if rising && settled {
+                        break;
+                    }
+                    last_fuel = fuel;
                 }
                 Err(why) => reason = why,
             }
@@ -722,7 +734,7 @@ impl Shortlist {
 /// checks, then least fuel per distance at the target speed, then higher top speed, then the
 /// larger diameter (a total order, so the choice is stable).
 fn screw_order(a: &Candidate, b: &Candidate) -> std::cmp::Ordering {
-    let fails = |c: &Candidate| c.top_cavitation.as_ref().is_ok_and(|r| !r.all_passed());
+    let fails = fails_checks;
     let fuel = |c: &Candidate| c.fuel_per_distance.unwrap_or(f64::INFINITY);
     let top = |c: &Candidate| c.top_speed.unwrap_or(0.0);
     fails(a)
@@ -730,4 +742,9 @@ fn screw_order(a: &Candidate, b: &Candidate) -> std::cmp::Ordering {
         .then(fuel(a).total_cmp(&fuel(b)))
         .then(top(b).total_cmp(&top(a)))
         .then(b.diameter.total_cmp(&a.diameter))
+}
+
+/// Whether the candidate's screw fails a cavitation or blade-loading check at top speed.
+fn fails_checks(c: &Candidate) -> bool {
+    c.top_cavitation.as_ref().is_ok_and(|r| !r.all_passed())
 }
