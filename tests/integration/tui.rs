@@ -1080,6 +1080,32 @@ pub(crate) fn wait_for(
     }
 }
 
+/// Opens the demo Marram (from `store`, the demo fleet when nothing is there) in a tmux
+/// session named after `name`, `width`×`height`, and waits for its first screen; `None`, said
+/// why, when this build's CLI does not open the terminal UI.
+fn open_marram(
+    name: &str,
+    store: &std::path::Path,
+    width: u16,
+    height: u16,
+) -> Option<(String, KillServer)> {
+    let bin = env!("CARGO_BIN_EXE_tidewright");
+    let session = format!("tidewright-{name}-{}", std::process::id());
+    let command = format!(
+        "{bin} --profiles '{}' open marram; sleep 30",
+        store.display()
+    );
+    let kill = start_session(&session, width, height, &command);
+    match wait_for(&session, 5.0, |t| t.contains("At 7.0 kn")) {
+        Ok(_) => Some((session, kill)),
+        Err(text) if cli_lacks_the_ui(&text) => {
+            eprintln!("skipped: this build's CLI does not open the terminal UI yet:\n{text}");
+            None
+        }
+        Err(text) => panic!("the UI did not come up:\n{text}"),
+    }
+}
+
 #[test]
 fn tmux_open_change_pitch_save_quit() {
     if std::process::Command::new("tmux")
@@ -1203,20 +1229,9 @@ fn tmux_what_if_view_shows_the_cruise_rpm_of_conditions_json() {
         "as given, light, full, fouled, sea state"
     );
 
-    let session = format!("tidewright-whatif-{}", std::process::id());
-    let command = format!(
-        "{bin} --profiles '{}' open marram; sleep 30",
-        store.display()
-    );
-    let _kill = start_session(&session, 100, 30, &command);
-    match wait_for(&session, 5.0, |t| t.contains("At 7.0 kn")) {
-        Ok(_) => {}
-        Err(text) if cli_lacks_the_ui(&text) => {
-            eprintln!("skipped: this build's CLI does not open the terminal UI yet:\n{text}");
-            return;
-        }
-        Err(text) => panic!("the UI did not come up:\n{text}"),
-    }
+    let Some((session, _kill)) = open_marram("whatif", &store, 100, 30) else {
+        return;
+    };
     tmux_on(&session, &["send-keys", "-t", &session, "w"]);
     let text =
         wait_for(&session, 5.0, |t| t.contains("cruise rpm")).expect("`w` opens the what-if view");
@@ -1264,20 +1279,9 @@ fn tmux_shortlist_power_chart_says_what_the_cli_says() {
         .next()
         .unwrap()
         .to_string();
-    let session = format!("tidewright-power-{}", std::process::id());
-    let command = format!(
-        "{bin} --profiles '{}' open marram; sleep 30",
-        store.display()
-    );
-    let _kill = start_session(&session, 120, 40, &command);
-    match wait_for(&session, 5.0, |t| t.contains("At 7.0 kn")) {
-        Ok(_) => {}
-        Err(text) if cli_lacks_the_ui(&text) => {
-            eprintln!("skipped: this build's CLI does not open the terminal UI yet:\n{text}");
-            return;
-        }
-        Err(text) => panic!("the UI did not come up:\n{text}"),
-    }
+    let Some((session, _kill)) = open_marram("power", &store, 120, 40) else {
+        return;
+    };
     tmux_on(&session, &["send-keys", "-t", &session, "S"]);
     wait_for(&session, 10.0, |t| t.contains("Repower shortlist for"))
         .expect("S opens the shortlist");
