@@ -282,6 +282,46 @@ impl Study {
         profile_name: String,
         origin: Option<Origin>,
     ) -> Result<Self, crate::profile::ProfileError> {
+        Self::build(
+            doc,
+            engine_doc,
+            as_found_engine,
+            units,
+            profile_name,
+            origin,
+            true,
+        )
+    }
+
+    /// [`Study::from_sides`] without solving the baseline (a shortlist candidate needs the
+    /// weight change of its own engine, not the boat as found again).
+    pub(crate) fn planned_side(
+        doc: BoatDoc,
+        engine_doc: EngineDoc,
+        as_found_engine: Option<EngineDoc>,
+        units: UnitSystem,
+        profile_name: String,
+    ) -> Result<Self, crate::profile::ProfileError> {
+        Self::build(
+            doc,
+            engine_doc,
+            as_found_engine,
+            units,
+            profile_name,
+            None,
+            false,
+        )
+    }
+
+    fn build(
+        doc: BoatDoc,
+        engine_doc: EngineDoc,
+        as_found_engine: Option<EngineDoc>,
+        units: UnitSystem,
+        profile_name: String,
+        origin: Option<Origin>,
+        with_baseline: bool,
+    ) -> Result<Self, crate::profile::ProfileError> {
         let as_found_engine = as_found_engine.or_else(|| {
             doc.as_found
                 .as_ref()
@@ -304,7 +344,12 @@ impl Study {
             trial_date: c.trial_date.clone(),
             note: c.note.clone(),
         });
-        let baseline = match (doc.as_found_doc(), &as_found_engine) {
+        let found = if with_baseline {
+            doc.as_found_doc()
+        } else {
+            None
+        };
+        let baseline = match (found, &as_found_engine) {
             (Some(found), Some(sheet)) => Some(Box::new(Self::from_sides(
                 found,
                 sheet.clone(),

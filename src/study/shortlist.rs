@@ -548,13 +548,12 @@ impl Study {
         pitch: Option<f64>,
     ) -> Result<Study, String> {
         let doc = self.candidate_doc(offer, gear, diameter, area_ratio, pitch);
-        Study::from_sides(
+        Study::planned_side(
             doc,
             offer.doc.clone(),
             self.as_found_engine.clone(),
             self.units,
             self.profile_name.clone(),
-            None,
         )
         .map_err(|e| format!("the boat with engine {} cannot be built: {e}", offer.name))
     }
