@@ -323,14 +323,19 @@ impl SpeedValidity {
         if self.in_method_range {
             return None;
         }
-        let mut parts = self.causes();
+        Some(self.with_regime(self.causes(), "; "))
+    }
+
+    /// `parts` with the regime's phrase when it is an extrapolation (the plain unreliable
+    /// words when nothing else is said), joined by `separator`.
+    fn with_regime(&self, mut parts: Vec<String>, separator: &str) -> String {
         if self.regime.is_extrapolation() {
             parts.push(self.regime.phrase().to_owned());
         }
         if parts.is_empty() {
             parts.push(UNRELIABLE_WORDS.to_owned());
         }
-        Some(parts.join("; "))
+        parts.join(separator)
     }
 
     /// [`SpeedValidity::label`] in as few characters as a one-line screen strip affords
@@ -354,13 +359,7 @@ impl SpeedValidity {
         if let (false, Some(limit)) = (self.speed_length_in_range, self.speed_length_limit) {
             parts.push(format!("S/L {:.2} > {limit:.2}", self.speed_length_ratio));
         }
-        if self.regime.is_extrapolation() {
-            parts.push(self.regime.phrase().to_owned());
-        }
-        if parts.is_empty() {
-            parts.push(UNRELIABLE_WORDS.to_owned());
-        }
-        Some(parts.join(", "))
+        Some(self.with_regime(parts, ", "))
     }
 
     /// Each cause that takes this speed out of the method's validity, as a clause: the
