@@ -14,7 +14,7 @@ use super::{Study, active_variant};
 use crate::profile::{BoatDoc, EngineDoc, Quantity, Store};
 use crate::propulsion::screw::cavitation::CavitationReport;
 use crate::propulsion::solver::cruise::cruise_at_speed;
-use crate::propulsion::solver::pitch::{PitchOptions, SearchStop, recommend_pitch};
+use crate::propulsion::solver::pitch::{PitchOptions, SearchStop, bseries_geometry, target_pitch};
 use crate::propulsion::solver::shaft::ShaftCheck;
 use crate::propulsion::solver::sweep::SweepParameter;
 use crate::units::KNOT_MPS;
@@ -512,9 +512,13 @@ impl Study {
         // top speed that pitch gives, if the boat's area falls short of it.
         loop {
             let study = self.rebuilt(offer, gear, diameter, area_ratio, None)?;
-            let rec = recommend_pitch(&study.vessel, index, &PitchOptions::default())
+            // The pitch alone: the recommendation's figures around it (rpm per inch, the
+            // cure) are for the boat's own screw, and the candidate's figures follow below.
+            let geometry = bseries_geometry(&study.vessel, index)
                 .map_err(|e| format!("no pitch recommendation: {e}"))?;
-            let pitch = rec.recommended_pitch.ok_or_else(|| match &rec.stop {
+            let found = target_pitch(&study.vessel, geometry, &PitchOptions::default())
+                .map_err(|e| format!("no pitch recommendation: {e}"))?;
+            let pitch = found.pitch.ok_or_else(|| match &found.stop {
                 SearchStop::BracketLost(why) => why.clone(),
                 other => format!("the pitch search stopped: {other:?}"),
             })?;

@@ -321,10 +321,7 @@ pub(super) fn rebuilt_screw(geometry: ScrewGeometry) -> Result<ScrewModel, Desig
 }
 
 /// The geometry of variant `index`, refusing table screws.
-pub(super) fn bseries_geometry(
-    vessel: &Vessel,
-    index: usize,
-) -> Result<ScrewGeometry, DesignError> {
+pub fn bseries_geometry(vessel: &Vessel, index: usize) -> Result<ScrewGeometry, DesignError> {
     let variant = vessel
         .variants
         .get(index)
@@ -356,15 +353,35 @@ pub(super) fn system_with<'a>(
 
 /// The outcome of the bracketed pitch search alone.
 #[derive(Debug, Clone, PartialEq)]
-pub(super) struct PitchSearch {
+pub struct PitchSearch {
     /// The pitch found, m.
-    pub(super) pitch: Option<f64>,
+    pub pitch: Option<f64>,
     /// Brake power the curve asks at the target rpm with that pitch, W.
-    pub(super) absorbed_power: Option<f64>,
+    pub absorbed_power: Option<f64>,
     /// How the search stopped.
-    pub(super) stop: SearchStop,
+    pub stop: SearchStop,
     /// Power evaluations used, including bracketing.
-    pub(super) evaluations: u32,
+    pub evaluations: u32,
+}
+
+/// The pitch search of [`recommend_pitch`] alone, for a B-series screw of `geometry` (its pitch,
+/// m, where the search starts) on `vessel` with its installation: the pitch that meets
+/// `options.target`, without the figures the recommendation adds around it (rpm per inch, the
+/// current screw's match, the cure) — for a caller that needs only the pitch.
+pub fn target_pitch(
+    vessel: &Vessel,
+    geometry: ScrewGeometry,
+    options: &PitchOptions,
+) -> Result<PitchSearch, DesignError> {
+    options.validate()?;
+    let target_point = options.target.point(vessel)?;
+    Ok(search_pitch(
+        vessel,
+        geometry,
+        vessel.installation,
+        target_point,
+        options,
+    ))
 }
 
 /// Brake power of each engine (W) the propeller curve asks at `engine_rpm` with pitch `pitch`.

@@ -296,9 +296,27 @@ pub struct WarmStart {
     speeds: (f64, f64),
     /// The speed of the point being solved, m/s.
     speed: f64,
+    /// The Reynolds number the last point's screw was corrected for, and the one before's
+    /// (0 for none or no correction).
+    reynolds: (f64, f64),
 }
 
 impl WarmStart {
+    /// The Reynolds number to correct the first pass for at this point: the last two points'
+    /// carried on in a straight line (in speed), or the last one's in proportion to speed;
+    /// `None` with no earlier point, which starts the iteration uncorrected.
+    fn reynolds_guess(&self) -> Option<f64> {
+        let (last, before) = self.reynolds;
+        let (last_speed, before_speed) = self.speeds;
+        let step = (self.speed - last_speed) / (last_speed - before_speed);
+        let guess = if before > 0.0 && step.is_finite() {
+            last + (last - before) * step
+        } else {
+            last * self.speed / last_speed
+        };
+        (last > 0.0 && guess.is_finite() && guess > 0.0).then_some(guess)
+    }
+
     /// The guess for pass `pass` (0-based) of a point whose earlier passes found `own`: the
     /// last point's J of that pass, moved by how much this point's J has already moved from
     /// the last point's; 0 for none.
@@ -487,7 +505,9 @@ fn solve_warm(
     } else {
         None
     };
-    let mut reynolds: Option<f64> = None;
+    // A nearby point's Rn, carried on, is usually within the iteration's tolerance of this
+    // point's: one pass settles it where a start without correction takes three.
+    let mut reynolds: Option<f64> = chord.and_then(|_| warm.reynolds_guess());
     let mut previous_j: Option<f64> = None;
     let mut previous_thrust: Option<[f64; 4]> = None;
     let mut found = [0.0; MAX_REYNOLDS_PASSES as usize];
@@ -630,6 +650,7 @@ fn solve_warm(
     warm.first_before = warm.passes[0];
     warm.passes = found;
     warm.speeds = (speed, warm.speeds.0);
+    warm.reynolds = (reynolds.unwrap_or(0.0), warm.reynolds.0);
     Ok(point)
 }
 
@@ -815,8 +836,9 @@ pub fn solve_point(system: &System<'_>, speed: f64) -> Result<OperatingPoint, Po
 
 /// One system solved at many speeds (a propeller curve): what does not change with speed —
 /// the interaction's hull and screw terms, the validity limits, the shaft-count check — found
-/// once, and each point's roots started from the last point's. Gives the points of
-/// [`solve_point`] to rounding (within the thrust identity's tolerance).
+/// once, and each point's roots and Reynolds number started from the last point's. Gives the
+/// points of [`solve_point`] within the Reynolds iteration's tolerance ([`REYNOLDS_TOLERANCE`]
+/// of Rn: a few parts in 10⁷ of rpm).
 #[derive(Debug, Clone)]
 pub struct PointSolver<'a> {
     system: &'a System<'a>,

@@ -3,7 +3,7 @@
 
 use super::{
     DesignError, INCH, PITCH_CAUTION, PitchOptions, PitchTarget, SearchStop, TargetPoint,
-    bseries_geometry, rebuilt_screw, search_pitch, system_with,
+    bseries_geometry, rebuilt_screw, system_with, target_pitch,
 };
 use crate::propulsion::hull::SpeedValidity;
 use crate::propulsion::screw::ScrewGeometry;
@@ -229,10 +229,9 @@ pub fn recommend_pitch_for_condition(
     options: &PitchOptions,
     condition: ConditionSummary,
 ) -> Result<PitchRecommendation, DesignError> {
-    options.validate()?;
     let base = bseries_geometry(vessel, index)?;
+    let search = target_pitch(vessel, base, options)?;
     let target_point = options.target.point(vessel)?;
-    let search = search_pitch(vessel, base, vessel.installation, target_point, options);
     let installation = vessel.installation;
     let slope_pitch = search.pitch.unwrap_or(base.pitch);
     let slope = rpm_per_metre(vessel, base, installation, slope_pitch);
