@@ -13,6 +13,7 @@ use super::ties::{TieFigure, TieRule, tie_groups};
 use super::{Study, active_variant};
 use crate::profile::{BoatDoc, EngineDoc, Quantity, Store};
 use crate::propulsion::screw::cavitation::CavitationReport;
+use crate::propulsion::screw::{ScrewGeometry, ScrewModel};
 use crate::propulsion::solver::cruise::cruise_at_speed;
 use crate::propulsion::solver::pitch::{PitchOptions, SearchStop, bseries_geometry, target_pitch};
 use crate::propulsion::solver::shaft::ShaftCheck;
@@ -415,8 +416,10 @@ impl Study {
         // again past a screw that passes its checks.
         let mut best: Option<Candidate> = None;
         let mut last_fuel: Option<f64> = None;
+        let search_on = self.search_study(offer, gear);
         for &diameter in &diameters {
-            match self.sized_candidate(offer, gear, diameter, problems.clone()) {
+            match self.sized_candidate(offer, gear, diameter, search_on.as_ref(), problems.clone())
+            {
                 Ok(candidate) => {
                     let fuel = candidate.fuel_per_distance;
                     let rising =
@@ -496,12 +499,33 @@ impl Study {
         }
     }
 
-    /// The candidate with a screw of `diameter`, or why no pitch meets the target with it.
+    /// The study every diameter's pitch search of a candidate runs on: the boat set to
+    /// `offer`'s engine and `gear` with its own screw, built once. `None` where the screw is
+    /// more than its geometry to the boat — a measured open-water table, or a fitted wake
+    /// frozen with the screw it was fitted with — and each diameter is built for its search.
+    fn search_study(&self, offer: &Offer, gear: f64) -> Option<Study> {
+        let own = &self.vessel.variants[active_variant(&self.vessel)].screw;
+        let frozen_wake = self
+            .doc
+            .calibration
+            .as_ref()
+            .is_some_and(|c| c.wake_fraction.is_some());
+        if matches!(own, ScrewModel::Table(_)) || frozen_wake {
+            return None;
+        }
+        let geometry = own.geometry();
+        self.rebuilt(offer, gear, geometry.diameter, geometry.area_ratio, None)
+            .ok()
+    }
+
+    /// The candidate with a screw of `diameter`, or why no pitch meets the target with it;
+    /// its pitch searched on `search_on` ([`Study::search_study`]) when given.
     fn sized_candidate(
         &self,
         offer: &Offer,
         gear: f64,
         diameter: f64,
+        search_on: Option<&Study>,
         problems: Vec<String>,
     ) -> Result<Candidate, String> {
         let index = active_variant(&self.vessel);
@@ -511,12 +535,24 @@ impl Study {
         // Two passes at most: pitch with the boat's area, then with Keller's minimum at the
         // top speed that pitch gives, if the boat's area falls short of it.
         loop {
-            let study = self.rebuilt(offer, gear, diameter, area_ratio, None)?;
+            let built;
+            let searched = match search_on {
+                Some(study) => study,
+                None => {
+                    built = self.rebuilt(offer, gear, diameter, area_ratio, None)?;
+                    &built
+                }
+            };
             // The pitch alone: the recommendation's figures around it (rpm per inch, the
             // cure) are for the boat's own screw, and the candidate's figures follow below.
-            let geometry = bseries_geometry(&study.vessel, index)
+            let own = bseries_geometry(&searched.vessel, index)
                 .map_err(|e| format!("no pitch recommendation: {e}"))?;
-            let found = target_pitch(&study.vessel, geometry, &PitchOptions::default())
+            let geometry = ScrewGeometry {
+                diameter,
+                area_ratio,
+                ..own
+            };
+            let found = target_pitch(&searched.vessel, geometry, &PitchOptions::default())
                 .map_err(|e| format!("no pitch recommendation: {e}"))?;
             let pitch = found.pitch.ok_or_else(|| match &found.stop {
                 SearchStop::BracketLost(why) => why.clone(),

@@ -105,6 +105,49 @@ fn each_candidate_is_what_report_and_pitch_give_for_the_boat_set_to_it() {
     assert!(compared >= 6, "only {compared} candidates were sized");
 }
 
+#[test]
+fn each_candidates_pitch_is_the_search_on_its_own_boat_file_from_the_boats_pitch() {
+    // The shortlist searches every diameter's pitch on one build of the boat with the new
+    // engine and gear; the boat file set to the candidate's engine, gear, diameter and area
+    // (its pitch left as it was) must give the same search, so the same pitch to rounding.
+    for boat in ["marram", "pintle"] {
+        let study = demo_study(boat);
+        let offers = offers_from_store(&demo(), None).unwrap();
+        let list = study
+            .shortlist(&offers, &ShortlistOptions::default())
+            .unwrap();
+        let mut compared = 0;
+        for c in &list.candidates {
+            let Some(pitch) = c.pitch else { continue };
+            let offer = offers.iter().find(|o| o.name == c.engine).unwrap();
+            let doc = study.candidate_doc(offer, c.gear_ratio, c.diameter, c.area_ratio, None);
+            let set = Study::from_documents(
+                doc,
+                offer.doc.clone(),
+                UnitSystem::Metric,
+                boat.into(),
+                None,
+            )
+            .unwrap();
+            let index = set.vessel.active_variant;
+            let rec = recommend_pitch(&set.vessel, index, &PitchOptions::default()).unwrap();
+            let alone = rec.recommended_pitch.unwrap();
+            assert!(
+                (alone - pitch).abs() <= 1e-9,
+                "{boat} {} at {}:1, {:.0} mm: {alone} m on its own file, {pitch} m listed",
+                c.engine,
+                c.gear_ratio,
+                c.diameter * 1e3
+            );
+            compared += 1;
+        }
+        assert!(
+            compared >= 6,
+            "{boat}: only {compared} candidates were sized"
+        );
+    }
+}
+
 /// The demo sheet `name` with its power scaled by `power` and its fuel by `fuel`.
 fn scaled_sheet(name: &str, store_name: &str, power: f64, fuel: f64) -> Offer {
     scaled_sheet_rpm(name, store_name, power, fuel, 1.0)
