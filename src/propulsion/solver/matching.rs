@@ -240,6 +240,68 @@ pub fn point_at_engine_rpm(
     })
 }
 
+/// How far past the target rpm the probes of [`point_at_engine_rpm_near`] aim at first, as a
+/// fraction of speed: enough to close the bracket where rpm grows about in proportion to
+/// speed, little enough that Brent's first secant step from it lands on the root.
+const NEAR_AIM_PAST: f64 = 0.002;
+
+/// [`point_at_engine_rpm`] started at `near` m/s, a speed where the engine turns close to
+/// `engine_rpm` (the answer for a nearby screw): a probe there and probes aimed a little past
+/// the target from it — rpm grows at least in proportion to speed along a propeller curve —
+/// close a tight bracket for Brent's method. Where three aims do not close it (or a probe
+/// fails) the full search runs, so the answer is always [`point_at_engine_rpm`]'s to within
+/// its tolerance.
+pub fn point_at_engine_rpm_near(
+    system: &System<'_>,
+    engine_rpm: f64,
+    near: f64,
+) -> Result<OperatingPoint, PointFailure> {
+    let ceiling = max_speed(system);
+    if !(engine_rpm.is_finite() && engine_rpm > 0.0 && near.is_finite() && near > 0.0)
+        || !(near < ceiling)
+    {
+        return point_at_engine_rpm(system, engine_rpm);
+    }
+    let excess = |p: &OperatingPoint| p.engine_rpm - engine_rpm;
+    let mut solver = PointSolver::new(system);
+    let (mut below, mut above): (Option<(f64, f64)>, Option<(f64, f64, OperatingPoint)>) =
+        (None, None);
+    let mut speed = near;
+    let mut past = NEAR_AIM_PAST;
+    for _ in 0..3 {
+        let Ok(point) = solver.solve(speed) else {
+            break;
+        };
+        let missing = excess(&point);
+        if missing >= 0.0 {
+            above = Some((speed, missing, point));
+        } else {
+            below = Some((speed, missing));
+        }
+        if let (Some(low), Some((high, at_high, high_point))) = (below, above) {
+            return root_in_speed(
+                &mut solver,
+                low,
+                (high, at_high),
+                high_point,
+                excess,
+                engine_rpm,
+            );
+        }
+        if !(point.engine_rpm > 0.0) {
+            break;
+        }
+        let side = if missing < 0.0 {
+            1.0 + past
+        } else {
+            1.0 - past
+        };
+        speed = (speed * engine_rpm / point.engine_rpm * side).min(ceiling);
+        past *= 5.0;
+    }
+    point_at_engine_rpm(system, engine_rpm)
+}
+
 /// The point between speeds `low` and `high` (each with its value of `quantity`, of opposite
 /// signs) where `quantity` is 0, to within `SPEED_SEARCH_TOLERANCE`·`scale`. `high_point` is the
 /// point already solved at `high`.

@@ -13,7 +13,7 @@ pub use recommend::{
     recommend_pitch, recommend_pitch_for_condition,
 };
 
-use super::matching::point_at_engine_rpm;
+use super::matching::{point_at_engine_rpm, point_at_engine_rpm_near};
 use super::point::PointFailure;
 use super::{Installation, System, Vessel};
 use crate::propulsion::numeric::{self, RootOutcome};
@@ -384,17 +384,24 @@ pub fn target_pitch(
     ))
 }
 
-/// Brake power of each engine (W) the propeller curve asks at `engine_rpm` with pitch `pitch`.
+/// Brake power of each engine (W) the propeller curve asks at `engine_rpm` with pitch `pitch`,
+/// and the boat speed there (m/s); the speed searched from `near` (m/s) when given, the
+/// speed of a nearby pitch.
 fn absorbed_power(
     vessel: &Vessel,
     base: ScrewGeometry,
     installation: Installation,
     pitch: f64,
     engine_rpm: f64,
-) -> Result<f64, DesignError> {
+    near: Option<f64>,
+) -> Result<(f64, f64), DesignError> {
     let screw = rebuilt_screw(ScrewGeometry { pitch, ..base })?;
     let system = system_with(vessel, &screw, installation);
-    Ok(point_at_engine_rpm(&system, engine_rpm)?.brake_power_per_engine)
+    let point = match near {
+        Some(speed) => point_at_engine_rpm_near(&system, engine_rpm, speed)?,
+        None => point_at_engine_rpm(&system, engine_rpm)?,
+    };
+    Ok((point.brake_power_per_engine, point.speed))
 }
 
 /// Bracketed search of the pitch at which the curve passes through `target`.
@@ -408,13 +415,14 @@ pub(super) fn search_pitch(
     let low = options.min_pitch_ratio * base.diameter;
     let high = options.max_pitch_ratio * base.diameter;
     let mut evaluations = 0u32;
+    // Each trial pitch's speed is searched from the last one's: the pitches tried close in.
+    let mut near: Option<f64> = None;
     let mut residual = |pitch: f64| -> Result<f64, DesignError> {
         evaluations += 1;
-        Ok(
-            absorbed_power(vessel, base, installation, pitch, target.engine_rpm)?
-                / target.brake_power
-                - 1.0,
-        )
+        let (power, speed) =
+            absorbed_power(vessel, base, installation, pitch, target.engine_rpm, near)?;
+        near = Some(speed);
+        Ok(power / target.brake_power - 1.0)
     };
     let lost = |reason: String, evaluations| PitchSearch {
         pitch: None,

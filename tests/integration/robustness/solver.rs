@@ -13,7 +13,9 @@ use tidewright::propulsion::hull::{
 };
 use tidewright::propulsion::screw::{BSeriesScrew, ScrewGeometry, ScrewModel};
 use tidewright::propulsion::solver::cruise::cruise_at_speed;
-use tidewright::propulsion::solver::matching::match_engine;
+use tidewright::propulsion::solver::matching::{
+    match_engine, point_at_engine_rpm, point_at_engine_rpm_near,
+};
 use tidewright::propulsion::solver::point::{REYNOLDS_TOLERANCE, reynolds_at_075r, solve_point};
 use tidewright::propulsion::solver::{
     Installation, MatchCriteria, OperatingPoint, PropellerCurve, System, Trip, Verdict,
@@ -311,7 +313,10 @@ fn check_identities(boat: &Boat, p: &OperatingPoint) -> Result<(), TestCaseError
     // The Reynolds iteration settled: the Rn the screw was corrected for is, within the
     // iteration's tolerance, the Rn of the point's own J and rpm (ITTC 1978 at 0.75R).
     if p.reynolds > 0.0 {
-        let chord = boat.screw.chord_at_075r().expect("a B-series screw has a chord");
+        let chord = boat
+            .screw
+            .chord_at_075r()
+            .expect("a B-series screw has a chord");
         let own = reynolds_at_075r(
             chord,
             p.advance_speed,
@@ -422,6 +427,37 @@ proptest! {
             (single.engine_rpm - from_curve.engine_rpm).abs() <= 2e-6 * single.engine_rpm,
             "rpm {} alone against {} on the curve", single.engine_rpm, from_curve.engine_rpm
         );
+    }
+
+    #[test]
+    fn a_speed_search_started_near_its_answer_finds_the_full_searchs_point(
+        boat in in_range_boat(),
+        rpm_share in 0.3f64..1.1,
+        start in prop::sample::select(vec![0.02, 0.5, 0.97, 1.0, 1.03, 1.6, 50.0]),
+    ) {
+        let system = boat.system();
+        let rpm = rpm_share * boat.engine.rated_rpm;
+        let full = point_at_engine_rpm(&system, rpm);
+        let near = point_at_engine_rpm_near(&system, rpm, start * full.as_ref().map_or(1.0, |p| p.speed));
+        match (full, near) {
+            (Ok(full), Ok(near)) => {
+                // Both within the searches' tolerance on rpm (1e-9 of it), so the same root:
+                // where rpm rises slowly with speed that tolerance spans a few 1e-7 of speed.
+                prop_assert!(
+                    (near.engine_rpm - rpm).abs() <= 1e-9 * rpm,
+                    "{} rpm for {rpm}",
+                    near.engine_rpm
+                );
+                prop_assert!(
+                    (near.speed - full.speed).abs() <= 1e-5 * full.speed,
+                    "{} m/s started near, {} m/s by the full search",
+                    near.speed,
+                    full.speed
+                );
+            }
+            (Err(full), Err(near)) => prop_assert_eq!(full.to_string(), near.to_string()),
+            (full, near) => prop_assert!(false, "full search {full:?}, started near: {near:?}"),
+        }
     }
 
     #[test]
