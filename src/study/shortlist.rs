@@ -1,8 +1,12 @@
 //! The repower shortlist: every candidate engine sheet × offered gear ratio for one boat, each
 //! with its screw sized to the aperture and pitched to the default target, ranked for the
 //! owner's choice. A candidate's figures are those `report`/`pitch` give when the boat file is
-//! set to that engine, gear and screw: the boat document is changed and rebuilt through the
-//! profile's to-vessel, never patched in the core's vessel. All values are SI.
+//! set to that engine, gear and screw: the boat document is set to the engine and gear and
+//! built through the profile's to-vessel once per candidate; each diameter tried is then that
+//! vessel with its screw swapped, after the document set to the screw passes its checks — the
+//! vessel its own build would give, bit for bit (checked by the integration test
+//! `each_candidates_figures_are_its_own_boat_files`), and built from its own document where a
+//! measured table or a frozen wake ties the boat to its screw. All values are SI.
 
 use super::baseline::{Baseline, Headline};
 use super::checks::{cavitation, shaft_check};
@@ -13,7 +17,7 @@ use super::ties::{TieFigure, TieRule, tie_groups};
 use super::{Study, active_variant};
 use crate::profile::{BoatDoc, EngineDoc, Quantity, Store};
 use crate::propulsion::screw::cavitation::CavitationReport;
-use crate::propulsion::screw::{ScrewGeometry, ScrewModel};
+use crate::propulsion::screw::{BSeriesScrew, ScrewGeometry, ScrewModel};
 use crate::propulsion::solver::cruise::cruise_at_speed;
 use crate::propulsion::solver::pitch::{PitchOptions, SearchStop, bseries_geometry, target_pitch};
 use crate::propulsion::solver::shaft::ShaftCheck;
@@ -416,9 +420,9 @@ impl Study {
         // again past a screw that passes its checks.
         let mut best: Option<Candidate> = None;
         let mut last_fuel: Option<f64> = None;
-        let search_on = self.search_study(offer, gear);
+        let mut search_on = self.search_study(offer, gear);
         for &diameter in &diameters {
-            match self.sized_candidate(offer, gear, diameter, search_on.as_ref(), problems.clone())
+            match self.sized_candidate(offer, gear, diameter, search_on.as_mut(), problems.clone())
             {
                 Ok(candidate) => {
                     let fuel = candidate.fuel_per_distance;
@@ -499,10 +503,11 @@ impl Study {
         }
     }
 
-    /// The study every diameter's pitch search of a candidate runs on: the boat set to
-    /// `offer`'s engine and `gear` with its own screw, built once. `None` where the screw is
-    /// more than its geometry to the boat — a measured open-water table, or a fitted wake
-    /// frozen with the screw it was fitted with — and each diameter is built for its search.
+    /// The study every diameter of a candidate is searched and solved on: the boat set to
+    /// `offer`'s engine and `gear`, built once, its active screw swapped for each diameter —
+    /// the vessel its boat file set to that screw would build. `None` where the screw is more than
+    /// its geometry to the boat — a measured open-water table, or a fitted wake frozen with
+    /// the screw it was fitted with — and each diameter is built from its own file.
     fn search_study(&self, offer: &Offer, gear: f64) -> Option<Study> {
         let own = &self.vessel.variants[active_variant(&self.vessel)].screw;
         let frozen_wake = self
@@ -519,47 +524,68 @@ impl Study {
     }
 
     /// The candidate with a screw of `diameter`, or why no pitch meets the target with it;
-    /// its pitch searched on `search_on` ([`Study::search_study`]) when given.
+    /// searched and solved on `search_on` ([`Study::search_study`]) when given.
     fn sized_candidate(
         &self,
         offer: &Offer,
         gear: f64,
         diameter: f64,
-        search_on: Option<&Study>,
+        mut search_on: Option<&mut Study>,
         problems: Vec<String>,
     ) -> Result<Candidate, String> {
         let index = active_variant(&self.vessel);
-        let boat_area = self.vessel.variants[index].screw.geometry().area_ratio;
-        let mut area_ratio = boat_area;
+        let own = *self.vessel.variants[index].screw.geometry();
+        let mut area_ratio = own.area_ratio;
         let mut area_raised = false;
+        let cannot_build = |e: &dyn std::fmt::Display| {
+            format!("the boat with engine {} cannot be built: {e}", offer.name)
+        };
         // Two passes at most: pitch with the boat's area, then with Keller's minimum at the
         // top speed that pitch gives, if the boat's area falls short of it.
         loop {
-            let built;
-            let searched = match search_on {
-                Some(study) => study,
-                None => {
-                    built = self.rebuilt(offer, gear, diameter, area_ratio, None)?;
-                    &built
-                }
-            };
-            // The pitch alone: the recommendation's figures around it (rpm per inch, the
-            // cure) are for the boat's own screw, and the candidate's figures follow below.
-            let own = bseries_geometry(&searched.vessel, index)
-                .map_err(|e| format!("no pitch recommendation: {e}"))?;
+            // The search starts from the boat's own pitch, whatever the diameter.
             let geometry = ScrewGeometry {
                 diameter,
                 area_ratio,
                 ..own
             };
+            let built;
+            let searched = match search_on.as_deref() {
+                Some(study) => study,
+                None => {
+                    built = self.rebuilt(offer, gear, diameter, area_ratio, None)?;
+                    // A measured table kept for the boat's own diameter and area is refused.
+                    bseries_geometry(&built.vessel, index)
+                        .map_err(|e| format!("no pitch recommendation: {e}"))?;
+                    &built
+                }
+            };
+            // The pitch alone: the recommendation's figures around it (rpm per inch, the
+            // cure) are for the boat's own screw, and the candidate's figures follow below.
             let found = target_pitch(&searched.vessel, geometry, &PitchOptions::default())
                 .map_err(|e| format!("no pitch recommendation: {e}"))?;
             let pitch = found.pitch.ok_or_else(|| match &found.stop {
                 SearchStop::BracketLost(why) => why.clone(),
                 other => format!("the pitch search stopped: {other:?}"),
             })?;
-            let study = self.rebuilt(offer, gear, diameter, area_ratio, Some(pitch))?;
-            let candidate = study.figures(offer, gear, pitch, area_raised, problems.clone());
+            let candidate = match search_on.as_deref_mut() {
+                Some(study) => {
+                    // The boat file set to this screw must pass the checks its build would
+                    // make; the vessel it would build is this one with the screw swapped.
+                    let boat = self.candidate_doc(offer, gear, diameter, area_ratio, Some(pitch));
+                    boat.check().map_err(|e| cannot_build(&e))?;
+                    let screw = BSeriesScrew::new(ScrewGeometry { pitch, ..geometry })
+                        .map_err(|e| cannot_build(&e))?;
+                    study.vessel.variants[index].screw = ScrewModel::BSeries(screw);
+                    Candidate {
+                        boat,
+                        ..study.figures(offer, gear, pitch, area_raised, problems.clone())
+                    }
+                }
+                None => self
+                    .rebuilt(offer, gear, diameter, area_ratio, Some(pitch))?
+                    .figures(offer, gear, pitch, area_raised, problems.clone()),
+            };
             let keller = candidate
                 .top_cavitation
                 .as_ref()
