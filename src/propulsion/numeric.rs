@@ -1,6 +1,15 @@
-//! Numerical methods the solver shares: a bracketed root finder.
+//! Numerical methods the solver shares: a bracketed root finder and a common logarithm.
 //!
 //! Kept apart from the physics so each method can be read and tested on its own.
+
+/// log10(x) as ln(x)·log10(e), to within a few units in the last place of `f64::log10`.
+///
+/// The C library's log10 is its natural logarithm and a correction step on top; a curve takes
+/// two or three at every speed (the friction line, the screw's Reynolds correction), and the
+/// correction step showed as a tenth of their cost in its profile.
+pub(crate) fn log10(x: f64) -> f64 {
+    x.ln() * std::f64::consts::LOG10_E
+}
 
 /// How a bracketed root search ended.
 #[derive(Debug, Clone, Copy, PartialEq)]

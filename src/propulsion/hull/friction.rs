@@ -21,7 +21,7 @@ pub fn ittc1957_friction_coefficient(reynolds: f64) -> f64 {
     } else {
         MIN_REYNOLDS_NUMBER
     };
-    let x = rn.log10() - 2.0;
+    let x = crate::propulsion::numeric::log10(rn) - 2.0;
     0.075 / (x * x)
 }
 

@@ -207,8 +207,15 @@ impl OortmerssenCoefficients {
         }
         let x = fn_l.max(FROUDE_FLOOR).powi(-2);
         let [c1, c2, c3, c4] = self.c;
-        let value = c1 * (-self.m * x / 9.0).exp()
-            + (-self.m * x).exp() * (c2 + c3 * x.sin() + c4 * x.cos());
+        // e^(−m·x) is the ninth power of e^(−m·x/9): one exponential instead of two.
+        let ninth = (-self.m * x / 9.0).exp();
+        let eighth_power = {
+            let square = ninth * ninth;
+            let fourth = square * square;
+            fourth * fourth
+        };
+        let (sin, cos) = x.sin_cos();
+        let value = c1 * ninth + eighth_power * ninth * (c2 + c3 * sin + c4 * cos);
         // Below the floor the fit's value is scaled with Fn² toward 0 (wave resistance vanishes).
         let scale = (fn_l / FROUDE_FLOOR).min(1.0).powi(2);
         (value * scale).max(0.0)

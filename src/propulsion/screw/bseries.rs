@@ -246,7 +246,7 @@ impl BSeriesScrew {
         let (mut thrust, mut torque) = (self.cubics.thrust, self.cubics.torque);
         let Some(x) = reynolds
             .filter(|rn| rn.is_finite() && *rn > NOMINAL_REYNOLDS)
-            .map(|rn| rn.log10() - 0.301)
+            .map(|rn| crate::propulsion::numeric::log10(rn) - 0.301)
         else {
             return (thrust, torque);
         };
@@ -269,7 +269,7 @@ impl BSeriesScrew {
         if !(reynolds.is_finite() && reynolds > NOMINAL_REYNOLDS) {
             return (0.0, 0.0);
         }
-        let x = reynolds.log10() - 0.301;
+        let x = crate::propulsion::numeric::log10(reynolds) - 0.301;
         let sum = |cubics: &[Cubic; X_TERMS]| {
             cubics
                 .iter()

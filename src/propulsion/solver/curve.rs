@@ -33,7 +33,7 @@ impl PropellerCurve {
         } else {
             0.0
         };
-        let mut solver = PointSolver::new(system);
+        let mut solver = PointSolver::along_curve(system);
         // `extend` writes each point where it will stay (a `push` copied every point once).
         self.points.extend((0..count).map(|index| {
             let speed = if index + 1 == count && count > 1 {

@@ -5,6 +5,7 @@ use crate::propulsion::engine::EngineSheet;
 use crate::propulsion::hull::Interaction;
 use crate::propulsion::numeric::{RootOutcome, brent};
 use crate::propulsion::screw::ScrewModel;
+use crate::propulsion::screw::bseries::NOMINAL_REYNOLDS;
 use crate::propulsion::water::WaterProperties;
 use std::convert::Infallible;
 use std::f64::consts::PI;
@@ -278,6 +279,7 @@ pub fn solve_with_resistance(
 ) -> Result<OperatingPoint, PointFailure> {
     solve_warm(
         drive,
+        &DriveTerms::new(drive),
         speed,
         resistance,
         interaction,
@@ -285,59 +287,67 @@ pub fn solve_with_resistance(
     )
 }
 
-/// The advance ratio of each Reynolds pass of the last point solved (0 for a pass not run):
-/// where the next, nearby speed starts its roots.
+/// The advance ratio of each Reynolds pass of the last point solved (0 for a pass not run),
+/// and the first passes of the points before it: where the next, nearby speed starts its roots.
 #[derive(Debug, Clone, Copy, Default, PartialEq)]
 pub struct WarmStart {
     passes: [f64; MAX_REYNOLDS_PASSES as usize],
-    /// The first pass's J of the point before the last one (0 for none).
-    first_before: f64,
-    /// The speeds of the last point and the one before it, m/s (0 for none).
-    speeds: (f64, f64),
+    /// The speed (m/s) and first pass's J of the last three points solved, newest first
+    /// ((0, 0) for none).
+    firsts: [(f64, f64); 3],
     /// The speed of the point being solved, m/s.
     speed: f64,
-    /// The Reynolds number the last point's screw was corrected for, and the one before's
-    /// (0 for none or no correction).
-    reynolds: (f64, f64),
+    /// The first pass's guess at that speed ([`WarmStart::first_guess`]).
+    first: f64,
+    /// Whether the last point solved had its screw corrected for its Reynolds number.
+    corrected: bool,
+    /// Whether a point's Reynolds iteration starts from the Rn of the J carried on
+    /// ([`PointSolver::along_curve`]) rather than uncorrected.
+    carry_reynolds: bool,
 }
 
 impl WarmStart {
-    /// The Reynolds number to correct the first pass for at this point: the last two points'
-    /// carried on in a straight line (in speed), or the last one's in proportion to speed;
-    /// `None` with no earlier point, which starts the iteration uncorrected.
-    fn reynolds_guess(&self) -> Option<f64> {
-        let (last, before) = self.reynolds;
-        let (last_speed, before_speed) = self.speeds;
-        let step = (self.speed - last_speed) / (last_speed - before_speed);
-        let guess = if before > 0.0 && step.is_finite() {
-            last + (last - before) * step
-        } else {
-            last * self.speed / last_speed
-        };
-        (last > 0.0 && guess.is_finite() && guess > 0.0).then_some(guess)
+    /// Readies the guesses for the point at `speed` m/s.
+    fn begin(&mut self, speed: f64) {
+        self.speed = speed;
+        self.first = self.first_guess();
     }
 
-    /// The guess for pass `pass` (0-based) of a point whose earlier passes found `own`: the
-    /// last point's J of that pass, moved by how much this point's J has already moved from
-    /// the last point's; 0 for none.
+    /// The guess for pass `pass` (0-based) of a point whose earlier passes found `own`; 0 for
+    /// none. The first pass's J is carried on from the last points (J changes smoothly with
+    /// speed): through the last three by a parabola when this speed lies close to them, else
+    /// in a straight line through the last two; a later pass's is the last point's J of that
+    /// pass, moved by how much this point's J has already moved from the last point's.
     fn guess(&self, pass: usize, own: &[f64; MAX_REYNOLDS_PASSES as usize]) -> f64 {
         let neighbour = self.passes[pass];
         if pass == 0 {
-            // J changes smoothly with speed: carried on in a straight line from the last two
-            // points (on a curve of even steps, 2·J₁ − J₂).
-            let (last, before) = self.speeds;
-            let step = (self.speed - last) / (last - before);
-            return if neighbour > 0.0 && self.first_before > 0.0 && step.is_finite() {
-                neighbour + (neighbour - self.first_before) * step
-            } else {
-                neighbour
-            };
+            return self.first;
         }
         let (before, own_before) = (self.passes[pass - 1], own[pass - 1]);
         if neighbour > 0.0 && before > 0.0 {
             own_before * (neighbour / before)
         } else {
             own_before
+        }
+    }
+
+    fn first_guess(&self) -> f64 {
+        let v = self.speed;
+        let [(v1, j1), (v2, j2), (v3, j3)] = self.firsts;
+        if j1 > 0.0 && j2 > 0.0 && j3 > 0.0 && (v - v1).abs() <= 2.0 * (v1 - v2).abs() {
+            // Lagrange's parabola through the three points.
+            let parabola = j1 * ((v - v2) * (v - v3)) / ((v1 - v2) * (v1 - v3))
+                + j2 * ((v - v1) * (v - v3)) / ((v2 - v1) * (v2 - v3))
+                + j3 * ((v - v1) * (v - v2)) / ((v3 - v1) * (v3 - v2));
+            if parabola.is_finite() && parabola > 0.0 {
+                return parabola;
+            }
+        }
+        let line = j1 + (j1 - j2) * (v - v1) / (v1 - v2);
+        if j1 > 0.0 && j2 > 0.0 && line.is_finite() && line > 0.0 {
+            line
+        } else {
+            j1
         }
     }
 }
@@ -447,20 +457,65 @@ fn cubic_advance_ratio(
     })
 }
 
+/// What every point of one drive shares: its checks, made once, and the screw's diameter and
+/// chord at 0.75R.
+#[derive(Debug, Clone)]
+struct DriveTerms {
+    /// The gear and shaft check ([`Installation::check`]).
+    installation: Result<(), PointFailure>,
+    /// The water's density and the screw's diameter, checked.
+    medium: Result<(), PointFailure>,
+    /// Screw diameter, m.
+    diameter: f64,
+    /// Blade chord at 0.75R, m, when the Reynolds correction applies (`None` otherwise).
+    chord: Option<f64>,
+}
+
+impl DriveTerms {
+    fn new(drive: &Drive<'_>) -> Self {
+        let density = drive.water.density;
+        let diameter = drive.screw.geometry().diameter;
+        let medium = if !(density.is_finite() && density > 0.0) {
+            Err(PointFailure::BadInput {
+                field: "water density",
+                value: density,
+                expected: "a positive density in kg/m³",
+            })
+        } else if !(diameter.is_finite() && diameter > 0.0) {
+            Err(PointFailure::BadInput {
+                field: "screw diameter",
+                value: diameter,
+                expected: "a positive diameter in metres",
+            })
+        } else {
+            Ok(())
+        };
+        let correct = drive.reynolds_correction && drive.water.kinematic_viscosity > 0.0;
+        Self {
+            installation: drive.installation.check(),
+            medium,
+            diameter,
+            chord: correct.then(|| drive.screw.chord_at_075r()).flatten(),
+        }
+    }
+}
+
 /// [`solve_with_resistance`], its roots started from `warm` (the last nearby point), which it
 /// updates when the point solves.
+#[inline(always)]
 fn solve_warm(
     drive: &Drive<'_>,
+    terms: &DriveTerms,
     speed: f64,
     resistance: f64,
     interaction: Interaction,
     warm: &mut WarmStart,
 ) -> Result<OperatingPoint, PointFailure> {
-    warm.speed = speed;
+    warm.begin(speed);
     if !(speed.is_finite() && speed >= 0.0) {
         return Err(PointFailure::InvalidSpeed(speed));
     }
-    drive.installation.check()?;
+    terms.installation.clone()?;
     check_interaction(&interaction)?;
     let Interaction {
         wake_fraction,
@@ -477,37 +532,28 @@ fn solve_warm(
             value: resistance,
         });
     }
+    terms.medium.clone()?;
     let density = drive.water.density;
     let viscosity = drive.water.kinematic_viscosity;
-    if !(density.is_finite() && density > 0.0) {
-        return Err(PointFailure::BadInput {
-            field: "water density",
-            value: density,
-            expected: "a positive density in kg/m³",
-        });
-    }
-    let diameter = drive.screw.geometry().diameter;
-    if !(diameter.is_finite() && diameter > 0.0) {
-        return Err(PointFailure::BadInput {
-            field: "screw diameter",
-            value: diameter,
-            expected: "a positive diameter in metres",
-        });
-    }
+    let diameter = terms.diameter;
     let advance_speed = speed * (1.0 - wake_fraction);
     // Each driven screw gives its share of R/(1 − t); the engines and screws are alike.
     let driven_shafts = drive.installation.driven_shafts();
     let thrust = resistance / ((1.0 - thrust_deduction) * f64::from(driven_shafts));
     let loading = thrust / (density * advance_speed * advance_speed * diameter * diameter);
 
-    let chord = if drive.reynolds_correction && viscosity > 0.0 {
-        drive.screw.chord_at_075r()
-    } else {
-        None
-    };
+    let chord = terms.chord;
     // A nearby point's Rn, carried on, is usually within the iteration's tolerance of this
     // point's: one pass settles it where a start without correction takes three.
-    let mut reynolds: Option<f64> = chord.and_then(|_| warm.reynolds_guess());
+    let mut reynolds: Option<f64> = chord.and_then(|chord| {
+        // The Rn of this point's own speed of advance at the J carried on from the last
+        // points: as close as that J is.
+        let guess = warm.first;
+        let rps = advance_speed / (guess * diameter);
+        let rn = reynolds_at_075r(chord, advance_speed, rps, diameter, viscosity);
+        let carried = warm.carry_reynolds && warm.corrected;
+        (carried && guess > 0.0 && rn.is_finite() && rn > 0.0).then_some(rn)
+    });
     let mut previous_j: Option<f64> = None;
     let mut previous_thrust: Option<[f64; 4]> = None;
     let mut found = [0.0; MAX_REYNOLDS_PASSES as usize];
@@ -582,6 +628,13 @@ fn solve_warm(
         if settled || pass >= MAX_REYNOLDS_PASSES || !updated.is_finite() {
             break (advance_ratio, coefficients);
         }
+        // At or below the series' nominal Rn the correction is nil: a pass there and the next
+        // one, also there, have one polynomial and so one root.
+        let nil = |rn: Option<f64>| rn.is_none_or(|r| !(r > NOMINAL_REYNOLDS));
+        if matches!(polynomials, PassScrew::Cubics { .. }) && nil(reynolds) && nil(Some(updated)) {
+            reynolds = Some(updated);
+            break (advance_ratio, coefficients);
+        }
         reynolds = Some(updated);
         previous_j = Some(advance_ratio);
         pass += 1;
@@ -647,10 +700,9 @@ fn solve_warm(
     };
     point.check_finite()?;
     // Passes past the last one run keep no guess from an earlier point.
-    warm.first_before = warm.passes[0];
     warm.passes = found;
-    warm.speeds = (speed, warm.speeds.0);
-    warm.reynolds = (reynolds.unwrap_or(0.0), warm.reynolds.0);
+    warm.firsts = [(speed, found[0]), warm.firsts[0], warm.firsts[1]];
+    warm.corrected = reynolds.is_some();
     Ok(point)
 }
 
@@ -836,20 +888,34 @@ pub fn solve_point(system: &System<'_>, speed: f64) -> Result<OperatingPoint, Po
 
 /// One system solved at many speeds (a propeller curve): what does not change with speed —
 /// the interaction's hull and screw terms, the validity limits, the shaft-count check — found
-/// once, and each point's roots and Reynolds number started from the last point's. Gives the
-/// points of [`solve_point`] within the Reynolds iteration's tolerance ([`REYNOLDS_TOLERANCE`]
-/// of Rn: a few parts in 10⁷ of rpm).
+/// once, and each point's roots started from the last point's. Gives the points of
+/// [`solve_point`] within the thrust identity's tolerance; [`PointSolver::along_curve`] within
+/// the Reynolds iteration's.
 #[derive(Debug, Clone)]
 pub struct PointSolver<'a> {
     system: &'a System<'a>,
     interaction: crate::propulsion::hull::interaction::PreparedInteraction<'a>,
     validity: crate::propulsion::hull::resistance::ValidityScale,
     fits: Result<(), PointFailure>,
+    terms: DriveTerms,
     warm: WarmStart,
 }
 
 impl<'a> PointSolver<'a> {
-    /// The solver of `system`.
+    /// The solver of `system` for speeds along a propeller curve, in order: each point's
+    /// Reynolds iteration also starts from the Rn its carried-on J gives, which settles it in
+    /// one pass instead of three. A point then depends on the points before it within the
+    /// iteration's tolerance ([`REYNOLDS_TOLERANCE`] of Rn, a few parts in 10⁷ of rpm), which
+    /// a curve does not notice and a root search in speed would (its probes would not be a
+    /// function of speed alone): searches use [`PointSolver::new`].
+    pub fn along_curve(system: &'a System<'a>) -> Self {
+        let mut solver = Self::new(system);
+        solver.warm.carry_reynolds = true;
+        solver
+    }
+
+    /// The solver of `system`: each point's root started from the last point's, its Reynolds
+    /// iteration from no correction, so that every point is a function of its speed alone.
     pub fn new(system: &'a System<'a>) -> Self {
         let model = system.resistance;
         Self {
@@ -861,11 +927,13 @@ impl<'a> PointSolver<'a> {
             ),
             validity: model.validity_scale(),
             fits: system.check_interaction_fits(),
+            terms: DriveTerms::new(&system.drive()),
             warm: WarmStart::default(),
         }
     }
 
     /// The operating point at `speed` m/s, as [`solve_point`] gives it.
+    #[inline]
     pub fn solve(&mut self, speed: f64) -> Result<OperatingPoint, PointFailure> {
         if !(speed.is_finite() && speed >= 0.0) {
             return Err(PointFailure::InvalidSpeed(speed));
@@ -892,6 +960,7 @@ impl<'a> PointSolver<'a> {
         // the profile of a curve.
         let mut solved = solve_warm(
             &system.drive(),
+            &self.terms,
             speed,
             resistance,
             interaction,
