@@ -268,6 +268,13 @@ pub fn reynolds_at_075r(
     chord * resultant / viscosity
 }
 
+/// [`reynolds_at_075r`] at advance ratio `j`, where n·D = Va/J: Rn = (c/ν)·Va·√(1 + (0.75π/J)²),
+/// with `chord_per_viscosity` c/ν (s/m) and `advance_speed` Va (m/s).
+fn reynolds_at_advance_ratio(chord_per_viscosity: f64, advance_speed: f64, j: f64) -> f64 {
+    let section = 0.75 * PI / j;
+    chord_per_viscosity * advance_speed * (1.0 + section * section).sqrt()
+}
+
 /// The operating point at `speed` (m/s) with resistance `resistance` (N) and the interaction
 /// coefficients given — the thrust identity of design §2.6 without the hull model. A speed of
 /// 0 gives a zero point. No allocation.
@@ -467,8 +474,9 @@ struct DriveTerms {
     medium: Result<(), PointFailure>,
     /// Screw diameter, m.
     diameter: f64,
-    /// Blade chord at 0.75R, m, when the Reynolds correction applies (`None` otherwise).
-    chord: Option<f64>,
+    /// Blade chord at 0.75R over the water's kinematic viscosity, s/m, when the Reynolds
+    /// correction applies (`None` otherwise).
+    chord_per_viscosity: Option<f64>,
 }
 
 impl DriveTerms {
@@ -495,7 +503,10 @@ impl DriveTerms {
             installation: drive.installation.check(),
             medium,
             diameter,
-            chord: correct.then(|| drive.screw.chord_at_075r()).flatten(),
+            chord_per_viscosity: correct
+                .then(|| drive.screw.chord_at_075r())
+                .flatten()
+                .map(|chord| chord / drive.water.kinematic_viscosity),
         }
     }
 }
@@ -534,7 +545,6 @@ fn solve_warm(
     }
     terms.medium.clone()?;
     let density = drive.water.density;
-    let viscosity = drive.water.kinematic_viscosity;
     let diameter = terms.diameter;
     let advance_speed = speed * (1.0 - wake_fraction);
     // Each driven screw gives its share of R/(1 − t); the engines and screws are alike.
@@ -542,17 +552,15 @@ fn solve_warm(
     let thrust = resistance / ((1.0 - thrust_deduction) * f64::from(driven_shafts));
     let loading = thrust / (density * advance_speed * advance_speed * diameter * diameter);
 
-    let chord = terms.chord;
+    let chord = terms.chord_per_viscosity;
     // A nearby point's Rn, carried on, is usually within the iteration's tolerance of this
     // point's: one pass settles it where a start without correction takes three.
-    let mut reynolds: Option<f64> = chord.and_then(|chord| {
+    let carried = warm.carry_reynolds && warm.corrected && warm.first > 0.0;
+    let mut reynolds: Option<f64> = chord.filter(|_| carried).and_then(|per_viscosity| {
         // The Rn of this point's own speed of advance at the J carried on from the last
         // points: as close as that J is.
-        let guess = warm.first;
-        let rps = advance_speed / (guess * diameter);
-        let rn = reynolds_at_075r(chord, advance_speed, rps, diameter, viscosity);
-        let carried = warm.carry_reynolds && warm.corrected;
-        (carried && guess > 0.0 && rn.is_finite() && rn > 0.0).then_some(rn)
+        let rn = reynolds_at_advance_ratio(per_viscosity, advance_speed, warm.first);
+        (rn.is_finite() && rn > 0.0).then_some(rn)
     });
     let mut previous_j: Option<f64> = None;
     let mut previous_thrust: Option<[f64; 4]> = None;
@@ -619,11 +627,10 @@ fn solve_warm(
         })?;
         found[pass as usize - 1] = advance_ratio;
         let coefficients = polynomials.coefficients(advance_ratio);
-        let Some(chord) = chord else {
+        let Some(per_viscosity) = chord else {
             break (advance_ratio, coefficients);
         };
-        let screw_rps = advance_speed / (advance_ratio * diameter);
-        let updated = reynolds_at_075r(chord, advance_speed, screw_rps, diameter, viscosity);
+        let updated = reynolds_at_advance_ratio(per_viscosity, advance_speed, advance_ratio);
         let settled = reynolds.is_some_and(|r| (updated - r).abs() <= REYNOLDS_TOLERANCE * r);
         if settled || pass >= MAX_REYNOLDS_PASSES || !updated.is_finite() {
             break (advance_ratio, coefficients);
@@ -813,33 +820,31 @@ impl OperatingPoint {
     }
 
     /// Every field finite, or the first that is not as a failure.
+    #[inline]
     fn check_finite(&self) -> Result<(), PointFailure> {
-        // The common case first, without building the named list; `&` rather than `&&`, so
-        // that the checks run side by side instead of one after the other.
-        let all_finite = [
-            self.resistance,
-            self.thrust,
-            self.advance_speed,
-            self.advance_ratio,
-            self.thrust_coefficient,
-            self.open_water_efficiency,
-            self.reynolds,
-            self.screw_rps,
-            self.engine_rpm,
-            self.torque,
-            self.effective_power,
-            self.delivered_power,
-            self.brake_power,
-            self.brake_power_per_engine,
-            self.load_fraction,
-            self.fuel_mass_flow,
-            self.fuel_volume_flow,
-            self.fuel_mass_flow_per_engine,
-            self.fuel_volume_flow_per_engine,
-        ]
-        .iter()
-        .fold(true, |all, value| all & value.is_finite());
-        if all_finite {
+        // The common case first, without building the named list: a sum of finite values is
+        // finite, and any NaN or infinity makes it not (a sum that overflows goes on to the
+        // list, which then finds nothing).
+        let sum = self.resistance
+            + self.thrust
+            + self.advance_speed
+            + self.advance_ratio
+            + self.thrust_coefficient
+            + self.open_water_efficiency
+            + self.reynolds
+            + self.screw_rps
+            + self.engine_rpm
+            + self.torque
+            + self.effective_power
+            + self.delivered_power
+            + self.brake_power
+            + self.brake_power_per_engine
+            + self.load_fraction
+            + self.fuel_mass_flow
+            + self.fuel_volume_flow
+            + self.fuel_mass_flow_per_engine
+            + self.fuel_volume_flow_per_engine;
+        if sum.is_finite() {
             return Ok(());
         }
         let fields = [
@@ -897,6 +902,7 @@ pub struct PointSolver<'a> {
     interaction: crate::propulsion::hull::interaction::PreparedInteraction<'a>,
     validity: crate::propulsion::hull::resistance::ValidityScale,
     fits: Result<(), PointFailure>,
+    drive: Drive<'a>,
     terms: DriveTerms,
     warm: WarmStart,
 }
@@ -927,6 +933,7 @@ impl<'a> PointSolver<'a> {
             ),
             validity: model.validity_scale(),
             fits: system.check_interaction_fits(),
+            drive: system.drive(),
             terms: DriveTerms::new(&system.drive()),
             warm: WarmStart::default(),
         }
@@ -959,7 +966,7 @@ impl<'a> PointSolver<'a> {
         // Filled in where it lies: an operating point is large, and copies of it showed in
         // the profile of a curve.
         let mut solved = solve_warm(
-            &system.drive(),
+            &self.drive,
             &self.terms,
             speed,
             resistance,
@@ -1266,5 +1273,8 @@ mod tests {
         // section speed 0.75·π·10·0.6 = 14.137 m/s, √(9 + 199.86) = 14.452 m/s → Rn = 2.4289e6.
         let rn = reynolds_at_075r(0.2, 3.0, 10.0, 0.6, 1.19e-6);
         assert!((rn - 2.4289e6).abs() < 0.0005e6, "{rn}");
+        // The solver's form in J: the same point has J = Va/(n·D) = 0.5.
+        let in_j = reynolds_at_advance_ratio(0.2 / 1.19e-6, 3.0, 3.0 / (10.0 * 0.6));
+        assert!((in_j - rn).abs() <= 1e-12 * rn, "{in_j} against {rn}");
     }
 }
