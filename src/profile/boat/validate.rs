@@ -87,10 +87,14 @@ impl BoatDoc {
         for condition in LoadCondition::ALL {
             if let Some(case) = self.load.case(condition) {
                 let key = format!("load.{condition}");
-                v.positive(&format!("{key}.displacement"), &case.displacement, "mass");
-                v.opt_positive(&format!("{key}.draft_aft"), &case.draft_aft, "draft");
+                v.positive(
+                    format_args!("{key}.displacement"),
+                    &case.displacement,
+                    "mass",
+                );
+                v.opt_positive(format_args!("{key}.draft_aft"), &case.draft_aft, "draft");
                 v.opt_positive(
-                    &format!("{key}.draft_forward"),
+                    format_args!("{key}.draft_forward"),
                     &case.draft_forward,
                     "draft",
                 );
@@ -307,8 +311,12 @@ impl BoatDoc {
                     "expected 2 to 9 blades",
                 );
             }
-            v.positive(&format!("{key}.diameter"), &variant.diameter, "diameter");
-            v.positive(&format!("{key}.pitch"), &variant.pitch, "pitch");
+            v.positive(
+                format_args!("{key}.diameter"),
+                &variant.diameter,
+                "diameter",
+            );
+            v.positive(format_args!("{key}.pitch"), &variant.pitch, "pitch");
             // What no small-craft screw can be; the B-series range is only warned about.
             let (diameter, pitch) = (variant.diameter.value, variant.pitch.value);
             if diameter > 0.0 && !(MIN_SCREW_LENGTH..=MAX_SCREW_DIAMETER).contains(&diameter) {
@@ -341,7 +349,7 @@ impl BoatDoc {
                 );
             }
             v.range_open(
-                &format!("{key}.thickness_ratio"),
+                format_args!("{key}.thickness_ratio"),
                 variant.thickness_ratio.unwrap_or(0.05),
                 0.0,
                 0.2,
@@ -408,7 +416,7 @@ impl BoatDoc {
         );
         for (i, (speed, share)) in self.trip.profile.iter().enumerate() {
             let row = format!("trip.profile[{}]", i + 1);
-            v.positive(&format!("{row}.speed"), speed, "speed");
+            v.positive(format_args!("{row}.speed"), speed, "speed");
             if !(*share > 0.0 && *share <= 1.0) {
                 v.push(
                     format!("{row}.fraction"),
@@ -469,9 +477,9 @@ impl BoatDoc {
         if let Some(trial) = &self.trial {
             for (i, run) in trial.runs.iter().enumerate() {
                 let key = format!("trial.run[{}]", i + 1);
-                v.positive(&format!("{key}.rpm"), &run.rpm, "rpm");
-                v.positive(&format!("{key}.speed"), &run.speed, "speed");
-                v.opt_positive(&format!("{key}.fuel_rate"), &run.fuel_rate, "fuel rate");
+                v.positive(format_args!("{key}.rpm"), &run.rpm, "rpm");
+                v.positive(format_args!("{key}.speed"), &run.speed, "speed");
+                v.opt_positive(format_args!("{key}.fuel_rate"), &run.fuel_rate, "fuel rate");
             }
         }
         if let Some(a) = &self.as_found {
@@ -652,43 +660,69 @@ impl Validator {
     ) {
         self.issues.push(Issue::new(key, found, problem));
     }
-    fn positive(&mut self, key: &str, q: &Quantity, what: &str) {
+    fn positive(&mut self, key: impl std::fmt::Display, q: &Quantity, what: &str) {
         if !(q.value > 0.0 && q.value.is_finite()) {
-            self.push(key, q.shown(), format!("expected a positive {what}"));
+            self.push(
+                key.to_string(),
+                q.shown(),
+                format!("expected a positive {what}"),
+            );
         }
     }
-    fn opt_positive(&mut self, key: &str, q: &Option<Quantity>, what: &str) {
+    fn opt_positive(&mut self, key: impl std::fmt::Display, q: &Option<Quantity>, what: &str) {
         if let Some(q) = q {
             self.positive(key, q, what);
         }
     }
-    fn opt_not_negative(&mut self, key: &str, q: &Option<Quantity>, what: &str) {
+    fn opt_not_negative(&mut self, key: impl std::fmt::Display, q: &Option<Quantity>, what: &str) {
         if let Some(q) = q
             && !(q.value >= 0.0 && q.value.is_finite())
         {
             self.push(
-                key,
+                key.to_string(),
                 q.shown(),
                 format!("expected an {what} of zero or more"),
             );
         }
     }
-    fn range(&mut self, key: &str, value: Option<f64>, min: f64, max: f64, expected: &str) {
+    fn range(
+        &mut self,
+        key: impl std::fmt::Display,
+        value: Option<f64>,
+        min: f64,
+        max: f64,
+        expected: &str,
+    ) {
         if let Some(x) = value
             && !(min..=max).contains(&x)
         {
-            self.push(key, x.to_string(), format!("expected {expected}"));
+            self.push(
+                key.to_string(),
+                x.to_string(),
+                format!("expected {expected}"),
+            );
         }
     }
-    fn range_open(&mut self, key: &str, value: f64, min: f64, below: f64, expected: &str) {
+    fn range_open(
+        &mut self,
+        key: impl std::fmt::Display,
+        value: f64,
+        min: f64,
+        below: f64,
+        expected: &str,
+    ) {
         if !(value >= min && value < below) {
-            self.push(key, value.to_string(), format!("expected {expected}"));
+            self.push(
+                key.to_string(),
+                value.to_string(),
+                format!("expected {expected}"),
+            );
         }
     }
-    fn efficiency(&mut self, key: &str, value: f64) {
+    fn efficiency(&mut self, key: impl std::fmt::Display, value: f64) {
         if !(value > 0.5 && value <= 1.0) {
             self.push(
-                key,
+                key.to_string(),
                 value.to_string(),
                 "expected an efficiency above 0.5 and at most 1 (0.97 = 97 %)",
             );
