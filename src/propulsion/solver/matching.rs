@@ -258,14 +258,15 @@ pub fn point_at_engine_rpm_near(
 ) -> Result<OperatingPoint, PointFailure> {
     let ceiling = max_speed(system);
     if !(engine_rpm.is_finite() && engine_rpm > 0.0 && near.is_finite() && near > 0.0)
-        || !(near < ceiling)
+        || near >= ceiling
     {
         return point_at_engine_rpm(system, engine_rpm);
     }
     let excess = |p: &OperatingPoint| p.engine_rpm - engine_rpm;
     let mut solver = PointSolver::new(system);
-    let (mut below, mut above): (Option<(f64, f64)>, Option<(f64, f64, OperatingPoint)>) =
-        (None, None);
+    // (speed, rpm missing) below the target, and (speed, rpm past it, its point) above.
+    let mut below: Option<(f64, f64)> = None;
+    let mut above: Option<(f64, f64, OperatingPoint)> = None;
     let mut speed = near;
     let mut past = NEAR_AIM_PAST;
     for _ in 0..3 {
@@ -288,7 +289,8 @@ pub fn point_at_engine_rpm_near(
                 engine_rpm,
             );
         }
-        if !(point.engine_rpm > 0.0) {
+        // A point with no rpm (or a NaN) gives no aim.
+        if point.engine_rpm.is_nan() || point.engine_rpm <= 0.0 {
             break;
         }
         let side = if missing < 0.0 {

@@ -637,7 +637,7 @@ fn solve_warm(
         }
         // At or below the series' nominal Rn the correction is nil: a pass there and the next
         // one, also there, have one polynomial and so one root.
-        let nil = |rn: Option<f64>| rn.is_none_or(|r| !(r > NOMINAL_REYNOLDS));
+        let nil = |rn: Option<f64>| rn.is_none_or(|r| r.is_nan() || r <= NOMINAL_REYNOLDS);
         if matches!(polynomials, PassScrew::Cubics { .. }) && nil(reynolds) && nil(Some(updated)) {
             reynolds = Some(updated);
             break (advance_ratio, coefficients);
