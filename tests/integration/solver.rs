@@ -434,6 +434,24 @@ fn a_propeller_curve_keeps_every_identity_and_every_failure_reason() {
 }
 
 #[test]
+fn a_curve_solved_again_in_its_own_storage_is_the_fresh_curve() {
+    let (resistance, engine) = (example_resistance(), invented_engine());
+    let screw = b_series(3, 0.60, 0.8, 0.50);
+    let mut system = system(&resistance, &screw, &engine);
+    system.reynolds_correction = true;
+    // Storage that held other points: more of them, the first ones failed (negative speeds).
+    let mut reused = PropellerCurve::over_speeds(&system, -2.0, 5.0, 140);
+    assert!(reused.failures().count() > 0);
+    for count in [101, 7, 101, 0, 1] {
+        reused.resolve(&system, 0.0, 5.0, count);
+        assert_eq!(
+            reused,
+            PropellerCurve::over_speeds(&system, 0.0, 5.0, count)
+        );
+    }
+}
+
+#[test]
 fn more_resistance_needs_more_power_through_the_whole_system() {
     let engine = invented_engine();
     let screw = b_series(3, 0.60, 0.8, 0.50);

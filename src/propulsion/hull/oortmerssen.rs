@@ -341,54 +341,64 @@ pub fn propulsion_factors(hull: &HullForm, screw: &ScrewAtStern, speed: f64) -> 
     PreparedFactors::new(hull, screw).at_speed(speed)
 }
 
-/// [`propulsion_factors`] readied for one hull and screw: the terms that do not change with
-/// speed found once, for a curve that asks at many speeds (the same values).
+/// [`propulsion_factors`] readied for one hull and screw: each factor's terms that do not
+/// change with speed summed once, for a curve that asks at many speeds.
 #[derive(Debug, Clone, Copy)]
 pub struct PreparedFactors {
-    /// The terms of [`factor_terms`] at Fn 0; the two in Fn are filled in at each speed.
-    terms: [f64; FACTOR_TERMS],
-    prismatic: f64,
+    /// Per factor (t, w, ηR): the sum of its terms without Fn (dimensionless).
+    fixed: [f64; 3],
+    /// Per factor: the coefficient of Fn (the Fn·Cp term's, times Cp).
+    per_froude: [f64; 3],
+    /// Per factor: the coefficient of Fn² (the Fn²·Cp term's, times Cp).
+    per_froude_squared: [f64; 3],
     /// √(g·LWL), m/s: speed over it is the Froude number.
     froude_root: f64,
 }
 
 impl PreparedFactors {
-    /// The factors of `hull` with `screw`.
+    /// The factors of `hull` with `screw`; NaN factors when the tables are damaged.
     pub fn new(hull: &HullForm, screw: &ScrewAtStern) -> Self {
+        let froude_root = (STANDARD_GRAVITY * hull.input.length_waterline).sqrt();
+        let Ok(tables) = tables() else {
+            return Self {
+                fixed: [f64::NAN; 3],
+                per_froude: [f64::NAN; 3],
+                per_froude_squared: [f64::NAN; 3],
+                froude_root,
+            };
+        };
+        // The terms at Fn 0 have 0 in both Fn terms, so their sum is the fixed part.
+        let terms = factor_terms(hull, screw.diameter, 0.0);
+        let cp = hull.prismatic_coefficient;
+        let column = |j: usize| -> f64 {
+            tables
+                .factors
+                .iter()
+                .zip(&terms)
+                .map(|(row, term)| row[j] * term)
+                .sum()
+        };
+        let rows = &tables.factors;
         Self {
-            terms: factor_terms(hull, screw.diameter, 0.0),
-            prismatic: hull.prismatic_coefficient,
-            froude_root: (STANDARD_GRAVITY * hull.input.length_waterline).sqrt(),
+            fixed: [column(0), column(1), column(2)],
+            per_froude: [rows[3][0] * cp, rows[3][1] * cp, rows[3][2] * cp],
+            per_froude_squared: [rows[4][0] * cp, rows[4][1] * cp, rows[4][2] * cp],
+            froude_root,
         }
     }
 
     /// t, w and ηR at `speed` m/s (unclamped; NaN when the tables are damaged).
     pub fn at_speed(&self, speed: f64) -> Interaction {
-        let Ok(tables) = tables() else {
-            return Interaction {
-                wake_fraction: f64::NAN,
-                thrust_deduction: f64::NAN,
-                relative_rotative_efficiency: f64::NAN,
-            };
-        };
         // The regression's data end at Fn 0.50; past it the factors are held at their Fn 0.50
         // value.
         let fn_l = (speed / self.froude_root).min(FROUDE_MAX);
-        let mut x = self.terms;
-        x[3] = fn_l * self.prismatic;
-        x[4] = fn_l * fn_l * self.prismatic;
-        let column = |j: usize| {
-            tables
-                .factors
-                .iter()
-                .zip(&x)
-                .map(|(row, xk)| row[j] * xk)
-                .sum()
+        let factor = |j: usize| {
+            self.fixed[j] + fn_l * (self.per_froude[j] + fn_l * self.per_froude_squared[j])
         };
         Interaction {
-            thrust_deduction: column(0),
-            wake_fraction: column(1),
-            relative_rotative_efficiency: column(2),
+            thrust_deduction: factor(0),
+            wake_fraction: factor(1),
+            relative_rotative_efficiency: factor(2),
         }
     }
 }

@@ -27,22 +27,28 @@ impl PropellerCurve {
     /// has held `count` points) — for re-solving on every edit.
     pub fn resolve(&mut self, system: &System<'_>, min_speed: f64, max_speed: f64, count: usize) {
         self.points.clear();
-        self.points.reserve(count);
         let step = if count > 1 {
             (max_speed - min_speed) / (count - 1) as f64
         } else {
             0.0
         };
         let mut solver = PointSolver::along_curve(system);
-        // `extend` writes each point where it will stay (a `push` copied every point once).
-        self.points.extend((0..count).map(|index| {
-            let speed = if index + 1 == count && count > 1 {
+        // Each point is solved into the place where it stays: a point is large, and copying
+        // it from the solver into the curve showed in the profile.
+        self.points
+            .extend((0..count).map(|_| (0.0, Ok(OperatingPoint::UNSOLVED))));
+        for (index, (speed, slot)) in self.points.iter_mut().enumerate() {
+            *speed = if index + 1 == count && count > 1 {
                 max_speed
             } else {
                 min_speed + step * index as f64
             };
-            (speed, solver.solve(speed))
-        }));
+            if let Ok(point) = slot
+                && let Err(failure) = solver.solve_into(*speed, point)
+            {
+                *slot = Err(failure);
+            }
+        }
     }
 
     /// The successfully solved points, in increasing speed.

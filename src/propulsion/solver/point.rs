@@ -222,6 +222,7 @@ pub fn solve_with_resistance(
     resistance: f64,
     interaction: Interaction,
 ) -> Result<OperatingPoint, PointFailure> {
+    let mut point = OperatingPoint::UNSOLVED;
     solve_warm(
         drive,
         &DriveTerms::new(drive),
@@ -229,7 +230,9 @@ pub fn solve_with_resistance(
         resistance,
         interaction,
         &mut WarmStart::default(),
-    )
+        &mut point,
+    )?;
+    Ok(point)
 }
 
 /// What every point of one drive shares: its checks, made once, and the screw's diameter and
@@ -279,8 +282,8 @@ impl DriveTerms {
     }
 }
 
-/// [`solve_with_resistance`], its roots started from `warm` (the last nearby point), which it
-/// updates when the point solves.
+/// [`solve_with_resistance`] into `point`, its roots started from `warm` (the last nearby
+/// point), which it updates when the point solves; on a failure `point` holds nothing of use.
 #[inline(always)]
 fn solve_warm(
     drive: &Drive<'_>,
@@ -289,7 +292,8 @@ fn solve_warm(
     resistance: f64,
     interaction: Interaction,
     warm: &mut WarmStart,
-) -> Result<OperatingPoint, PointFailure> {
+    point: &mut OperatingPoint,
+) -> Result<(), PointFailure> {
     warm.begin(speed);
     if !(speed.is_finite() && speed >= 0.0) {
         return Err(PointFailure::InvalidSpeed(speed));
@@ -302,7 +306,8 @@ fn solve_warm(
         relative_rotative_efficiency,
     } = interaction;
     if speed == 0.0 {
-        return Ok(OperatingPoint::at_rest(interaction, drive.installation));
+        *point = OperatingPoint::at_rest(interaction, drive.installation);
+        return Ok(());
     }
     if !(resistance.is_finite() && resistance > 0.0) {
         return Err(PointFailure::Unphysical {
@@ -442,7 +447,9 @@ fn solve_warm(
         drive
             .engine
             .fuel_flows_below(engine_rpm, brake_power_per_engine, full_load);
-    let point = OperatingPoint {
+    // Written where the caller keeps it: an operating point is large, and each copy of it
+    // showed in the profile of a curve.
+    *point = OperatingPoint {
         speed,
         resistance,
         thrust,
@@ -478,7 +485,7 @@ fn solve_warm(
     warm.passes = found;
     warm.firsts = [(speed, found[0]), warm.firsts[0], warm.firsts[1]];
     warm.corrected = reynolds.is_some();
-    Ok(point)
+    Ok(())
 }
 
 /// Interaction coefficients must be finite with w < 1, t < 1 and ηR > 0.
@@ -488,6 +495,11 @@ fn check_interaction(interaction: &Interaction) -> Result<(), PointFailure> {
         thrust_deduction: t,
         relative_rotative_efficiency: eta,
     } = *interaction;
+    // The bounds alone: NaN fails every comparison and an infinity the bounds, so the
+    // finiteness the messages name is checked too.
+    if w > -1.0 && w < 1.0 && t > -1.0 && t < 1.0 && eta > 0.0 && eta < 2.0 {
+        return Ok(());
+    }
     let problem = if !(w.is_finite() && w > -1.0 && w < 1.0) {
         Some(format!("wake fraction {w} must lie between -1 and 1"))
     } else if !(t.is_finite() && t > -1.0 && t < 1.0) {
@@ -504,38 +516,48 @@ fn check_interaction(interaction: &Interaction) -> Result<(), PointFailure> {
 }
 
 impl OperatingPoint {
+    /// A point with every figure 0, for a solver to write its point into.
+    pub const UNSOLVED: Self = Self {
+        speed: 0.0,
+        resistance: 0.0,
+        thrust: 0.0,
+        wake_fraction: 0.0,
+        thrust_deduction: 0.0,
+        relative_rotative_efficiency: 0.0,
+        advance_speed: 0.0,
+        advance_ratio: 0.0,
+        thrust_coefficient: 0.0,
+        torque_coefficient: 0.0,
+        open_water_efficiency: 0.0,
+        reynolds: 0.0,
+        shafts: 0,
+        driven_shafts: 0,
+        screw_rps: 0.0,
+        engine_rpm: 0.0,
+        torque: 0.0,
+        effective_power: 0.0,
+        delivered_power: 0.0,
+        brake_power: 0.0,
+        brake_power_per_engine: 0.0,
+        load_fraction: 0.0,
+        fuel_mass_flow: 0.0,
+        fuel_volume_flow: 0.0,
+        fuel_mass_flow_per_engine: 0.0,
+        fuel_volume_flow_per_engine: 0.0,
+        froude: 0.0,
+        in_method_range: true,
+        regime: crate::propulsion::hull::Regime::Method,
+    };
+
     /// The point of a boat at rest: every speed, force, power and flow 0.
     fn at_rest(interaction: Interaction, installation: Installation) -> Self {
         Self {
-            speed: 0.0,
-            resistance: 0.0,
-            thrust: 0.0,
             wake_fraction: interaction.wake_fraction,
             thrust_deduction: interaction.thrust_deduction,
             relative_rotative_efficiency: interaction.relative_rotative_efficiency,
-            advance_speed: 0.0,
-            advance_ratio: 0.0,
-            thrust_coefficient: 0.0,
-            torque_coefficient: 0.0,
-            open_water_efficiency: 0.0,
-            reynolds: 0.0,
             shafts: installation.shafts,
             driven_shafts: installation.driven_shafts(),
-            screw_rps: 0.0,
-            engine_rpm: 0.0,
-            torque: 0.0,
-            effective_power: 0.0,
-            delivered_power: 0.0,
-            brake_power: 0.0,
-            brake_power_per_engine: 0.0,
-            load_fraction: 0.0,
-            fuel_mass_flow: 0.0,
-            fuel_volume_flow: 0.0,
-            fuel_mass_flow_per_engine: 0.0,
-            fuel_volume_flow_per_engine: 0.0,
-            froude: 0.0,
-            in_method_range: true,
-            regime: crate::propulsion::hull::Regime::Method,
+            ..Self::UNSOLVED
         }
     }
 
@@ -677,6 +699,19 @@ impl<'a> PointSolver<'a> {
     /// The operating point at `speed` m/s, as [`solve_point`] gives it.
     #[inline]
     pub fn solve(&mut self, speed: f64) -> Result<OperatingPoint, PointFailure> {
+        let mut point = OperatingPoint::UNSOLVED;
+        self.solve_into(speed, &mut point)?;
+        Ok(point)
+    }
+
+    /// [`PointSolver::solve`] written into `point`, for a caller that keeps many points (a
+    /// curve) and so saves the copy of each; on a failure `point` holds nothing of use.
+    #[inline]
+    pub fn solve_into(
+        &mut self,
+        speed: f64,
+        point: &mut OperatingPoint,
+    ) -> Result<(), PointFailure> {
         if !(speed.is_finite() && speed >= 0.0) {
             return Err(PointFailure::InvalidSpeed(speed));
         }
@@ -695,26 +730,28 @@ impl<'a> PointSolver<'a> {
                     relative_rotative_efficiency: 1.0,
                 }
             };
-            return solve_with_resistance(&system.drive(), 0.0, 0.0, interaction);
+            *point = solve_with_resistance(&system.drive(), 0.0, 0.0, interaction)?;
+            return Ok(());
         }
-        let resistance = model.resistance(speed)?.total;
-        // Filled in where it lies: an operating point is large, and copies of it showed in
-        // the profile of a curve.
-        let mut solved = solve_warm(
+        // The total read where it lies (a `?` on the components copied all of them).
+        let resistance = match &model.resistance(speed) {
+            Ok(parts) => parts.total,
+            Err(failure) => return Err(failure.clone().into()),
+        };
+        solve_warm(
             &self.drive,
             &self.terms,
             speed,
             resistance,
             interaction,
             &mut self.warm,
-        );
-        if let Ok(point) = &mut solved {
-            let validity = model.validity_with(&self.validity, speed);
-            point.froude = validity.froude;
-            point.in_method_range = validity.in_method_range;
-            point.regime = validity.regime;
-        }
-        solved
+            point,
+        )?;
+        let validity = model.validity_with(&self.validity, speed);
+        point.froude = validity.froude;
+        point.in_method_range = validity.in_method_range;
+        point.regime = validity.regime;
+        Ok(())
     }
 }
 
