@@ -104,6 +104,7 @@ impl ScrewModel {
 
     /// KT(J) and KQ(J) as cubics in J at Rn(0.75R) = `reynolds` (coefficients of J⁰..J³), for a
     /// model that has them (the B-series); `None` for a table.
+    #[inline(always)]
     pub fn cubics_at(&self, reynolds: Option<f64>) -> Option<([f64; 4], [f64; 4])> {
         match self {
             ScrewModel::BSeries(s) => Some(s.cubics_at(reynolds)),

@@ -194,6 +194,7 @@ pub struct PreparedInteraction<'a> {
 impl PreparedInteraction<'_> {
     /// The interaction coefficients at `speed` (m/s); always finite and inside the ranges of
     /// [`Interaction::clamped`]; no allocation.
+    #[inline(always)]
     pub fn at_speed(&self, speed: f64) -> Interaction {
         let (hull, water, screw) = (self.hull, self.water, &self.screw);
         let raw = match self.method {

@@ -236,6 +236,7 @@ pub struct OortmerssenResistance {
 }
 
 /// Every component at `speed` m/s in `water` for `hull`.
+#[inline(always)]
 pub fn at_speed(
     hull: &HullForm,
     coefficients: &OortmerssenCoefficients,

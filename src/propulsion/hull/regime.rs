@@ -143,6 +143,9 @@ pub struct CurveShape {
     pub continued_from: Regime,
     /// Power-law bridges over hollows of the formulas' curve (unused ones are empty).
     pub bridges: [Bridge; MAX_BRIDGES],
+    /// How many of `bridges` are laid (the rest are empty).
+    #[serde(skip)]
+    bridges_laid: usize,
     /// Van Oortmerssen's coefficients for this hull, computed once.
     #[serde(skip)]
     oortmerssen: Option<OortmerssenCoefficients>,
@@ -211,6 +214,7 @@ impl CurveShape {
             continuation_exponent: MIN_CONTINUATION_EXPONENT,
             continued_from: Regime::Method,
             bridges: [Bridge::default(); MAX_BRIDGES],
+            bridges_laid: 0,
             oortmerssen,
             fingerprint: fingerprint(hull, method, water),
         };
@@ -275,6 +279,7 @@ impl CurveShape {
                         exponent: log_slope((start_speed, start_resistance), (v1, r1)),
                     };
                     bridges += 1;
+                    self.bridges_laid = bridges;
                     open = None;
                 }
                 continue;
@@ -310,7 +315,7 @@ impl CurveShape {
 
     /// The bridge that carries `speed` m/s, if any.
     fn bridge_at(&self, speed: f64) -> Option<&Bridge> {
-        self.bridges
+        self.bridges[..self.bridges_laid]
             .iter()
             .find(|b| speed > b.start_speed && speed < b.end_speed)
     }
@@ -334,6 +339,7 @@ impl CurveShape {
 
     /// Calm, clean-hull components at `speed` m/s (> 0) along the physical curve: the formulas
     /// up to the continuation, the power law past it.
+    #[inline(always)]
     pub fn components(
         &self,
         hull: &HullForm,
@@ -386,6 +392,7 @@ impl CurveShape {
 
     /// The formulas' components at `speed` m/s in `regime` (the continuation is never asked of
     /// this function; it is given the regime the continuation starts from).
+    #[inline(always)]
     fn formulas_in(
         &self,
         (hull, method, water): Formula<'_>,
@@ -410,6 +417,7 @@ impl CurveShape {
         }
     }
 
+    #[inline(always)]
     fn van_oortmerssen(
         &self,
         hull: &HullForm,

@@ -531,6 +531,8 @@ impl ResistanceModel {
 
     /// [`ResistanceModel::validity_at`] with its speed-independent parts from `scale`, which
     /// must come from this model's [`ResistanceModel::validity_scale`].
+    // Inlined so that a caller that reads a few of the fields computes only those.
+    #[inline(always)]
     pub fn validity_with(&self, scale: &ValidityScale, speed: f64) -> SpeedValidity {
         let froude = self.hull.froude_number(speed);
         let froude_range = scale.froude_range;
@@ -572,6 +574,9 @@ impl ResistanceModel {
     /// (the residuary resistance). The calm water follows the physical curve of
     /// [`CurveShape`]: past the method's reach the hand-over and the continuation, where
     /// `wave` holds all but the viscous parts. No allocation.
+    // Inlined with the formulas under it (five callers): the components then stay in
+    // registers instead of being copied up through each call (docs/performance.md).
+    #[inline(always)]
     pub fn resistance(&self, speed: f64) -> Result<ResistanceComponents, HullError> {
         if !speed.is_finite() || speed < 0.0 {
             return Err(HullError::InvalidSpeed(speed));

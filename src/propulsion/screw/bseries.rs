@@ -242,6 +242,7 @@ impl BSeriesScrew {
     /// x = log10(Rn) − 0.301 folded in once, so that a root search at one Rn pays for the
     /// logarithm once instead of at every J. Agrees with [`BSeriesScrew::coefficients`] to
     /// rounding.
+    #[inline(always)]
     pub fn cubics_at(&self, reynolds: Option<f64>) -> ([f64; J_TERMS], [f64; J_TERMS]) {
         let (mut thrust, mut torque) = (self.cubics.thrust, self.cubics.torque);
         let Some(x) = reynolds

@@ -577,7 +577,7 @@ impl OperatingPoint {
     }
 
     /// Every field finite, or the first that is not as a failure.
-    #[inline]
+    #[inline(always)]
     fn check_finite(&self) -> Result<(), PointFailure> {
         // The common case first, without building the named list: a sum of finite values is
         // finite, and any NaN or infinity makes it not (a sum that overflows goes on to the
@@ -602,8 +602,16 @@ impl OperatingPoint {
             + self.fuel_mass_flow_per_engine
             + self.fuel_volume_flow_per_engine;
         if sum.is_finite() {
-            return Ok(());
+            Ok(())
+        } else {
+            self.first_not_finite()
         }
+    }
+
+    /// The first field of [`OperatingPoint::check_finite`]'s list that is not finite, as a
+    /// failure (none when only their sum overflowed).
+    #[cold]
+    fn first_not_finite(&self) -> Result<(), PointFailure> {
         let fields = [
             ("resistance", self.resistance),
             ("thrust", self.thrust),

@@ -185,6 +185,7 @@ impl<'a> PassScrew<'a> {
 /// end and ≤ 0 at the high one, by Halley's method from
 /// `guess` (any J inside the bracket; otherwise the secant through its ends), each step kept
 /// inside the shrinking bracket by bisection. Stops as [`advance_ratio_for_loading`] does.
+#[inline(always)]
 pub(super) fn cubic_advance_ratio(
     thrust: &[f64; 4],
     loading: f64,
