@@ -124,9 +124,9 @@ fn parse_term(line: &str) -> Result<Term, String> {
         coefficient,
         reynolds_power,
         advance_power: power("s", s, J_TERMS as u32 - 1)? as usize,
-        pitch_power: power("t", t, 12)? as i32,
-        area_power: power("u", u, 12)? as i32,
-        blade_power: power("v", v, 12)? as i32,
+        pitch_power: power("t", t, PITCH_POWERS as u32 - 1)? as i32,
+        area_power: power("u", u, OTHER_POWERS as u32 - 1)? as i32,
+        blade_power: power("v", v, OTHER_POWERS as u32 - 1)? as i32,
     })
 }
 
@@ -159,6 +159,116 @@ struct Cubics {
     torque_correction: [Cubic; X_TERMS],
 }
 
+/// Powers of P/D the table may hold (t = 0..6: the published terms go to (P/D)⁶).
+const PITCH_POWERS: usize = 7;
+/// Powers of AE/A0 and of Z the table may hold (u, v = 0..12).
+const OTHER_POWERS: usize = 13;
+/// The cubics' coefficients in one list: KT's four, KQ's four, then ΔKT's and ΔKQ's by x^p.
+const SLOTS: usize = 2 * J_TERMS * (1 + X_TERMS);
+
+/// The B-series polynomials of one diameter, area ratio and blade count with the pitch left
+/// open: each coefficient of a screw's cubics in J as a polynomial in P/D, so that a pitch
+/// search builds the screw at each trial pitch without going through the published terms.
+#[derive(Debug, Clone)]
+pub struct BSeriesPitchFamily {
+    /// The diameter, area ratio and blade count (the pitch is not used).
+    geometry: ScrewGeometry,
+    /// Per cubic coefficient (in [`SLOTS`] order): its coefficients of (P/D)⁰..(P/D)⁶.
+    slots: [[f64; PITCH_POWERS]; SLOTS],
+}
+
+impl BSeriesPitchFamily {
+    /// The family of `geometry`'s diameter, area ratio and blade count; errors for a
+    /// non-physical one (its pitch is not looked at).
+    pub fn new(geometry: ScrewGeometry) -> Result<Self, ScrewError> {
+        for (field, value) in [
+            ("diameter", geometry.diameter),
+            ("area ratio", geometry.area_ratio),
+        ] {
+            if !(value.is_finite() && value > 0.0) {
+                return Err(ScrewError::NotPositive { field, value });
+            }
+        }
+        if !(1..=9).contains(&geometry.blades) {
+            return Err(ScrewError::BadBladeCount(geometry.blades));
+        }
+        let powers = |x: f64| -> [f64; OTHER_POWERS] {
+            let mut powers = [1.0; OTHER_POWERS];
+            for k in 1..OTHER_POWERS {
+                powers[k] = powers[k - 1] * x;
+            }
+            powers
+        };
+        let (area_powers, blade_powers) = (
+            powers(geometry.area_ratio),
+            powers(f64::from(geometry.blades)),
+        );
+        let mut slots = [[0.0; PITCH_POWERS]; SLOTS];
+        for term in coefficient_table()? {
+            let weight = term.coefficient
+                * area_powers[term.area_power as usize]
+                * blade_powers[term.blade_power as usize];
+            let s = term.advance_power;
+            let slot = match term.series {
+                Series::Thrust => s,
+                Series::Torque => J_TERMS + s,
+                Series::ThrustCorrection => 2 * J_TERMS + J_TERMS * term.reynolds_power + s,
+                Series::TorqueCorrection => {
+                    2 * J_TERMS + J_TERMS * X_TERMS + J_TERMS * term.reynolds_power + s
+                }
+            };
+            let t = term.pitch_power as usize;
+            slots[slot][t] += weight;
+        }
+        Ok(Self { geometry, slots })
+    }
+
+    /// The screw of this family with pitch `pitch` (m).
+    pub fn at_pitch(&self, pitch: f64) -> Result<BSeriesScrew, ScrewError> {
+        if !(pitch.is_finite() && pitch > 0.0) {
+            return Err(ScrewError::NotPositive {
+                field: "pitch",
+                value: pitch,
+            });
+        }
+        let geometry = ScrewGeometry {
+            pitch,
+            ..self.geometry
+        };
+        let pitch_ratio = geometry.pitch_ratio();
+        if !(pitch_ratio.is_finite() && pitch_ratio > 0.0) {
+            return Err(ScrewError::NotPositive {
+                field: "pitch ratio",
+                value: pitch_ratio,
+            });
+        }
+        Ok(self.screw(geometry, pitch_ratio))
+    }
+
+    /// The screw of `geometry` (this family's, at a checked pitch) with P/D `pitch_ratio`.
+    fn screw(&self, geometry: ScrewGeometry, pitch_ratio: f64) -> BSeriesScrew {
+        let value = |slot: usize| {
+            self.slots[slot]
+                .iter()
+                .rev()
+                .fold(0.0, |acc, &c| acc * pitch_ratio + c)
+        };
+        let cubic = |first: usize| -> Cubic { std::array::from_fn(|s| value(first + s)) };
+        let correction = |first: usize| -> [Cubic; X_TERMS] {
+            std::array::from_fn(|p| cubic(first + J_TERMS * p))
+        };
+        BSeriesScrew {
+            geometry,
+            cubics: Box::new(Cubics {
+                thrust: cubic(0),
+                torque: cubic(J_TERMS),
+                thrust_correction: correction(2 * J_TERMS),
+                torque_correction: correction(2 * J_TERMS + J_TERMS * X_TERMS),
+            }),
+        }
+    }
+}
+
 impl BSeriesScrew {
     /// Builds the screw for `geometry`; errors for non-physical geometry (warnings are separate).
     pub fn new(geometry: ScrewGeometry) -> Result<Self, ScrewError> {
@@ -181,42 +291,7 @@ impl BSeriesScrew {
                 value: pitch_ratio,
             });
         }
-        let mut cubics = Cubics {
-            thrust: [0.0; J_TERMS],
-            torque: [0.0; J_TERMS],
-            thrust_correction: [[0.0; J_TERMS]; X_TERMS],
-            torque_correction: [[0.0; J_TERMS]; X_TERMS],
-        };
-        let blades = f64::from(geometry.blades);
-        // Each power once (the exponents run to 12): a pitch search builds a screw per trial
-        // pitch, and `powi` per term was a tenth of a shortlist's time.
-        let powers = |x: f64| -> [f64; 13] { std::array::from_fn(|k| x.powi(k as i32)) };
-        let (pitch_powers, area_powers, blade_powers) = (
-            powers(pitch_ratio),
-            powers(geometry.area_ratio),
-            powers(blades),
-        );
-        for term in coefficient_table()? {
-            let weight = term.coefficient
-                * pitch_powers[term.pitch_power as usize]
-                * area_powers[term.area_power as usize]
-                * blade_powers[term.blade_power as usize];
-            let s = term.advance_power;
-            match term.series {
-                Series::Thrust => cubics.thrust[s] += weight,
-                Series::Torque => cubics.torque[s] += weight,
-                Series::ThrustCorrection => {
-                    cubics.thrust_correction[term.reynolds_power][s] += weight
-                }
-                Series::TorqueCorrection => {
-                    cubics.torque_correction[term.reynolds_power][s] += weight
-                }
-            }
-        }
-        Ok(Self {
-            geometry,
-            cubics: Box::new(cubics),
-        })
+        Ok(BSeriesPitchFamily::new(geometry)?.screw(geometry, pitch_ratio))
     }
 
     /// The geometry.
@@ -468,10 +543,57 @@ mod tests {
     }
 
     #[test]
+    fn a_familys_screw_is_the_screw_built_at_that_pitch_term_by_term() {
+        let base = ScrewGeometry {
+            blades: 3,
+            diameter: 0.6,
+            pitch: 0.1,
+            area_ratio: 0.65,
+        };
+        let family = BSeriesPitchFamily::new(base).expect("valid family");
+        let (j, rn) = (0.55_f64, 8.0e6_f64);
+        let x = crate::propulsion::numeric::log10(rn) - 0.301;
+        for pitch in [0.3, 0.48, 0.6, 0.75] {
+            let geometry = ScrewGeometry { pitch, ..base };
+            let built = BSeriesScrew::new(geometry).expect("valid screw");
+            let from_family = family.at_pitch(pitch).expect("valid pitch");
+            assert_eq!(from_family, built, "pitch {pitch} m");
+            // Oosterveld & van Oossanen (1975): K + ΔK summed over the published terms.
+            let (pd, z) = (geometry.pitch_ratio(), f64::from(geometry.blades));
+            let (mut kt, mut kq) = (0.0, 0.0);
+            for t in coefficient_table().unwrap() {
+                let value = t.coefficient
+                    * x.powi(t.reynolds_power as i32)
+                    * j.powi(t.advance_power as i32)
+                    * pd.powi(t.pitch_power)
+                    * geometry.area_ratio.powi(t.area_power)
+                    * z.powi(t.blade_power);
+                match t.series {
+                    Series::Thrust | Series::ThrustCorrection => kt += value,
+                    Series::Torque | Series::TorqueCorrection => kq += value,
+                }
+            }
+            let point = from_family.coefficients(j, Some(rn));
+            assert!(
+                (point.thrust_coefficient - kt).abs() < 1e-14,
+                "pitch {pitch} m"
+            );
+            assert!(
+                (point.torque_coefficient - kq).abs() < 1e-14,
+                "pitch {pitch} m"
+            );
+        }
+        assert!(family.at_pitch(0.0).is_err() && family.at_pitch(f64::NAN).is_err());
+        assert!(BSeriesPitchFamily::new(ScrewGeometry { blades: 0, ..base }).is_err());
+    }
+
+    #[test]
     fn damaged_tables_are_errors_not_panics() {
         assert!(parse_coefficients("series,C,p,s,t,u,v\nKT,abc,0,0,0,0,0\n").is_err());
         assert!(parse_coefficients("series,C,p,s,t,u,v\nKX,1,0,0,0,0,0\n").is_err());
         assert!(parse_coefficients("series,C,p,s,t,u,v\nKT,1,0,7,0,0,0\n").is_err());
+        // (P/D)⁷ is past the published terms (and the family's slots).
+        assert!(parse_coefficients("series,C,p,s,t,u,v\nKT,1,0,0,7,0,0\n").is_err());
         assert!(parse_coefficients("series,C,p,s,t,u,v\nKT,1,0,0,0,0\n").is_err());
         assert!(parse_coefficients("C,p\n").is_err());
         // Well-formed rows but too few of them.

@@ -17,6 +17,7 @@ use super::matching::{point_at_engine_rpm, point_at_engine_rpm_near};
 use super::point::PointFailure;
 use super::{Installation, System, Vessel};
 use crate::propulsion::numeric::{self, RootOutcome};
+use crate::propulsion::screw::bseries::BSeriesPitchFamily;
 use crate::propulsion::screw::{BSeriesScrew, ScrewError, ScrewGeometry, ScrewModel};
 use thiserror::Error;
 
@@ -384,18 +385,19 @@ pub fn target_pitch(
     ))
 }
 
-/// Brake power of each engine (W) the propeller curve asks at `engine_rpm` with pitch `pitch`,
-/// and the boat speed there (m/s); the speed searched from `near` (m/s) when given, the
-/// speed of a nearby pitch.
+/// Brake power of each engine (W) the propeller curve asks at `engine_rpm` with the screw of
+/// `family` at pitch `pitch` (m), and the boat speed there (m/s); the speed searched from
+/// `near` (m/s) when given, the speed of a nearby pitch.
 fn absorbed_power(
     vessel: &Vessel,
-    base: ScrewGeometry,
+    family: &Result<BSeriesPitchFamily, ScrewError>,
     installation: Installation,
     pitch: f64,
     engine_rpm: f64,
     near: Option<f64>,
 ) -> Result<(f64, f64), DesignError> {
-    let screw = rebuilt_screw(ScrewGeometry { pitch, ..base })?;
+    let family = family.as_ref().map_err(|e| e.clone())?;
+    let screw = ScrewModel::BSeries(family.at_pitch(pitch)?);
     let system = system_with(vessel, &screw, installation);
     let point = match near {
         Some(speed) => point_at_engine_rpm_near(&system, engine_rpm, speed)?,
@@ -415,12 +417,20 @@ pub(super) fn search_pitch(
     let low = options.min_pitch_ratio * base.diameter;
     let high = options.max_pitch_ratio * base.diameter;
     let mut evaluations = 0u32;
+    // The published terms are gathered once; each trial pitch then costs a few polynomials.
+    let family = BSeriesPitchFamily::new(base);
     // Each trial pitch's speed is searched from the last one's: the pitches tried close in.
     let mut near: Option<f64> = None;
     let mut residual = |pitch: f64| -> Result<f64, DesignError> {
         evaluations += 1;
-        let (power, speed) =
-            absorbed_power(vessel, base, installation, pitch, target.engine_rpm, near)?;
+        let (power, speed) = absorbed_power(
+            vessel,
+            &family,
+            installation,
+            pitch,
+            target.engine_rpm,
+            near,
+        )?;
         near = Some(speed);
         Ok(power / target.brake_power - 1.0)
     };
