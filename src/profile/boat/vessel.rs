@@ -258,7 +258,7 @@ impl BoatDoc {
             let Some(case) = self.load.case(condition) else {
                 continue;
             };
-            if let Err(e) = self.hull_input(case, water.density).resolve() {
+            if let Err(e) = self.hull_input(case, water.density).check() {
                 let key = hull_error_key(&e, condition);
                 let found = if key.ends_with("displacement") {
                     case.displacement.shown()

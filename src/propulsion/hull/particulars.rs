@@ -122,6 +122,21 @@ impl HullInput {
     /// Errors name the first field that is not usable; warnings (kept in the result) name
     /// values that are possible but unusual for a displacement hull.
     pub fn resolve(&self) -> Result<HullForm, HullError> {
+        let mut form = self.resolve_particulars()?;
+        form.warnings = form.unusual_values();
+        form.holtrop = Some(HoltropCoefficients::new(&form, Edition::Revised1984));
+        Ok(form)
+    }
+
+    /// [`HullInput::resolve`]'s errors alone, for a file check that keeps no hull: the same
+    /// first unusable field, without the warnings and the Holtrop coefficients.
+    pub fn check(&self) -> Result<(), HullError> {
+        self.resolve_particulars().map(drop)
+    }
+
+    /// The checked and estimated particulars of [`HullInput::resolve`], without its warnings
+    /// and Holtrop coefficients.
+    fn resolve_particulars(&self) -> Result<HullForm, HullError> {
         let length = positive("waterline length", self.length_waterline)?;
         let beam = positive("waterline beam", self.beam_waterline)?;
         let draft_aft = positive("draft aft", self.draft_aft)?;
@@ -205,8 +220,6 @@ impl HullInput {
             }
             None => Resolved::estimated(0.0, TRANSOM_ASSUMPTION),
         };
-        form.warnings = form.unusual_values();
-        form.holtrop = Some(HoltropCoefficients::new(&form, Edition::Revised1984));
         Ok(form)
     }
 }
@@ -445,5 +458,29 @@ mod tests {
                 ..
             })
         ));
+    }
+
+    #[test]
+    fn the_check_alone_finds_what_resolving_finds() {
+        let changes: [fn(&mut HullInput); 7] = [
+            |_| {},
+            |h| h.displacement_volume = 40.0,
+            |h| h.appendage_area = -1.0,
+            |h| h.draft_forward = f64::NAN,
+            |h| h.midship_coefficient = Some(1.5),
+            |h| h.half_entrance_angle_deg = Some(95.0),
+            |h| h.transom_area = Some(100.0),
+        ];
+        for change in changes {
+            let mut input = boat();
+            change(&mut input);
+            // As messages: a NaN field is not equal to itself.
+            let message = |r: Result<(), HullError>| r.map_err(|e| e.to_string());
+            assert_eq!(
+                message(input.check()),
+                message(input.resolve().map(drop)),
+                "{input:?}"
+            );
+        }
     }
 }

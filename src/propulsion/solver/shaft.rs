@@ -105,29 +105,22 @@ impl ShaftMaterial {
     /// The built-in material a name means: an exact or unique leading match of the generic
     /// names, ignoring case, `-` and `_` ("stainless-316", "bronze").
     pub fn by_name(name: &str) -> Result<ShaftMaterial, ShaftError> {
-        let normal = |s: &str| {
-            s.to_ascii_lowercase()
-                .replace(['-', '_'], " ")
-                .split_whitespace()
-                .collect::<Vec<_>>()
-                .join(" ")
-        };
-        let wanted = normal(name);
+        // Compared word by word without building the normal forms: the shortlist asks this of
+        // every candidate.
         let all = Self::standard();
-        if let Some(m) = all.iter().find(|m| normal(&m.name) == wanted) {
+        if let Some(m) = all.iter().find(|m| normal(&m.name).eq(normal(name))) {
             return Ok(m.clone());
         }
-        let leading: Vec<&ShaftMaterial> = all
-            .iter()
-            .filter(|m| {
-                let n = normal(&m.name);
-                !wanted.is_empty()
-                    && n.starts_with(&wanted)
-                    && n[wanted.len()..].starts_with([' ', '('])
-            })
-            .collect();
-        match leading.as_slice() {
-            [one] => Ok((*one).clone()),
+        let leading = |m: &&ShaftMaterial| {
+            let mut known = normal(&m.name);
+            let mut wanted = normal(name).peekable();
+            wanted.peek().is_some()
+                && wanted.all(|c| known.next() == Some(c))
+                && matches!(known.next(), Some(' ' | '('))
+        };
+        let mut matches = all.iter().filter(leading);
+        match (matches.next(), matches.next()) {
+            (Some(one), None) => Ok(one.clone()),
             _ => Err(ShaftError::UnknownMaterial {
                 name: name.to_string(),
                 known: all
@@ -138,6 +131,19 @@ impl ShaftMaterial {
             }),
         }
     }
+}
+
+/// `name` lower-cased with `-` and `_` as spaces and its words single-spaced, as characters.
+fn normal(name: &str) -> impl Iterator<Item = char> + '_ {
+    name.split(|c: char| c.is_whitespace() || c == '-' || c == '_')
+        .filter(|word| !word.is_empty())
+        .enumerate()
+        .flat_map(|(index, word)| {
+            (index > 0)
+                .then_some(' ')
+                .into_iter()
+                .chain(word.chars().map(|c| c.to_ascii_lowercase()))
+        })
 }
 
 /// The shaft check for an engine, gear and material.
@@ -352,5 +358,14 @@ mod tests {
             "{err}"
         );
         assert!(ShaftMaterial::by_name("").is_err());
+        assert!(ShaftMaterial::by_name(" - ").is_err());
+        // Spaces around and between words do not matter; a start must end on a whole word.
+        assert_eq!(
+            ShaftMaterial::by_name("  Carbon   STEEL ").unwrap().name,
+            "carbon steel"
+        );
+        assert!(ShaftMaterial::by_name("stainless 3").is_err());
+        assert!(ShaftMaterial::by_name("nickel copper alloy").is_err());
+        assert!(ShaftMaterial::by_name("carbon steel extra").is_err());
     }
 }
