@@ -577,14 +577,13 @@ impl Study {
                     let screw = BSeriesScrew::new(ScrewGeometry { pitch, ..geometry })
                         .map_err(|e| cannot_build(&e))?;
                     study.vessel.variants[index].screw = ScrewModel::BSeries(screw);
-                    Candidate {
-                        boat,
-                        ..study.figures(offer, gear, pitch, area_raised, problems.clone())
-                    }
+                    study.figures(offer, gear, pitch, area_raised, problems.clone(), boat)
                 }
-                None => self
-                    .rebuilt(offer, gear, diameter, area_ratio, Some(pitch))?
-                    .figures(offer, gear, pitch, area_raised, problems.clone()),
+                None => {
+                    let study = self.rebuilt(offer, gear, diameter, area_ratio, Some(pitch))?;
+                    let boat = study.doc.clone();
+                    study.figures(offer, gear, pitch, area_raised, problems.clone(), boat)
+                }
             };
             let keller = candidate
                 .top_cavitation
@@ -624,7 +623,8 @@ impl Study {
         .map_err(|e| format!("the boat with engine {} cannot be built: {e}", offer.name))
     }
 
-    /// The candidate figures of this (rebuilt) study's active variant.
+    /// The candidate figures of this (rebuilt) study's active variant, with `boat` the boat
+    /// file they are the figures of.
     fn figures(
         &self,
         offer: &Offer,
@@ -632,6 +632,7 @@ impl Study {
         pitch: f64,
         area_raised: bool,
         mut problems: Vec<String>,
+        boat: BoatDoc,
     ) -> Candidate {
         let vessel = &self.vessel;
         let index = active_variant(vessel);
@@ -702,7 +703,7 @@ impl Study {
             top_cavitation,
             problems,
             tie_with: None,
-            boat: self.doc.clone(),
+            boat,
         }
     }
 
