@@ -382,6 +382,7 @@ impl CurveShape {
     }
 
     /// The formulas' components at `speed` m/s, in the regime of that speed.
+    #[inline(always)]
     fn formulas(
         &self,
         formula: Formula<'_>,

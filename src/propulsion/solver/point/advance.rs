@@ -147,11 +147,13 @@ pub(super) enum PassScrew<'a> {
 }
 
 /// A cubic's value at `j` by Horner's rule.
+#[inline(always)]
 fn cubic_at(c: &[f64; 4], j: f64) -> f64 {
     ((c[3] * j + c[2]) * j + c[1]) * j + c[0]
 }
 
 impl<'a> PassScrew<'a> {
+    #[inline(always)]
     pub(super) fn new(screw: &'a ScrewModel, reynolds: Option<f64>) -> Self {
         match screw.cubics_at(reynolds) {
             Some((thrust, torque)) => PassScrew::Cubics { thrust, torque },
@@ -159,6 +161,7 @@ impl<'a> PassScrew<'a> {
         }
     }
 
+    #[inline(always)]
     pub(super) fn thrust_coefficient(&self, j: f64) -> f64 {
         match self {
             PassScrew::Cubics { thrust, .. } => cubic_at(thrust, j),
@@ -168,6 +171,7 @@ impl<'a> PassScrew<'a> {
         }
     }
 
+    #[inline(always)]
     pub(super) fn coefficients(&self, j: f64) -> crate::propulsion::screw::OpenWaterPoint {
         match self {
             PassScrew::Cubics { thrust, torque } => crate::propulsion::screw::OpenWaterPoint {
