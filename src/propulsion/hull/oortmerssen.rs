@@ -379,6 +379,7 @@ impl PreparedFactors {
                 .map(|(row, term)| row[j] * term)
                 .sum()
         };
+        // Terms 3 and 4 of `factor_terms` are Fn·Cp and Fn²·Cp.
         let rows = &tables.factors;
         Self {
             fixed: [column(0), column(1), column(2)],

@@ -741,11 +741,7 @@ impl<'a> PointSolver<'a> {
             *point = solve_with_resistance(&system.drive(), 0.0, 0.0, interaction)?;
             return Ok(());
         }
-        // The total read where it lies (a `?` on the components copied all of them).
-        let resistance = match &model.resistance(speed) {
-            Ok(parts) => parts.total,
-            Err(failure) => return Err(failure.clone().into()),
-        };
+        let resistance = model.resistance(speed)?.total;
         solve_warm(
             &self.drive,
             &self.terms,
