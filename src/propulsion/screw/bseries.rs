@@ -272,18 +272,7 @@ impl BSeriesPitchFamily {
 impl BSeriesScrew {
     /// Builds the screw for `geometry`; errors for non-physical geometry (warnings are separate).
     pub fn new(geometry: ScrewGeometry) -> Result<Self, ScrewError> {
-        for (field, value) in [
-            ("diameter", geometry.diameter),
-            ("pitch", geometry.pitch),
-            ("area ratio", geometry.area_ratio),
-        ] {
-            if !(value.is_finite() && value > 0.0) {
-                return Err(ScrewError::NotPositive { field, value });
-            }
-        }
-        if !(1..=9).contains(&geometry.blades) {
-            return Err(ScrewError::BadBladeCount(geometry.blades));
-        }
+        super::table::check_geometry(&geometry)?;
         let pitch_ratio = geometry.pitch_ratio();
         if !(pitch_ratio.is_finite() && pitch_ratio > 0.0) {
             return Err(ScrewError::NotPositive {

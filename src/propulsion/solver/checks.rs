@@ -81,24 +81,13 @@ mod tests {
             thrust_coefficient: 0.15,
             torque_coefficient: 0.02,
             open_water_efficiency: 0.57,
-            reynolds: 0.0,
             shafts: 1,
             driven_shafts: 1,
             screw_rps: 10.0,
             engine_rpm: 1500.0,
             torque: 500.0,
-            effective_power: 0.0,
-            delivered_power: 0.0,
-            brake_power: 0.0,
-            brake_power_per_engine: 0.0,
             load_fraction: 0.3,
-            fuel_mass_flow: 0.0,
-            fuel_volume_flow: 0.0,
-            fuel_mass_flow_per_engine: 0.0,
-            fuel_volume_flow_per_engine: 0.0,
-            froude: 0.0,
-            in_method_range: true,
-            regime: crate::propulsion::hull::Regime::Method,
+            ..OperatingPoint::UNSOLVED
         }
     }
 

@@ -137,34 +137,17 @@ mod tests {
     fn point(speed: f64, flow: f64, load: f64) -> OperatingPoint {
         OperatingPoint {
             speed,
-            resistance: 0.0,
-            thrust: 0.0,
             wake_fraction: 0.2,
             thrust_deduction: 0.15,
             relative_rotative_efficiency: 1.0,
-            advance_speed: 0.0,
-            advance_ratio: 0.0,
-            thrust_coefficient: 0.0,
-            torque_coefficient: 0.0,
-            open_water_efficiency: 0.0,
-            reynolds: 0.0,
             shafts: 1,
             driven_shafts: 1,
-            screw_rps: 0.0,
-            engine_rpm: 0.0,
-            torque: 0.0,
-            effective_power: 0.0,
-            delivered_power: 0.0,
-            brake_power: 0.0,
-            brake_power_per_engine: 0.0,
             load_fraction: load,
             fuel_mass_flow: flow * 840.0,
             fuel_volume_flow: flow,
             fuel_mass_flow_per_engine: flow * 840.0,
             fuel_volume_flow_per_engine: flow,
-            froude: 0.0,
-            in_method_range: true,
-            regime: crate::propulsion::hull::Regime::Method,
+            ..OperatingPoint::UNSOLVED
         }
     }
 
