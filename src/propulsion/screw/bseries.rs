@@ -242,11 +242,6 @@ impl BSeriesPitchFamily {
                 value: pitch_ratio,
             });
         }
-        Ok(self.screw(geometry, pitch_ratio))
-    }
-
-    /// The screw of `geometry` (this family's, at a checked pitch) with P/D `pitch_ratio`.
-    fn screw(&self, geometry: ScrewGeometry, pitch_ratio: f64) -> BSeriesScrew {
         let value = |slot: usize| {
             self.slots[slot]
                 .iter()
@@ -257,7 +252,7 @@ impl BSeriesPitchFamily {
         let correction = |first: usize| -> [Cubic; X_TERMS] {
             std::array::from_fn(|p| cubic(first + J_TERMS * p))
         };
-        BSeriesScrew {
+        Ok(BSeriesScrew {
             geometry,
             cubics: Box::new(Cubics {
                 thrust: cubic(0),
@@ -265,7 +260,7 @@ impl BSeriesPitchFamily {
                 thrust_correction: correction(2 * J_TERMS),
                 torque_correction: correction(2 * J_TERMS + J_TERMS * X_TERMS),
             }),
-        }
+        })
     }
 }
 
@@ -273,14 +268,7 @@ impl BSeriesScrew {
     /// Builds the screw for `geometry`; errors for non-physical geometry (warnings are separate).
     pub fn new(geometry: ScrewGeometry) -> Result<Self, ScrewError> {
         super::table::check_geometry(&geometry)?;
-        let pitch_ratio = geometry.pitch_ratio();
-        if !(pitch_ratio.is_finite() && pitch_ratio > 0.0) {
-            return Err(ScrewError::NotPositive {
-                field: "pitch ratio",
-                value: pitch_ratio,
-            });
-        }
-        Ok(BSeriesPitchFamily::new(geometry)?.screw(geometry, pitch_ratio))
+        BSeriesPitchFamily::new(geometry)?.at_pitch(geometry.pitch)
     }
 
     /// The geometry.
